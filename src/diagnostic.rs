@@ -1,0 +1,232 @@
+//! Problems found in the input, and their rendering through miette.
+//!
+//! Every stage (parse, check) reports [`Problem`]s: a stable code, a severity, a lowercase
+//! message, labelled spans and a help line that says how to fix the input. A problem becomes a
+//! miette diagnostic only when it is rendered, together with the source it points into.
+
+use std::fmt;
+use std::sync::Arc;
+
+use miette::{
+    Diagnostic, GraphicalReportHandler, GraphicalTheme, LabeledSpan, NamedSource, Severity,
+};
+
+use crate::source::{SourceMap, Span};
+
+/// How bad a problem is.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, PartialOrd, Ord)]
+pub enum Level {
+    /// Worth fixing; the rulebook can still be used.
+    Warning,
+    /// The rulebook cannot be used until this is fixed.
+    Error,
+}
+
+/// One problem found in the input.
+#[derive(Clone, Debug)]
+pub struct Problem {
+    /// Stable code, for example `gonogo::check::unknown-name`.
+    pub code: &'static str,
+    /// Error or warning.
+    pub level: Level,
+    /// What is wrong, lowercase, no final period, the user's words in backticks.
+    pub message: String,
+    /// Where, with a short label each; the first is the primary location.
+    pub labels: Vec<(Span, String)>,
+    /// How to fix it.
+    pub help: Option<String>,
+}
+
+impl Problem {
+    /// An error with one labelled span.
+    pub fn error(code: &'static str, message: impl Into<String>, span: Span, label: &str) -> Self {
+        Problem {
+            code,
+            level: Level::Error,
+            message: message.into(),
+            labels: vec![(span, label.to_string())],
+            help: None,
+        }
+    }
+
+    /// A warning with one labelled span.
+    pub fn warning(
+        code: &'static str,
+        message: impl Into<String>,
+        span: Span,
+        label: &str,
+    ) -> Self {
+        Problem {
+            level: Level::Warning,
+            ..Problem::error(code, message, span, label)
+        }
+    }
+
+    /// A problem that points at no text (an unreadable file, say).
+    pub fn unlocated(code: &'static str, message: impl Into<String>) -> Self {
+        Problem {
+            code,
+            level: Level::Error,
+            message: message.into(),
+            labels: Vec::new(),
+            help: None,
+        }
+    }
+
+    /// Adds the help line.
+    pub fn with_help(mut self, help: impl Into<String>) -> Self {
+        self.help = Some(help.into());
+        self
+    }
+
+    /// Adds a secondary label.
+    pub fn with_label(mut self, span: Span, label: impl Into<String>) -> Self {
+        self.labels.push((span, label.into()));
+        self
+    }
+
+    /// The primary span, if the problem has one.
+    pub fn primary_span(&self) -> Option<Span> {
+        self.labels.first().map(|(s, _)| *s)
+    }
+}
+
+/// A problem together with the source text it points into: what miette renders.
+#[derive(Debug)]
+pub struct Located {
+    problem: Problem,
+    source: Option<NamedSource<Arc<str>>>,
+    notes: Vec<String>,
+}
+
+impl Located {
+    /// Pairs a problem with its file from the source map. Labels in other files than the
+    /// primary one are turned into notes naming the file and line.
+    pub fn new(problem: Problem, sources: &SourceMap) -> Located {
+        let Some(primary) = problem.primary_span() else {
+            return Located {
+                problem,
+                source: None,
+                notes: Vec::new(),
+            };
+        };
+        let file = sources.file(primary.file);
+        let notes = problem
+            .labels
+            .iter()
+            .filter(|(s, _)| s.file != primary.file)
+            .map(|(s, label)| {
+                let other = sources.file(s.file);
+                let (line, col) = other.line_column(s.start);
+                format!("{label}: {}:{line}:{col}", other.path.display())
+            })
+            .collect();
+        Located {
+            problem,
+            source: Some(file.named_source()),
+            notes,
+        }
+    }
+}
+
+impl fmt::Display for Located {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        f.write_str(&self.problem.message)
+    }
+}
+
+impl std::error::Error for Located {}
+
+impl Diagnostic for Located {
+    fn code<'a>(&'a self) -> Option<Box<dyn fmt::Display + 'a>> {
+        Some(Box::new(self.problem.code))
+    }
+
+    fn severity(&self) -> Option<Severity> {
+        Some(match self.problem.level {
+            Level::Error => Severity::Error,
+            Level::Warning => Severity::Warning,
+        })
+    }
+
+    fn help<'a>(&'a self) -> Option<Box<dyn fmt::Display + 'a>> {
+        let mut lines: Vec<String> = self.notes.clone();
+        lines.extend(self.problem.help.clone());
+        (!lines.is_empty()).then(|| Box::new(lines.join("\n")) as Box<dyn fmt::Display>)
+    }
+
+    fn source_code(&self) -> Option<&dyn miette::SourceCode> {
+        self.source.as_ref().map(|s| s as &dyn miette::SourceCode)
+    }
+
+    fn labels(&self) -> Option<Box<dyn Iterator<Item = LabeledSpan> + '_>> {
+        let primary = self.problem.primary_span()?;
+        let labels = self
+            .problem
+            .labels
+            .iter()
+            .enumerate()
+            .filter(move |(_, (s, _))| s.file == primary.file)
+            .map(|(i, (s, label))| {
+                let text = (!label.is_empty()).then(|| label.clone());
+                if i == 0 {
+                    LabeledSpan::new_primary_with_span(text, s.source_span())
+                } else {
+                    LabeledSpan::new_with_span(text, s.source_span())
+                }
+            });
+        Some(Box::new(labels))
+    }
+}
+
+/// Options for turning problems into text.
+#[derive(Clone, Copy, Debug)]
+pub struct RenderStyle {
+    /// Use ANSI colour.
+    pub colour: bool,
+    /// Wrap width in columns.
+    pub width: usize,
+}
+
+impl RenderStyle {
+    /// Plain text at a fixed width: what snapshot tests and pipes get.
+    pub const PLAIN: RenderStyle = RenderStyle {
+        colour: false,
+        width: 100,
+    };
+}
+
+/// Renders one problem as miette's graphical report.
+pub fn render(problem: &Problem, sources: &SourceMap, style: RenderStyle) -> String {
+    let theme = if style.colour {
+        GraphicalTheme::unicode()
+    } else {
+        GraphicalTheme::unicode_nocolor()
+    };
+    let handler = GraphicalReportHandler::new_themed(theme).with_width(style.width);
+    let mut out = String::new();
+    let located = Located::new(problem.clone(), sources);
+    if handler.render_report(&mut out, &located).is_err() {
+        out = format!("{}: {}\n", problem.code, problem.message);
+    }
+    out
+}
+
+/// Counts of errors and warnings, as a closing line (`2 errors, 1 warning`).
+pub fn summary(problems: &[Problem]) -> String {
+    let errors = problems.iter().filter(|p| p.level == Level::Error).count();
+    let warnings = problems.len() - errors;
+    format!(
+        "{}, {}",
+        plural(errors, "error"),
+        plural(warnings, "warning")
+    )
+}
+
+fn plural(n: usize, word: &str) -> String {
+    if n == 1 {
+        format!("1 {word}")
+    } else {
+        format!("{n} {word}s")
+    }
+}

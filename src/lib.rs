@@ -1,0 +1,13 @@
+//! gonogo checks racing engines against a series' class rules.
+//!
+//! The pipeline, one module per stage: [`parse`] turns rulebook text into a syntax tree,
+//! [`check`] resolves names and units and runs the static checks, and the command line in
+//! `main.rs` renders what they found. [`units`] holds the unit table; [`diagnostic`] the
+//! problem type every stage reports.
+
+pub mod check;
+pub mod diagnostic;
+pub mod parse;
+pub mod source;
+pub mod suggest;
+pub mod units;

@@ -1,0 +1,506 @@
+//! The syntax tree of a rulebook, exactly as written. Every node keeps its [`Span`]; spans
+//! never take part in equality, so two trees compare equal when their structure does.
+
+use crate::source::Span;
+
+/// A whole rulebook file: its items in the order written.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Rulebook {
+    /// Top-level items.
+    pub items: Vec<Item>,
+}
+
+/// One top-level item.
+#[derive(Clone, Debug, PartialEq)]
+pub enum Item {
+    /// `series "..."`
+    Series(Text),
+    /// `edition "..." effective DATE`
+    Edition(Edition),
+    /// `decision guarded rejection`
+    Decision(Decision),
+    /// `include "file.rules"`
+    Include(Text),
+    /// `measure ...`
+    Measure(Measure),
+    /// `define NAME = EXPR`
+    Define(Define),
+    /// `approved list ... end` or `banned list ... end`
+    List(PartsList),
+    /// `class ... end`
+    Class(Class),
+    /// `bulletin ... end`
+    Bulletin(Bulletin),
+}
+
+/// A string literal with escapes resolved.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Text {
+    /// The value after escapes.
+    pub value: String,
+    /// Where it was written, quotes included.
+    pub span: Span,
+}
+
+/// A name: a single identifier or a dotted path (`carburetor.airflow`).
+#[derive(Clone, Debug, PartialEq)]
+pub struct Name {
+    /// The full dotted text.
+    pub text: String,
+    /// Where it was written.
+    pub span: Span,
+}
+
+/// A calendar date written `YYYY-MM-DD`.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, PartialOrd, Ord)]
+pub struct Date {
+    /// Year.
+    pub year: u16,
+    /// Month, 1 to 12.
+    pub month: u8,
+    /// Day of the month.
+    pub day: u8,
+}
+
+impl std::fmt::Display for Date {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        write!(f, "{:04}-{:02}-{:02}", self.year, self.month, self.day)
+    }
+}
+
+/// A date with the span it was written at.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct DateAt {
+    /// The date.
+    pub date: Date,
+    /// Where.
+    pub span: Span,
+}
+
+/// `edition "2027" effective 2027-03-06`
+#[derive(Clone, Debug, PartialEq)]
+pub struct Edition {
+    /// The edition's name.
+    pub name: Text,
+    /// From when it is in force.
+    pub effective: DateAt,
+}
+
+/// How a finding becomes a verdict (DESIGN.md section 5).
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum DecisionRule {
+    /// Illegal only on a proven fail: the inspector's rule.
+    GuardedRejection,
+    /// Legal only on a proven pass: the builder's rule.
+    GuardedAcceptance,
+    /// Compare the measured value alone.
+    SimpleAcceptance,
+}
+
+impl DecisionRule {
+    /// The words a rulebook writes after `decision`.
+    pub fn words(self) -> &'static str {
+        match self {
+            DecisionRule::GuardedRejection => "guarded rejection",
+            DecisionRule::GuardedAcceptance => "guarded acceptance",
+            DecisionRule::SimpleAcceptance => "simple acceptance",
+        }
+    }
+}
+
+/// `decision guarded rejection`
+#[derive(Clone, Debug, PartialEq)]
+pub struct Decision {
+    /// The rule chosen.
+    pub rule: DecisionRule,
+    /// Where.
+    pub span: Span,
+}
+
+/// `measure NAME: DIMENSION [per cylinder] [required|optional] [range A to B] ["procedure"]`
+#[derive(Clone, Debug, PartialEq)]
+pub struct Measure {
+    /// What the declaration calls it.
+    pub name: Name,
+    /// The dimension word (`length`, `text`, ...), resolved by the checker.
+    pub dimension: Name,
+    /// One value per cylinder, or one for the engine.
+    pub per_cylinder: bool,
+    /// Whether a declaration must supply it.
+    pub required: bool,
+    /// The range a plausible value lies in, if the rulebook states one.
+    pub range: Option<(Expr, Expr)>,
+    /// The one-line procedure printed on the measurement sheet.
+    pub procedure: Option<Text>,
+    /// The whole item.
+    pub span: Span,
+}
+
+/// `define NAME = EXPR`
+#[derive(Clone, Debug, PartialEq)]
+pub struct Define {
+    /// The derived value's name.
+    pub name: Name,
+    /// How it is computed.
+    pub expr: Expr,
+    /// The whole item.
+    pub span: Span,
+}
+
+/// Whether a parts list names what is allowed or what is not.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum ListKind {
+    /// `approved list`
+    Approved,
+    /// `banned list`
+    Banned,
+}
+
+/// `approved list NAME "title" ENTRY... end`
+#[derive(Clone, Debug, PartialEq)]
+pub struct PartsList {
+    /// Approved or banned.
+    pub kind: ListKind,
+    /// The list's name, used by `in`.
+    pub name: Name,
+    /// A title for reports.
+    pub title: Option<Text>,
+    /// Exact identifiers and patterns.
+    pub entries: Vec<ListEntry>,
+    /// The whole item.
+    pub span: Span,
+}
+
+/// One entry of a parts list.
+#[derive(Clone, Debug, PartialEq)]
+pub enum ListEntry {
+    /// An exact part or casting number.
+    Exact(Text),
+    /// A family of numbers, as a regular expression.
+    Pattern(Pattern),
+}
+
+/// A regular expression literal `/.../` with an optional `i` flag.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Pattern {
+    /// The expression, with `\/` turned back into `/`.
+    pub source: String,
+    /// The `i` flag.
+    pub ignore_case: bool,
+    /// Where, slashes included.
+    pub span: Span,
+}
+
+/// `class NAME "title" [extends NAME] BODY end`
+#[derive(Clone, Debug, PartialEq)]
+pub struct Class {
+    /// The class's name.
+    pub name: Name,
+    /// A title for reports.
+    pub title: Option<Text>,
+    /// The class it builds on.
+    pub extends: Option<Name>,
+    /// Rules, conditional groups and drops.
+    pub body: Vec<ClassItem>,
+    /// The whole item.
+    pub span: Span,
+}
+
+/// `bulletin "ID" ["title"] effective DATE amends CLASS BODY end`
+#[derive(Clone, Debug, PartialEq)]
+pub struct Bulletin {
+    /// The bulletin's identifier.
+    pub id: Text,
+    /// A title for reports.
+    pub title: Option<Text>,
+    /// From when it is in force.
+    pub effective: DateAt,
+    /// The class it changes.
+    pub amends: Name,
+    /// New rules, overrides and drops.
+    pub body: Vec<ClassItem>,
+    /// The whole item.
+    pub span: Span,
+}
+
+/// One item in a class or bulletin body.
+#[derive(Clone, Debug, PartialEq)]
+pub enum ClassItem {
+    /// A rule.
+    Rule(Rule),
+    /// `when COND ... end`: rules that apply only when the condition holds.
+    When(WhenGroup),
+    /// `drop SECTION`: remove an inherited rule.
+    Drop(Section),
+}
+
+/// `when COND BODY end`
+#[derive(Clone, Debug, PartialEq)]
+pub struct WhenGroup {
+    /// When the body applies.
+    pub condition: Condition,
+    /// The items it guards.
+    pub body: Vec<ClassItem>,
+    /// The whole group.
+    pub span: Span,
+}
+
+/// A section number as the rulebook writes it (`3.1`, `7.4.2`, `12a`).
+#[derive(Clone, Debug, PartialEq)]
+pub struct Section {
+    /// The text.
+    pub text: String,
+    /// Where.
+    pub span: Span,
+}
+
+/// `[override] rule SECTION "title" [when COND] require TEST [penalty "..."] [note "..."] end`
+#[derive(Clone, Debug, PartialEq)]
+pub struct Rule {
+    /// Replaces an inherited rule of the same section.
+    pub overrides: bool,
+    /// The rulebook's own section number.
+    pub section: Section,
+    /// The rule's title.
+    pub title: Text,
+    /// A condition on this rule alone.
+    pub condition: Option<Condition>,
+    /// The limit.
+    pub require: Test,
+    /// The penalty class.
+    pub penalty: Option<Text>,
+    /// A note for the report.
+    pub note: Option<Text>,
+    /// The whole rule.
+    pub span: Span,
+}
+
+/// A comparison operator.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum CompareOp {
+    /// `<=`
+    AtMost,
+    /// `<`
+    Below,
+    /// `>=`
+    AtLeast,
+    /// `>`
+    Above,
+    /// `==`
+    Equal,
+    /// `!=`
+    NotEqual,
+}
+
+impl CompareOp {
+    /// The operator as written.
+    pub fn symbol(self) -> &'static str {
+        match self {
+            CompareOp::AtMost => "<=",
+            CompareOp::Below => "<",
+            CompareOp::AtLeast => ">=",
+            CompareOp::Above => ">",
+            CompareOp::Equal => "==",
+            CompareOp::NotEqual => "!=",
+        }
+    }
+}
+
+/// A single test: what a rule requires, or one atom of a condition.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Test {
+    /// What is tested.
+    pub kind: TestKind,
+    /// The whole test.
+    pub span: Span,
+}
+
+/// The kinds of test.
+#[derive(Clone, Debug, PartialEq)]
+pub enum TestKind {
+    /// `A <= B [allowing C]`
+    Compare {
+        /// Left side.
+        left: Expr,
+        /// Operator.
+        op: CompareOp,
+        /// Right side.
+        right: Expr,
+        /// Written allowance added to the limit.
+        allowance: Option<Expr>,
+    },
+    /// `A between LOW and HIGH [allowing C]`
+    Between {
+        /// What is tested.
+        subject: Expr,
+        /// Lower limit.
+        low: Expr,
+        /// Upper limit.
+        high: Expr,
+        /// Written allowance widening both limits.
+        allowance: Option<Expr>,
+    },
+    /// `A in LIST` or `A not in LIST`
+    Member {
+        /// The identifier tested.
+        subject: Expr,
+        /// `not in`
+        negated: bool,
+        /// The parts list.
+        list: Name,
+    },
+    /// `A matches /re/` or `A not matches /re/`
+    Matches {
+        /// The identifier tested.
+        subject: Expr,
+        /// `not matches`
+        negated: bool,
+        /// The pattern.
+        pattern: Pattern,
+    },
+}
+
+/// A condition: tests joined by `and`, `or`, `not`.
+#[derive(Clone, Debug, PartialEq)]
+pub enum Condition {
+    /// One test.
+    Test(Test),
+    /// Both hold.
+    And(Box<Condition>, Box<Condition>),
+    /// Either holds.
+    Or(Box<Condition>, Box<Condition>),
+    /// Does not hold.
+    Not(Box<Condition>, Span),
+}
+
+impl Condition {
+    /// The span the condition covers.
+    pub fn span(&self) -> Span {
+        match self {
+            Condition::Test(t) => t.span,
+            Condition::And(a, b) | Condition::Or(a, b) => a.span().to(b.span()),
+            Condition::Not(_, span) => *span,
+        }
+    }
+}
+
+/// An arithmetic expression.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Expr {
+    /// What kind.
+    pub kind: ExprKind,
+    /// Where.
+    pub span: Span,
+}
+
+/// Arithmetic operators.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum BinaryOp {
+    /// `+`
+    Add,
+    /// `-`
+    Subtract,
+    /// `*`
+    Multiply,
+    /// `/`
+    Divide,
+    /// `^`
+    Power,
+}
+
+impl BinaryOp {
+    /// The operator as written.
+    pub fn symbol(self) -> char {
+        match self {
+            BinaryOp::Add => '+',
+            BinaryOp::Subtract => '-',
+            BinaryOp::Multiply => '*',
+            BinaryOp::Divide => '/',
+            BinaryOp::Power => '^',
+        }
+    }
+}
+
+/// The kinds of expression.
+#[derive(Clone, Debug, PartialEq)]
+pub enum ExprKind {
+    /// A number with an optional unit and uncertainty.
+    Quantity(Quantity),
+    /// A string.
+    Text(Text),
+    /// A measurement or derived value.
+    Name(Name),
+    /// A built-in function.
+    Call {
+        /// The function.
+        function: Name,
+        /// Its arguments.
+        args: Vec<Arg>,
+    },
+    /// `-A`
+    Negate(Box<Expr>),
+    /// `A op B`
+    Binary {
+        /// Operator.
+        op: BinaryOp,
+        /// Left operand.
+        left: Box<Expr>,
+        /// Right operand.
+        right: Box<Expr>,
+    },
+}
+
+/// One argument of a call, optionally labelled with the parameter name (`stroke: 3.48 in`).
+#[derive(Clone, Debug, PartialEq)]
+pub struct Arg {
+    /// The parameter name written before a colon.
+    pub label: Option<Name>,
+    /// The value.
+    pub value: Expr,
+}
+
+/// A number as written, with the value it denotes.
+#[derive(Clone, Debug)]
+pub struct Number {
+    /// The value.
+    pub value: f64,
+    /// The text written (`1-5/8`, `4.030`), kept for printing.
+    pub text: String,
+}
+
+impl PartialEq for Number {
+    fn eq(&self, other: &Number) -> bool {
+        self.value == other.value
+    }
+}
+
+/// A unit symbol as written, resolved by the checker.
+#[derive(Clone, Debug, PartialEq)]
+pub struct UnitRef {
+    /// The symbol.
+    pub symbol: String,
+    /// Where.
+    pub span: Span,
+}
+
+/// `VALUE [UNIT] [± U [UNIT] [(k = K)]]`
+#[derive(Clone, Debug, PartialEq)]
+pub struct Quantity {
+    /// The value.
+    pub value: Number,
+    /// Its unit.
+    pub unit: Option<UnitRef>,
+    /// A stated expanded uncertainty.
+    pub uncertainty: Option<Uncertainty>,
+}
+
+/// `± U [UNIT] [(k = K)]`
+#[derive(Clone, Debug, PartialEq)]
+pub struct Uncertainty {
+    /// The expanded uncertainty.
+    pub value: Number,
+    /// Its unit; when absent it is the value's unit.
+    pub unit: Option<UnitRef>,
+    /// The coverage factor, 2 when not written.
+    pub coverage: Option<Number>,
+}

@@ -1,0 +1,661 @@
+//! The lexical layer of the parser: white space and comments, keywords, names, strings,
+//! numbers (with trade-style mixed fractions), unit symbols, dates, section numbers and
+//! regular-expression literals. Each parser skips leading white space itself.
+
+use nom::bytes::complete::{tag, take_while, take_while1};
+use nom::character::complete::{char, digit1};
+use nom::combinator::{opt, recognize};
+use nom::{Err, IResult, Parser};
+use nom_locate::LocatedSpan;
+
+use super::ast::{Date, DateAt, Name, Number, Pattern, Section, Text, UnitRef};
+use super::error::SyntaxError;
+use crate::source::{FileId, Span};
+
+/// Deepest nesting of parentheses, calls and `when` groups the parser accepts.
+pub const MAX_DEPTH: u32 = 64;
+
+/// What the parser carries along with its position: the file and the nesting depth.
+#[derive(Clone, Copy, Debug, Default)]
+pub struct Context {
+    /// The file being parsed.
+    pub file: FileId,
+    /// Current nesting depth.
+    pub depth: u32,
+}
+
+/// Parser input: the remaining text with its offset in the file.
+pub type Input<'a> = LocatedSpan<&'a str, Context>;
+
+/// Parser result.
+pub type PResult<'a, T> = IResult<Input<'a>, T, SyntaxError>;
+
+/// Every reserved word. None can be a name; none but `in` can be a unit after a number.
+pub const KEYWORDS: &[&str] = &[
+    "series",
+    "edition",
+    "effective",
+    "decision",
+    "guarded",
+    "rejection",
+    "acceptance",
+    "simple",
+    "include",
+    "measure",
+    "per",
+    "cylinder",
+    "required",
+    "optional",
+    "range",
+    "to",
+    "define",
+    "approved",
+    "banned",
+    "list",
+    "end",
+    "class",
+    "extends",
+    "bulletin",
+    "amends",
+    "when",
+    "rule",
+    "override",
+    "drop",
+    "require",
+    "penalty",
+    "note",
+    "allowing",
+    "between",
+    "and",
+    "or",
+    "not",
+    "in",
+    "matches",
+];
+
+/// The span from `start` to `end` (two positions in the same file).
+pub fn span_between(start: &Input, end: &Input) -> Span {
+    Span::new(
+        start.extra.file,
+        start.location_offset(),
+        end.location_offset(),
+    )
+}
+
+/// Skips white space and `#` comments.
+pub fn ws(mut input: Input) -> PResult<()> {
+    loop {
+        let (rest, _) = take_while(char::is_whitespace).parse(input)?;
+        input = rest;
+        if input.fragment().starts_with('#') {
+            let (rest, _) = take_while(|c| c != '\n').parse(input)?;
+            input = rest;
+        } else {
+            return Ok((input, ()));
+        }
+    }
+}
+
+fn is_name_start(c: char) -> bool {
+    c.is_ascii_alphabetic() || c == '_'
+}
+
+fn is_name_char(c: char) -> bool {
+    c.is_ascii_alphanumeric() || c == '_'
+}
+
+/// A bare word of name characters, keyword or not, after white space.
+fn word(input: Input) -> PResult<Input> {
+    let (input, _) = ws(input)?;
+    recognize((take_while1(is_name_start), take_while(is_name_char))).parse(input)
+}
+
+/// The keyword `kw`, not followed by a name character.
+pub fn keyword<'a>(kw: &'static str) -> impl Parser<Input<'a>, Output = Span, Error = SyntaxError> {
+    move |input: Input<'a>| {
+        let (start, _) = ws(input)?;
+        match word(start) {
+            Ok((rest, w)) if *w.fragment() == kw => Ok((rest, span_between(&start, &rest))),
+            _ => Err(Err::Error(SyntaxError::expected(&start, keyword_label(kw)))),
+        }
+    }
+}
+
+/// The label naming a keyword in "expected ..." messages.
+fn keyword_label(kw: &'static str) -> &'static str {
+    KEYWORD_LABELS
+        .iter()
+        .find(|(k, _)| *k == kw)
+        .map_or("a keyword", |(_, label)| label)
+}
+
+const KEYWORD_LABELS: &[(&str, &str)] = &[
+    ("series", "`series`"),
+    ("edition", "`edition`"),
+    ("effective", "`effective`"),
+    ("decision", "`decision`"),
+    ("guarded", "`guarded`"),
+    ("rejection", "`rejection`"),
+    ("acceptance", "`acceptance`"),
+    ("simple", "`simple`"),
+    ("include", "`include`"),
+    ("measure", "`measure`"),
+    ("per", "`per`"),
+    ("cylinder", "`cylinder`"),
+    ("required", "`required`"),
+    ("optional", "`optional`"),
+    ("range", "`range`"),
+    ("to", "`to`"),
+    ("define", "`define`"),
+    ("approved", "`approved`"),
+    ("banned", "`banned`"),
+    ("list", "`list`"),
+    ("end", "`end`"),
+    ("class", "`class`"),
+    ("extends", "`extends`"),
+    ("bulletin", "`bulletin`"),
+    ("amends", "`amends`"),
+    ("when", "`when`"),
+    ("rule", "`rule`"),
+    ("override", "`override`"),
+    ("drop", "`drop`"),
+    ("require", "`require`"),
+    ("penalty", "`penalty`"),
+    ("note", "`note`"),
+    ("allowing", "`allowing`"),
+    ("between", "`between`"),
+    ("and", "`and`"),
+    ("or", "`or`"),
+    ("not", "`not`"),
+    ("in", "`in`"),
+    ("matches", "`matches`"),
+];
+
+/// A punctuation symbol such as `=`, `(`, `<=`.
+pub fn symbol<'a>(
+    sym: &'static str,
+    label: &'static str,
+) -> impl Parser<Input<'a>, Output = Span, Error = SyntaxError> {
+    move |input: Input<'a>| {
+        let (start, _) = ws(input)?;
+        match tag::<_, _, SyntaxError>(sym).parse(start) {
+            Ok((rest, _)) => Ok((rest, span_between(&start, &rest))),
+            Err(_) => Err(Err::Error(SyntaxError::expected(&start, label))),
+        }
+    }
+}
+
+/// A single identifier that is not a keyword.
+pub fn identifier(input: Input) -> PResult<Name> {
+    let (start, _) = ws(input)?;
+    match word(start) {
+        Ok((rest, w)) if !KEYWORDS.contains(w.fragment()) => Ok((
+            rest,
+            Name {
+                text: w.fragment().to_string(),
+                span: span_between(&start, &rest),
+            },
+        )),
+        _ => Err(Err::Error(SyntaxError::expected(&start, "a name"))),
+    }
+}
+
+/// A dotted name such as `carburetor.airflow`: identifiers joined by `.` with no spaces.
+pub fn dotted_name(input: Input) -> PResult<Name> {
+    let (mut rest, mut name) = identifier(input)?;
+    while rest.fragment().starts_with('.') {
+        let (after_dot, _) = char::<_, SyntaxError>('.').parse(rest)?;
+        match identifier_here(after_dot) {
+            Ok((after, part)) => {
+                name.text.push('.');
+                name.text.push_str(&part);
+                name.span.end = after.location_offset();
+                rest = after;
+            }
+            Err(_) => {
+                return Err(Err::Failure(SyntaxError::expected(
+                    &after_dot,
+                    "a name after `.`",
+                )));
+            }
+        }
+    }
+    Ok((rest, name))
+}
+
+/// An identifier with no white space before it.
+fn identifier_here(input: Input) -> PResult<String> {
+    let (rest, w) =
+        recognize((take_while1(is_name_start), take_while(is_name_char))).parse(input)?;
+    if KEYWORDS.contains(w.fragment()) {
+        return Err(Err::Error(SyntaxError::expected(&input, "a name")));
+    }
+    Ok((rest, w.fragment().to_string()))
+}
+
+/// A string literal in double quotes. Escapes: `\"`, `\\`, `\n`, `\t`, `\u{XXXX}`.
+pub fn string(input: Input) -> PResult<Text> {
+    let (start, _) = ws(input)?;
+    if !start.fragment().starts_with('"') {
+        return Err(Err::Error(SyntaxError::expected(
+            &start,
+            "a string in double quotes",
+        )));
+    }
+    let body = &start.fragment()[1..];
+    let mut value = String::new();
+    let mut chars = body.char_indices();
+    while let Some((at, c)) = chars.next() {
+        match c {
+            '"' => {
+                let (rest, _) =
+                    nom::bytes::complete::take::<_, _, SyntaxError>(at + 2).parse(start)?;
+                return Ok((
+                    rest,
+                    Text {
+                        value,
+                        span: span_between(&start, &rest),
+                    },
+                ));
+            }
+            '\n' => break,
+            '\\' => match escape(&mut chars) {
+                Some(decoded) => value.push(decoded),
+                None => {
+                    let (bad, _) =
+                        nom::bytes::complete::take::<_, _, SyntaxError>(at + 1).parse(start)?;
+                    return Err(Err::Failure(SyntaxError::specific(
+                        &bad,
+                        2,
+                        "gonogo::parse::bad-escape",
+                        "unknown escape in string",
+                        "the escapes are `\\\"`, `\\\\`, `\\n`, `\\t` and `\\u{...}`",
+                    )));
+                }
+            },
+            other => value.push(other),
+        }
+    }
+    Err(Err::Failure(SyntaxError::specific(
+        &start,
+        1,
+        "gonogo::parse::unterminated-string",
+        "this string has no closing quote",
+        "end the string with `\"` on the same line",
+    )))
+}
+
+fn escape(chars: &mut std::str::CharIndices) -> Option<char> {
+    match chars.next()?.1 {
+        '"' => Some('"'),
+        '\\' => Some('\\'),
+        'n' => Some('\n'),
+        't' => Some('\t'),
+        'u' => {
+            if chars.next()?.1 != '{' {
+                return None;
+            }
+            let hex: String = chars
+                .by_ref()
+                .map(|(_, c)| c)
+                .take_while(|c| *c != '}')
+                .collect();
+            if hex.is_empty() || hex.len() > 6 {
+                return None;
+            }
+            char::from_u32(u32::from_str_radix(&hex, 16).ok()?)
+        }
+        _ => None,
+    }
+}
+
+/// A number: `42`, `4.030`, `1.5e-3`, a fraction `5/8`, or a mixed fraction `1-5/8`
+/// (written with no spaces, as header tubes and valves are sized in the trade).
+pub fn number(input: Input) -> PResult<Number> {
+    let (start, _) = ws(input)?;
+    if let Ok((rest, (whole, _, num, _, den))) = (
+        digit1::<_, SyntaxError>,
+        char('-'),
+        digit1,
+        char('/'),
+        digit1,
+    )
+        .parse(start)
+    {
+        return fraction_value(&start, &rest, parse_f64(&whole) + ratio(&num, &den));
+    }
+    if let Ok((rest, (num, _, den))) = (digit1::<_, SyntaxError>, char('/'), digit1).parse(start) {
+        return fraction_value(&start, &rest, ratio(&num, &den));
+    }
+    let mut decimal = recognize((
+        digit1,
+        opt((char('.'), digit1)),
+        opt((
+            nom::character::complete::one_of("eE"),
+            opt(nom::character::complete::one_of("+-")),
+            digit1,
+        )),
+    ));
+    let (rest, text) = decimal
+        .parse(start)
+        .map_err(|_: Err<SyntaxError>| Err::Error(SyntaxError::expected(&start, "a number")))?;
+    let value = parse_f64(&text);
+    if !value.is_finite() {
+        return Err(Err::Failure(SyntaxError::specific(
+            &start,
+            text.fragment().len(),
+            "gonogo::parse::number-too-large",
+            "this number is too large",
+            "write a number below 1e300",
+        )));
+    }
+    Ok((
+        rest,
+        Number {
+            value,
+            text: text.fragment().to_string(),
+        },
+    ))
+}
+
+fn parse_f64(text: &Input) -> f64 {
+    text.fragment().parse().unwrap_or(f64::NAN)
+}
+
+fn ratio(num: &Input, den: &Input) -> f64 {
+    parse_f64(num) / parse_f64(den)
+}
+
+fn fraction_value<'a>(start: &Input<'a>, rest: &Input<'a>, value: f64) -> PResult<'a, Number> {
+    let len = rest.location_offset() - start.location_offset();
+    if !value.is_finite() {
+        return Err(Err::Failure(SyntaxError::specific(
+            start,
+            len,
+            "gonogo::parse::bad-fraction",
+            "this fraction divides by zero",
+            "a fraction is written like `5/8` or `1-5/8`, with a denominator above zero",
+        )));
+    }
+    let text = start.fragment()[..len].to_string();
+    Ok((*rest, Number { value, text }))
+}
+
+/// A unit symbol after a number: a word of letters with `²`, `³`, `^N` and one `/word`
+/// (`in`, `cm³`, `in^2`, `L/s`), or `°` or `%`. A keyword other than `in` is not a unit.
+pub fn unit_symbol(input: Input) -> PResult<UnitRef> {
+    let (start, _) = ws(input)?;
+    let frag = *start.fragment();
+    let len = unit_len(frag);
+    let text = &frag[..len];
+    if len == 0 || (text != "in" && KEYWORDS.contains(&text)) {
+        return Err(Err::Error(SyntaxError::expected(&start, "a unit")));
+    }
+    let (rest, _) = nom::bytes::complete::take::<_, _, SyntaxError>(len).parse(start)?;
+    Ok((
+        rest,
+        UnitRef {
+            symbol: text.to_string(),
+            span: span_between(&start, &rest),
+        },
+    ))
+}
+
+/// Length in bytes of the unit symbol at the start of `text`, 0 if there is none.
+fn unit_len(text: &str) -> usize {
+    if text.starts_with('°') || text.starts_with('%') {
+        return text.chars().next().map_or(0, char::len_utf8);
+    }
+    let base = unit_word_len(text);
+    if base == 0 {
+        return 0;
+    }
+    let rest = &text[base..];
+    match rest.strip_prefix('/') {
+        Some(after) if after.starts_with(|c: char| c.is_ascii_alphabetic()) => {
+            base + 1 + unit_word_len(after)
+        }
+        _ => base,
+    }
+}
+
+/// Letters, then optional `²`/`³` or `^` with digits.
+fn unit_word_len(text: &str) -> usize {
+    let letters: usize = text
+        .chars()
+        .take_while(|c| c.is_ascii_alphabetic())
+        .map(char::len_utf8)
+        .sum();
+    if letters == 0 {
+        return 0;
+    }
+    let rest = &text[letters..];
+    if rest.starts_with('²') || rest.starts_with('³') {
+        return letters + 2;
+    }
+    if let Some(after) = rest.strip_prefix('^') {
+        let digits = after.chars().take_while(char::is_ascii_digit).count();
+        if digits > 0 {
+            return letters + 1 + digits;
+        }
+    }
+    letters
+}
+
+/// A date `YYYY-MM-DD` that exists on the calendar.
+pub fn date(input: Input) -> PResult<DateAt> {
+    let (start, _) = ws(input)?;
+    let mut shape = recognize((digit1, char('-'), digit1, char('-'), digit1));
+    let (rest, text) = shape.parse(start).map_err(|_: Err<SyntaxError>| {
+        Err::Error(SyntaxError::expected(&start, "a date like `2027-03-06`"))
+    })?;
+    let len = text.fragment().len();
+    match parse_date(text.fragment()) {
+        Some(date) => Ok((
+            rest,
+            DateAt {
+                date,
+                span: span_between(&start, &rest),
+            },
+        )),
+        None => Err(Err::Failure(SyntaxError::specific(
+            &start,
+            len,
+            "gonogo::parse::bad-date",
+            format!("`{}` is not a calendar date", text.fragment()),
+            "write the date as year-month-day, for example `2027-03-06`",
+        ))),
+    }
+}
+
+fn parse_date(text: &str) -> Option<Date> {
+    let mut parts = text.split('-');
+    let (y, m, d) = (parts.next()?, parts.next()?, parts.next()?);
+    if y.len() != 4 || m.len() != 2 || d.len() != 2 {
+        return None;
+    }
+    let (year, month, day): (u16, u8, u8) = (y.parse().ok()?, m.parse().ok()?, d.parse().ok()?);
+    let leap = (year % 4 == 0 && year % 100 != 0) || year % 400 == 0;
+    let days = match month {
+        1 | 3 | 5 | 7 | 8 | 10 | 12 => 31,
+        4 | 6 | 9 | 11 => 30,
+        2 if leap => 29,
+        2 => 28,
+        _ => return None,
+    };
+    (day >= 1 && day <= days).then_some(Date { year, month, day })
+}
+
+/// A section number: digits, then `.`-separated parts of digits and letters (`3.1`, `12a`).
+pub fn section(input: Input) -> PResult<Section> {
+    let (start, _) = ws(input)?;
+    let mut shape = recognize((
+        digit1,
+        take_while(|c: char| c.is_ascii_alphanumeric()),
+        nom::multi::many0((char('.'), take_while1(|c: char| c.is_ascii_alphanumeric()))),
+    ));
+    let (rest, text) = shape.parse(start).map_err(|_: Err<SyntaxError>| {
+        Err::Error(SyntaxError::expected(&start, "a section number like `3.1`"))
+    })?;
+    Ok((
+        rest,
+        Section {
+            text: text.fragment().to_string(),
+            span: span_between(&start, &rest),
+        },
+    ))
+}
+
+/// A regular-expression literal `/.../` with an optional `i` flag; `\/` stands for `/`.
+pub fn pattern(input: Input) -> PResult<Pattern> {
+    let (start, _) = ws(input)?;
+    if !start.fragment().starts_with('/') {
+        return Err(Err::Error(SyntaxError::expected(
+            &start,
+            "a pattern like `/^AB-12[0-9]{2}$/`",
+        )));
+    }
+    let body = &start.fragment()[1..];
+    let mut source = String::new();
+    let mut chars = body.char_indices();
+    while let Some((at, c)) = chars.next() {
+        match c {
+            '/' => return finish_pattern(start, source, at + 2),
+            '\n' => break,
+            '\\' => match chars.next() {
+                Some((_, '/')) => source.push('/'),
+                Some((_, next)) => {
+                    source.push('\\');
+                    source.push(next);
+                }
+                None => break,
+            },
+            other => source.push(other),
+        }
+    }
+    Err(Err::Failure(SyntaxError::specific(
+        &start,
+        1,
+        "gonogo::parse::unterminated-pattern",
+        "this pattern has no closing `/`",
+        "end the pattern with `/` on the same line; write `\\/` for a slash inside it",
+    )))
+}
+
+fn finish_pattern(start: Input, source: String, len: usize) -> PResult<Pattern> {
+    let (rest, _) = nom::bytes::complete::take::<_, _, SyntaxError>(len).parse(start)?;
+    let ignore_case =
+        rest.fragment().starts_with('i') && !rest.fragment()[1..].starts_with(is_name_char);
+    let (rest, _) =
+        nom::bytes::complete::take::<_, _, SyntaxError>(usize::from(ignore_case)).parse(rest)?;
+    Ok((
+        rest,
+        Pattern {
+            source,
+            ignore_case,
+            span: span_between(&start, &rest),
+        },
+    ))
+}
+
+/// Runs `inner` one nesting level deeper, failing cleanly past [`MAX_DEPTH`].
+pub fn nested<'a, T>(
+    input: Input<'a>,
+    inner: impl FnOnce(Input<'a>) -> PResult<'a, T>,
+) -> PResult<'a, T> {
+    if input.extra.depth >= MAX_DEPTH {
+        return Err(Err::Failure(SyntaxError::specific(
+            &input,
+            1,
+            "gonogo::parse::too-deep",
+            format!("nesting is deeper than {MAX_DEPTH} levels"),
+            "split the expression into named `define` values, or flatten the `when` groups",
+        )));
+    }
+    let deeper = input.map_extra(|c| Context {
+        depth: c.depth + 1,
+        ..c
+    });
+    let (rest, value) = inner(deeper)?;
+    Ok((
+        rest.map_extra(|c| Context {
+            depth: c.depth - 1,
+            ..c
+        }),
+        value,
+    ))
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn input(text: &str) -> Input<'_> {
+        Input::new_extra(text, Context::default())
+    }
+
+    fn value(text: &str) -> f64 {
+        number(input(text))
+            .map(|(_, n)| n.value)
+            .unwrap_or(f64::NAN)
+    }
+
+    #[test]
+    fn mixed_fractions_are_whole_plus_fraction() {
+        // header tube sizes: 1-5/8 in = 1.625 in (common practice, no source)
+        assert_eq!(value("1-5/8"), 1.625);
+        assert_eq!(value("5/8"), 0.625);
+        assert_eq!(value("1-3/4"), 1.75);
+    }
+
+    #[test]
+    fn decimals_and_exponents() {
+        assert_eq!(value("4.030"), 4.03);
+        assert_eq!(value("1.5e-3"), 0.0015);
+        assert_eq!(value("12"), 12.0);
+    }
+
+    #[test]
+    fn a_fraction_over_zero_is_an_error() {
+        assert!(matches!(number(input("3/0")), Err(Err::Failure(_))));
+    }
+
+    #[test]
+    fn units_take_one_symbol_and_stop_at_keywords() {
+        assert_eq!(unit_len("in and"), 2);
+        assert_eq!(unit_len("cm³ "), 4);
+        assert_eq!(unit_len("in^2)"), 4);
+        assert_eq!(unit_len("L/s"), 3);
+        assert_eq!(unit_len("in/2"), 2);
+        assert_eq!(unit_len("° "), 2);
+        assert!(unit_symbol(input(" and")).is_err());
+        assert!(unit_symbol(input(" in")).is_ok());
+    }
+
+    #[test]
+    fn strings_resolve_escapes() {
+        let (_, text) = string(input(r#""a \"b\" \u{B1}""#)).unwrap_or_else(|_| panic!("parse"));
+        assert_eq!(text.value, "a \"b\" ±");
+    }
+
+    #[test]
+    fn dates_must_exist() {
+        assert!(date(input("2028-02-29")).is_ok());
+        assert!(matches!(date(input("2027-02-29")), Err(Err::Failure(_))));
+        assert!(matches!(date(input("2027-13-01")), Err(Err::Failure(_))));
+    }
+
+    #[test]
+    fn patterns_unescape_slashes_and_read_the_flag() {
+        let (_, p) = pattern(input(r"/^A\/B$/i")).unwrap_or_else(|_| panic!("parse"));
+        assert_eq!(p.source, "^A/B$");
+        assert!(p.ignore_case);
+    }
+
+    #[test]
+    fn names_are_not_keywords_and_may_be_dotted() {
+        assert!(identifier(input("and")).is_err());
+        let (_, n) = dotted_name(input(" carburetor.airflow ")).unwrap_or_else(|_| panic!("parse"));
+        assert_eq!(n.text, "carburetor.airflow");
+    }
+}

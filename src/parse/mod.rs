@@ -1,0 +1,86 @@
+//! Parsing: rulebook text to syntax tree. The parser never panics and never stops at the
+//! first syntax error: after an error it skips to the next line that starts a top-level item
+//! and goes on, so one run reports every broken item of a file.
+
+pub mod ast;
+mod error;
+mod expr;
+pub mod includes;
+mod items;
+mod lexical;
+pub mod print;
+
+pub use error::{SyntaxError, SyntaxKind};
+pub use lexical::{KEYWORDS, MAX_DEPTH};
+
+use ast::Rulebook;
+use lexical::{Context, Input, ws};
+
+use crate::diagnostic::Problem;
+use crate::source::FileId;
+
+/// Most syntax errors reported for one file; past this the rest is noise.
+const MAX_SYNTAX_ERRORS: usize = 20;
+
+/// Parses one file. Returns the items that parsed and a problem for each that did not.
+pub fn parse_rulebook(file: FileId, text: &str) -> (Rulebook, Vec<Problem>) {
+    let mut input = Input::new_extra(text, Context { file, depth: 0 });
+    let mut items = Vec::new();
+    let mut problems = Vec::new();
+    loop {
+        input = match ws(input) {
+            Ok((rest, ())) => rest,
+            Err(_) => break,
+        };
+        if input.fragment().is_empty() {
+            break;
+        }
+        match items::item(input) {
+            Ok((rest, item)) => {
+                items.push(item);
+                input = rest;
+            }
+            Err(nom::Err::Error(e) | nom::Err::Failure(e)) => {
+                problems.push(e.to_problem(text));
+                if problems.len() >= MAX_SYNTAX_ERRORS {
+                    break;
+                }
+                match resume_point(text, e.offset.max(input.location_offset())) {
+                    Some(offset) => input = skip_to(input, offset),
+                    None => break,
+                }
+            }
+            Err(nom::Err::Incomplete(_)) => break,
+        }
+    }
+    (Rulebook { items }, problems)
+}
+
+/// The offset of the first line after `offset` whose first word starts a top-level item.
+fn resume_point(text: &str, offset: usize) -> Option<usize> {
+    let mut line_start = text.get(offset..)?.find('\n')? + offset + 1;
+    while line_start < text.len() {
+        let line = &text[line_start..];
+        let trimmed = line.trim_start();
+        let first_word: String = trimmed
+            .chars()
+            .take_while(|c| c.is_ascii_alphabetic())
+            .collect();
+        if items::ITEM_KEYWORDS.contains(&first_word.as_str()) {
+            return Some(line_start + (line.len() - trimmed.len()));
+        }
+        line_start += line.find('\n')? + 1;
+    }
+    None
+}
+
+fn skip_to(input: Input, offset: usize) -> Input {
+    let skip = offset - input.location_offset();
+    match nom::bytes::complete::take::<_, _, SyntaxError>(skip)(input) {
+        Ok((rest, _)) => rest,
+        Err(_) => input,
+    }
+}
+
+#[cfg(test)]
+mod tests;

@@ -1,0 +1,161 @@
+//! Source files and byte spans: reading a rulebook from disk with its size and encoding
+//! checked, and the one place where parser offsets become miette spans.
+
+use std::path::{Path, PathBuf};
+use std::sync::Arc;
+
+use miette::{NamedSource, SourceSpan};
+
+/// Largest source file gonogo reads, in bytes (8 MiB).
+pub const MAX_FILE_BYTES: u64 = 8 * 1024 * 1024;
+
+/// Index of a file in a [`SourceMap`].
+pub type FileId = u32;
+
+/// A byte range in one source file. Spans never take part in equality, so syntax trees parsed
+/// from differently formatted text compare equal when their structure is the same.
+#[derive(Clone, Copy, Debug, Default)]
+pub struct Span {
+    /// The file the span lies in.
+    pub file: FileId,
+    /// First byte.
+    pub start: usize,
+    /// One past the last byte.
+    pub end: usize,
+}
+
+impl PartialEq for Span {
+    fn eq(&self, _: &Span) -> bool {
+        true
+    }
+}
+
+impl Span {
+    /// A span from `start` to `end` in `file`.
+    pub fn new(file: FileId, start: usize, end: usize) -> Span {
+        Span { file, start, end }
+    }
+
+    /// The smallest span covering both.
+    pub fn to(self, other: Span) -> Span {
+        Span::new(
+            self.file,
+            self.start.min(other.start),
+            self.end.max(other.end),
+        )
+    }
+
+    /// The span as miette wants it.
+    pub fn source_span(self) -> SourceSpan {
+        SourceSpan::new(self.start.into(), self.end.saturating_sub(self.start))
+    }
+}
+
+/// One loaded source file.
+#[derive(Debug)]
+pub struct SourceFile {
+    /// The path as the user gave it (or as an include resolved it).
+    pub path: PathBuf,
+    /// The text, valid UTF-8.
+    pub text: Arc<str>,
+}
+
+impl SourceFile {
+    /// The file as a miette source, named by its path.
+    pub fn named_source(&self) -> NamedSource<Arc<str>> {
+        NamedSource::new(self.path.display().to_string(), self.text.clone())
+    }
+
+    /// One-based line and column of a byte offset.
+    pub fn line_column(&self, offset: usize) -> (usize, usize) {
+        let before = &self.text[..floor_char_boundary(&self.text, offset)];
+        let line = before.matches('\n').count() + 1;
+        let column = before.rsplit('\n').next().map_or(0, |l| l.chars().count()) + 1;
+        (line, column)
+    }
+}
+
+fn floor_char_boundary(text: &str, offset: usize) -> usize {
+    let mut at = offset.min(text.len());
+    while !text.is_char_boundary(at) {
+        at -= 1;
+    }
+    at
+}
+
+/// Why a file could not be read as source text.
+#[derive(Debug)]
+pub enum ReadFailure {
+    /// The operating system refused (missing file, permissions).
+    Io(std::io::Error),
+    /// Larger than [`MAX_FILE_BYTES`].
+    TooLarge(u64),
+    /// Not UTF-8; the byte offset of the first bad byte.
+    NotUtf8(usize),
+}
+
+/// All files of one run, so spans can be resolved back to text.
+#[derive(Debug, Default)]
+pub struct SourceMap {
+    files: Vec<SourceFile>,
+}
+
+impl SourceMap {
+    /// Adds text under a path and returns its id.
+    pub fn add(&mut self, path: PathBuf, text: String) -> FileId {
+        self.files.push(SourceFile {
+            path,
+            text: text.into(),
+        });
+        FileId::try_from(self.files.len() - 1).unwrap_or(FileId::MAX)
+    }
+
+    /// Reads a file from disk, refusing files that are too large or not UTF-8.
+    pub fn read(&mut self, path: &Path) -> Result<FileId, ReadFailure> {
+        let size = std::fs::metadata(path).map_err(ReadFailure::Io)?.len();
+        if size > MAX_FILE_BYTES {
+            return Err(ReadFailure::TooLarge(size));
+        }
+        let bytes = std::fs::read(path).map_err(ReadFailure::Io)?;
+        let text = String::from_utf8(bytes)
+            .map_err(|e| ReadFailure::NotUtf8(e.utf8_error().valid_up_to()))?;
+        Ok(self.add(path.to_path_buf(), text))
+    }
+
+    /// The file with this id.
+    pub fn file(&self, id: FileId) -> &SourceFile {
+        &self.files[id as usize]
+    }
+
+    /// The id of a file already loaded from this path, if any.
+    pub fn find(&self, path: &Path) -> Option<FileId> {
+        self.files
+            .iter()
+            .position(|f| f.path == path)
+            .and_then(|i| FileId::try_from(i).ok())
+    }
+
+    /// The text a span covers.
+    pub fn slice(&self, span: Span) -> &str {
+        let text = &self.file(span.file).text;
+        let start = floor_char_boundary(text, span.start);
+        let end = floor_char_boundary(text, span.end.max(start));
+        &text[start..end]
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn line_and_column_are_one_based_and_count_characters() {
+        let mut map = SourceMap::default();
+        let id = map.add("a.rules".into(), "ab\n±cd".into());
+        let file = map.file(id);
+        assert_eq!(file.line_column(0), (1, 1));
+        assert_eq!(file.line_column(3), (2, 1));
+        // "±" is two bytes; `c` is the second character of line 2
+        assert_eq!(file.line_column(5), (2, 2));
+    }
+}
