@@ -6,7 +6,9 @@
 //! problem type every stage reports.
 
 pub mod check;
+pub mod commands;
 pub mod diagnostic;
+pub mod exit;
 pub mod parse;
 pub mod source;
 pub mod suggest;

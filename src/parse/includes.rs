@@ -85,7 +85,10 @@ impl Reader<'_> {
             .collect();
         self.out.files.push((id, book));
         if clean {
-            let folder = path.parent().map(Path::to_path_buf).unwrap_or_default();
+            let folder = match path.parent() {
+                Some(p) if !p.as_os_str().is_empty() => p.to_path_buf(),
+                _ => PathBuf::from("."),
+            };
             for include in includes {
                 self.follow(&folder, &include);
             }

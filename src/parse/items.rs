@@ -282,6 +282,7 @@ fn rule(input: Input) -> PResult<Rule> {
     let (rest, condition) = opt((keyword("when"), cut(condition)).map(|(_, c)| c)).parse(rest)?;
     let (rest, _) = cut(keyword("require")).parse(rest)?;
     let (rest, require) = cut(|i| test(i, Allowance::Allowed)).parse(rest)?;
+    refuse_joined_tests(rest)?;
     let (rest, penalty) = opt((keyword("penalty"), cut(string)).map(|(_, s)| s)).parse(rest)?;
     let (rest, note) = opt((keyword("note"), cut(string)).map(|(_, s)| s)).parse(rest)?;
     let (rest, _) = keyword("end")
@@ -300,4 +301,22 @@ fn rule(input: Input) -> PResult<Rule> {
             span: span_between(&start, &rest),
         },
     ))
+}
+
+/// A `require` holds one test; `and` or `or` after it gets a specific error.
+fn refuse_joined_tests(input: Input) -> PResult<()> {
+    let (start, _) = ws(input)?;
+    let joined = keyword("and")
+        .parse(start)
+        .or_else(|_| keyword("or").parse(start));
+    match joined {
+        Ok((_, span)) => Err(Err::Failure(SyntaxError::specific(
+            &start,
+            span.end - span.start,
+            "gonogo::parse::joined-require",
+            "a rule's `require` holds a single test",
+            "split it into two rules with their own section numbers, or put the extra test in a `when` line",
+        ))),
+        Err(_) => Ok((input, ())),
+    }
 }

@@ -248,8 +248,7 @@ pub fn string(input: Input) -> PResult<Text> {
     while let Some((at, c)) = chars.next() {
         match c {
             '"' => {
-                let (rest, _) =
-                    nom::bytes::complete::take::<_, _, SyntaxError>(at + 2).parse(start)?;
+                let rest = advance(start, at + 2);
                 return Ok((
                     rest,
                     Text {
@@ -262,8 +261,7 @@ pub fn string(input: Input) -> PResult<Text> {
             '\\' => match escape(&mut chars) {
                 Some(decoded) => value.push(decoded),
                 None => {
-                    let (bad, _) =
-                        nom::bytes::complete::take::<_, _, SyntaxError>(at + 1).parse(start)?;
+                    let bad = advance(start, at + 1);
                     return Err(Err::Failure(SyntaxError::specific(
                         &bad,
                         2,
@@ -391,7 +389,7 @@ pub fn unit_symbol(input: Input) -> PResult<UnitRef> {
     if len == 0 || (text != "in" && KEYWORDS.contains(&text)) {
         return Err(Err::Error(SyntaxError::expected(&start, "a unit")));
     }
-    let (rest, _) = nom::bytes::complete::take::<_, _, SyntaxError>(len).parse(start)?;
+    let rest = advance(start, len);
     Ok((
         rest,
         UnitRef {
@@ -543,11 +541,10 @@ pub fn pattern(input: Input) -> PResult<Pattern> {
 }
 
 fn finish_pattern(start: Input, source: String, len: usize) -> PResult<Pattern> {
-    let (rest, _) = nom::bytes::complete::take::<_, _, SyntaxError>(len).parse(start)?;
+    let rest = advance(start, len);
     let ignore_case =
         rest.fragment().starts_with('i') && !rest.fragment()[1..].starts_with(is_name_char);
-    let (rest, _) =
-        nom::bytes::complete::take::<_, _, SyntaxError>(usize::from(ignore_case)).parse(rest)?;
+    let rest = advance(rest, usize::from(ignore_case));
     Ok((
         rest,
         Pattern {
@@ -556,6 +553,16 @@ fn finish_pattern(start: Input, source: String, len: usize) -> PResult<Pattern> 
             span: span_between(&start, &rest),
         },
     ))
+}
+
+/// The input `bytes` bytes further on. (nom's `take` counts characters; offsets here are bytes.)
+pub fn advance(input: Input, bytes: usize) -> Input {
+    let text = input.fragment();
+    let mut at = bytes.min(text.len());
+    while !text.is_char_boundary(at) {
+        at -= 1;
+    }
+    nom::Input::take_from(&input, at)
 }
 
 /// Runs `inner` one nesting level deeper, failing cleanly past [`MAX_DEPTH`].

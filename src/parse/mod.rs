@@ -75,11 +75,7 @@ fn resume_point(text: &str, offset: usize) -> Option<usize> {
 }
 
 fn skip_to(input: Input, offset: usize) -> Input {
-    let skip = offset - input.location_offset();
-    match nom::bytes::complete::take::<_, _, SyntaxError>(skip)(input) {
-        Ok((rest, _)) => rest,
-        Err(_) => input,
-    }
+    lexical::advance(input, offset - input.location_offset())
 }
 
 #[cfg(test)]

@@ -179,7 +179,7 @@ mod tests {
     #[test]
     fn display_uses_common_names_then_exponents() {
         assert_eq!(Dimension::VOLUME.to_string(), "volume");
-        assert_eq!(Dimension::NONE.to_string(), "dimensionless");
+        assert_eq!(Dimension::NONE.to_string(), "plain number");
         assert_eq!(Dimension::new(4, 0, 0, 0).to_string(), "L^4");
         assert_eq!(Dimension::new(1, 0, -1, 0).to_string(), "L·T^-1");
     }

@@ -1,0 +1,282 @@
+//! Reasoning about limits: contradictory limits on one quantity in a class, and conditions
+//! that can never hold. Both use intervals of constant bounds in SI units; anything that is
+//! not a comparison of a quantity with a constant is left alone, so no false alarm is raised.
+
+use std::collections::BTreeMap;
+
+use super::Checker;
+use super::classes::ClassState;
+use super::interval::Interval;
+use crate::diagnostic::Problem;
+use crate::parse::ast::{ClassItem, CompareOp, Condition, Expr, ExprKind, Test, TestKind};
+use crate::parse::print::expr_text;
+use crate::source::Span;
+
+/// What one test says about one quantity.
+struct Bound {
+    /// The quantity, in canonical text.
+    subject: String,
+    /// The values it allows (numeric tests).
+    interval: Option<Interval>,
+    /// The text it must equal (`== "..."` tests).
+    text: Option<String>,
+    /// The test.
+    span: Span,
+    /// What the span shows, when it is not a test.
+    label: Option<&'static str>,
+}
+
+impl<'a> Checker<'a> {
+    /// Runs both reasonings.
+    pub(super) fn check_bounds(&mut self, states: &[ClassState]) {
+        for state in states {
+            self.check_contradictions(state);
+        }
+        let bodies: Vec<&'a [ClassItem]> = self
+            .classes
+            .values()
+            .map(|c| c.body.as_slice())
+            .chain(self.bulletins.iter().map(|b| b.body.as_slice()))
+            .collect();
+        for body in bodies {
+            self.check_conditions_in(body, &mut Vec::new());
+        }
+    }
+
+    fn check_contradictions(&mut self, state: &ClassState) {
+        let mut by_subject: BTreeMap<String, Vec<Bound>> = BTreeMap::new();
+        for r in state.rules.iter().filter(|r| r.conditions.is_empty()) {
+            if let Some(b) = self.bound_of(&r.rule.require) {
+                by_subject.entry(b.subject.clone()).or_default().push(b);
+            }
+        }
+        for (subject, bounds) in by_subject {
+            if let Some((a, b)) = first_conflict(&bounds) {
+                let ((a, _), (b, _)) = (a, b);
+                let mut problem = Problem::error(
+                    "gonogo::check::contradictory-limits",
+                    format!("the limits on `{subject}` in class `{}` leave no legal value", state.class),
+                    b,
+                    "this limit",
+                )
+                .with_help("no engine can pass both; correct one limit, or make one rule conditional with `when`");
+                if a.start != b.start {
+                    problem = problem.with_label(a, "conflicts with this one");
+                }
+                self.error(problem);
+            }
+        }
+    }
+
+    fn check_conditions_in(&mut self, body: &'a [ClassItem], outer: &mut Vec<&'a Condition>) {
+        for item in body {
+            match item {
+                ClassItem::Rule(rule) => {
+                    if let Some(c) = &rule.condition {
+                        self.check_condition_holds(c, outer);
+                    }
+                }
+                ClassItem::When(group) => {
+                    let ok = self.check_condition_holds(&group.condition, outer);
+                    if ok {
+                        outer.push(&group.condition);
+                        self.check_conditions_in(&group.body, outer);
+                        outer.pop();
+                    }
+                }
+                ClassItem::Drop(_) => {}
+            }
+        }
+    }
+
+    /// Reports `cond` if, together with the enclosing conditions, it can never hold.
+    fn check_condition_holds(&mut self, cond: &Condition, outer: &[&Condition]) -> bool {
+        let mut bounds = Vec::new();
+        for c in outer.iter().copied().chain([cond]) {
+            self.conjuncts(c, &mut bounds);
+        }
+        for name in bounds.iter().map(|b| b.subject.clone()).collect::<Vec<_>>() {
+            if let Some(m) = self.measurements.get(name.as_str())
+                && let Some((lo, hi)) = m.range
+            {
+                bounds.push(Bound {
+                    subject: name,
+                    interval: Some(Interval::closed(lo, hi)),
+                    text: None,
+                    span: m.span,
+                    label: Some("declared range"),
+                });
+            }
+        }
+        let mut by_subject: BTreeMap<&str, Vec<&Bound>> = BTreeMap::new();
+        for b in &bounds {
+            by_subject.entry(&b.subject).or_default().push(b);
+        }
+        let conflict = by_subject.values().find_map(|group| {
+            let owned: Vec<Bound> = group
+                .iter()
+                .map(|b| Bound {
+                    subject: b.subject.clone(),
+                    interval: b.interval,
+                    text: b.text.clone(),
+                    span: b.span,
+                    label: b.label,
+                })
+                .collect();
+            first_conflict(&owned)
+        });
+        let Some((a, b)) = conflict else { return true };
+        let mut problem = Problem::error(
+            "gonogo::check::never-holds",
+            "this condition can never hold",
+            cond.span(),
+            "never true",
+        )
+        .with_help(
+            "the rules under it would never apply; correct the condition or remove the rules",
+        );
+        for ((span, label), default) in [(a, "requires this"), (b, "and this")] {
+            if span.start != cond.span().start || span.end != cond.span().end {
+                problem = problem.with_label(span, label.unwrap_or(default));
+            }
+        }
+        self.error(problem);
+        false
+    }
+
+    /// The bounds of the tests joined by `and` at the top of `cond`.
+    fn conjuncts(&self, cond: &Condition, out: &mut Vec<Bound>) {
+        match cond {
+            Condition::And(a, b) => {
+                self.conjuncts(a, out);
+                self.conjuncts(b, out);
+            }
+            Condition::Test(t) => out.extend(self.bound_of(t)),
+            Condition::Or(..) | Condition::Not(..) => {}
+        }
+    }
+
+    /// What a test says about one quantity compared with a constant, if it says anything.
+    fn bound_of(&self, test: &Test) -> Option<Bound> {
+        let span = test.span;
+        match &test.kind {
+            TestKind::Compare {
+                left,
+                op,
+                right,
+                allowance,
+            } => {
+                let slack = match allowance {
+                    Some(a) => self.constant(a)?,
+                    None => 0.0,
+                };
+                if let Some(text) = text_literal(right).or_else(|| text_literal(left)) {
+                    let subject = if text_literal(right).is_some() {
+                        left
+                    } else {
+                        right
+                    };
+                    return (*op == CompareOp::Equal).then(|| Bound {
+                        subject: expr_text(subject),
+                        interval: None,
+                        text: Some(text),
+                        span,
+                        label: None,
+                    });
+                }
+                let (subject, op, limit) = match (self.constant(left), self.constant(right)) {
+                    (None, Some(c)) => (left, *op, c),
+                    (Some(c), None) => (right, flipped(*op), c),
+                    _ => return None,
+                };
+                let interval = match op {
+                    CompareOp::AtMost => Interval::below(limit + slack, true),
+                    CompareOp::Below => Interval::below(limit + slack, false),
+                    CompareOp::AtLeast => Interval::above(limit - slack, true),
+                    CompareOp::Above => Interval::above(limit - slack, false),
+                    CompareOp::Equal => Interval::closed(limit, limit),
+                    CompareOp::NotEqual => return None,
+                };
+                Some(Bound {
+                    subject: expr_text(subject),
+                    interval: Some(interval),
+                    text: None,
+                    span,
+                    label: None,
+                })
+            }
+            TestKind::Between {
+                subject,
+                low,
+                high,
+                allowance,
+            } => {
+                let slack = match allowance {
+                    Some(a) => self.constant(a)?,
+                    None => 0.0,
+                };
+                let (lo, hi) = (self.constant(low)?, self.constant(high)?);
+                Some(Bound {
+                    subject: expr_text(subject),
+                    interval: Some(Interval::closed(lo - slack, hi + slack)),
+                    text: None,
+                    span,
+                    label: None,
+                })
+            }
+            TestKind::Member { .. } | TestKind::Matches { .. } => None,
+        }
+    }
+}
+
+fn text_literal(e: &Expr) -> Option<String> {
+    match &e.kind {
+        ExprKind::Text(t) => Some(t.value.clone()),
+        _ => None,
+    }
+}
+
+/// `3 < x` is `x > 3`.
+fn flipped(op: CompareOp) -> CompareOp {
+    match op {
+        CompareOp::AtMost => CompareOp::AtLeast,
+        CompareOp::Below => CompareOp::Above,
+        CompareOp::AtLeast => CompareOp::AtMost,
+        CompareOp::Above => CompareOp::Below,
+        other => other,
+    }
+}
+
+/// A span with the label to show it under, if not the default.
+type Labelled = (Span, Option<&'static str>);
+
+/// The first two bounds on one subject that cannot hold together (the same span twice when a
+/// single test is empty by itself).
+fn first_conflict(bounds: &[Bound]) -> Option<(Labelled, Labelled)> {
+    let mut allowed = Interval::default();
+    let mut text: Option<(&str, Labelled)> = None;
+    let mut seen: Vec<Labelled> = Vec::new();
+    for b in bounds {
+        if let Some(i) = b.interval {
+            let narrowed = allowed.intersect(i);
+            if narrowed.is_empty() {
+                let other = seen.iter().rev().copied().find(|(s, _)| {
+                    bounds.iter().any(|o| {
+                        o.span.start == s.start
+                            && o.interval.is_some_and(|oi| oi.intersect(i).is_empty())
+                    })
+                });
+                return Some((other.unwrap_or((b.span, b.label)), (b.span, b.label)));
+            }
+            allowed = narrowed;
+        }
+        if let Some(t) = &b.text {
+            match text {
+                Some((first, at)) if first != t => return Some((at, (b.span, b.label))),
+                _ => text = Some((t, (b.span, b.label))),
+            }
+        }
+        seen.push((b.span, b.label));
+    }
+    None
+}

@@ -1,0 +1,352 @@
+//! Classes: `extends` resolved (unknown and cyclic parents reported), and each class's rules
+//! flattened through inheritance, `override`, `drop`, `when` groups and bulletins.
+
+use super::Checker;
+use super::model::{ClassRule, Origin};
+use crate::diagnostic::Problem;
+use crate::parse::ast::{ClassItem, Condition, Date};
+use crate::suggest::closest;
+
+/// A class's rules as they stand from one date on.
+pub(super) struct ClassState {
+    /// The class.
+    pub class: String,
+    /// From when: the edition's date or a bulletin's.
+    pub from: Option<Date>,
+    /// The rules in force.
+    pub rules: Vec<ClassRule>,
+}
+
+/// Where a body being applied comes from.
+#[derive(Clone)]
+struct Source {
+    origin: Origin,
+    /// The class the body belongs to (for a bulletin, the class it amends).
+    class: String,
+}
+
+impl<'a> Checker<'a> {
+    /// Reports unknown and cyclic `extends`, and bulletins that amend no class or are dated
+    /// before the edition; remembers the classes whose ancestry is sound.
+    pub(super) fn check_class_graph(&mut self) {
+        for name in self.class_order.clone() {
+            if self.ancestry_is_sound(name) {
+                self.sound_classes.insert(name);
+            }
+        }
+        for bulletin in self.bulletins.clone() {
+            if !self.classes.contains_key(bulletin.amends.text.as_str()) {
+                let help = match closest(&bulletin.amends.text, self.classes.keys().copied()) {
+                    Some(near) => format!("did you mean `{near}`?"),
+                    None => "name a class defined in this rulebook".to_string(),
+                };
+                self.error(
+                    Problem::error(
+                        "gonogo::check::unknown-class",
+                        format!(
+                            "bulletin `{}` amends `{}`, which is not a class of this rulebook",
+                            bulletin.id.value, bulletin.amends.text
+                        ),
+                        bulletin.amends.span,
+                        "unknown class",
+                    )
+                    .with_help(help),
+                );
+            }
+            if let Some(edition) = self.edition
+                && bulletin.effective.date < edition.effective.date
+            {
+                self.error(
+                    Problem::error(
+                        "gonogo::check::bulletin-before-edition",
+                        format!(
+                            "bulletin `{}` takes effect on {}, before the edition it amends ({})",
+                            bulletin.id.value, bulletin.effective.date, edition.effective.date
+                        ),
+                        bulletin.effective.span,
+                        "too early",
+                    )
+                    .with_label(edition.effective.span, "edition takes effect")
+                    .with_help("a bulletin amends an edition already in force; correct the date"),
+                );
+            }
+            if bulletin.body.is_empty() {
+                self.error(
+                    Problem::warning(
+                        "gonogo::check::empty-bulletin",
+                        format!("bulletin `{}` changes nothing", bulletin.id.value),
+                        bulletin.id.span,
+                        "no rules",
+                    )
+                    .with_help("add the rules it changes, or remove it"),
+                );
+            }
+        }
+    }
+
+    fn ancestry_is_sound(&mut self, name: &'a str) -> bool {
+        let mut chain = vec![name];
+        let mut current = name;
+        while let Some(parent) = self.classes.get(current).and_then(|c| c.extends.as_ref()) {
+            if !self.classes.contains_key(parent.text.as_str()) {
+                let help = match closest(&parent.text, self.classes.keys().copied()) {
+                    Some(near) => format!("did you mean `{near}`?"),
+                    None => "name a class defined in this rulebook".to_string(),
+                };
+                if current == name {
+                    self.error(
+                        Problem::error(
+                            "gonogo::check::unknown-class",
+                            format!("class `{current}` extends `{}`, which is not a class of this rulebook", parent.text),
+                            parent.span,
+                            "unknown class",
+                        )
+                        .with_help(help),
+                    );
+                }
+                return false;
+            }
+            if chain.contains(&parent.text.as_str()) {
+                if current == name || chain.first() == Some(&parent.text.as_str()) {
+                    let loop_text = chain
+                        .iter()
+                        .chain([&parent.text.as_str()])
+                        .copied()
+                        .collect::<Vec<_>>()
+                        .join("` → `");
+                    self.error(
+                        Problem::error(
+                            "gonogo::check::extends-cycle",
+                            format!("classes extend each other in a loop: `{loop_text}`"),
+                            parent.span,
+                            "closes the loop",
+                        )
+                        .with_help(
+                            "one class of the loop must stand on its own; remove its `extends`",
+                        ),
+                    );
+                }
+                return false;
+            }
+            current = self
+                .classes
+                .get_key_value(parent.text.as_str())
+                .map(|(k, _)| *k)
+                .unwrap_or(current);
+            chain.push(current);
+        }
+        true
+    }
+
+    /// Every sound class flattened at the edition's date and at each later bulletin's date.
+    pub(super) fn flatten_all(&mut self) -> Vec<ClassState> {
+        let edition_date = self.edition.map(|e| e.effective.date);
+        let mut states = Vec::new();
+        for name in self.class_order.clone() {
+            if !self.sound_classes.contains(name) {
+                continue;
+            }
+            let mut dates = vec![edition_date];
+            for b in &self.bulletins {
+                if self.is_ancestor_or_self(b.amends.text.as_str(), name)
+                    && Some(b.effective.date) > edition_date
+                {
+                    dates.push(Some(b.effective.date));
+                }
+            }
+            dates.sort();
+            dates.dedup();
+            for from in dates {
+                let rules = self.flatten(name, from);
+                states.push(ClassState {
+                    class: name.to_string(),
+                    from,
+                    rules,
+                });
+            }
+        }
+        states
+    }
+
+    fn is_ancestor_or_self(&self, ancestor: &str, class: &str) -> bool {
+        let mut current = Some(class);
+        let mut steps = 0;
+        while let Some(c) = current {
+            if c == ancestor {
+                return true;
+            }
+            steps += 1;
+            if steps > self.classes.len() {
+                return false;
+            }
+            current = self
+                .classes
+                .get(c)
+                .and_then(|k| k.extends.as_ref())
+                .map(|n| n.text.as_str());
+        }
+        false
+    }
+
+    /// The rules of `name` in force from `date` (the edition's date when `None`).
+    fn flatten(&mut self, name: &'a str, date: Option<Date>) -> Vec<ClassRule> {
+        let Some(class) = self.classes.get(name).copied() else {
+            return Vec::new();
+        };
+        let mut rules = match class.extends.as_ref() {
+            Some(parent) => match self.classes.get_key_value(parent.text.as_str()) {
+                Some((key, _)) => {
+                    let key = *key;
+                    self.flatten(key, date)
+                }
+                None => Vec::new(),
+            },
+            None => Vec::new(),
+        };
+        let own = Source {
+            origin: Origin::Class(name.to_string()),
+            class: name.to_string(),
+        };
+        self.apply_body(&mut rules, &class.body, &mut Vec::new(), &own);
+        let mut bulletins: Vec<_> = self
+            .bulletins
+            .iter()
+            .filter(|b| b.amends.text == name && date.is_some_and(|d| b.effective.date <= d))
+            .copied()
+            .collect();
+        bulletins.sort_by_key(|b| b.effective.date);
+        for b in bulletins {
+            let source = Source {
+                origin: Origin::Bulletin(b.id.value.clone()),
+                class: name.to_string(),
+            };
+            self.apply_body(&mut rules, &b.body, &mut Vec::new(), &source);
+        }
+        rules
+    }
+
+    fn apply_body(
+        &mut self,
+        rules: &mut Vec<ClassRule>,
+        body: &'a [ClassItem],
+        conditions: &mut Vec<Condition>,
+        source: &Source,
+    ) {
+        for item in body {
+            match item {
+                ClassItem::Rule(rule) => {
+                    let mut all = conditions.clone();
+                    all.extend(rule.condition.clone());
+                    let entry = ClassRule {
+                        rule: rule.clone(),
+                        conditions: all,
+                        origin: source.origin.clone(),
+                    };
+                    let existing = rules
+                        .iter()
+                        .position(|r| r.rule.section.text == rule.section.text);
+                    match (rule.overrides, existing) {
+                        (false, None) | (true, Some(_)) => place(rules, existing, entry),
+                        (false, Some(i)) => self.report_duplicate(&rules[i], rule, source),
+                        (true, None) => self.report_nothing_to_override(rule, source),
+                    }
+                }
+                ClassItem::When(group) => {
+                    conditions.push(group.condition.clone());
+                    self.apply_body(rules, &group.body, conditions, source);
+                    conditions.pop();
+                }
+                ClassItem::Drop(section) => {
+                    if !conditions.is_empty() {
+                        self.error(
+                            Problem::error(
+                                "gonogo::check::conditional-drop",
+                                format!("`drop {}` cannot sit inside a `when` group", section.text),
+                                section.span,
+                                "inside `when`",
+                            )
+                            .with_help("to make a rule conditional, `override` it with a `when` line instead"),
+                        );
+                    } else if let Some(i) = rules
+                        .iter()
+                        .position(|r| r.rule.section.text == section.text)
+                    {
+                        rules.remove(i);
+                    } else {
+                        self.error(
+                            Problem::error(
+                                "gonogo::check::nothing-to-drop",
+                                format!("`{}` has no rule {} to drop", source.class, section.text),
+                                section.span,
+                                "no such rule",
+                            )
+                            .with_help("check the section number against the class it extends"),
+                        );
+                    }
+                }
+            }
+        }
+    }
+
+    fn report_duplicate(
+        &mut self,
+        existing: &ClassRule,
+        rule: &crate::parse::ast::Rule,
+        source: &Source,
+    ) {
+        let first = existing.rule.section.span;
+        let problem = if existing.origin == source.origin {
+            Problem::error(
+                "gonogo::check::duplicate-section",
+                format!(
+                    "section {} appears twice in `{}`",
+                    rule.section.text, source.class
+                ),
+                rule.section.span,
+                "second rule with this number",
+            )
+            .with_label(first, "first rule with this number")
+            .with_help("give each rule its own section number")
+        } else {
+            let from = match &existing.origin {
+                Origin::Class(c) => format!("class `{c}`"),
+                Origin::Bulletin(b) => format!("bulletin `{b}`"),
+            };
+            Problem::error(
+                "gonogo::check::duplicate-section",
+                format!("section {} already comes from {from}", rule.section.text),
+                rule.section.span,
+                "same section number",
+            )
+            .with_label(first, "the rule it would clash with")
+            .with_help(format!(
+                "write `override rule {}` to replace it, or use a new section number",
+                rule.section.text
+            ))
+        };
+        self.error(problem);
+    }
+
+    fn report_nothing_to_override(&mut self, rule: &crate::parse::ast::Rule, source: &Source) {
+        self.error(
+            Problem::error(
+                "gonogo::check::nothing-to-override",
+                format!(
+                    "`{}` has no rule {} to override",
+                    source.class, rule.section.text
+                ),
+                rule.section.span,
+                "no such rule",
+            )
+            .with_help("remove `override` to add a new rule, or check the section number"),
+        );
+    }
+}
+
+/// Replaces the rule at `at`, or appends a new one.
+fn place(rules: &mut Vec<ClassRule>, at: Option<usize>, entry: ClassRule) {
+    match at {
+        Some(i) => rules[i] = entry,
+        None => rules.push(entry),
+    }
+}

@@ -1,0 +1,183 @@
+//! The checked rulebook: what the static checks hand on to evaluation. Names are resolved,
+//! every measurement has its dimension, patterns are compiled, and each class's rules are
+//! flattened through `extends`, `override`, `drop` and bulletins.
+
+use regex::Regex;
+
+use crate::parse::ast::{self, Condition, DecisionRule, Expr, ListKind, Rule};
+use crate::source::Span;
+use crate::units::Dimension;
+
+/// What a quantity holds.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum ValueKind {
+    /// A number of this dimension.
+    Number(Dimension),
+    /// An identifier or other text.
+    Text,
+}
+
+impl std::fmt::Display for ValueKind {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        match self {
+            ValueKind::Number(d) => d.fmt(f),
+            ValueKind::Text => f.write_str("text"),
+        }
+    }
+}
+
+/// The type of an expression: what it holds and whether it has one value per cylinder.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub struct Type {
+    /// Number or text.
+    pub kind: ValueKind,
+    /// One value per cylinder.
+    pub per_cylinder: bool,
+}
+
+/// One measurement of the schema.
+#[derive(Clone, Debug)]
+pub struct Measurement {
+    /// Its name in declarations.
+    pub name: String,
+    /// The dimension word as written (`count` and `ratio` differ only in wording).
+    pub dimension_word: String,
+    /// What it holds.
+    pub kind: ValueKind,
+    /// One value per cylinder.
+    pub per_cylinder: bool,
+    /// A declaration must supply it.
+    pub required: bool,
+    /// The plausible range, in SI units.
+    pub range: Option<(f64, f64)>,
+    /// The procedure text.
+    pub procedure: Option<String>,
+    /// Where it is declared.
+    pub span: Span,
+}
+
+/// One derived value.
+#[derive(Clone, Debug)]
+pub struct Derived {
+    /// Its name.
+    pub name: String,
+    /// Its expression.
+    pub expr: Expr,
+    /// Its type.
+    pub ty: Type,
+    /// Where it is defined.
+    pub span: Span,
+}
+
+/// One entry of a parts list, ready to match.
+#[derive(Clone, Debug)]
+pub enum PartEntry {
+    /// An exact identifier.
+    Exact(String),
+    /// A compiled pattern, with its source text.
+    Pattern(Regex, String),
+}
+
+/// A parts list with compiled patterns.
+#[derive(Clone, Debug)]
+pub struct PartsList {
+    /// Its name.
+    pub name: String,
+    /// Approved or banned.
+    pub kind: ListKind,
+    /// Its title.
+    pub title: Option<String>,
+    /// Its entries.
+    pub entries: Vec<PartEntry>,
+    /// Where it is defined.
+    pub span: Span,
+}
+
+impl PartsList {
+    /// Whether an identifier is on the list.
+    pub fn contains(&self, id: &str) -> bool {
+        self.entries.iter().any(|e| match e {
+            PartEntry::Exact(s) => s == id,
+            PartEntry::Pattern(re, _) => re.is_match(id),
+        })
+    }
+}
+
+/// Where a rule of a flattened class comes from.
+#[derive(Clone, Debug, PartialEq)]
+pub enum Origin {
+    /// Written in this class or one it extends (the class named).
+    Class(String),
+    /// Added or replaced by a bulletin (its id).
+    Bulletin(String),
+}
+
+/// A rule as it stands in a class: the rule and every condition it sits under.
+#[derive(Clone, Debug)]
+pub struct ClassRule {
+    /// The rule as written.
+    pub rule: Rule,
+    /// The conditions of enclosing `when` groups, outermost first, then the rule's own.
+    pub conditions: Vec<Condition>,
+    /// Where it was written.
+    pub origin: Origin,
+}
+
+/// A class with its rules flattened at the edition's effective date.
+#[derive(Clone, Debug)]
+pub struct Class {
+    /// Its name.
+    pub name: String,
+    /// Its title.
+    pub title: Option<String>,
+    /// The class it extends.
+    pub extends: Option<String>,
+    /// Its rules in force at the edition's effective date, in rulebook order.
+    pub rules: Vec<ClassRule>,
+    /// Where it is defined.
+    pub span: Span,
+}
+
+/// A bulletin, kept as written.
+#[derive(Clone, Debug)]
+pub struct Bulletin {
+    /// Its id.
+    pub id: String,
+    /// The bulletin as written.
+    pub source: ast::Bulletin,
+}
+
+/// A rulebook that passed the static checks.
+#[derive(Clone, Debug)]
+pub struct CheckedRulebook {
+    /// The series.
+    pub series: String,
+    /// The edition's name.
+    pub edition: String,
+    /// The edition's effective date.
+    pub effective: ast::Date,
+    /// The default decision rule.
+    pub decision: DecisionRule,
+    /// The measurement schema, in the order written.
+    pub measurements: Vec<Measurement>,
+    /// Derived values, in the order written.
+    pub derived: Vec<Derived>,
+    /// Parts lists.
+    pub lists: Vec<PartsList>,
+    /// Classes, flattened.
+    pub classes: Vec<Class>,
+    /// Bulletins in order of their effective date.
+    pub bulletins: Vec<Bulletin>,
+}
+
+impl CheckedRulebook {
+    /// The class with this name.
+    pub fn class(&self, name: &str) -> Option<&Class> {
+        self.classes.iter().find(|c| c.name == name)
+    }
+
+    /// The measurement with this name.
+    pub fn measurement(&self, name: &str) -> Option<&Measurement> {
+        self.measurements.iter().find(|m| m.name == name)
+    }
+}

@@ -1,0 +1,99 @@
+//! Parts lists and patterns: every regular expression compiled once, under a size limit, with
+//! a diagnostic for one that does not compile or is too large.
+
+use regex::RegexBuilder;
+
+use super::Checker;
+use super::model::{PartEntry, PartsList};
+use crate::diagnostic::Problem;
+use crate::parse::ast::{ListEntry, Pattern};
+
+/// Largest compiled program a pattern may have, in bytes.
+pub const PATTERN_SIZE_LIMIT: usize = 256 * 1024;
+
+impl<'a> Checker<'a> {
+    /// Compiles every parts list.
+    pub(super) fn compile_lists(&mut self) {
+        let lists: Vec<_> = self.lists.iter().map(|(k, v)| (*k, *v)).collect();
+        for (name, list) in lists {
+            let mut entries = Vec::new();
+            let mut seen: Vec<&str> = Vec::new();
+            for entry in &list.entries {
+                match entry {
+                    ListEntry::Exact(text) => {
+                        if seen.contains(&text.value.as_str()) {
+                            self.error(
+                                Problem::warning(
+                                    "gonogo::check::duplicate-entry",
+                                    format!("`{}` is listed twice in `{name}`", text.value),
+                                    text.span,
+                                    "listed again",
+                                )
+                                .with_help("remove the second entry"),
+                            );
+                        }
+                        seen.push(&text.value);
+                        entries.push(PartEntry::Exact(text.value.clone()));
+                    }
+                    ListEntry::Pattern(p) => {
+                        if let Some(re) = self.compile_pattern(p) {
+                            entries.push(PartEntry::Pattern(re, p.source.clone()));
+                        }
+                    }
+                }
+            }
+            self.compiled_lists.insert(
+                name,
+                PartsList {
+                    name: name.to_string(),
+                    kind: list.kind,
+                    title: list.title.as_ref().map(|t| t.value.clone()),
+                    entries,
+                    span: list.name.span,
+                },
+            );
+        }
+    }
+
+    /// Compiles one pattern, anchored as written, reporting why it cannot be.
+    pub(super) fn compile_pattern(&mut self, pattern: &Pattern) -> Option<regex::Regex> {
+        let built = RegexBuilder::new(&pattern.source)
+            .case_insensitive(pattern.ignore_case)
+            .size_limit(PATTERN_SIZE_LIMIT)
+            .build();
+        match built {
+            Ok(re) => Some(re),
+            Err(regex::Error::CompiledTooBig(limit)) => {
+                self.error(
+                    Problem::error(
+                        "gonogo::check::pattern-too-large",
+                        format!("this pattern compiles to more than {limit} bytes"),
+                        pattern.span,
+                        "too large",
+                    )
+                    .with_help("a casting-number family is a short pattern; list long families as several smaller patterns"),
+                );
+                None
+            }
+            Err(e) => {
+                let detail = e.to_string();
+                let last = detail
+                    .lines()
+                    .last()
+                    .unwrap_or("")
+                    .trim()
+                    .trim_start_matches("error: ");
+                self.error(
+                    Problem::error(
+                        "gonogo::check::bad-pattern",
+                        format!("this pattern does not compile: {last}"),
+                        pattern.span,
+                        "bad pattern",
+                    )
+                    .with_help("check the brackets and escapes; write `\\/` for a slash"),
+                );
+                None
+            }
+        }
+    }
+}

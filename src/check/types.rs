@@ -1,0 +1,926 @@
+//! Typing: every name, unit and function resolved, and every expression, comparison and
+//! argument checked for dimension and for per-cylinder shape.
+
+use super::Checker;
+use super::builtins::{self, Formula, Function, Generic, Shape};
+use super::model::{Measurement, Type, ValueKind};
+use crate::diagnostic::Problem;
+use crate::parse::ast::{
+    Arg, BinaryOp, ClassItem, CompareOp, Condition, Expr, ExprKind, Measure, Quantity, Test,
+    TestKind, UnitRef,
+};
+use crate::source::Span;
+use crate::suggest::closest;
+use crate::units::{self, DIMENSION_NAMES, Dimension, dimension_named};
+
+/// Whether a test is a rule's limit or part of a condition.
+#[derive(Clone, Copy, PartialEq, Eq)]
+pub(super) enum Place {
+    Require,
+    Condition,
+}
+
+fn number(dimension: Dimension, per_cylinder: bool) -> Type {
+    Type {
+        kind: ValueKind::Number(dimension),
+        per_cylinder,
+    }
+}
+
+impl<'a> Checker<'a> {
+    /// Resolves each measurement's dimension word and range.
+    pub(super) fn resolve_measurements(&mut self) {
+        let order = self.measure_order.clone();
+        for name in order {
+            let Some(m) = self.measures.get(name).copied() else {
+                continue;
+            };
+            if let Some(kind) = self.measure_kind(m) {
+                let range = self.measure_range(m, kind);
+                self.measurements.insert(
+                    name,
+                    Measurement {
+                        name: m.name.text.clone(),
+                        dimension_word: m.dimension.text.clone(),
+                        kind,
+                        per_cylinder: m.per_cylinder,
+                        required: m.required,
+                        range,
+                        procedure: m.procedure.as_ref().map(|p| p.value.clone()),
+                        span: m.name.span,
+                    },
+                );
+            }
+        }
+    }
+
+    fn measure_kind(&mut self, m: &Measure) -> Option<ValueKind> {
+        let word = m.dimension.text.as_str();
+        if word == "text" {
+            return Some(ValueKind::Text);
+        }
+        if let Some(d) = dimension_named(word) {
+            return Some(ValueKind::Number(d));
+        }
+        let names = DIMENSION_NAMES.iter().map(|(n, _)| *n).chain(["text"]);
+        let help = match closest(word, names) {
+            Some(near) => format!("did you mean `{near}`?"),
+            None => {
+                "use one of length, area, volume, mass, time, force, pressure, airflow, angle, \
+                     speed, power, count, ratio, number or text"
+                    .to_string()
+            }
+        };
+        self.error(
+            Problem::error(
+                "gonogo::check::unknown-dimension",
+                format!("`{word}` is not a dimension gonogo knows"),
+                m.dimension.span,
+                "unknown dimension",
+            )
+            .with_help(help),
+        );
+        None
+    }
+
+    fn measure_range(&mut self, m: &Measure, kind: ValueKind) -> Option<(f64, f64)> {
+        let (low, high) = m.range.as_ref()?;
+        let ValueKind::Number(dim) = kind else {
+            self.error(
+                Problem::error(
+                    "gonogo::check::range-on-text",
+                    format!("`{}` is text and cannot have a range", m.name.text),
+                    low.span.to(high.span),
+                    "range",
+                )
+                .with_help("remove the range, or give the measurement a numeric dimension"),
+            );
+            return None;
+        };
+        for end in [low, high] {
+            if let Some(t) = self.type_of(end) {
+                self.expect_dimension(t, dim, end.span, "a range limit");
+            }
+        }
+        let (lo, hi) = (self.constant(low)?, self.constant(high)?);
+        if lo >= hi {
+            self.error(
+                Problem::error(
+                    "gonogo::check::empty-range",
+                    format!(
+                        "the range of `{}` is empty: its low end is not below its high end",
+                        m.name.text
+                    ),
+                    low.span.to(high.span),
+                    "low end first, then high end",
+                )
+                .with_help("write the range low to high, like `range 3.9 in to 4.2 in`"),
+            );
+            return None;
+        }
+        Some((lo, hi))
+    }
+
+    /// Types every derived value, in the order written.
+    pub(super) fn type_defines(&mut self) {
+        for name in self.define_order.clone() {
+            self.define_type(name, Span::default());
+        }
+    }
+
+    fn define_type(&mut self, name: &'a str, used_at: Span) -> Option<Type> {
+        if let Some(ty) = self.define_types.get(name) {
+            return *ty;
+        }
+        let define = *self.defines.get(name)?;
+        if self.typing.contains(&name) {
+            self.error(
+                Problem::error(
+                    "gonogo::check::define-cycle",
+                    format!("`{name}` is defined in terms of itself"),
+                    used_at,
+                    "used here",
+                )
+                .with_label(define.name.span, "defined here")
+                .with_help("a derived value cannot depend on itself, directly or through others; break the loop"),
+            );
+            self.define_types.insert(name, None);
+            return None;
+        }
+        self.typing.push(name);
+        let ty = self.type_of(&define.expr);
+        self.typing.pop();
+        self.define_types.entry(name).or_insert(ty);
+        self.define_types.get(name).copied().flatten()
+    }
+
+    /// The type of an expression, or `None` after reporting why it has none.
+    pub(super) fn type_of(&mut self, expr: &Expr) -> Option<Type> {
+        match &expr.kind {
+            ExprKind::Quantity(q) => self.quantity_type(q, expr.span).map(|d| number(d, false)),
+            ExprKind::Text(_) => Some(Type {
+                kind: ValueKind::Text,
+                per_cylinder: false,
+            }),
+            ExprKind::Name(n) => self.name_type(&n.text, n.span),
+            ExprKind::Call { function, args } => {
+                self.call_type(&function.text, function.span, args, expr.span)
+            }
+            ExprKind::Negate(inner) => {
+                let t = self.type_of(inner)?;
+                self.expect_number(t, inner.span, "`-`")?;
+                Some(t)
+            }
+            ExprKind::Binary { op, left, right } => self.binary_type(*op, left, right),
+        }
+    }
+
+    fn quantity_type(&mut self, q: &Quantity, span: Span) -> Option<Dimension> {
+        let value_unit = match &q.unit {
+            Some(u) => Some(self.unit(u)?),
+            None => None,
+        };
+        let Some(u) = &q.uncertainty else {
+            return Some(value_unit.unwrap_or(Dimension::NONE));
+        };
+        let u_unit = match &u.unit {
+            Some(unit) => Some((self.unit(unit)?, unit.span)),
+            None => None,
+        };
+        if let (Some(v), Some((w, span))) = (value_unit, u_unit)
+            && v != w
+        {
+            self.error(
+                Problem::error(
+                    "gonogo::check::uncertainty-dimension",
+                    format!("the uncertainty is a {w}, but the value is a {v}"),
+                    span,
+                    "uncertainty unit",
+                )
+                .with_help("write the uncertainty in a unit of the same dimension as the value"),
+            );
+            return None;
+        }
+        if let Some(k) = &u.coverage
+            && k.value <= 0.0
+        {
+            self.error(
+                Problem::error(
+                    "gonogo::check::bad-coverage",
+                    "the coverage factor must be above zero",
+                    span,
+                    "coverage factor",
+                )
+                .with_help("write `(k = 2)` for about 95 % coverage"),
+            );
+        }
+        Some(
+            value_unit
+                .or(u_unit.map(|(d, _)| d))
+                .unwrap_or(Dimension::NONE),
+        )
+    }
+
+    fn unit(&mut self, unit: &UnitRef) -> Option<Dimension> {
+        if let Some(u) = units::lookup(&unit.symbol) {
+            return Some(u.dimension);
+        }
+        let help = match units::closest_unit(&unit.symbol) {
+            Some(near) => {
+                format!("did you mean `{near}`? The units gonogo knows are listed in README.md")
+            }
+            None => {
+                "use a unit gonogo knows, such as `in`, `mm`, `ci`, `cc`, `lb`, `cfm` or `inHg` \
+                     (README.md lists them all)"
+                    .to_string()
+            }
+        };
+        self.error(
+            Problem::error(
+                "gonogo::check::unknown-unit",
+                format!("`{}` is not a unit gonogo knows", unit.symbol),
+                unit.span,
+                "unknown unit",
+            )
+            .with_help(help),
+        );
+        None
+    }
+
+    fn name_type(&mut self, name: &str, span: Span) -> Option<Type> {
+        if name == "pi" {
+            return Some(number(Dimension::NONE, false));
+        }
+        if let Some(m) = self.measurements.get(name) {
+            self.used.insert(name.to_string());
+            return Some(Type {
+                kind: m.kind,
+                per_cylinder: m.per_cylinder,
+            });
+        }
+        if self.measures.contains_key(name) {
+            self.used.insert(name.to_string());
+            return None; // its dimension is unknown, already reported
+        }
+        if let Some((key, _)) = self.defines.get_key_value(name) {
+            self.used.insert(name.to_string());
+            let key = *key;
+            return self.define_type(key, span);
+        }
+        let candidates: Vec<&str> = self
+            .measures
+            .keys()
+            .chain(self.defines.keys())
+            .copied()
+            .collect();
+        let help = match closest(name, candidates) {
+            Some(near) => format!("did you mean `{near}`?"),
+            None => format!("declare it with `measure {name}: ...` or `define {name} = ...`"),
+        };
+        self.error(
+            Problem::error(
+                "gonogo::check::unknown-name",
+                format!("`{name}` is not a measurement or derived value of this rulebook"),
+                span,
+                "unknown name",
+            )
+            .with_help(help),
+        );
+        None
+    }
+
+    fn binary_type(&mut self, op: BinaryOp, left: &Expr, right: &Expr) -> Option<Type> {
+        let (lt, rt) = (self.type_of(left), self.type_of(right));
+        let (lt, rt) = (lt?, rt?);
+        let what = match op {
+            BinaryOp::Add => "`+`",
+            BinaryOp::Subtract => "`-`",
+            BinaryOp::Multiply => "`*`",
+            BinaryOp::Divide => "`/`",
+            BinaryOp::Power => "`^`",
+        };
+        let ld = self.expect_number(lt, left.span, what)?;
+        let rd = self.expect_number(rt, right.span, what)?;
+        let per_cylinder = lt.per_cylinder || rt.per_cylinder;
+        let dim = match op {
+            BinaryOp::Add | BinaryOp::Subtract => {
+                if ld != rd {
+                    self.mismatch(
+                        "gonogo::check::dimension-mismatch",
+                        format!(
+                            "cannot {} a {rd} and a {ld}",
+                            if op == BinaryOp::Add {
+                                "add"
+                            } else {
+                                "subtract"
+                            }
+                        ),
+                        (left, ld),
+                        (right, rd),
+                    );
+                    return None;
+                }
+                ld
+            }
+            BinaryOp::Multiply => ld.times(rd),
+            BinaryOp::Divide => ld.divided_by(rd),
+            BinaryOp::Power => self.power_dimension(ld, right, rd)?,
+        };
+        Some(number(dim, per_cylinder))
+    }
+
+    fn power_dimension(
+        &mut self,
+        base: Dimension,
+        exponent: &Expr,
+        exp_dim: Dimension,
+    ) -> Option<Dimension> {
+        if base.is_dimensionless() && exp_dim.is_dimensionless() {
+            return Some(Dimension::NONE);
+        }
+        match self.constant(exponent) {
+            Some(e) if exp_dim.is_dimensionless() && e.fract() == 0.0 && e.abs() <= 6.0 => {
+                Some(base.power(e as i8))
+            }
+            _ => {
+                self.error(
+                    Problem::error(
+                        "gonogo::check::bad-exponent",
+                        format!("a {base} can only be raised to a whole number from -6 to 6"),
+                        exponent.span,
+                        "exponent",
+                    )
+                    .with_help("write the exponent as a plain whole number, like `bore^2`; use `sqrt(...)` for roots"),
+                );
+                None
+            }
+        }
+    }
+
+    fn call_type(&mut self, name: &str, span: Span, args: &[Arg], whole: Span) -> Option<Type> {
+        let Some(function) = builtins::function(name) else {
+            let help = match closest(name, builtins::function_names()) {
+                Some(near) => format!("did you mean `{near}`?"),
+                None => "the built-in functions are listed in grammar/rulebook.ebnf".to_string(),
+            };
+            self.error(
+                Problem::error(
+                    "gonogo::check::unknown-function",
+                    format!("`{name}` is not a built-in function"),
+                    span,
+                    "unknown function",
+                )
+                .with_help(help),
+            );
+            for arg in args {
+                self.type_of(&arg.value);
+            }
+            return None;
+        };
+        match function {
+            Function::Formula(f) => self.formula_type(f, args, whole),
+            Function::Generic(g) => self.generic_type(name, g, args, whole),
+        }
+    }
+
+    fn formula_type(&mut self, formula: &Formula, args: &[Arg], whole: Span) -> Option<Type> {
+        let slots = self.bind_arguments(formula, args, whole)?;
+        let mut per_cylinder = false;
+        let mut ok = true;
+        for (param, arg) in formula.params.iter().zip(slots) {
+            let Some(t) = self.type_of(&arg.value) else {
+                ok = false;
+                continue;
+            };
+            let Some(d) = self.expect_number(t, arg.value.span, formula.name) else {
+                ok = false;
+                continue;
+            };
+            if d != param.dimension {
+                self.error(
+                    Problem::error(
+                        "gonogo::check::argument-dimension",
+                        format!(
+                            "`{}` of `{}` must be a {}, but this is a {d}",
+                            param.name, formula.name, param.dimension
+                        ),
+                        arg.value.span,
+                        &format!("a {d}"),
+                    )
+                    .with_help(format!("pass a {} here", param.dimension)),
+                );
+                ok = false;
+            }
+            if t.per_cylinder && param.shape == Shape::Single {
+                self.error(
+                    Problem::error(
+                        "gonogo::check::needs-single-value",
+                        format!(
+                            "`{}` of `{}` takes one value for the engine, not one per cylinder",
+                            param.name, formula.name
+                        ),
+                        arg.value.span,
+                        "one value per cylinder",
+                    )
+                    .with_help("reduce it to one value with `max(...)`, `min(...)` or `mean(...)`"),
+                );
+                ok = false;
+            }
+            per_cylinder |= t.per_cylinder;
+        }
+        ok.then(|| number(formula.result, per_cylinder))
+    }
+
+    /// Puts each argument in its parameter's slot: positional first, then by label.
+    fn bind_arguments<'b>(
+        &mut self,
+        formula: &Formula,
+        args: &'b [Arg],
+        whole: Span,
+    ) -> Option<Vec<&'b Arg>> {
+        let mut slots: Vec<Option<&Arg>> = vec![None; formula.params.len()];
+        let mut ok = true;
+        for (i, arg) in args.iter().enumerate() {
+            let index = match &arg.label {
+                None => i,
+                Some(label) => match formula.params.iter().position(|p| p.name == label.text) {
+                    Some(index) => index,
+                    None => {
+                        let names = formula.params.iter().map(|p| p.name);
+                        let help = match closest(&label.text, names) {
+                            Some(near) => format!("did you mean `{near}`?"),
+                            None => format!("`{}` takes {}", formula.name, param_list(formula)),
+                        };
+                        self.error(
+                            Problem::error(
+                                "gonogo::check::unknown-argument",
+                                format!("`{}` has no parameter `{}`", formula.name, label.text),
+                                label.span,
+                                "unknown parameter",
+                            )
+                            .with_help(help),
+                        );
+                        ok = false;
+                        continue;
+                    }
+                },
+            };
+            match slots.get_mut(index) {
+                Some(slot @ None) => *slot = Some(arg),
+                Some(Some(_)) => {
+                    self.error(
+                        Problem::error(
+                            "gonogo::check::argument-twice",
+                            format!("`{}` is given twice", formula.params[index].name),
+                            arg.value.span,
+                            "second value",
+                        )
+                        .with_help(format!(
+                            "`{}` takes {}",
+                            formula.name,
+                            param_list(formula)
+                        )),
+                    );
+                    ok = false;
+                }
+                None => {
+                    self.error(
+                        Problem::error(
+                            "gonogo::check::argument-count",
+                            format!(
+                                "`{}` takes {} arguments, not {}",
+                                formula.name,
+                                formula.params.len(),
+                                args.len()
+                            ),
+                            arg.value.span,
+                            "one too many",
+                        )
+                        .with_help(format!(
+                            "`{}` takes {}",
+                            formula.name,
+                            param_list(formula)
+                        )),
+                    );
+                    ok = false;
+                }
+            }
+        }
+        let missing: Vec<&str> = formula
+            .params
+            .iter()
+            .zip(&slots)
+            .filter(|(_, s)| s.is_none())
+            .map(|(p, _)| p.name)
+            .collect();
+        if ok && !missing.is_empty() {
+            self.error(
+                Problem::error(
+                    "gonogo::check::argument-missing",
+                    format!("`{}` is missing {}", formula.name, backticked(&missing)),
+                    whole,
+                    "incomplete call",
+                )
+                .with_help(format!(
+                    "`{}` takes {}",
+                    formula.name,
+                    param_list(formula)
+                )),
+            );
+            return None;
+        }
+        if !ok {
+            for arg in args {
+                self.type_of(&arg.value);
+            }
+            return None;
+        }
+        Some(slots.into_iter().flatten().collect())
+    }
+
+    fn generic_type(&mut self, name: &str, g: Generic, args: &[Arg], whole: Span) -> Option<Type> {
+        if let Some(label) = args.iter().find_map(|a| a.label.as_ref()) {
+            self.error(
+                Problem::error(
+                    "gonogo::check::unknown-argument",
+                    format!("`{name}` takes no labelled arguments"),
+                    label.span,
+                    "label",
+                )
+                .with_help(format!("write `{name}(value)` without a label")),
+            );
+            return None;
+        }
+        let types: Vec<Option<Type>> = args.iter().map(|a| self.type_of(&a.value)).collect();
+        let types: Vec<Type> = types.into_iter().collect::<Option<_>>()?;
+        let mut dims = Vec::new();
+        for (t, a) in types.iter().zip(args) {
+            dims.push(self.expect_number(*t, a.value.span, name)?);
+        }
+        let aggregate = matches!(g, Generic::Max | Generic::Min | Generic::Mean);
+        match (g, types.as_slice()) {
+            (_, [one]) if aggregate && one.per_cylinder => Some(number(dims[0], false)),
+            (Generic::Max | Generic::Min, [_, _, ..]) => {
+                if dims.iter().any(|d| *d != dims[0]) {
+                    self.error(
+                        Problem::error(
+                            "gonogo::check::dimension-mismatch",
+                            format!("the values of `{name}` must all have one dimension"),
+                            whole,
+                            "mixed dimensions",
+                        )
+                        .with_help("compare like with like, converting where needed"),
+                    );
+                    return None;
+                }
+                Some(number(dims[0], types.iter().any(|t| t.per_cylinder)))
+            }
+            (Generic::Abs, [one]) => Some(*one),
+            (Generic::Sqrt, [one]) => match dims[0].square_root() {
+                Some(root) => Some(number(root, one.per_cylinder)),
+                None => {
+                    self.error(
+                        Problem::error(
+                            "gonogo::check::bad-root",
+                            format!(
+                                "the square root of a {} has no dimension gonogo can name",
+                                dims[0]
+                            ),
+                            whole,
+                            "square root",
+                        )
+                        .with_help("take the square root of an area or a dimensionless ratio"),
+                    );
+                    None
+                }
+            },
+            _ => {
+                let expects = if aggregate {
+                    "one value measured per cylinder (or, for max and min, two or more values)"
+                } else {
+                    "exactly one value"
+                };
+                self.error(
+                    Problem::error(
+                        "gonogo::check::argument-count",
+                        format!("`{name}` takes {expects}"),
+                        whole,
+                        "here",
+                    )
+                    .with_help(format!(
+                        "write `{name}(bore)` with a per-cylinder measurement, for example"
+                    )),
+                );
+                None
+            }
+        }
+    }
+
+    /// The dimension of a numeric type, or an error that text cannot take part in `what`.
+    pub(super) fn expect_number(&mut self, t: Type, span: Span, what: &str) -> Option<Dimension> {
+        match t.kind {
+            ValueKind::Number(d) => Some(d),
+            ValueKind::Text => {
+                self.error(
+                    Problem::error(
+                        "gonogo::check::text-in-arithmetic",
+                        format!("text cannot be used in {what}"),
+                        span,
+                        "text",
+                    )
+                    .with_help("only numbers take part in arithmetic; compare text with `==`, `in` or `matches`"),
+                );
+                None
+            }
+        }
+    }
+
+    fn expect_dimension(&mut self, t: Type, want: Dimension, span: Span, what: &str) {
+        if let ValueKind::Number(d) = t.kind
+            && d == want
+        {
+            return;
+        }
+        self.error(
+            Problem::error(
+                "gonogo::check::dimension-mismatch",
+                format!("{what} must be a {want}, but this is a {}", t.kind),
+                span,
+                &format!("a {}", t.kind),
+            )
+            .with_help(unit_hint(want)),
+        );
+    }
+
+    fn mismatch(
+        &mut self,
+        code: &'static str,
+        message: String,
+        left: (&Expr, Dimension),
+        right: (&Expr, Dimension),
+    ) {
+        let bare_number = |e: &Expr| matches!(&e.kind, ExprKind::Quantity(q) if q.unit.is_none() && q.uncertainty.as_ref().is_none_or(|u| u.unit.is_none()));
+        let help = if bare_number(right.0) && right.1.is_dimensionless() {
+            format!("the number has no unit: {}", unit_hint(left.1))
+        } else if bare_number(left.0) && left.1.is_dimensionless() {
+            format!("the number has no unit: {}", unit_hint(right.1))
+        } else {
+            "both sides must have the same dimension; check the units and the quantities compared"
+                .to_string()
+        };
+        self.error(
+            Problem::error(code, message, right.0.span, &format!("a {}", right.1))
+                .with_label(left.0.span, format!("a {}", left.1))
+                .with_help(help),
+        );
+    }
+
+    /// Type-checks the rules of every class and bulletin, as written.
+    pub(super) fn check_rules(&mut self) {
+        let bodies: Vec<&'a [ClassItem]> = self
+            .classes
+            .values()
+            .map(|c| c.body.as_slice())
+            .chain(self.bulletins.iter().map(|b| b.body.as_slice()))
+            .collect();
+        for body in bodies {
+            self.check_body(body);
+        }
+    }
+
+    fn check_body(&mut self, body: &[ClassItem]) {
+        for item in body {
+            match item {
+                ClassItem::Rule(rule) => {
+                    if let Some(c) = &rule.condition {
+                        self.check_condition(c);
+                    }
+                    self.check_test(&rule.require, Place::Require);
+                }
+                ClassItem::When(group) => {
+                    self.check_condition(&group.condition);
+                    self.check_body(&group.body);
+                }
+                ClassItem::Drop(_) => {}
+            }
+        }
+    }
+
+    fn check_condition(&mut self, cond: &Condition) {
+        match cond {
+            Condition::Test(t) => self.check_test(t, Place::Condition),
+            Condition::And(a, b) | Condition::Or(a, b) => {
+                self.check_condition(a);
+                self.check_condition(b);
+            }
+            Condition::Not(inner, _) => self.check_condition(inner),
+        }
+    }
+
+    /// Checks one test: both sides typed and of one dimension, the list known, the pattern sound.
+    pub(super) fn check_test(&mut self, test: &Test, place: Place) {
+        match &test.kind {
+            TestKind::Compare {
+                left,
+                op,
+                right,
+                allowance,
+            } => {
+                let types = (self.type_of(left), self.type_of(right));
+                if let (Some(lt), Some(rt)) = types {
+                    self.check_comparison(left, *op, right, lt, rt, place);
+                    if let Some(a) = allowance {
+                        self.check_allowance(a, lt, Some(*op));
+                    }
+                }
+            }
+            TestKind::Between {
+                subject,
+                low,
+                high,
+                allowance,
+            } => {
+                let types = [self.type_of(subject), self.type_of(low), self.type_of(high)];
+                if let [Some(st), Some(lt), Some(ht)] = types {
+                    self.check_comparison(subject, CompareOp::AtLeast, low, st, lt, place);
+                    self.check_comparison(subject, CompareOp::AtMost, high, st, ht, place);
+                    if let Some(a) = allowance {
+                        self.check_allowance(a, st, None);
+                    }
+                }
+            }
+            TestKind::Member { subject, list, .. } => {
+                self.expect_text(subject, place);
+                if !self.lists.contains_key(list.text.as_str()) {
+                    let help = match closest(&list.text, self.lists.keys().copied()) {
+                        Some(near) => format!("did you mean `{near}`?"),
+                        None => format!("define it with `approved list {} ... end`", list.text),
+                    };
+                    self.error(
+                        Problem::error(
+                            "gonogo::check::unknown-list",
+                            format!("`{}` is not a parts list of this rulebook", list.text),
+                            list.span,
+                            "unknown list",
+                        )
+                        .with_help(help),
+                    );
+                }
+            }
+            TestKind::Matches {
+                subject, pattern, ..
+            } => {
+                self.expect_text(subject, place);
+                self.compile_pattern(pattern);
+            }
+        }
+    }
+
+    fn expect_text(&mut self, subject: &Expr, place: Place) {
+        let Some(t) = self.type_of(subject) else {
+            return;
+        };
+        if t.kind != ValueKind::Text {
+            self.error(
+                Problem::error(
+                    "gonogo::check::not-text",
+                    format!(
+                        "a {} cannot be looked up in a parts list or matched by a pattern",
+                        t.kind
+                    ),
+                    subject.span,
+                    &format!("a {}", t.kind),
+                )
+                .with_help("test a part or casting number, a measurement declared as `text`"),
+            );
+        }
+        self.check_shape(t, subject.span, place);
+    }
+
+    fn check_comparison(
+        &mut self,
+        left: &Expr,
+        op: CompareOp,
+        right: &Expr,
+        lt: Type,
+        rt: Type,
+        place: Place,
+    ) {
+        match (lt.kind, rt.kind) {
+            (ValueKind::Text, ValueKind::Text) => {
+                if !matches!(op, CompareOp::Equal | CompareOp::NotEqual) {
+                    self.error(
+                        Problem::error(
+                            "gonogo::check::text-order",
+                            format!("text cannot be compared with `{}`", op.symbol()),
+                            left.span.to(right.span),
+                            "text comparison",
+                        )
+                        .with_help(
+                            "compare text with `==` or `!=`, or test it with `in` or `matches`",
+                        ),
+                    );
+                }
+            }
+            (ValueKind::Number(ld), ValueKind::Number(rd)) => {
+                if ld != rd {
+                    self.mismatch(
+                        "gonogo::check::dimension-mismatch",
+                        format!("cannot compare a {ld} with a {rd}"),
+                        (left, ld),
+                        (right, rd),
+                    );
+                }
+            }
+            (l, r) => {
+                self.error(
+                    Problem::error(
+                        "gonogo::check::dimension-mismatch",
+                        format!("cannot compare {l} with {r}"),
+                        right.span,
+                        &format!("{r}"),
+                    )
+                    .with_label(left.span, format!("{l}"))
+                    .with_help("text is compared with text in quotes, numbers with numbers"),
+                );
+            }
+        }
+        self.check_shape(lt, left.span, place);
+        self.check_shape(rt, right.span, place);
+    }
+
+    fn check_shape(&mut self, t: Type, span: Span, place: Place) {
+        if place == Place::Condition && t.per_cylinder {
+            self.error(
+                Problem::error(
+                    "gonogo::check::per-cylinder-condition",
+                    "a condition needs one value for the engine, not one per cylinder",
+                    span,
+                    "one value per cylinder",
+                )
+                .with_help("reduce it with `max(...)`, `min(...)` or `mean(...)`"),
+            );
+        }
+    }
+
+    fn check_allowance(&mut self, allowance: &Expr, limit: Type, op: Option<CompareOp>) {
+        if matches!(op, Some(CompareOp::Equal | CompareOp::NotEqual)) {
+            self.error(
+                Problem::error(
+                    "gonogo::check::allowance-on-equality",
+                    "an allowance widens a limit, and `==` or `!=` has none to widen",
+                    allowance.span,
+                    "allowance",
+                )
+                .with_help("use `<=`, `>=` or `between` with the allowance, or drop it"),
+            );
+            return;
+        }
+        let Some(t) = self.type_of(allowance) else {
+            return;
+        };
+        if let ValueKind::Number(d) = limit.kind {
+            self.expect_dimension(t, d, allowance.span, "the allowance");
+        }
+        match self.constant(allowance) {
+            Some(v) if v >= 0.0 => {}
+            Some(_) => self.error(
+                Problem::error(
+                    "gonogo::check::negative-allowance",
+                    "an allowance cannot be negative",
+                    allowance.span,
+                    "negative",
+                )
+                .with_help(
+                    "an allowance loosens the limit; to tighten it, change the limit itself",
+                ),
+            ),
+            None => self.error(
+                Problem::error(
+                    "gonogo::check::allowance-not-constant",
+                    "an allowance must be a fixed amount, not a measured one",
+                    allowance.span,
+                    "not a fixed amount",
+                )
+                .with_help("write the allowance as a number with a unit, like `allowing 0.005 in`"),
+            ),
+        }
+    }
+}
+
+fn unit_hint(d: Dimension) -> String {
+    match units::display_unit(d) {
+        Some(u) => format!("write a {d} with its unit, like `1 {}`", u.symbol),
+        None => format!("write a {d}"),
+    }
+}
+
+fn param_list(formula: &Formula) -> String {
+    let names: Vec<&str> = formula.params.iter().map(|p| p.name).collect();
+    format!("({})", names.join(", "))
+}
+
+fn backticked(names: &[&str]) -> String {
+    let quoted: Vec<String> = names.iter().map(|n| format!("`{n}`")).collect();
+    quoted.join(", ")
+}

@@ -1,0 +1,51 @@
+//! The subcommands. Each takes its parsed arguments and writes its report to the given
+//! output, returning the exit status; none of them prints half a report on bad input.
+
+pub mod fmt;
+pub mod lint;
+
+use crate::check::{self, model::CheckedRulebook};
+use crate::diagnostic::{Level, Problem, RenderStyle, render};
+use crate::parse::includes::{RulebookFiles, read_rulebook};
+use crate::source::SourceMap;
+
+/// A rulebook read, parsed and checked, with everything found on the way.
+pub struct LoadedRulebook {
+    /// Every file read.
+    pub sources: SourceMap,
+    /// The syntax trees.
+    pub files: RulebookFiles,
+    /// The checked rulebook, when there was no error.
+    pub checked: Option<CheckedRulebook>,
+    /// Every problem, errors and warnings.
+    pub problems: Vec<Problem>,
+}
+
+/// Reads, parses and checks one rulebook. The static checks run only on files that parse.
+pub fn load_rulebook(path: &std::path::Path) -> LoadedRulebook {
+    let mut sources = SourceMap::default();
+    let (files, mut problems) = read_rulebook(path, &mut sources);
+    let mut checked = None;
+    if !files.files.is_empty() && !problems.iter().any(|p| p.level == Level::Error) {
+        let (model, found) = check::check(&files);
+        checked = model;
+        problems.extend(found);
+    }
+    LoadedRulebook {
+        sources,
+        files,
+        checked,
+        problems,
+    }
+}
+
+/// Renders problems, errors first, each as miette's report.
+pub fn render_all(problems: &[Problem], sources: &SourceMap, style: RenderStyle) -> String {
+    let mut ordered: Vec<&Problem> = problems.iter().collect();
+    ordered.sort_by_key(|p| std::cmp::Reverse(p.level));
+    ordered
+        .iter()
+        .map(|p| render(p, sources, style))
+        .collect::<Vec<_>>()
+        .join("\n")
+}
