@@ -126,18 +126,34 @@ impl<'a> Checker<'a> {
             first_conflict(&owned)
         });
         let Some((a, b)) = conflict else { return true };
+        let ((first, first_label), (second, second_label)) = (a, b);
+        let inside = |s: Span| {
+            s.file == cond.span().file && s.start >= cond.span().start && s.end <= cond.span().end
+        };
+        // Label the clashing parts, not the whole condition, so the labels do not overlap.
+        let (primary, label) = if inside(second) && second.start != first.start {
+            (
+                second,
+                second_label.unwrap_or("cannot hold together with the other part"),
+            )
+        } else {
+            (cond.span(), "never true")
+        };
         let mut problem = Problem::error(
             "gonogo::check::never-holds",
             "this condition can never hold",
-            cond.span(),
-            "never true",
+            primary,
+            label,
         )
         .with_help(
             "the rules under it would never apply; correct the condition or remove the rules",
         );
-        for ((span, label), default) in [(a, "requires this"), (b, "and this")] {
-            if span.start != cond.span().start || span.end != cond.span().end {
-                problem = problem.with_label(span, label.unwrap_or(default));
+        for (span, label) in [
+            (first, first_label.unwrap_or("this part")),
+            (second, second_label.unwrap_or("this part")),
+        ] {
+            if span.start != primary.start || span.file != primary.file {
+                problem = problem.with_label(span, label);
             }
         }
         self.error(problem);

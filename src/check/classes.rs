@@ -106,8 +106,11 @@ impl<'a> Checker<'a> {
                 }
                 return false;
             }
-            if chain.contains(&parent.text.as_str()) {
-                if current == name || chain.first() == Some(&parent.text.as_str()) {
+            if let Some(at) = chain.iter().position(|c| *c == parent.text.as_str()) {
+                let mut members: Vec<&str> = chain[at..].to_vec();
+                members.sort_unstable();
+                // report each loop once, from its first member in alphabetical order
+                if at == 0 && members.first() == Some(&name) {
                     let loop_text = chain
                         .iter()
                         .chain([&parent.text.as_str()])

@@ -141,7 +141,7 @@ impl<'a> Checker<'a> {
             (
                 self.series.is_none(),
                 "series",
-                "series \"Lakeshore Valley Racing Club\"",
+                "series \"Tamsin Valley Stock Car Club\"",
             ),
             (
                 self.edition.is_none(),

@@ -84,10 +84,7 @@ impl SyntaxError {
                     span,
                     "not expected here",
                 )
-                .with_help(format!(
-                    "write {} here; `grammar/rulebook.ebnf` shows the full syntax",
-                    list_alternatives(what)
-                ))
+                .with_help(expected_help(what, found))
             }
             SyntaxKind::Specific {
                 code,
@@ -109,6 +106,24 @@ impl SyntaxError {
             }
         }
     }
+}
+
+/// The help line for an "expected" error: a keyword the user may have misspelt, else what
+/// to write.
+fn expected_help(what: &[&'static str], found: &str) -> String {
+    let is_word = found
+        .chars()
+        .next()
+        .is_some_and(|c| c.is_ascii_alphabetic());
+    if is_word && !super::KEYWORDS.contains(&found) {
+        if let Some(near) = crate::suggest::closest(found, super::KEYWORDS.iter().copied()) {
+            return format!("did you mean `{near}`?");
+        }
+    }
+    format!(
+        "write {} here; `grammar/rulebook.ebnf` shows the full syntax",
+        list_alternatives(what)
+    )
 }
 
 /// The token at `offset`: a word, a number, or one character.

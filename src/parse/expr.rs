@@ -10,14 +10,14 @@ use super::ast::{
 };
 use super::error::SyntaxError;
 use super::lexical::{
-    Input, PResult, dotted_name, identifier, keyword, nested, number, pattern, span_between,
-    string, symbol, unit_symbol, ws,
+    Input, MAX_CHAIN, PResult, chain_too_long, dotted_name, identifier, keyword, nested, number,
+    pattern, span_between, string, symbol, unit_symbol, ws,
 };
 
 /// `expr = term { ("+" | "-") term }`
 pub fn expr(input: Input) -> PResult<Expr> {
     let (mut rest, mut left) = term(input)?;
-    loop {
+    for _ in 0..MAX_CHAIN {
         let op = alt((
             symbol("+", "`+`").map(|_| BinaryOp::Add),
             symbol("-", "`-`").map(|_| BinaryOp::Subtract),
@@ -29,6 +29,7 @@ pub fn expr(input: Input) -> PResult<Expr> {
         left = binary(op, left, right);
         rest = after;
     }
+    Err(chain_too_long(&rest))
 }
 
 /// `+` or `-`, but not the `+/-` that starts an uncertainty.
@@ -58,7 +59,7 @@ fn binary(op: BinaryOp, left: Expr, right: Expr) -> Expr {
 /// `term = unary { ("*" | "/") unary }`
 fn term(input: Input) -> PResult<Expr> {
     let (mut rest, mut left) = unary(input)?;
-    loop {
+    for _ in 0..MAX_CHAIN {
         let mut op = alt((
             symbol("*", "`*`").map(|_| BinaryOp::Multiply),
             symbol("/", "`/`").map(|_| BinaryOp::Divide),
@@ -70,6 +71,7 @@ fn term(input: Input) -> PResult<Expr> {
         left = binary(op, left, right);
         rest = after;
     }
+    Err(chain_too_long(&rest))
 }
 
 /// `unary = { "-" } power`
@@ -77,6 +79,9 @@ fn unary(input: Input) -> PResult<Expr> {
     let mut signs = Vec::new();
     let mut rest = input;
     while let Ok((after, span)) = symbol("-", "`-`").parse(rest) {
+        if signs.len() >= MAX_CHAIN {
+            return Err(chain_too_long(&rest));
+        }
         signs.push(span);
         rest = after;
     }
@@ -387,7 +392,12 @@ fn with_allowance(input: Input, mut kind: TestKind, allowance: Allowance) -> PRe
 /// `condition = and_condition { "or" and_condition }`
 pub fn condition(input: Input) -> PResult<Condition> {
     let (mut rest, mut left) = and_condition(input)?;
+    let mut count = 0;
     while let Ok((after, _)) = keyword("or").parse(rest) {
+        count += 1;
+        if count >= MAX_CHAIN {
+            return Err(chain_too_long(&rest));
+        }
         let (after, right) = nom::combinator::cut(and_condition).parse(after)?;
         left = Condition::Or(Box::new(left), Box::new(right));
         rest = after;
@@ -398,7 +408,12 @@ pub fn condition(input: Input) -> PResult<Condition> {
 /// `and_condition = not_condition { "and" not_condition }`
 fn and_condition(input: Input) -> PResult<Condition> {
     let (mut rest, mut left) = not_condition(input)?;
+    let mut count = 0;
     while let Ok((after, _)) = keyword("and").parse(rest) {
+        count += 1;
+        if count >= MAX_CHAIN {
+            return Err(chain_too_long(&rest));
+        }
         let (after, right) = nom::combinator::cut(not_condition).parse(after)?;
         left = Condition::And(Box::new(left), Box::new(right));
         rest = after;
@@ -411,6 +426,9 @@ fn not_condition(input: Input) -> PResult<Condition> {
     let mut nots = Vec::new();
     let mut rest = input;
     while let Ok((after, span)) = keyword("not").parse(rest) {
+        if nots.len() >= MAX_CHAIN {
+            return Err(chain_too_long(&rest));
+        }
         nots.push(span);
         rest = after;
     }

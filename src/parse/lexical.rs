@@ -15,6 +15,20 @@ use crate::source::{FileId, Span};
 /// Deepest nesting of parentheses, calls and `when` groups the parser accepts.
 pub const MAX_DEPTH: u32 = 64;
 
+/// Most operands one chain of `+ - * /`, `and` or `or` may join before it must be split.
+pub const MAX_CHAIN: usize = 200;
+
+/// The error for a chain longer than [`MAX_CHAIN`].
+pub fn chain_too_long(input: &Input) -> Err<SyntaxError> {
+    Err::Failure(SyntaxError::specific(
+        input,
+        1,
+        "gonogo::parse::too-long",
+        format!("more than {MAX_CHAIN} terms are joined in one expression or condition"),
+        "name parts of it with `define` and join the names",
+    ))
+}
+
 /// What the parser carries along with its position: the file and the nesting depth.
 #[derive(Clone, Copy, Debug, Default)]
 pub struct Context {

@@ -45,7 +45,7 @@ pub fn parse_rulebook(file: FileId, text: &str) -> (Rulebook, Vec<Problem>) {
                 if problems.len() >= MAX_SYNTAX_ERRORS {
                     break;
                 }
-                match resume_point(text, e.offset.max(input.location_offset())) {
+                match resume_point(text, input.location_offset(), e.offset) {
                     Some(offset) => input = skip_to(input, offset),
                     None => break,
                 }
@@ -56,22 +56,33 @@ pub fn parse_rulebook(file: FileId, text: &str) -> (Rulebook, Vec<Problem>) {
     (Rulebook { items }, problems)
 }
 
-/// The offset of the first line after `offset` whose first word starts a top-level item.
-fn resume_point(text: &str, offset: usize) -> Option<usize> {
-    let mut line_start = text.get(offset..)?.find('\n')? + offset + 1;
+/// Where to go on after an item that started at `item_start` failed at `error_at`: the error
+/// itself when it stands at an item keyword (the item before it was cut short), else the
+/// first later line whose first word starts an item.
+fn resume_point(text: &str, item_start: usize, error_at: usize) -> Option<usize> {
+    if error_at > item_start && starts_item(text.get(error_at..)?) {
+        return Some(error_at);
+    }
+    let from = error_at.max(item_start);
+    let mut line_start = text.get(from..)?.find('\n')? + from + 1;
     while line_start < text.len() {
         let line = &text[line_start..];
         let trimmed = line.trim_start();
-        let first_word: String = trimmed
-            .chars()
-            .take_while(|c| c.is_ascii_alphabetic())
-            .collect();
-        if items::ITEM_KEYWORDS.contains(&first_word.as_str()) {
+        if starts_item(trimmed) {
             return Some(line_start + (line.len() - trimmed.len()));
         }
         line_start += line.find('\n')? + 1;
     }
     None
+}
+
+/// Whether the text begins with a keyword that starts a top-level item.
+fn starts_item(text: &str) -> bool {
+    let first_word: String = text
+        .chars()
+        .take_while(|c| c.is_ascii_alphabetic())
+        .collect();
+    items::ITEM_KEYWORDS.contains(&first_word.as_str())
 }
 
 fn skip_to(input: Input, offset: usize) -> Input {

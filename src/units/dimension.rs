@@ -131,7 +131,7 @@ impl fmt::Display for Dimension {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
         if let Some(name) = self.common_name() {
             return f.write_str(if name == "count" {
-                "dimensionless"
+                "plain number"
             } else {
                 name
             });

@@ -6,8 +6,32 @@ mod table;
 pub use dimension::{Dimension, NAMED as DIMENSION_NAMES, dimension_named};
 pub use table::{UNITS, Unit, display_unit, lookup};
 
+/// Spelled-out names people write for a unit, and the symbol gonogo uses.
+const SPELLED_OUT: &[(&str, &str)] = &[
+    ("inch", "in"),
+    ("inches", "in"),
+    ("cid", "ci"),
+    ("lbs", "lb"),
+    ("pound", "lb"),
+    ("pounds", "lb"),
+    ("millimetre", "mm"),
+    ("millimeter", "mm"),
+    ("litre", "L"),
+    ("liter", "L"),
+    ("degree", "deg"),
+    ("degrees", "deg"),
+    ("thousandths", "thou"),
+];
+
 /// The known unit symbol closest to `symbol`, for a "did you mean" help line.
 pub fn closest_unit(symbol: &str) -> Option<&'static str> {
+    let lower = symbol.to_lowercase();
+    if let Some((_, unit)) = SPELLED_OUT.iter().find(|(name, _)| *name == lower) {
+        return Some(unit);
+    }
+    if let Some(u) = UNITS.iter().find(|u| u.symbol.to_lowercase() == lower) {
+        return Some(u.symbol);
+    }
     crate::suggest::closest(symbol, UNITS.iter().map(|u| u.symbol))
 }
 
@@ -90,5 +114,7 @@ mod tests {
     fn a_misspelt_unit_gets_a_suggestion() {
         assert_eq!(closest_unit("inhg"), Some("inHg"));
         assert_eq!(closest_unit("cfn"), Some("cfm"));
+        assert_eq!(closest_unit("inch"), Some("in"));
+        assert_eq!(closest_unit("KG"), Some("kg"));
     }
 }

@@ -1,0 +1,94 @@
+//! Every example in `grammar/` and every demo rulebook parses, passes the static checks
+//! without an error, and prints in a canonical form that parses back to the same tree.
+
+mod common;
+
+use gonogo::commands::load_rulebook;
+use gonogo::diagnostic::{Level, RenderStyle};
+use gonogo::parse::{parse_rulebook, print::canonical};
+
+fn rulebooks() -> Vec<std::path::PathBuf> {
+    let mut all = common::files_under("grammar/examples", ".rules");
+    all.extend(common::files_under("rulebooks-demo", ".rules"));
+    assert!(
+        all.len() >= 6,
+        "examples and demo rulebooks are missing: {all:?}"
+    );
+    all
+}
+
+#[test]
+fn every_example_and_demo_rulebook_parses() {
+    for path in rulebooks() {
+        let text = std::fs::read_to_string(&path).unwrap_or_default();
+        let (_, problems) = parse_rulebook(0, &text);
+        assert!(problems.is_empty(), "{}: {problems:?}", path.display());
+    }
+}
+
+#[test]
+fn every_example_and_demo_rulebook_lints_without_error() {
+    // files under `parts/` are fragments that a rulebook includes; they have no header
+    let whole_rulebooks = rulebooks()
+        .into_iter()
+        .filter(|p| !p.to_string_lossy().contains("/parts/"));
+    for path in whole_rulebooks {
+        let loaded = load_rulebook(&path);
+        let errors: Vec<_> = loaded
+            .problems
+            .iter()
+            .filter(|p| p.level == Level::Error)
+            .collect();
+        let shown =
+            gonogo::commands::render_all(&loaded.problems, &loaded.sources, RenderStyle::PLAIN);
+        assert!(errors.is_empty(), "{}:\n{shown}", path.display());
+        assert!(
+            loaded.checked.is_some(),
+            "{} gave no checked rulebook",
+            path.display()
+        );
+    }
+}
+
+#[test]
+fn canonical_form_round_trips_for_every_file() {
+    for path in rulebooks() {
+        let text = std::fs::read_to_string(&path).unwrap_or_default();
+        let (first, _) = parse_rulebook(0, &text);
+        let printed = canonical(&first);
+        let (second, problems) = parse_rulebook(0, &printed);
+        assert!(
+            problems.is_empty(),
+            "{}: canonical text does not parse: {problems:?}\n{printed}",
+            path.display()
+        );
+        assert_eq!(
+            first,
+            second,
+            "{}: round trip changed the tree",
+            path.display()
+        );
+        assert_eq!(
+            canonical(&second),
+            printed,
+            "{}: canonical form is not stable",
+            path.display()
+        );
+    }
+}
+
+#[test]
+fn the_grammar_names_every_keyword() {
+    let grammar = std::fs::read_to_string(concat!(
+        env!("CARGO_MANIFEST_DIR"),
+        "/grammar/rulebook.ebnf"
+    ))
+    .unwrap_or_default();
+    for keyword in gonogo::parse::KEYWORDS {
+        assert!(
+            grammar.contains(&format!("\"{keyword}\""))
+                || grammar.contains(&format!(" {keyword} ")),
+            "`{keyword}` is not in grammar/rulebook.ebnf"
+        );
+    }
+}
