@@ -92,3 +92,16 @@ fn the_grammar_names_every_keyword() {
         );
     }
 }
+
+#[test]
+fn the_readme_lists_every_unit() {
+    let readme = std::fs::read_to_string(concat!(env!("CARGO_MANIFEST_DIR"), "/README.md"))
+        .unwrap_or_default();
+    for unit in gonogo::units::UNITS {
+        assert!(
+            readme.contains(&format!("`{}`", unit.symbol)),
+            "README.md does not list `{}`",
+            unit.symbol
+        );
+    }
+}

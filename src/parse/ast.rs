@@ -12,6 +12,10 @@ pub struct Rulebook {
 
 /// One top-level item.
 #[derive(Clone, Debug, PartialEq)]
+#[allow(
+    clippy::large_enum_variant,
+    reason = "a rulebook's tree is small and built once; boxing would only add indirection"
+)]
 pub enum Item {
     /// `series "..."`
     Series(Text),
@@ -225,6 +229,10 @@ pub struct Bulletin {
 
 /// One item in a class or bulletin body.
 #[derive(Clone, Debug, PartialEq)]
+#[allow(
+    clippy::large_enum_variant,
+    reason = "a rulebook's tree is small and built once; boxing would only add indirection"
+)]
 pub enum ClassItem {
     /// A rule.
     Rule(Rule),
@@ -317,6 +325,10 @@ pub struct Test {
 
 /// The kinds of test.
 #[derive(Clone, Debug, PartialEq)]
+#[allow(
+    clippy::large_enum_variant,
+    reason = "a rulebook's tree is small and built once; boxing would only add indirection"
+)]
 pub enum TestKind {
     /// `A <= B [allowing C]`
     Compare {
@@ -362,6 +374,10 @@ pub enum TestKind {
 
 /// A condition: tests joined by `and`, `or`, `not`.
 #[derive(Clone, Debug, PartialEq)]
+#[allow(
+    clippy::large_enum_variant,
+    reason = "a rulebook's tree is small and built once; boxing would only add indirection"
+)]
 pub enum Condition {
     /// One test.
     Test(Test),

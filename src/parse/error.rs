@@ -115,10 +115,11 @@ fn expected_help(what: &[&'static str], found: &str) -> String {
         .chars()
         .next()
         .is_some_and(|c| c.is_ascii_alphabetic());
-    if is_word && !super::KEYWORDS.contains(&found) {
-        if let Some(near) = crate::suggest::closest(found, super::KEYWORDS.iter().copied()) {
-            return format!("did you mean `{near}`?");
-        }
+    if is_word
+        && !super::KEYWORDS.contains(&found)
+        && let Some(near) = crate::suggest::closest(found, super::KEYWORDS.iter().copied())
+    {
+        return format!("did you mean `{near}`?");
     }
     format!(
         "write {} here; `grammar/rulebook.ebnf` shows the full syntax",

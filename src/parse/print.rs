@@ -19,7 +19,8 @@ pub fn canonical(book: &Rulebook) -> String {
             Item::Series(_) | Item::Edition(_) | Item::Decision(_) | Item::Include(_)
         );
         let one_line = header || matches!(item, Item::Measure(_) | Item::Define(_));
-        if !out.is_empty() && !(one_line && previous_was_header) {
+        let continues_header_block = one_line && previous_was_header;
+        if !out.is_empty() && !continues_header_block {
             out.push('\n');
         }
         item_text(&mut out, item);

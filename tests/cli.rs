@@ -1,0 +1,213 @@
+//! The `gonogo` binary on the demo data and on bad input: exit statuses, what the output
+//! quotes and underlines, and the JSON format.
+
+mod common;
+
+use common::gonogo;
+
+/// A scratch file under the system's temporary folder, removed when dropped.
+struct Scratch(std::path::PathBuf);
+
+impl Scratch {
+    fn new(name: &str, bytes: &[u8]) -> Scratch {
+        let path = std::env::temp_dir().join(format!("gonogo-{}-{name}", std::process::id()));
+        std::fs::write(&path, bytes)
+            .unwrap_or_else(|e| panic!("cannot write {}: {e}", path.display()));
+        Scratch(path)
+    }
+
+    fn path(&self) -> &str {
+        self.0.to_str().unwrap_or_default()
+    }
+}
+
+impl Drop for Scratch {
+    fn drop(&mut self) {
+        let _ = std::fs::remove_file(&self.0);
+    }
+}
+
+fn demo_rulebooks() -> Vec<String> {
+    let files: Vec<String> =
+        std::fs::read_dir(concat!(env!("CARGO_MANIFEST_DIR"), "/rulebooks-demo"))
+            .map(|dir| {
+                dir.flatten()
+                    .map(|e| e.path())
+                    .filter(|p| p.extension().is_some_and(|x| x == "rules"))
+                    .map(|p| p.display().to_string())
+                    .collect()
+            })
+            .unwrap_or_default();
+    assert!(files.len() >= 2, "demo rulebooks missing");
+    files
+}
+
+#[test]
+fn lint_passes_every_demo_rulebook() {
+    let files = demo_rulebooks();
+    let args: Vec<&str> = ["lint"]
+        .into_iter()
+        .chain(files.iter().map(String::as_str))
+        .collect();
+    let run = gonogo(&args);
+    assert_eq!(run.code, 0, "{}{}", run.stdout, run.stderr);
+    assert_eq!(
+        run.stdout.matches(": ok (0 errors").count(),
+        files.len(),
+        "{}",
+        run.stdout
+    );
+}
+
+#[test]
+fn an_unknown_unit_exits_2_and_underlines_the_unit() {
+    let run = gonogo(&["lint", "tests/malformed/unknown-unit.rules"]);
+    assert_eq!(run.code, 2);
+    assert!(
+        run.stdout.contains("`inch` is not a unit gonogo knows"),
+        "{}",
+        run.stdout
+    );
+    let lines: Vec<&str> = run.stdout.lines().collect();
+    let source = lines
+        .iter()
+        .position(|l| l.contains("4.030 inch"))
+        .unwrap_or_else(|| panic!("source line not shown"));
+    let byte = lines[source].find("inch").unwrap_or_default();
+    let column = lines[source][..byte].chars().count();
+    let underline = lines[source + 1];
+    let under: String = underline.chars().skip(column).take(4).collect();
+    assert_eq!(
+        under, "──┬─",
+        "underline not under `inch`:\n{}\n{underline}",
+        lines[source]
+    );
+    assert!(run.stdout.contains("did you mean `in`?"));
+}
+
+#[test]
+fn json_output_parses_and_locates_the_problem() {
+    let run = gonogo(&[
+        "lint",
+        "--format",
+        "json",
+        "tests/malformed/unknown-unit.rules",
+    ]);
+    assert_eq!(run.code, 2);
+    let doc: serde_json::Value = serde_json::from_str(&run.stdout)
+        .unwrap_or_else(|e| panic!("not JSON: {e}\n{}", run.stdout));
+    assert_eq!(doc["schema"], "gonogo.lint/1");
+    let problem = &doc["files"][0]["problems"][0];
+    assert_eq!(problem["code"], "gonogo::check::unknown-unit");
+    assert_eq!(problem["severity"], "error");
+    assert_eq!(problem["labels"][0]["line"], 13);
+    assert_eq!(problem["labels"][0]["column"], 32);
+}
+
+#[test]
+fn warnings_alone_exit_0() {
+    let run = gonogo(&["lint", "tests/malformed/unused-measurement.rules"]);
+    assert_eq!(run.code, 0, "{}", run.stdout);
+    assert!(run.stdout.contains("1 warning"));
+}
+
+#[test]
+fn a_file_over_8_mib_is_refused() {
+    let big = Scratch::new("big.rules", &vec![b'#'; 8 * 1024 * 1024 + 1]);
+    let run = gonogo(&["lint", big.path()]);
+    assert_eq!(run.code, 2);
+    assert!(
+        run.stdout.contains("over the limit of 8388608 bytes"),
+        "{}",
+        run.stdout
+    );
+}
+
+#[test]
+fn invalid_utf8_is_refused_with_the_offset() {
+    let bad = Scratch::new("latin1.rules", b"series \"Caf\xe9\"\n");
+    let run = gonogo(&["lint", bad.path()]);
+    assert_eq!(run.code, 2);
+    assert!(
+        run.stdout
+            .contains("is not UTF-8 text (first bad byte at offset 11)"),
+        "{}",
+        run.stdout
+    );
+}
+
+#[test]
+fn a_hundred_thousand_open_parentheses_do_not_crash() {
+    let text = format!("define x = {}", "(".repeat(100_000));
+    let deep = Scratch::new("deep.rules", text.as_bytes());
+    let run = gonogo(&["lint", deep.path()]);
+    assert_eq!(run.code, 2, "{}", run.stderr);
+    assert!(
+        run.stdout.contains("gonogo::parse::too-deep"),
+        "{}",
+        run.stdout
+    );
+}
+
+#[test]
+fn deeply_nested_when_groups_do_not_crash() {
+    let text = format!("class c\n{}", "when a == 1\n".repeat(100_000));
+    let deep = Scratch::new("when.rules", text.as_bytes());
+    let run = gonogo(&["lint", deep.path()]);
+    assert_eq!(run.code, 2, "{}", run.stderr);
+    assert!(
+        run.stdout.contains("gonogo::parse::too-deep"),
+        "{}",
+        run.stdout
+    );
+}
+
+#[test]
+fn a_missing_file_exits_2() {
+    let run = gonogo(&["lint", "rulebooks-demo/no-such-file.rules"]);
+    assert_eq!(run.code, 2);
+    assert!(
+        run.stdout
+            .contains("cannot read `rulebooks-demo/no-such-file.rules`"),
+        "{}",
+        run.stdout
+    );
+}
+
+#[test]
+fn usage_errors_exit_2() {
+    assert_eq!(gonogo(&["lint"]).code, 2);
+    assert_eq!(gonogo(&["no-such-command"]).code, 2);
+}
+
+#[test]
+fn no_colour_when_not_a_terminal() {
+    let run = gonogo(&["lint", "tests/malformed/unknown-unit.rules"]);
+    assert!(
+        !run.stdout.contains('\u{1b}'),
+        "ANSI escape in piped output"
+    );
+}
+
+#[test]
+fn fmt_prints_a_canonical_form_that_lints_the_same() {
+    let run = gonogo(&["fmt", "grammar/examples/parts-and-conditions.rules"]);
+    assert_eq!(run.code, 0, "{}", run.stderr);
+    let formatted = Scratch::new("formatted.rules", run.stdout.as_bytes());
+    let lint = gonogo(&["lint", formatted.path()]);
+    assert_eq!(lint.code, 0, "{}", lint.stdout);
+    assert!(
+        run.stdout
+            .contains("  rule 2.1 \"Approved head\"\n    require head.casting in heads\n  end\n"),
+        "{}",
+        run.stdout
+    );
+}
+
+#[test]
+fn fmt_of_a_broken_file_exits_2_and_writes_nothing_to_stdout() {
+    let run = gonogo(&["fmt", "tests/malformed/missing-end.rules"]);
+    assert_eq!(run.code, 2);
+    assert!(run.stdout.is_empty());
+    assert!(run.stderr.contains("found the end of the file"));
+}
