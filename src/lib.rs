@@ -8,8 +8,11 @@
 pub mod check;
 pub mod commands;
 pub mod diagnostic;
+pub mod evaluate;
 pub mod exit;
+pub mod load;
 pub mod parse;
+pub mod report;
 pub mod source;
 pub mod suggest;
 pub mod units;

@@ -5,6 +5,7 @@ use std::path::PathBuf;
 use std::process::ExitCode;
 
 use clap::{Parser, Subcommand};
+use gonogo::commands::check::{self, CheckFormat, CheckRequest, Role};
 use gonogo::commands::{fmt, lint};
 use gonogo::diagnostic::RenderStyle;
 use gonogo::exit::Exit;
@@ -22,6 +23,28 @@ struct Cli {
 
 #[derive(Subcommand)]
 enum Command {
+    /// Check engine declarations against a class: a verdict for every rule, with its reasons.
+    #[command(
+        after_help = "Examples:\n  gonogo check --rules rulebooks-demo/tamsin-2027.rules engines-demo/limited2-legal.yaml\n  gonogo check --rules rulebooks-demo/tamsin-2027.rules --as builder engines-demo/*.yaml\n  gonogo check --rules season.rules --class open4 --format json car14.yaml\n\nExit status: 0 all legal and certain; 1 a rule is illegal; 3 nothing illegal but a finding is\nconditional or a rule could not be checked; 2 the input could not be read."
+    )]
+    Check {
+        /// The rulebook.
+        #[arg(long)]
+        rules: PathBuf,
+        /// Check every declaration against this class instead of the one it names.
+        #[arg(long)]
+        class: Option<String>,
+        /// Whose decision rule to apply: inspector (guarded rejection), builder (guarded
+        /// acceptance) or simple (simple acceptance); the rulebook's by default.
+        #[arg(long = "as", value_enum)]
+        role: Option<Role>,
+        /// Output format.
+        #[arg(long, value_enum, default_value_t = CheckFormat::Text)]
+        format: CheckFormat,
+        /// Engine declarations (YAML).
+        #[arg(required = true)]
+        declarations: Vec<PathBuf>,
+    },
     /// Run the static checks on rulebooks: names, units, dimensions, classes, limits.
     #[command(
         after_help = "Examples:\n  gonogo lint rulebooks-demo/*.rules\n  gonogo lint --format json season.rules"
@@ -63,6 +86,31 @@ fn style_for(stream_is_terminal: bool) -> RenderStyle {
 
 fn run(cli: Cli) -> Exit {
     match cli.command {
+        Command::Check {
+            rules,
+            class,
+            role,
+            format,
+            declarations,
+        } => {
+            let request = CheckRequest {
+                rules: &rules,
+                class: class.as_deref(),
+                role,
+                format,
+                declarations: &declarations,
+            };
+            match check::run(&request, style_for(std::io::stderr().is_terminal())) {
+                Ok((out, exit)) => {
+                    write_out(&out);
+                    exit
+                }
+                Err(diagnostics) => {
+                    eprint!("{diagnostics}");
+                    Exit::BadInput
+                }
+            }
+        }
         Command::Lint { files, format } => {
             let (out, exit) = lint::run(&files, format, style_for(std::io::stdout().is_terminal()));
             write_out(&out);

@@ -57,6 +57,21 @@ impl<'a> Checker<'a> {
     fn measure_kind(&mut self, m: &Measure) -> Option<ValueKind> {
         let word = m.dimension.text.as_str();
         if word == "text" {
+            if m.per_cylinder {
+                self.error(
+                    Problem::error(
+                        "gonogo::check::per-cylinder-text",
+                        format!(
+                            "`{}` is text, and text is recorded once for the engine",
+                            m.name.text
+                        ),
+                        m.dimension.span,
+                        "text",
+                    )
+                    .with_help("remove `per cylinder`, or declare one text measurement per part"),
+                );
+                return None;
+            }
             return Some(ValueKind::Text);
         }
         if let Some(d) = dimension_named(word) {

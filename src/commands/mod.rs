@@ -1,10 +1,11 @@
 //! The subcommands. Each takes its parsed arguments and writes its report to the given
 //! output, returning the exit status; none of them prints half a report on bad input.
 
+pub mod check;
 pub mod fmt;
 pub mod lint;
 
-use crate::check::{self, model::CheckedRulebook};
+use crate::check::model::CheckedRulebook;
 use crate::diagnostic::{Level, Problem, RenderStyle, render};
 use crate::parse::includes::{RulebookFiles, read_rulebook};
 use crate::source::SourceMap;
@@ -27,7 +28,7 @@ pub fn load_rulebook(path: &std::path::Path) -> LoadedRulebook {
     let (files, mut problems) = read_rulebook(path, &mut sources);
     let mut checked = None;
     if !files.files.is_empty() && !problems.iter().any(|p| p.level == Level::Error) {
-        let (model, found) = check::check(&files);
+        let (model, found) = crate::check::check(&files);
         checked = model;
         problems.extend(found);
     }

@@ -214,6 +214,15 @@ fn quantity(input: Input) -> PResult<Expr> {
     ))
 }
 
+/// A quantity literal alone, for declarations.
+pub fn quantity_only(input: Input) -> PResult<Quantity> {
+    let (rest, e) = quantity(input)?;
+    match e.kind {
+        ExprKind::Quantity(q) => Ok((rest, q)),
+        _ => Err(Err::Error(SyntaxError::expected(&input, "a number"))),
+    }
+}
+
 fn uncertainty(input: Input) -> PResult<Uncertainty> {
     let (rest, _) = alt((symbol("±", "`±`"), symbol("+/-", "`+/-`"))).parse(input)?;
     let (rest, value) = nom::combinator::cut(number).parse(rest)?;

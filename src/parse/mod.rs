@@ -91,3 +91,35 @@ fn skip_to(input: Input, offset: usize) -> Input {
 
 #[cfg(test)]
 mod tests;
+
+/// Parses a whole string as one quantity literal, as a declaration writes it: an optional
+/// leading `-`, a number, its unit, and an optional `± U [unit] [(k = K)]`. Returns the
+/// quantity and whether it was negated, or what was expected.
+pub fn quantity_literal(text: &str) -> Result<(bool, ast::Quantity), String> {
+    let input = Input::new_extra(text, Context::default());
+    let (input, _) = ws(input).map_err(|_| expected_literal())?;
+    let negative = input.fragment().starts_with('-');
+    let input = lexical::advance(input, usize::from(negative));
+    let (rest, expr) = expr::quantity_only(input).map_err(|_| expected_literal())?;
+    let (rest, _) = ws(rest).map_err(|_| expected_literal())?;
+    if !rest.fragment().is_empty() {
+        return Err(format!(
+            "unexpected `{}` after the quantity",
+            rest.fragment().trim()
+        ));
+    }
+    Ok((negative, expr))
+}
+
+fn expected_literal() -> String {
+    "expected a number and its unit, like `4.030 in` or `76.2 cc ± 0.2 cc`".to_string()
+}
+
+/// Parses a date written `YYYY-MM-DD`, if it is one on the calendar.
+pub fn date_literal(text: &str) -> Option<ast::Date> {
+    let input = Input::new_extra(text.trim(), Context::default());
+    match lexical::date(input) {
+        Ok((rest, at)) if rest.fragment().is_empty() => Some(at.date),
+        _ => None,
+    }
+}

@@ -1,0 +1,141 @@
+//! `gonogo check`: declarations checked against a class of a rulebook, reported as text or
+//! JSON. Every declaration is loaded before anything is written, so bad input gives its
+//! diagnostics and exit 2, never half a report.
+
+use std::path::{Path, PathBuf};
+
+use super::{load_rulebook, render_all};
+use crate::check::model::CheckedRulebook;
+use crate::diagnostic::{Problem, RenderStyle};
+use crate::evaluate::check_engine;
+use crate::evaluate::outcome::EngineReport;
+use crate::exit::Exit;
+use crate::load::load_declaration;
+use crate::parse::ast::DecisionRule;
+use crate::report::{json, text};
+use crate::source::SourceMap;
+
+/// Who is asking, which sets the decision rule.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, clap::ValueEnum)]
+pub enum Role {
+    /// Guarded rejection: illegal only on a proven fail.
+    Inspector,
+    /// Guarded acceptance: legal only on a proven pass.
+    Builder,
+    /// Simple acceptance: the measured value alone decides.
+    Simple,
+}
+
+impl Role {
+    /// The decision rule this role applies.
+    pub fn decision(self) -> DecisionRule {
+        match self {
+            Role::Inspector => DecisionRule::GuardedRejection,
+            Role::Builder => DecisionRule::GuardedAcceptance,
+            Role::Simple => DecisionRule::SimpleAcceptance,
+        }
+    }
+}
+
+/// Output formats of `check`.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, clap::ValueEnum)]
+pub enum CheckFormat {
+    /// The text report.
+    Text,
+    /// One JSON document (schema `gonogo.check/1`).
+    Json,
+}
+
+/// What `check` was asked to do.
+pub struct CheckRequest<'a> {
+    /// The rulebook.
+    pub rules: &'a Path,
+    /// A class for every declaration, instead of each declaration's own.
+    pub class: Option<&'a str>,
+    /// A decision rule instead of the rulebook's.
+    pub role: Option<Role>,
+    /// Output format.
+    pub format: CheckFormat,
+    /// The declarations.
+    pub declarations: &'a [PathBuf],
+}
+
+/// Runs `check`: the report on success, or diagnostics; with the exit status.
+pub fn run(request: &CheckRequest, style: RenderStyle) -> Result<(String, Exit), String> {
+    let loaded = load_rulebook(request.rules);
+    let Some(rulebook) = loaded.checked else {
+        return Err(render_all(&loaded.problems, &loaded.sources, style));
+    };
+    let mut sources = SourceMap::default();
+    let mut reports = Vec::new();
+    let mut problems = Vec::new();
+    for path in request.declarations {
+        match report_for(path, &rulebook, request, &mut sources) {
+            Ok(report) => reports.push(report),
+            Err(p) => problems.push(p),
+        }
+    }
+    if !problems.is_empty() {
+        return Err(render_all(&problems, &sources, style));
+    }
+    let exit = reports
+        .iter()
+        .map(EngineReport::exit)
+        .fold(Exit::Clean, worse);
+    let out = match request.format {
+        CheckFormat::Json => json::document(&reports),
+        CheckFormat::Text => {
+            let mut out: Vec<String> = reports.iter().map(text::engine).collect();
+            if reports.len() > 1 {
+                out.push(text::field_line(&reports));
+            }
+            out.join("\n")
+        }
+    };
+    Ok((out, exit))
+}
+
+fn report_for(
+    path: &Path,
+    rulebook: &CheckedRulebook,
+    request: &CheckRequest,
+    sources: &mut SourceMap,
+) -> Result<EngineReport, Problem> {
+    let declaration = load_declaration(path, rulebook, sources)?;
+    let class_name = request
+        .class
+        .map(str::to_string)
+        .or_else(|| declaration.identity.class.clone())
+        .ok_or_else(|| {
+            Problem::unlocated(
+                "gonogo::check::no-class",
+                format!("`{}` names no class", path.display()),
+            )
+            .with_help("add `class: NAME` to the declaration, or pass `--class NAME`")
+        })?;
+    let class = rulebook.class(&class_name).ok_or_else(|| {
+        let names: Vec<&str> = rulebook.classes.iter().map(|c| c.name.as_str()).collect();
+        Problem::unlocated(
+            "gonogo::check::unknown-class",
+            format!("the rulebook has no class `{class_name}`"),
+        )
+        .with_help(format!("the classes are {}", names.join(", ")))
+    })?;
+    Ok(check_engine(
+        rulebook,
+        class,
+        &declaration,
+        request.role.map(Role::decision),
+    ))
+}
+
+/// The more serious of two exit statuses: illegal, then uncertain, then clean.
+fn worse(a: Exit, b: Exit) -> Exit {
+    let rank = |e: Exit| match e {
+        Exit::Clean => 0,
+        Exit::Uncertain => 1,
+        Exit::Illegal => 2,
+        Exit::BadInput => 3,
+    };
+    if rank(b) > rank(a) { b } else { a }
+}

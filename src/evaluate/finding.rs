@@ -1,0 +1,187 @@
+//! Findings and verdicts: ISO 14253-1 / ILAC-G8 non-binary outcomes from a margin and its
+//! expanded uncertainty, the JCGM 106 probability of conformance, and the decision rules that
+//! turn a finding into legal or illegal.
+
+use crate::parse::ast::DecisionRule;
+
+/// What the measurement shows about one limit, independent of who is asking.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, PartialOrd, Ord, serde::Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Finding {
+    /// Outside the limit by more than the expanded uncertainty: nonconformity proven.
+    Fail,
+    /// Outside the limit, by less than the expanded uncertainty.
+    ConditionalFail,
+    /// Inside the limit, by less than the expanded uncertainty.
+    ConditionalPass,
+    /// Inside the limit by at least the expanded uncertainty: conformity proven.
+    Pass,
+}
+
+impl Finding {
+    /// The words a report uses.
+    pub fn words(self) -> &'static str {
+        match self {
+            Finding::Pass => "pass",
+            Finding::ConditionalPass => "conditional pass",
+            Finding::ConditionalFail => "conditional fail",
+            Finding::Fail => "fail",
+        }
+    }
+
+    /// True for the two findings inside the uncertainty band.
+    pub fn is_conditional(self) -> bool {
+        matches!(self, Finding::ConditionalPass | Finding::ConditionalFail)
+    }
+}
+
+/// The finding for a margin `m` (positive inside the limit) with expanded uncertainty `big_u`.
+/// `strict` limits (`<`, `>`) do not include the limit value itself.
+/// ILAC-G8:09/2019 §4.2; ISO 14253-1: conformity proven when the margin is at least U.
+pub fn finding(margin: f64, big_u: f64, strict: bool) -> Finding {
+    let inside = if strict { margin > 0.0 } else { margin >= 0.0 };
+    match (inside, big_u > 0.0) {
+        (true, false) => Finding::Pass,
+        (false, false) => Finding::Fail,
+        (true, true) if margin >= big_u => Finding::Pass,
+        (true, true) => Finding::ConditionalPass,
+        (false, true) if -margin > big_u => Finding::Fail,
+        (false, true) => Finding::ConditionalFail,
+    }
+}
+
+/// Standard normal distribution function Φ.
+fn phi(z: f64) -> f64 {
+    0.5 * libm::erfc(-z / std::f64::consts::SQRT_2)
+}
+
+/// Probability of conformance for a one-sided limit, JCGM 106:2012 with a normal
+/// distribution: Φ(margin / u). With no uncertainty it is 1 inside and 0 outside.
+pub fn probability(margin: f64, u: f64, strict: bool) -> f64 {
+    if u > 0.0 {
+        phi(margin / u)
+    } else if margin > 0.0 || (margin == 0.0 && !strict) {
+        1.0
+    } else {
+        0.0
+    }
+}
+
+/// Probability of conformance for a two-sided limit (JCGM 106:2012):
+/// Φ((T_U − y)/u) − Φ((T_L − y)/u), written with the margin and standard uncertainty at each
+/// limit (they differ only when a limit itself carries an uncertainty).
+pub fn probability_between(low: (f64, f64), high: (f64, f64)) -> f64 {
+    let ((margin_low, u_low), (margin_high, u_high)) = (low, high);
+    let upper = probability(margin_high, u_high, false);
+    let below_lower = 1.0 - probability(margin_low, u_low, false);
+    (upper - below_lower).max(0.0)
+}
+
+/// The call on one rule.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, serde::Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Verdict {
+    /// Legal under the decision rule in force.
+    Legal,
+    /// Illegal under the decision rule in force.
+    Illegal,
+    /// A measurement it needs is missing.
+    NotChecked,
+    /// Its condition does not hold.
+    NotApplicable,
+}
+
+impl Verdict {
+    /// The word a report uses.
+    pub fn words(self) -> &'static str {
+        match self {
+            Verdict::Legal => "LEGAL",
+            Verdict::Illegal => "ILLEGAL",
+            Verdict::NotChecked => "NOT CHECKED",
+            Verdict::NotApplicable => "NOT APPLICABLE",
+        }
+    }
+}
+
+/// The verdict a decision rule gives a finding (DESIGN.md section 5).
+pub fn verdict(finding: Finding, rule: DecisionRule) -> Verdict {
+    let legal = match rule {
+        // the inspector's rule: illegal only on a proven fail
+        DecisionRule::GuardedRejection => finding != Finding::Fail,
+        // the builder's rule: legal only on a proven pass
+        DecisionRule::GuardedAcceptance => finding == Finding::Pass,
+        // shared risk: the measured value alone decides
+        DecisionRule::SimpleAcceptance => {
+            matches!(finding, Finding::Pass | Finding::ConditionalPass)
+        }
+    };
+    if legal {
+        Verdict::Legal
+    } else {
+        Verdict::Illegal
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// REFERENCES.md check vectors: T_U = 10.000, u = 0.010, U = 0.020 (k = 2). Findings per
+    /// ISO 14253-1 / ILAC-G8:09/2019 §4.2; probabilities per JCGM 106:2012, Φ((T_U − y)/u).
+    const VECTORS: &[(f64, Finding, f64)] = &[
+        (9.970, Finding::Pass, 0.99865),
+        (9.990, Finding::ConditionalPass, 0.8413),
+        (10.010, Finding::ConditionalFail, 0.1587),
+        (10.030, Finding::Fail, 0.00135),
+    ];
+
+    #[test]
+    fn findings_and_probabilities_match_the_reference_vectors() {
+        for &(y, expected, p) in VECTORS {
+            let margin = 10.000 - y;
+            assert_eq!(finding(margin, 0.020, false), expected, "y = {y}");
+            let got = probability(margin, 0.010, false);
+            assert!((got - p).abs() < 5e-5, "y = {y}: p = {got}, expected {p}");
+        }
+    }
+
+    #[test]
+    fn on_the_limit_the_probability_is_one_half() {
+        // JCGM 106:2012: at y = T_U, p_c = 50 %
+        assert!((probability(0.0, 0.01, false) - 0.5).abs() < 1e-15);
+    }
+
+    #[test]
+    fn two_sided_probability_subtracts_both_tails() {
+        // ±1 u from each limit: Φ(1) − Φ(−1) = 0.6827 (the normal distribution's 1σ mass)
+        assert!((probability_between((0.01, 0.01), (0.01, 0.01)) - 0.682_689).abs() < 1e-6);
+    }
+
+    #[test]
+    fn without_uncertainty_the_finding_is_binary() {
+        assert_eq!(finding(0.0, 0.0, false), Finding::Pass);
+        assert_eq!(finding(0.0, 0.0, true), Finding::Fail);
+        assert_eq!(finding(-1e-9, 0.0, false), Finding::Fail);
+    }
+
+    #[test]
+    fn decision_rules_split_the_conditional_findings() {
+        use DecisionRule::*;
+        let cases = [
+            (Finding::ConditionalPass, GuardedRejection, Verdict::Legal),
+            (Finding::ConditionalFail, GuardedRejection, Verdict::Legal),
+            (Finding::Fail, GuardedRejection, Verdict::Illegal),
+            (
+                Finding::ConditionalPass,
+                GuardedAcceptance,
+                Verdict::Illegal,
+            ),
+            (Finding::Pass, GuardedAcceptance, Verdict::Legal),
+            (Finding::ConditionalPass, SimpleAcceptance, Verdict::Legal),
+            (Finding::ConditionalFail, SimpleAcceptance, Verdict::Illegal),
+        ];
+        for (f, rule, v) in cases {
+            assert_eq!(verdict(f, rule), v, "{f:?} under {rule:?}");
+        }
+    }
+}

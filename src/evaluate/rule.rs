@@ -1,0 +1,591 @@
+//! One rule evaluated: its conditions in three-valued logic, its test as a finding with margin
+//! and probability of conformance, the verdict under the decision rule, and the trace.
+
+use super::dual::Dual;
+use super::expr::Evaluator;
+use super::finding::{Finding, Verdict, finding, probability, probability_between, verdict};
+use super::outcome::{Applies, Checked, Numeric, Outcome, Trace};
+use super::value::{Evaluated, Missing, Value};
+use crate::check::model::{ClassRule, ValueKind};
+use crate::load::Supplied;
+use crate::parse::ast::{CompareOp, Condition, DecisionRule, Expr, ExprKind, Test, TestKind};
+use crate::parse::print::{condition_text, expr_text, test_text};
+use crate::units::{self, Unit};
+
+/// Coverage factor for the expanded uncertainty a finding is judged against (about 95 %).
+pub const COVERAGE: f64 = 2.0;
+
+/// A condition's truth, with doubt.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+enum Truth {
+    True,
+    False,
+    Uncertain,
+}
+
+impl Evaluator<'_> {
+    /// Evaluates one rule of a class under a decision rule.
+    pub fn rule(&mut self, r: &ClassRule, decision: DecisionRule) -> Outcome {
+        let mut outcome = Outcome {
+            section: r.rule.section.text.clone(),
+            title: r.rule.title.value.clone(),
+            penalty: r.rule.penalty.as_ref().map(|p| p.value.clone()),
+            note: r.rule.note.as_ref().map(|n| n.value.clone()),
+            origin: r.origin.clone(),
+            requirement: test_text(&r.rule.require),
+            conditions: r.conditions.iter().map(condition_text).collect(),
+            applies: Applies::Always,
+            verdict: Verdict::NotChecked,
+            checked: None,
+            missing: Vec::new(),
+            trace: Vec::new(),
+        };
+        outcome.trace = self.trace(r);
+        match self.conditions(&r.conditions, decision) {
+            Err(missing) => {
+                outcome.missing = missing.0.into_iter().collect();
+                return outcome;
+            }
+            Ok(Truth::False) => {
+                outcome.applies = Applies::DoesNotHold;
+                outcome.verdict = Verdict::NotApplicable;
+                return outcome;
+            }
+            Ok(Truth::Uncertain) => outcome.applies = Applies::Uncertain,
+            Ok(Truth::True) if !r.conditions.is_empty() => outcome.applies = Applies::Holds,
+            Ok(Truth::True) => {}
+        }
+        match self.test(&r.rule.require) {
+            Err(missing) => outcome.missing = missing.0.into_iter().collect(),
+            Ok(checked) => {
+                let mut v = verdict(checked.finding, decision);
+                // The inspector's rule gives the doubt to the competitor: a rule that may not
+                // apply cannot prove a violation.
+                if outcome.applies == Applies::Uncertain
+                    && decision == DecisionRule::GuardedRejection
+                {
+                    v = Verdict::Legal;
+                }
+                outcome.verdict = v;
+                outcome.checked = Some(checked);
+            }
+        }
+        outcome
+    }
+
+    fn conditions(&mut self, conditions: &[Condition], decision: DecisionRule) -> Evaluated<Truth> {
+        let mut truth = Truth::True;
+        let mut missing: Option<Missing> = None;
+        for c in conditions {
+            match self.condition(c, decision) {
+                Ok(Truth::False) => return Ok(Truth::False),
+                Ok(Truth::Uncertain) => truth = Truth::Uncertain,
+                Ok(Truth::True) => {}
+                Err(m) => missing = Some(missing.map_or(m.clone(), |acc| acc.join(m))),
+            }
+        }
+        match missing {
+            Some(m) => Err(m),
+            None => Ok(truth),
+        }
+    }
+
+    /// Kleene logic: a false side settles `and`, a true side settles `or`, even when the
+    /// other side is missing or uncertain.
+    fn condition(&mut self, c: &Condition, decision: DecisionRule) -> Evaluated<Truth> {
+        match c {
+            Condition::Test(t) => Ok(truth_of(self.test(t)?.finding, decision)),
+            Condition::Not(inner, _) => Ok(match self.condition(inner, decision)? {
+                Truth::True => Truth::False,
+                Truth::False => Truth::True,
+                Truth::Uncertain => Truth::Uncertain,
+            }),
+            Condition::And(a, b) => {
+                match (self.condition(a, decision), self.condition(b, decision)) {
+                    (Ok(Truth::False), _) | (_, Ok(Truth::False)) => Ok(Truth::False),
+                    (Err(x), Err(y)) => Err(x.join(y)),
+                    (Err(x), _) | (_, Err(x)) => Err(x),
+                    (Ok(Truth::Uncertain), _) | (_, Ok(Truth::Uncertain)) => Ok(Truth::Uncertain),
+                    _ => Ok(Truth::True),
+                }
+            }
+            Condition::Or(a, b) => match (self.condition(a, decision), self.condition(b, decision))
+            {
+                (Ok(Truth::True), _) | (_, Ok(Truth::True)) => Ok(Truth::True),
+                (Err(x), Err(y)) => Err(x.join(y)),
+                (Err(x), _) | (_, Err(x)) => Err(x),
+                (Ok(Truth::Uncertain), _) | (_, Ok(Truth::Uncertain)) => Ok(Truth::Uncertain),
+                _ => Ok(Truth::False),
+            },
+        }
+    }
+
+    /// The finding of one test.
+    pub fn test(&mut self, t: &Test) -> Evaluated<Checked> {
+        match &t.kind {
+            TestKind::Compare {
+                left,
+                op,
+                right,
+                allowance,
+            } => {
+                let (l, r) = super::value::both(self.eval(left), self.eval(right))?;
+                let slack = self.allowance(allowance.as_ref());
+                Ok(self.compare(&l, *op, &r, slack, limit_unit(left, right, self)))
+            }
+            TestKind::Between {
+                subject,
+                low,
+                high,
+                allowance,
+            } => {
+                let s = self.eval(subject);
+                let (lo, hi) = super::value::both(self.eval(low), self.eval(high))?;
+                let s = s?;
+                let slack = self.allowance(allowance.as_ref());
+                Ok(self.between(&s, &lo, &hi, slack, limit_unit(low, high, self)))
+            }
+            TestKind::Member {
+                subject,
+                negated,
+                list,
+            } => {
+                let text = self.text(subject)?;
+                let on_list = self
+                    .rulebook
+                    .lists
+                    .iter()
+                    .find(|l| l.name == list.text)
+                    .is_some_and(|l| l.contains(&text));
+                Ok(binary_finding(on_list != *negated, text))
+            }
+            TestKind::Matches {
+                subject,
+                negated,
+                pattern,
+            } => {
+                let text = self.text(subject)?;
+                let matched = regex::RegexBuilder::new(&pattern.source)
+                    .case_insensitive(pattern.ignore_case)
+                    .build()
+                    .is_ok_and(|re| re.is_match(&text));
+                Ok(binary_finding(matched != *negated, text))
+            }
+        }
+    }
+
+    fn text(&mut self, e: &Expr) -> Evaluated<String> {
+        Ok(match self.eval(e)? {
+            Value::Text(t) => t,
+            other => other
+                .numbers()
+                .first()
+                .map(|d| d.value.to_string())
+                .unwrap_or_default(),
+        })
+    }
+
+    fn allowance(&mut self, e: Option<&Expr>) -> f64 {
+        e.and_then(|e| self.eval(e).ok())
+            .and_then(|v| v.numbers().first().map(|d| d.value))
+            .unwrap_or(0.0)
+    }
+
+    fn compare(
+        &self,
+        l: &Value,
+        op: CompareOp,
+        r: &Value,
+        slack: f64,
+        unit: Option<&'static Unit>,
+    ) -> Checked {
+        if let (Value::Text(a), Value::Text(b)) = (l, r) {
+            let equal = a == b;
+            return binary_finding(equal == (op == CompareOp::Equal), a.clone());
+        }
+        if matches!(op, CompareOp::Equal | CompareOp::NotEqual) {
+            let (a, b) = (first(l), first(r));
+            let equal = (a - b).abs() <= 1e-9 * a.abs().max(b.abs()).max(1e-300);
+            let shown = crate::report::format::number(a / unit.map_or(1.0, |u| u.to_si));
+            return binary_finding(equal == (op == CompareOp::Equal), shown);
+        }
+        let (subject, limit, op) = if is_constant(r) || !is_constant(l) {
+            (l, r, op)
+        } else {
+            (r, l, flip(op))
+        };
+        let strict = matches!(op, CompareOp::Below | CompareOp::Above);
+        let upper = matches!(op, CompareOp::AtMost | CompareOp::Below);
+        // margin, positive inside: (limit + allowance) − value, or value − (limit − allowance)
+        let margins = subject.zip(limit, |s, t| if upper { t.sub(s) } else { s.sub(t) });
+        let limits = subject.zip(limit, |_, t| t.clone());
+        let values = subject.zip(limit, |s, _| s.clone());
+        let (i, m) = self.worst(margins.numbers(), slack, strict);
+        let lim = limits.numbers()[i].value + if upper { slack } else { -slack };
+        let numeric = self.numeric(
+            values.numbers()[i].value,
+            lim,
+            &m,
+            slack,
+            strict,
+            unit,
+            cylinder(&margins, i),
+            None,
+        );
+        Checked {
+            finding: numeric.1,
+            numeric: Some(numeric.0),
+            observed: None,
+        }
+    }
+
+    fn between(
+        &self,
+        s: &Value,
+        lo: &Value,
+        hi: &Value,
+        slack: f64,
+        unit: Option<&'static Unit>,
+    ) -> Checked {
+        let low_margins = s.zip(lo, |s, l| s.sub(l));
+        let high_margins = s.zip(hi, |s, h| h.sub(s));
+        let mut worst: Option<(usize, Checked, (f64, f64))> = None;
+        for i in 0..low_margins.numbers().len() {
+            let (ml, mh) = (&low_margins.numbers()[i], &high_margins.numbers()[i]);
+            let (ul, uh) = (self.combined(ml), self.combined(mh));
+            let (low_value, high_value) = (ml.value + slack, mh.value + slack);
+            let f = finding(low_value, COVERAGE * ul, false).min(finding(
+                high_value,
+                COVERAGE * uh,
+                false,
+            ));
+            let p = probability_between((low_value, ul), (high_value, uh));
+            let value = s
+                .numbers()
+                .get(i)
+                .or(s.numbers().first())
+                .map_or(f64::NAN, |d| d.value);
+            let (limit, margin, u) = if low_value < high_value {
+                (value - low_value, low_value, ul)
+            } else {
+                (value + high_value, high_value, uh)
+            };
+            let range = (value - low_value, value + high_value);
+            let numeric = Numeric {
+                value,
+                limit,
+                margin,
+                expanded: COVERAGE * u,
+                k: COVERAGE,
+                probability: p,
+                unit,
+                cylinder: cylinder(&low_margins, i),
+                range: Some(range),
+            };
+            let candidate = Checked {
+                finding: f,
+                numeric: Some(numeric),
+                observed: None,
+            };
+            let better = worst
+                .as_ref()
+                .is_none_or(|(_, w, _)| rank(&candidate) < rank(w));
+            if better {
+                worst = Some((i, candidate, range));
+            }
+        }
+        worst.map(|(_, c, _)| c).unwrap_or(Checked {
+            finding: Finding::Fail,
+            numeric: None,
+            observed: None,
+        })
+    }
+
+    /// The cylinder whose margin is worst: lowest probability of conformance, then least margin.
+    fn worst(&self, margins: &[Dual], slack: f64, strict: bool) -> (usize, Dual) {
+        let mut best = (0, f64::INFINITY, f64::INFINITY);
+        for (i, m) in margins.iter().enumerate() {
+            let p = probability(m.value + slack, self.combined(m), strict);
+            if (p, m.value) < (best.1, best.2) {
+                best = (i, p, m.value);
+            }
+        }
+        (
+            best.0,
+            margins
+                .get(best.0)
+                .cloned()
+                .unwrap_or_else(|| Dual::constant(f64::NAN)),
+        )
+    }
+
+    #[allow(
+        clippy::too_many_arguments,
+        reason = "the parts of one numeric finding, computed together"
+    )]
+    fn numeric(
+        &self,
+        value: f64,
+        limit: f64,
+        m: &Dual,
+        slack: f64,
+        strict: bool,
+        unit: Option<&'static Unit>,
+        cylinder: Option<usize>,
+        range: Option<(f64, f64)>,
+    ) -> (Numeric, Finding) {
+        let u = self.combined(m);
+        let margin = m.value + slack;
+        let f = finding(margin, COVERAGE * u, strict);
+        let n = Numeric {
+            value,
+            limit,
+            margin,
+            expanded: COVERAGE * u,
+            k: COVERAGE,
+            probability: probability(margin, u, strict),
+            unit,
+            cylinder,
+            range,
+        };
+        (n, f)
+    }
+
+    /// Every input and derived value a rule reads, in the order first read.
+    fn trace(&mut self, r: &ClassRule) -> Vec<Trace> {
+        let mut names = Vec::new();
+        for c in &r.conditions {
+            condition_names(c, &mut names);
+        }
+        test_names(&r.rule.require, &mut names);
+        let mut lines = Vec::new();
+        let mut seen = Vec::new();
+        for n in names {
+            self.trace_name(&n, &mut lines, &mut seen);
+        }
+        lines
+    }
+
+    fn trace_name(&mut self, name: &str, lines: &mut Vec<Trace>, seen: &mut Vec<String>) {
+        if seen.iter().any(|s| s == name) || name == "pi" {
+            return;
+        }
+        seen.push(name.to_string());
+        if let Some(d) = self
+            .rulebook
+            .derived
+            .iter()
+            .find(|d| d.name == name)
+            .cloned()
+        {
+            let mut inner = Vec::new();
+            expr_names(&d.expr, &mut inner);
+            for n in inner {
+                self.trace_name(&n, lines, seen);
+            }
+            let value = self.derived(name).and_then(Result::ok);
+            let numbers = value
+                .as_ref()
+                .map(|v| v.numbers().to_vec())
+                .unwrap_or_default();
+            let unit = match d.ty.kind {
+                ValueKind::Number(dim) => units::display_unit(dim),
+                ValueKind::Text => None,
+            };
+            self.trace_literals(&d.expr, lines);
+            lines.push(Trace::Derived {
+                name: name.to_string(),
+                formula: expr_text(&d.expr),
+                values: numbers.iter().map(|n| n.value).collect(),
+                uncertainties: numbers.iter().map(|n| self.combined(n)).collect(),
+                unit,
+            });
+            return;
+        }
+        match self.declaration.supplied.get(name) {
+            None => lines.push(Trace::Missing {
+                name: name.to_string(),
+            }),
+            Some(Supplied::Text(value, origin)) => lines.push(Trace::Text {
+                label: name.to_string(),
+                value: value.clone(),
+                origin: origin.clone(),
+            }),
+            Some(Supplied::Single(id)) => lines.push(self.input_line(*id)),
+            Some(Supplied::PerCylinder(ids)) => {
+                lines.extend(ids.iter().map(|id| self.input_line(*id)))
+            }
+        }
+    }
+
+    /// Rulebook literals with a stated uncertainty that a derived value reads.
+    fn trace_literals(&self, e: &Expr, lines: &mut Vec<Trace>) {
+        for i in self.declaration.inputs.len()..self.inputs.len() {
+            let input = &self.inputs[i];
+            let text = expr_text(e);
+            let already = lines
+                .iter()
+                .any(|l| matches!(l, Trace::Input { label, .. } if *label == input.label));
+            if text.contains(&input.label) && !already {
+                lines.push(self.input_line(u32::try_from(i).unwrap_or(u32::MAX)));
+            }
+        }
+    }
+
+    fn input_line(&self, id: u32) -> Trace {
+        let input = &self.inputs[id as usize];
+        Trace::Input {
+            label: input.label.clone(),
+            value: input.value,
+            standard_uncertainty: input.standard_uncertainty,
+            unit: input.unit.and_then(units::lookup),
+            written: input.written.clone(),
+            source: input.source.clone(),
+            origin: input.origin.clone(),
+        }
+    }
+}
+
+fn rank(c: &Checked) -> (Finding, f64, f64) {
+    let n = c.numeric.as_ref();
+    (
+        c.finding,
+        n.map_or(1.0, |n| n.probability),
+        n.map_or(0.0, |n| n.margin),
+    )
+}
+
+fn cylinder(v: &Value, i: usize) -> Option<usize> {
+    matches!(v, Value::PerCylinder(_)).then_some(i + 1)
+}
+
+fn first(v: &Value) -> f64 {
+    v.numbers().first().map_or(f64::NAN, |d| d.value)
+}
+
+fn is_constant(v: &Value) -> bool {
+    matches!(v, Value::Single(d) if d.partials.is_empty())
+}
+
+fn flip(op: CompareOp) -> CompareOp {
+    match op {
+        CompareOp::AtMost => CompareOp::AtLeast,
+        CompareOp::Below => CompareOp::Above,
+        CompareOp::AtLeast => CompareOp::AtMost,
+        CompareOp::Above => CompareOp::Below,
+        other => other,
+    }
+}
+
+fn truth_of(f: Finding, decision: DecisionRule) -> Truth {
+    match (f, decision) {
+        (Finding::Pass, _) => Truth::True,
+        (Finding::Fail, _) => Truth::False,
+        (Finding::ConditionalPass, DecisionRule::SimpleAcceptance) => Truth::True,
+        (Finding::ConditionalFail, DecisionRule::SimpleAcceptance) => Truth::False,
+        _ => Truth::Uncertain,
+    }
+}
+
+fn binary_finding(holds: bool, observed: String) -> Checked {
+    Checked {
+        finding: if holds { Finding::Pass } else { Finding::Fail },
+        numeric: None,
+        observed: Some(observed),
+    }
+}
+
+/// The unit to show a limit in: the first unit written on the limit side, else the unit
+/// gonogo shows that dimension in.
+fn limit_unit(a: &Expr, b: &Expr, ev: &Evaluator) -> Option<&'static Unit> {
+    let written = first_unit(b).or_else(|| first_unit(a));
+    written.or_else(|| {
+        let names = [a, b].into_iter().flat_map(|e| {
+            let mut n = Vec::new();
+            expr_names(e, &mut n);
+            n
+        });
+        names
+            .filter_map(|n| dimension_of(&n, ev))
+            .find_map(units::display_unit)
+    })
+}
+
+fn dimension_of(name: &str, ev: &Evaluator) -> Option<crate::units::Dimension> {
+    let kind = ev.rulebook.measurement(name).map(|m| m.kind).or_else(|| {
+        ev.rulebook
+            .derived
+            .iter()
+            .find(|d| d.name == name)
+            .map(|d| d.ty.kind)
+    })?;
+    match kind {
+        ValueKind::Number(d) => Some(d),
+        ValueKind::Text => None,
+    }
+}
+
+fn first_unit(e: &Expr) -> Option<&'static Unit> {
+    match &e.kind {
+        ExprKind::Quantity(q) => q
+            .unit
+            .as_ref()
+            .or(q.uncertainty.as_ref().and_then(|u| u.unit.as_ref()))
+            .and_then(|u| units::lookup(&u.symbol)),
+        ExprKind::Negate(inner) => first_unit(inner),
+        ExprKind::Binary { left, right, .. } => first_unit(left).or_else(|| first_unit(right)),
+        ExprKind::Call { args, .. } => args.iter().find_map(|a| first_unit(&a.value)),
+        ExprKind::Text(_) | ExprKind::Name(_) => None,
+    }
+}
+
+fn expr_names(e: &Expr, out: &mut Vec<String>) {
+    match &e.kind {
+        ExprKind::Name(n) => out.push(n.text.clone()),
+        ExprKind::Negate(inner) => expr_names(inner, out),
+        ExprKind::Binary { left, right, .. } => {
+            expr_names(left, out);
+            expr_names(right, out);
+        }
+        ExprKind::Call { args, .. } => args.iter().for_each(|a| expr_names(&a.value, out)),
+        ExprKind::Quantity(_) | ExprKind::Text(_) => {}
+    }
+}
+
+fn test_names(t: &Test, out: &mut Vec<String>) {
+    match &t.kind {
+        TestKind::Compare {
+            left,
+            right,
+            allowance,
+            ..
+        } => {
+            expr_names(left, out);
+            expr_names(right, out);
+            if let Some(a) = allowance {
+                expr_names(a, out);
+            }
+        }
+        TestKind::Between {
+            subject, low, high, ..
+        } => {
+            expr_names(subject, out);
+            expr_names(low, out);
+            expr_names(high, out);
+        }
+        TestKind::Member { subject, .. } | TestKind::Matches { subject, .. } => {
+            expr_names(subject, out)
+        }
+    }
+}
+
+fn condition_names(c: &Condition, out: &mut Vec<String>) {
+    match c {
+        Condition::Test(t) => test_names(t, out),
+        Condition::Not(inner, _) => condition_names(inner, out),
+        Condition::And(a, b) | Condition::Or(a, b) => {
+            condition_names(a, out);
+            condition_names(b, out);
+        }
+    }
+}

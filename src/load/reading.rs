@@ -1,0 +1,289 @@
+//! One measured number from a declaration: the literal parsed with the rulebook's own
+//! grammar, converted to SI, checked against the measurement's dimension and range.
+
+use crate::check::model::Measurement;
+use crate::check::model::ValueKind;
+use crate::parse::ast::UnitRef;
+use crate::parse::quantity_literal;
+use crate::units::{self, Dimension};
+
+/// A number as read, before its uncertainty is settled.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Reading {
+    /// Value in SI units.
+    pub value: f64,
+    /// A stated expanded uncertainty in SI units and its coverage factor.
+    pub stated: Option<(f64, f64)>,
+    /// The unit written.
+    pub unit: Option<&'static str>,
+    /// The value as written.
+    pub written: String,
+}
+
+/// Why a literal is not a valid reading: code, message, help.
+pub type Refusal = (&'static str, String, String);
+
+fn refuse(code: &'static str, message: impl Into<String>, help: impl Into<String>) -> Refusal {
+    (code, message.into(), help.into())
+}
+
+/// Reads a string such as `4.031 in` or `76.2 cc ± 0.2 cc (k = 2)` for `m`.
+pub fn read_text(text: &str, m: &Measurement) -> Result<Reading, Refusal> {
+    let (negative, q) =
+        quantity_literal(text).map_err(|e| refuse("gonogo::load::bad-quantity", e, example(m)))?;
+    let value_unit = q
+        .unit
+        .as_ref()
+        .or(q.uncertainty.as_ref().and_then(|u| u.unit.as_ref()));
+    let (unit, factor) = resolve_unit(value_unit, m)?;
+    let sign = if negative { -1.0 } else { 1.0 };
+    let stated = match &q.uncertainty {
+        Some(u) => {
+            let (_, u_factor) = match &u.unit {
+                Some(symbol) => resolve_unit(Some(symbol), m)?,
+                None => (unit, factor),
+            };
+            let k = u.coverage.as_ref().map_or(2.0, |k| k.value);
+            if k <= 0.0 {
+                return Err(refuse(
+                    "gonogo::load::bad-coverage",
+                    "the coverage factor must be above zero",
+                    "write `(k = 2)` for about 95 % coverage",
+                ));
+            }
+            Some((u.value.value * u_factor, k))
+        }
+        None => None,
+    };
+    check_value(sign * q.value.value * factor, m)?;
+    Ok(Reading {
+        value: sign * q.value.value * factor,
+        stated,
+        unit,
+        written: text.trim().to_string(),
+    })
+}
+
+/// Reads a bare YAML number for `m`; only plain numbers (counts, ratios) may be written so.
+pub fn read_number(value: f64, m: &Measurement) -> Result<Reading, Refusal> {
+    if dimension(m) != Dimension::NONE {
+        return Err(refuse(
+            "gonogo::load::missing-unit",
+            format!(
+                "`{}` is a {}, and this number has no unit",
+                m.name,
+                dimension(m)
+            ),
+            format!("write it as a string with its unit, like {}", example(m)),
+        ));
+    }
+    check_value(value, m)?;
+    Ok(Reading {
+        value,
+        stated: None,
+        unit: None,
+        written: crate::report::format::number(value),
+    })
+}
+
+/// Reads an instrument's resolution or uncertainty (any dimension; matched to its use later).
+pub fn read_instrument_quantity(text: &str) -> Result<(f64, Dimension, f64), Refusal> {
+    let (negative, q) = quantity_literal(text).map_err(|e| {
+        refuse(
+            "gonogo::load::bad-quantity",
+            e,
+            "write it with its unit, like `0.0001 in`",
+        )
+    })?;
+    let (dimension, factor) = match &q.unit {
+        Some(u) => match units::lookup(&u.symbol) {
+            Some(unit) => (unit.dimension, unit.to_si),
+            None => return Err(unknown_unit(u)),
+        },
+        None => (Dimension::NONE, 1.0),
+    };
+    let value = q.value.value * factor;
+    if negative || value <= 0.0 {
+        return Err(refuse(
+            "gonogo::load::not-positive",
+            "a resolution or uncertainty must be above zero",
+            "write the instrument's resolution, like `0.0001 in`",
+        ));
+    }
+    let k = q
+        .uncertainty
+        .and_then(|u| u.coverage)
+        .map_or(2.0, |k| k.value);
+    Ok((value, dimension, k))
+}
+
+fn dimension(m: &Measurement) -> Dimension {
+    match m.kind {
+        ValueKind::Number(d) => d,
+        ValueKind::Text => Dimension::NONE,
+    }
+}
+
+fn resolve_unit(
+    unit: Option<&UnitRef>,
+    m: &Measurement,
+) -> Result<(Option<&'static str>, f64), Refusal> {
+    let want = dimension(m);
+    let Some(u) = unit else {
+        if want == Dimension::NONE {
+            return Ok((None, 1.0));
+        }
+        return Err(refuse(
+            "gonogo::load::missing-unit",
+            format!("`{}` is a {want}, and this value has no unit", m.name),
+            format!("write the unit after the number, like {}", example(m)),
+        ));
+    };
+    let Some(found) = units::lookup(&u.symbol) else {
+        return Err(unknown_unit(u));
+    };
+    if found.dimension != want {
+        return Err(refuse(
+            "gonogo::load::wrong-dimension",
+            format!(
+                "`{}` is a {want}, but `{}` is a unit of {}",
+                m.name, u.symbol, found.dimension
+            ),
+            format!("write it in a unit of {want}, like {}", example(m)),
+        ));
+    }
+    Ok((Some(found.symbol), found.to_si))
+}
+
+fn unknown_unit(u: &UnitRef) -> Refusal {
+    let help = match units::closest_unit(&u.symbol) {
+        Some(near) => format!("did you mean `{near}`?"),
+        None => "the units gonogo knows are listed in README.md".to_string(),
+    };
+    refuse(
+        "gonogo::load::unknown-unit",
+        format!("`{}` is not a unit gonogo knows", u.symbol),
+        help,
+    )
+}
+
+fn check_value(value: f64, m: &Measurement) -> Result<(), Refusal> {
+    if !value.is_finite() {
+        return Err(refuse(
+            "gonogo::load::not-finite",
+            "this value is not a finite number",
+            "write the measured value",
+        ));
+    }
+    let negatives_allowed = m.range.is_some_and(|(low, _)| low < 0.0);
+    if value < 0.0 && !negatives_allowed {
+        return Err(refuse(
+            "gonogo::load::negative",
+            format!("`{}` cannot be negative", m.name),
+            "check the sign; the rulebook allows negative values only where its `range` does",
+        ));
+    }
+    if let Some((low, high)) = m.range
+        && (value < low || value > high)
+    {
+        return Err(refuse(
+            "gonogo::load::out-of-range",
+            format!(
+                "this value is outside the range the rulebook declares for `{}`",
+                m.name
+            ),
+            format!(
+                "the rulebook expects {}; check the value and its unit",
+                range_text(m, low, high)
+            ),
+        ));
+    }
+    Ok(())
+}
+
+fn range_text(m: &Measurement, low: f64, high: f64) -> String {
+    match units::display_unit(dimension(m)) {
+        Some(u) => format!(
+            "{} {} to {} {}",
+            short(low / u.to_si),
+            u.symbol,
+            short(high / u.to_si),
+            u.symbol
+        ),
+        None => format!("{} to {}", short(low), short(high)),
+    }
+}
+
+fn short(v: f64) -> String {
+    let text = format!("{v:.6}");
+    text.trim_end_matches('0').trim_end_matches('.').to_string()
+}
+
+/// An example literal of the measurement's dimension, in backticks.
+pub fn example(m: &Measurement) -> String {
+    match units::display_unit(dimension(m)) {
+        Some(u) => format!("`\"1.0 {}\"`", u.symbol),
+        None => "`2`".to_string(),
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::source::Span;
+
+    fn bore() -> Measurement {
+        Measurement {
+            name: "bore".into(),
+            dimension_word: "length".into(),
+            kind: ValueKind::Number(Dimension::LENGTH),
+            per_cylinder: true,
+            required: true,
+            range: Some((0.0254 * 3.5, 0.0254 * 4.5)),
+            procedure: None,
+            span: Span::default(),
+        }
+    }
+
+    #[test]
+    fn a_length_in_inches_becomes_metres_with_its_uncertainty() {
+        // NIST SP 811 B.8: 1 in = 0.0254 m exactly
+        let r =
+            read_text("4.031 in ± 0.0004 in (k = 2)", &bore()).unwrap_or_else(|e| panic!("{e:?}"));
+        assert!((r.value - 4.031 * 0.0254).abs() < 1e-15);
+        assert_eq!(
+            r.stated
+                .map(|(u, k)| (u / 0.0254, k))
+                .map(|(u, k)| ((u - 0.0004).abs() < 1e-15, k)),
+            Some((true, 2.0))
+        );
+        assert_eq!(r.unit, Some("in"));
+    }
+
+    #[test]
+    fn the_wrong_dimension_is_refused() {
+        let e = read_text("76 cc", &bore()).err().map(|e| e.0);
+        assert_eq!(e, Some("gonogo::load::wrong-dimension"));
+    }
+
+    #[test]
+    fn negative_and_out_of_range_values_are_refused() {
+        assert_eq!(
+            read_text("-4.0 in", &bore()).err().map(|e| e.0),
+            Some("gonogo::load::negative")
+        );
+        assert_eq!(read_text("103 mm", &bore()).err().map(|e| e.0), None);
+        assert_eq!(
+            read_text("4.03 mm", &bore()).err().map(|e| e.0),
+            Some("gonogo::load::out-of-range")
+        );
+    }
+
+    #[test]
+    fn a_bare_number_needs_a_unit_unless_the_measurement_is_a_plain_number() {
+        assert_eq!(
+            read_number(4.03, &bore()).err().map(|e| e.0),
+            Some("gonogo::load::missing-unit")
+        );
+    }
+}

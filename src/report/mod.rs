@@ -1,0 +1,5 @@
+//! Reports: the same evaluated data rendered as text for people and as JSON for programs.
+
+pub mod format;
+pub mod json;
+pub mod text;
