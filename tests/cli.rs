@@ -211,3 +211,154 @@ fn fmt_of_a_broken_file_exits_2_and_writes_nothing_to_stdout() {
     assert!(run.stdout.is_empty());
     assert!(run.stderr.contains("found the end of the file"));
 }
+
+const RULES: &str = "rulebooks-demo/tamsin-2027.rules";
+
+#[test]
+fn check_exit_statuses_follow_the_decision_rule() {
+    let close = "engines-demo/limited2-close-bore.yaml";
+    assert_eq!(gonogo(&["check", "--rules", RULES, close]).code, 3);
+    assert_eq!(
+        gonogo(&["check", "--rules", RULES, "--as", "inspector", close]).code,
+        3
+    );
+    assert_eq!(
+        gonogo(&["check", "--rules", RULES, "--as", "builder", close]).code,
+        1
+    );
+    assert_eq!(
+        gonogo(&[
+            "check",
+            "--rules",
+            RULES,
+            "engines-demo/limited2-legal.yaml"
+        ])
+        .code,
+        0
+    );
+    assert_eq!(
+        gonogo(&[
+            "check",
+            "--rules",
+            RULES,
+            "engines-demo/limited2-valve-lift.yaml"
+        ])
+        .code,
+        1
+    );
+}
+
+#[test]
+fn check_as_builder_says_so_in_the_report() {
+    let run = gonogo(&[
+        "check",
+        "--rules",
+        RULES,
+        "--as",
+        "builder",
+        "engines-demo/limited2-close-bore.yaml",
+    ]);
+    assert!(
+        run.stdout
+            .contains("decision rule: guarded acceptance (from the command line)"),
+        "{}",
+        run.stdout
+    );
+    assert!(
+        run.stdout
+            .contains("3.2  Bore, every cylinder — ILLEGAL · conditional pass"),
+        "{}",
+        run.stdout
+    );
+}
+
+#[test]
+fn check_of_a_bad_declaration_exits_2_with_nothing_on_stdout() {
+    let run = gonogo(&[
+        "check",
+        "--rules",
+        RULES,
+        "engines-demo/limited2-legal.yaml",
+        "tests/bad-declarations/wrong-dimension.yaml",
+    ]);
+    assert_eq!(run.code, 2);
+    assert!(
+        run.stdout.is_empty(),
+        "half a report was written:\n{}",
+        run.stdout
+    );
+    assert!(
+        run.stderr.contains("wrong-dimension.yaml:21:27"),
+        "{}",
+        run.stderr
+    );
+}
+
+#[test]
+fn check_with_a_broken_rulebook_exits_2() {
+    let run = gonogo(&[
+        "check",
+        "--rules",
+        "tests/malformed/unknown-unit.rules",
+        "engines-demo/limited2-legal.yaml",
+    ]);
+    assert_eq!(run.code, 2);
+    assert!(run.stderr.contains("`inch` is not a unit gonogo knows"));
+}
+
+#[test]
+fn check_of_several_engines_ends_with_a_field_line_and_the_worst_status() {
+    let run = gonogo(&[
+        "check",
+        "--rules",
+        RULES,
+        "engines-demo/limited2-legal.yaml",
+        "engines-demo/limited2-close-bore.yaml",
+        "engines-demo/open4-stroker.yaml",
+    ]);
+    assert_eq!(run.code, 1);
+    assert!(
+        run.stdout
+            .ends_with("3 engines: 1 legal, 1 illegal, 1 not all clear\n"),
+        "{}",
+        run.stdout
+    );
+}
+
+#[test]
+fn check_json_is_one_document_for_several_engines() {
+    let run = gonogo(&[
+        "check",
+        "--rules",
+        RULES,
+        "--format",
+        "json",
+        "engines-demo/limited2-legal.yaml",
+        "engines-demo/open4-legal.yaml",
+    ]);
+    assert_eq!(run.code, 0);
+    let doc: serde_json::Value =
+        serde_json::from_str(&run.stdout).unwrap_or_else(|e| panic!("{e}"));
+    assert_eq!(doc["engines"].as_array().map(Vec::len), Some(2));
+}
+
+#[test]
+fn check_class_override_is_applied() {
+    let run = gonogo(&[
+        "check",
+        "--rules",
+        RULES,
+        "--class",
+        "open4",
+        "engines-demo/limited2-legal.yaml",
+    ]);
+    assert!(
+        run.stdout.contains("class open4 \"Open Four-Barrel\""),
+        "{}",
+        run.stdout
+    );
+    assert_eq!(
+        run.code, 1,
+        "a two-barrel fails the open class's four-barrel rule"
+    );
+}

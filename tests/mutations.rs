@@ -131,3 +131,75 @@ proptest! {
         }
     }
 }
+
+fn demo_rulebook() -> gonogo::check::model::CheckedRulebook {
+    let loaded = gonogo::commands::load_rulebook(std::path::Path::new(concat!(
+        env!("CARGO_MANIFEST_DIR"),
+        "/rulebooks-demo/tamsin-2027.rules"
+    )));
+    loaded
+        .checked
+        .unwrap_or_else(|| panic!("the demo rulebook does not check"))
+}
+
+fn demo_declarations() -> Vec<String> {
+    common::files_under("engines-demo", ".yaml")
+        .into_iter()
+        .map(|p| std::fs::read_to_string(p).unwrap_or_default())
+        .collect()
+}
+
+const YAML_TOKENS: &[&str] = &[
+    ":",
+    "- ",
+    "[",
+    "]",
+    "{",
+    "}",
+    "\"",
+    "'",
+    "\n  ",
+    "\n",
+    "#",
+    "&a ",
+    "*a",
+    "~",
+    "null",
+    ".nan",
+    "-.inf",
+    "1e999",
+    "± 0.1 in",
+    "(k = 0)",
+    "-",
+    "cc",
+    "in",
+    "values:",
+    "value:",
+    "instrument:",
+    "class: open4",
+    "bore:",
+    "cylinders: 3",
+];
+
+proptest! {
+    #![proptest_config(ProptestConfig { cases: 300, ..ProptestConfig::default() })]
+
+    #[test]
+    fn mutated_declarations_never_panic(file in any::<usize>(), edits in prop::collection::vec(edit(), 1..6), token in 0..YAML_TOKENS.len(), at in any::<usize>()) {
+        let rulebook = demo_rulebook();
+        let texts = demo_declarations();
+        let mut text = texts[file % texts.len()].clone();
+        for e in &edits {
+            apply(&mut text, e);
+        }
+        let at = boundary(&text, at);
+        text.insert_str(at, YAML_TOKENS[token]);
+        let mut sources = gonogo::source::SourceMap::default();
+        if let Ok(declaration) = gonogo::load::declaration_from_text(std::path::Path::new("mutant.yaml"), text, &rulebook, &mut sources) {
+            let class = declaration.identity.class.clone().and_then(|c| rulebook.class(&c).cloned()).unwrap_or_else(|| rulebook.classes[0].clone());
+            let report = gonogo::evaluate::check_engine(&rulebook, &class, &declaration, None);
+            let _ = gonogo::report::text::engine(&report);
+            let _ = gonogo::report::json::document(&[report]);
+        }
+    }
+}

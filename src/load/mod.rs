@@ -27,6 +27,26 @@ pub fn load_declaration(
     sources: &mut SourceMap,
 ) -> Result<Declaration, Problem> {
     let id = sources.read(path).map_err(|f| read_problem(path, f))?;
+    read_declaration(id, path, rulebook, sources)
+}
+
+/// Reads a declaration from text, named `path` in diagnostics.
+pub fn declaration_from_text(
+    path: &Path,
+    text: String,
+    rulebook: &CheckedRulebook,
+    sources: &mut SourceMap,
+) -> Result<Declaration, Problem> {
+    let id = sources.add(path.to_path_buf(), text);
+    read_declaration(id, path, rulebook, sources)
+}
+
+fn read_declaration(
+    id: FileId,
+    path: &Path,
+    rulebook: &CheckedRulebook,
+    sources: &SourceMap,
+) -> Result<Declaration, Problem> {
     let text = sources.file(id).text.clone();
     let state = RefCell::new(State::default());
     let seed = DeclarationSeed {
@@ -79,11 +99,10 @@ fn locate_at_start(mut p: Problem, file: FileId) -> Problem {
 /// Turns a serde_yaml error into a problem at its line and column.
 fn yaml_problem(e: &serde_yaml::Error, file: FileId, text: &str) -> Problem {
     let full = e.to_string();
-    let without_location = match full.rfind(" at line ") {
-        Some(at) => &full[..at],
-        None => full.as_str(),
-    };
-    let (code, message, help) = split_refusal(without_location);
+    let location = regex::Regex::new(r" at line \d+ column \d+")
+        .map(|re| re.replace_all(&full, "").into_owned());
+    let without_location = location.unwrap_or(full);
+    let (code, message, help) = split_refusal(&without_location);
     let span = e
         .location()
         .map(|l| token_span(file, text, l.line(), l.column()))
@@ -170,7 +189,10 @@ fn token_span(file: FileId, text: &str, line: usize, column: usize) -> Span {
     let rest = &text[start.min(text.len())..];
     let len = match rest.strip_prefix('"') {
         Some(quoted) => quoted.find('"').map_or(1, |end| end + 2),
-        None => rest.find(['\n', ',', ']', '}', '#']).unwrap_or(rest.len()).max(1),
+        None => rest
+            .find(['\n', ',', ']', '}', '#', ':'])
+            .unwrap_or(rest.len())
+            .max(1),
     };
     let len = rest[..len.min(rest.len())].trim_end().len().max(1);
     Span::new(file, start, (start + len).min(text.len()))

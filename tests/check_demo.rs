@@ -1,0 +1,97 @@
+//! `gonogo check` on the demo: a snapshot of the text and JSON report of every demo engine,
+//! the exit statuses the demo is built to show, and every bad declaration's diagnostic.
+
+mod common;
+
+use std::path::{Path, PathBuf};
+
+use gonogo::commands::check::{self, CheckFormat, CheckRequest, Role};
+use gonogo::diagnostic::RenderStyle;
+use gonogo::exit::Exit;
+
+const RULES: &str = "rulebooks-demo/tamsin-2027.rules";
+
+fn relative(path: &Path) -> PathBuf {
+    path.strip_prefix(env!("CARGO_MANIFEST_DIR"))
+        .unwrap_or(path)
+        .to_path_buf()
+}
+
+fn run(
+    declaration: &Path,
+    format: CheckFormat,
+    role: Option<Role>,
+) -> Result<(String, Exit), String> {
+    let declarations = [relative(declaration)];
+    let request = CheckRequest {
+        rules: Path::new(RULES),
+        class: None,
+        role,
+        format,
+        declarations: &declarations,
+    };
+    check::run(&request, RenderStyle::PLAIN)
+}
+
+#[test]
+fn every_demo_engine_reports_as_in_its_snapshots() {
+    insta::glob!("../engines-demo", "*.yaml", |path| {
+        let (text, exit) = run(path, CheckFormat::Text, None)
+            .unwrap_or_else(|e| panic!("{}: {e}", path.display()));
+        insta::assert_snapshot!("text", format!("exit {}\n{text}", exit as u8));
+        let (json, _) = run(path, CheckFormat::Json, None).unwrap_or_else(|e| panic!("{e}"));
+        insta::assert_snapshot!("json", json);
+    });
+}
+
+#[test]
+fn the_demo_shows_every_exit_status_and_a_disagreement() {
+    let mut inspector = Vec::new();
+    let mut disagreements = Vec::new();
+    for path in common::files_under("engines-demo", ".yaml") {
+        let (_, as_inspector) =
+            run(&path, CheckFormat::Text, Some(Role::Inspector)).unwrap_or_else(|e| panic!("{e}"));
+        let (_, as_builder) =
+            run(&path, CheckFormat::Text, Some(Role::Builder)).unwrap_or_else(|e| panic!("{e}"));
+        inspector.push(as_inspector);
+        if as_inspector != as_builder {
+            disagreements.push(path);
+        }
+    }
+    assert!(
+        inspector.len() >= 15,
+        "only {} demo engines",
+        inspector.len()
+    );
+    for exit in [Exit::Clean, Exit::Illegal, Exit::Uncertain] {
+        assert!(inspector.contains(&exit), "no demo engine exits {exit:?}");
+    }
+    assert!(
+        !disagreements.is_empty(),
+        "inspector and builder agree on every demo engine"
+    );
+}
+
+#[test]
+fn json_reports_parse_and_carry_the_schema() {
+    for path in common::files_under("engines-demo", ".yaml") {
+        let (json, exit) = run(&path, CheckFormat::Json, None).unwrap_or_else(|e| panic!("{e}"));
+        let doc: serde_json::Value =
+            serde_json::from_str(&json).unwrap_or_else(|e| panic!("{}: {e}", path.display()));
+        assert_eq!(doc["schema"], "gonogo.check/1");
+        assert_eq!(doc["engines"][0]["exit_status"], exit as u8);
+    }
+}
+
+#[test]
+fn bad_declarations_give_their_diagnostics() {
+    let mut count = 0;
+    insta::glob!("bad-declarations/*.yaml", |path| {
+        count += 1;
+        let problem = run(path, CheckFormat::Text, None)
+            .err()
+            .unwrap_or_else(|| panic!("{} was accepted", path.display()));
+        insta::assert_snapshot!(problem);
+    });
+    assert!(count >= 20, "only {count} bad declarations");
+}
