@@ -177,7 +177,10 @@ mod tests {
     }
 
     #[test]
-    #[allow(clippy::approx_constant, reason = "0.70711 is the reference's printed value, checked as printed")]
+    #[allow(
+        clippy::approx_constant,
+        reason = "0.70711 is the reference's printed value, checked as printed"
+    )]
     fn airflow_converts_by_the_square_root_of_the_pressure_drops() {
         // REFERENCES.md: √(1.5/3.0) = 0.70711, so 500 cfm at 3.0 inHg is about 354 cfm at 1.5
         let at = airflow_at(&c(500.0 * CFM), &c(3.0 * INHG), &c(1.5 * INHG)).value / CFM;

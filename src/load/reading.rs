@@ -3,7 +3,6 @@
 
 use crate::check::model::Measurement;
 use crate::check::model::ValueKind;
-use crate::parse::ast::UnitRef;
 use crate::parse::quantity_literal;
 use crate::units::{self, Dimension};
 
@@ -33,17 +32,17 @@ pub fn read_text(text: &str, m: &Measurement) -> Result<Reading, Refusal> {
         quantity_literal(text).map_err(|e| refuse("gonogo::load::bad-quantity", e, example(m)))?;
     let value_unit = q
         .unit
-        .as_ref()
-        .or(q.uncertainty.as_ref().and_then(|u| u.unit.as_ref()));
+        .or(q.uncertainty.and_then(|u| u.unit))
+        .map(|p| p.text);
     let (unit, factor) = resolve_unit(value_unit, m)?;
     let sign = if negative { -1.0 } else { 1.0 };
-    let stated = match &q.uncertainty {
+    let stated = match q.uncertainty {
         Some(u) => {
-            let (_, u_factor) = match &u.unit {
-                Some(symbol) => resolve_unit(Some(symbol), m)?,
+            let (_, u_factor) = match u.unit {
+                Some(symbol) => resolve_unit(Some(symbol.text), m)?,
                 None => (unit, factor),
             };
-            let k = u.coverage.as_ref().map_or(2.0, |k| k.value);
+            let k = u.coverage.map_or(2.0, |(k, _)| k);
             if k <= 0.0 {
                 return Err(refuse(
                     "gonogo::load::bad-coverage",
@@ -51,13 +50,14 @@ pub fn read_text(text: &str, m: &Measurement) -> Result<Reading, Refusal> {
                     "write `(k = 2)` for about 95 % coverage",
                 ));
             }
-            Some((u.value.value * u_factor, k))
+            Some((u.value.0 * u_factor, k))
         }
         None => None,
     };
-    check_value(sign * q.value.value * factor, m)?;
+    let value = sign * q.value.0 * factor;
+    check_value(value, m)?;
     Ok(Reading {
-        value: sign * q.value.value * factor,
+        value,
         stated,
         unit,
         written: text.trim().to_string(),
@@ -95,14 +95,14 @@ pub fn read_instrument_quantity(text: &str) -> Result<(f64, Dimension, f64), Ref
             "write it with its unit, like `0.0001 in`",
         )
     })?;
-    let (dimension, factor) = match &q.unit {
-        Some(u) => match units::lookup(&u.symbol) {
+    let (dimension, factor) = match q.unit {
+        Some(u) => match units::lookup(u.text) {
             Some(unit) => (unit.dimension, unit.to_si),
-            None => return Err(unknown_unit(u)),
+            None => return Err(unknown_unit(u.text)),
         },
         None => (Dimension::NONE, 1.0),
     };
-    let value = q.value.value * factor;
+    let value = q.value.0 * factor;
     if negative || value <= 0.0 {
         return Err(refuse(
             "gonogo::load::not-positive",
@@ -113,7 +113,7 @@ pub fn read_instrument_quantity(text: &str) -> Result<(f64, Dimension, f64), Ref
     let k = q
         .uncertainty
         .and_then(|u| u.coverage)
-        .map_or(2.0, |k| k.value);
+        .map_or(2.0, |(k, _)| k);
     Ok((value, dimension, k))
 }
 
@@ -125,11 +125,11 @@ fn dimension(m: &Measurement) -> Dimension {
 }
 
 fn resolve_unit(
-    unit: Option<&UnitRef>,
+    unit: Option<&str>,
     m: &Measurement,
 ) -> Result<(Option<&'static str>, f64), Refusal> {
     let want = dimension(m);
-    let Some(u) = unit else {
+    let Some(symbol) = unit else {
         if want == Dimension::NONE {
             return Ok((None, 1.0));
         }
@@ -139,15 +139,15 @@ fn resolve_unit(
             format!("write the unit after the number, like {}", example(m)),
         ));
     };
-    let Some(found) = units::lookup(&u.symbol) else {
-        return Err(unknown_unit(u));
+    let Some(found) = units::lookup(symbol) else {
+        return Err(unknown_unit(symbol));
     };
     if found.dimension != want {
         return Err(refuse(
             "gonogo::load::wrong-dimension",
             format!(
-                "`{}` is a {want}, but `{}` is a unit of {}",
-                m.name, u.symbol, found.dimension
+                "`{}` is a {want}, but `{symbol}` is a unit of {}",
+                m.name, found.dimension
             ),
             format!("write it in a unit of {want}, like {}", example(m)),
         ));
@@ -155,14 +155,14 @@ fn resolve_unit(
     Ok((Some(found.symbol), found.to_si))
 }
 
-fn unknown_unit(u: &UnitRef) -> Refusal {
-    let help = match units::closest_unit(&u.symbol) {
+fn unknown_unit(symbol: &str) -> Refusal {
+    let help = match units::closest_unit(symbol) {
         Some(near) => format!("did you mean `{near}`?"),
         None => "the units gonogo knows are listed in README.md".to_string(),
     };
     refuse(
         "gonogo::load::unknown-unit",
-        format!("`{}` is not a unit gonogo knows", u.symbol),
+        format!("`{symbol}` is not a unit gonogo knows"),
         help,
     )
 }

@@ -104,8 +104,9 @@ impl<'de> Visitor<'de> for DeclarationSeed<'_> {
 
     fn visit_map<A: MapAccess<'de>>(self, mut map: A) -> Result<(), A::Error> {
         let mut seen = HashSet::new();
+        let allowed: Vec<String> = TOP_KEYS.iter().map(|k| k.to_string()).collect();
         while let Some(key) = map.next_key_seed(KeySeed {
-            allowed: TOP_KEYS.iter().map(|k| k.to_string()).collect(),
+            allowed: &allowed,
             seen: &mut seen,
             what: "declaration key",
         })? {
@@ -159,7 +160,7 @@ fn set_identity(identity: &mut Identity, field: &str, text: Option<String>) {
 
 /// A mapping key that must be one of `allowed` and appear once.
 struct KeySeed<'s> {
-    allowed: Vec<String>,
+    allowed: &'s [String],
     seen: &'s mut HashSet<String>,
     what: &'static str,
 }
@@ -183,7 +184,7 @@ impl<'de> Visitor<'de> for KeySeed<'_> {
         if !self.allowed.iter().any(|a| a == key) {
             let help = match closest(key, self.allowed.iter().map(String::as_str)) {
                 Some(near) => format!("did you mean `{near}`?"),
-                None => format!("the keys allowed here are {}", backticked(&self.allowed)),
+                None => format!("the keys allowed here are {}", backticked(self.allowed)),
             };
             return Err(refuse(
                 "gonogo::load::unknown-key",
@@ -383,7 +384,7 @@ impl<'de> Visitor<'de> for InstrumentSeed {
         let mut seen = HashSet::new();
         let (mut resolution, mut expanded, mut k) = (None, None, None);
         while let Some(key) = map.next_key_seed(KeySeed {
-            allowed: allowed.clone(),
+            allowed: &allowed,
             seen: &mut seen,
             what: "instrument key",
         })? {
@@ -527,7 +528,7 @@ impl<'de> Visitor<'de> for ComponentsSeed<'_> {
         components.dedup();
         let mut seen = HashSet::new();
         while let Some(component) = map.next_key_seed(KeySeed {
-            allowed: components.clone(),
+            allowed: &components,
             seen: &mut seen,
             what: "component",
         })? {
@@ -576,7 +577,7 @@ impl<'de> Visitor<'de> for MeasurementsSeed<'_> {
             .collect();
         let mut seen = HashSet::new();
         while let Some(key) = map.next_key_seed(KeySeed {
-            allowed: allowed.clone(),
+            allowed: &allowed,
             seen: &mut seen,
             what: "measurement",
         })? {
@@ -825,7 +826,7 @@ impl<'de> Visitor<'de> for ValueSeed<'_> {
         let mut seen = HashSet::new();
         let (mut single, mut list, mut instrument) = (None, None, None);
         while let Some(key) = map.next_key_seed(KeySeed {
-            allowed: allowed.clone(),
+            allowed: &allowed,
             seen: &mut seen,
             what: "value key",
         })? {

@@ -11,7 +11,7 @@ use crate::source::{FileId, Span};
 #[derive(Clone, Debug, PartialEq)]
 pub enum SyntaxKind {
     /// Something else was expected; the labels say what.
-    Expected(Vec<&'static str>),
+    Expected(Expected),
     /// A specific complaint, with its code, message and help line.
     Specific {
         /// Stable code.
@@ -21,6 +21,36 @@ pub enum SyntaxKind {
         /// How to fix it.
         help: String,
     },
+}
+
+/// What was expected at one place: a few labels, kept inline so that the many failed
+/// alternatives of a parse allocate nothing.
+#[derive(Clone, Copy, Debug, Default, PartialEq)]
+pub struct Expected {
+    labels: [&'static str; 8],
+    len: u8,
+}
+
+impl Expected {
+    /// One label.
+    pub fn one(label: &'static str) -> Expected {
+        let mut e = Expected::default();
+        e.push(label);
+        e
+    }
+
+    /// Adds a label unless it is there already or the set is full.
+    pub fn push(&mut self, label: &'static str) {
+        if !self.labels().contains(&label) && usize::from(self.len) < self.labels.len() {
+            self.labels[usize::from(self.len)] = label;
+            self.len += 1;
+        }
+    }
+
+    /// The labels, in the order first seen.
+    pub fn labels(&self) -> &[&'static str] {
+        &self.labels[..usize::from(self.len)]
+    }
 }
 
 /// A syntax error at a byte offset.
@@ -43,7 +73,7 @@ impl SyntaxError {
             file: input.extra.file,
             offset: input.location_offset(),
             len: 0,
-            kind: SyntaxKind::Expected(vec![what]),
+            kind: SyntaxKind::Expected(Expected::one(what)),
         }
     }
 
@@ -80,11 +110,14 @@ impl SyntaxError {
                 };
                 Problem::error(
                     "gonogo::parse::unexpected",
-                    format!("expected {}, found {found_words}", list_alternatives(what)),
+                    format!(
+                        "expected {}, found {found_words}",
+                        list_alternatives(what.labels())
+                    ),
                     span,
                     "not expected here",
                 )
-                .with_help(expected_help(what, found))
+                .with_help(expected_help(what.labels(), found))
             }
             SyntaxKind::Specific {
                 code,
@@ -166,7 +199,7 @@ impl<'a> ParseError<Input<'a>> for SyntaxError {
             file: input.extra.file,
             offset: input.location_offset(),
             len: 0,
-            kind: SyntaxKind::Expected(Vec::new()),
+            kind: SyntaxKind::Expected(Expected::default()),
         }
     }
 
@@ -181,7 +214,9 @@ impl<'a> ParseError<Input<'a>> for SyntaxError {
             std::cmp::Ordering::Less => other,
             std::cmp::Ordering::Equal => match (self.kind, other.kind) {
                 (SyntaxKind::Expected(mut a), SyntaxKind::Expected(b)) => {
-                    a.extend(b);
+                    for label in b.labels() {
+                        a.push(label);
+                    }
                     SyntaxError {
                         kind: SyntaxKind::Expected(a),
                         ..other

@@ -6,12 +6,13 @@ use nom::combinator::opt;
 use nom::{Err, Parser};
 
 use super::ast::{
-    Arg, BinaryOp, CompareOp, Condition, Expr, ExprKind, Quantity, Test, TestKind, Uncertainty,
+    Arg, BinaryOp, CompareOp, Condition, Expr, ExprKind, Number, Quantity, Test, TestKind,
+    Uncertainty, UnitRef,
 };
 use super::error::SyntaxError;
 use super::lexical::{
-    Input, MAX_CHAIN, PResult, chain_too_long, dotted_name, identifier, keyword, nested, number,
-    pattern, span_between, string, symbol, unit_symbol, ws,
+    Input, MAX_CHAIN, NumberPiece, PResult, Piece, QuantityParts, chain_too_long, dotted_name,
+    identifier, keyword, nested, pattern, quantity_parts, span_between, string, symbol, ws,
 };
 
 /// `expr = term { ("+" | "-") term }`
@@ -194,61 +195,39 @@ fn argument(input: Input) -> PResult<Arg> {
     Ok((rest, Arg { label, value }))
 }
 
-/// `quantity = number [ unit ] [ ("±" | "+/-") number [ unit ] [ "(" "k" "=" number ")" ] ]`
+/// A quantity literal as a syntax node (the grammar is in [`super::lexical::quantity_parts`]).
 fn quantity(input: Input) -> PResult<Expr> {
     let (start, _) = ws(input)?;
-    let (rest, value) = number(start)?;
-    let (rest, unit) = opt(unit_symbol).parse(rest)?;
-    let (rest, uncertainty) = opt(uncertainty).parse(rest)?;
+    let (rest, parts) = quantity_parts(start)?;
     let span = span_between(&start, &rest);
     Ok((
         rest,
         Expr {
             span,
-            kind: ExprKind::Quantity(Quantity {
-                value,
-                unit,
-                uncertainty,
-            }),
+            kind: ExprKind::Quantity(owned_quantity(&parts)),
         },
     ))
 }
 
-/// A quantity literal alone, for declarations.
-pub fn quantity_only(input: Input) -> PResult<Quantity> {
-    let (rest, e) = quantity(input)?;
-    match e.kind {
-        ExprKind::Quantity(q) => Ok((rest, q)),
-        _ => Err(Err::Error(SyntaxError::expected(&input, "a number"))),
+/// Owned syntax for borrowed quantity parts.
+pub fn owned_quantity(parts: &QuantityParts) -> Quantity {
+    let number = |(value, piece): NumberPiece| Number {
+        value,
+        text: piece.text.to_string(),
+    };
+    let unit = |piece: Piece| UnitRef {
+        symbol: piece.text.to_string(),
+        span: piece.span,
+    };
+    Quantity {
+        value: number(parts.value),
+        unit: parts.unit.map(unit),
+        uncertainty: parts.uncertainty.map(|u| Uncertainty {
+            value: number(u.value),
+            unit: u.unit.map(unit),
+            coverage: u.coverage.map(number),
+        }),
     }
-}
-
-fn uncertainty(input: Input) -> PResult<Uncertainty> {
-    let (rest, _) = alt((symbol("±", "`±`"), symbol("+/-", "`+/-`"))).parse(input)?;
-    let (rest, value) = nom::combinator::cut(number).parse(rest)?;
-    let (rest, unit) = opt(unit_symbol).parse(rest)?;
-    let (rest, coverage) = opt(coverage_factor).parse(rest)?;
-    Ok((
-        rest,
-        Uncertainty {
-            value,
-            unit,
-            coverage,
-        },
-    ))
-}
-
-/// `"(" "k" "=" number ")"`
-fn coverage_factor(input: Input) -> PResult<super::ast::Number> {
-    let (rest, _) = symbol("(", "`(`").parse(input)?;
-    let (rest, k) = nom::combinator::cut(super::lexical::identifier).parse(rest)?;
-    if k.text != "k" {
-        return Err(Err::Failure(SyntaxError::expected(&rest, "`k`")));
-    }
-    let (rest, _) = nom::combinator::cut(symbol("=", "`=`")).parse(rest)?;
-    let (rest, value) = nom::combinator::cut(number).parse(rest)?;
-    let (rest, _) = nom::combinator::cut(symbol(")", "`)`")).parse(rest)?;
-    Ok((rest, value))
 }
 
 /// `compare_op = "<=" | "<" | ">=" | ">" | "==" | "!="`

@@ -38,9 +38,9 @@ pub fn item(input: Input) -> PResult<Item> {
     .parse(input)
     .map_err(|e| match e {
         Err::Error(err) => Err::Error(SyntaxError {
-            kind: super::error::SyntaxKind::Expected(vec![
+            kind: super::error::SyntaxKind::Expected(super::error::Expected::one(
                 "an item (`measure`, `define`, `class`, `bulletin`, `approved list`, ...)",
-            ]),
+            )),
             ..err
         }),
         other => other,
@@ -177,7 +177,7 @@ fn parts_list(input: Input) -> PResult<PartsList> {
 fn cut_with(e: Err<SyntaxError>, what: &'static str) -> Err<SyntaxError> {
     match e {
         Err::Error(mut err) => {
-            err.kind = super::error::SyntaxKind::Expected(vec![what]);
+            err.kind = super::error::SyntaxKind::Expected(super::error::Expected::one(what));
             Err::Failure(err)
         }
         other => other,

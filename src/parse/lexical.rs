@@ -4,11 +4,11 @@
 
 use nom::bytes::complete::{tag, take_while, take_while1};
 use nom::character::complete::{char, digit1};
-use nom::combinator::{opt, recognize};
+use nom::combinator::recognize;
 use nom::{Err, IResult, Parser};
 use nom_locate::LocatedSpan;
 
-use super::ast::{Date, DateAt, Name, Number, Pattern, Section, Text, UnitRef};
+use super::ast::{Date, DateAt, Name, Pattern, Section, Text};
 use super::error::SyntaxError;
 use crate::source::{FileId, Span};
 
@@ -321,81 +321,190 @@ fn escape(chars: &mut std::str::CharIndices) -> Option<char> {
     }
 }
 
-/// A number: `42`, `4.030`, `1.5e-3`, a fraction `5/8`, or a mixed fraction `1-5/8`
-/// (written with no spaces, as header tubes and valves are sized in the trade).
-pub fn number(input: Input) -> PResult<Number> {
-    let (start, _) = ws(input)?;
-    if let Ok((rest, (whole, _, num, _, den))) = (
-        digit1::<_, SyntaxError>,
-        char('-'),
-        digit1,
-        char('/'),
-        digit1,
-    )
-        .parse(start)
-    {
-        return fraction_value(&start, &rest, parse_f64(&whole) + ratio(&num, &den));
-    }
-    if let Ok((rest, (num, _, den))) = (digit1::<_, SyntaxError>, char('/'), digit1).parse(start) {
-        return fraction_value(&start, &rest, ratio(&num, &den));
-    }
-    let mut decimal = recognize((
-        digit1,
-        opt((char('.'), digit1)),
-        opt((
-            nom::character::complete::one_of("eE"),
-            opt(nom::character::complete::one_of("+-")),
-            digit1,
-        )),
-    ));
-    let (rest, text) = decimal
-        .parse(start)
-        .map_err(|_: Err<SyntaxError>| Err::Error(SyntaxError::expected(&start, "a number")))?;
-    let value = parse_f64(&text);
-    if !value.is_finite() {
-        return Err(Err::Failure(SyntaxError::specific(
-            &start,
-            text.fragment().len(),
-            "gonogo::parse::number-too-large",
-            "this number is too large",
-            "write a number below 1e300",
-        )));
-    }
+/// A piece of a literal, borrowed from the source: its text and where it stands.
+#[derive(Clone, Copy, Debug)]
+pub struct Piece<'a> {
+    /// The text as written.
+    pub text: &'a str,
+    /// Where.
+    pub span: Span,
+}
+
+/// A number's value with the piece of text it was read from.
+pub type NumberPiece<'a> = (f64, Piece<'a>);
+
+/// The parts of a quantity literal `VALUE [UNIT] [± U [UNIT] [(k = K)]]`, borrowed from the
+/// source: what both the rulebook parser and the declaration loader read quantities with.
+#[derive(Clone, Copy, Debug)]
+pub struct QuantityParts<'a> {
+    /// The value.
+    pub value: NumberPiece<'a>,
+    /// Its unit.
+    pub unit: Option<Piece<'a>>,
+    /// The stated expanded uncertainty.
+    pub uncertainty: Option<UncertaintyParts<'a>>,
+}
+
+/// The parts of `± U [UNIT] [(k = K)]`.
+#[derive(Clone, Copy, Debug)]
+pub struct UncertaintyParts<'a> {
+    /// The expanded uncertainty.
+    pub value: NumberPiece<'a>,
+    /// Its unit.
+    pub unit: Option<Piece<'a>>,
+    /// The coverage factor.
+    pub coverage: Option<NumberPiece<'a>>,
+}
+
+/// `quantity = number [ unit ] [ ("±" | "+/-") number [ unit ] [ "(" "k" "=" number ")" ] ]`
+pub fn quantity_parts(input: Input) -> PResult<QuantityParts> {
+    let (rest, value) = number_piece(input)?;
+    let (rest, unit) = nom::combinator::opt(unit_piece).parse(rest)?;
+    let (rest, uncertainty) = nom::combinator::opt(uncertainty_parts).parse(rest)?;
     Ok((
         rest,
-        Number {
+        QuantityParts {
             value,
-            text: text.fragment().to_string(),
+            unit,
+            uncertainty,
         },
     ))
 }
 
-fn parse_f64(text: &Input) -> f64 {
-    text.fragment().parse().unwrap_or(f64::NAN)
+fn uncertainty_parts(input: Input) -> PResult<UncertaintyParts> {
+    let (start, _) = ws(input)?;
+    let sign_len = if start.fragment().starts_with('±') {
+        '±'.len_utf8()
+    } else if start.fragment().starts_with("+/-") {
+        3
+    } else {
+        return Err(Err::Error(SyntaxError::expected(&start, "`±`")));
+    };
+    let rest = advance(start, sign_len);
+    let (rest, value) = nom::combinator::cut(number_piece).parse(rest)?;
+    let (rest, unit) = nom::combinator::opt(unit_piece).parse(rest)?;
+    let (rest, coverage) = nom::combinator::opt(coverage_factor).parse(rest)?;
+    Ok((
+        rest,
+        UncertaintyParts {
+            value,
+            unit,
+            coverage,
+        },
+    ))
 }
 
-fn ratio(num: &Input, den: &Input) -> f64 {
-    parse_f64(num) / parse_f64(den)
+/// `"(" "k" "=" number ")"`
+fn coverage_factor(input: Input) -> PResult<NumberPiece> {
+    let (rest, _) = symbol("(", "`(`").parse(input)?;
+    let k = word(rest).ok().filter(|(_, w)| *w.fragment() == "k");
+    let Some((rest, _)) = k else {
+        let (at, _) = ws(rest)?;
+        return Err(Err::Failure(SyntaxError::expected(&at, "`k`")));
+    };
+    let (rest, _) = nom::combinator::cut(symbol("=", "`=`")).parse(rest)?;
+    let (rest, value) = nom::combinator::cut(number_piece).parse(rest)?;
+    let (rest, _) = nom::combinator::cut(symbol(")", "`)`")).parse(rest)?;
+    Ok((rest, value))
 }
 
-fn fraction_value<'a>(start: &Input<'a>, rest: &Input<'a>, value: f64) -> PResult<'a, Number> {
-    let len = rest.location_offset() - start.location_offset();
+/// A number: `42`, `4.030`, `1.5e-3`, a fraction `5/8`, or a mixed fraction `1-5/8`
+/// (written with no spaces, as header tubes and valves are sized in the trade).
+pub fn number_piece(input: Input) -> PResult<NumberPiece> {
+    let (start, _) = ws(input)?;
+    let text = *start.fragment();
+    let whole = digits(text, 0);
+    if whole == 0 {
+        return Err(Err::Error(SyntaxError::expected(&start, "a number")));
+    }
+    let (len, value) = match fraction(text, whole) {
+        Some(found) => found,
+        None => {
+            let len = decimal_len(text, whole);
+            (len, text[..len].parse().unwrap_or(f64::NAN))
+        }
+    };
     if !value.is_finite() {
+        let (code, message, help) = if text[..len].contains('/') {
+            (
+                "gonogo::parse::bad-fraction",
+                "this fraction divides by zero",
+                "a fraction is written like `5/8` or `1-5/8`, with a denominator above zero",
+            )
+        } else {
+            (
+                "gonogo::parse::number-too-large",
+                "this number is too large",
+                "write a number below 1e300",
+            )
+        };
         return Err(Err::Failure(SyntaxError::specific(
-            start,
-            len,
-            "gonogo::parse::bad-fraction",
-            "this fraction divides by zero",
-            "a fraction is written like `5/8` or `1-5/8`, with a denominator above zero",
+            &start, len, code, message, help,
         )));
     }
-    let text = start.fragment()[..len].to_string();
-    Ok((*rest, Number { value, text }))
+    let rest = advance(start, len);
+    Ok((
+        rest,
+        (
+            value,
+            Piece {
+                text: &text[..len],
+                span: span_between(&start, &rest),
+            },
+        ),
+    ))
 }
 
-/// A unit symbol after a number: a word of letters with `²`, `³`, `^N` and one `/word`
-/// (`in`, `cm³`, `in^2`, `L/s`), or `°` or `%`. A keyword other than `in` is not a unit.
-pub fn unit_symbol(input: Input) -> PResult<UnitRef> {
+/// The number of ASCII digits in `text` from byte `at`.
+fn digits(text: &str, at: usize) -> usize {
+    text.as_bytes()[at.min(text.len())..]
+        .iter()
+        .take_while(|b| b.is_ascii_digit())
+        .count()
+}
+
+/// A fraction `N/D` or mixed fraction `W-N/D` after `whole` leading digits: its length and value.
+fn fraction(text: &str, whole: usize) -> Option<(usize, f64)> {
+    let bytes = text.as_bytes();
+    let ratio = |num: usize, num_len: usize| -> Option<(usize, f64)> {
+        let den_at = num + num_len + 1;
+        let den_len = digits(text, den_at);
+        (bytes.get(num + num_len) == Some(&b'/') && num_len > 0 && den_len > 0).then(|| {
+            let (n, d): (f64, f64) = (
+                text[num..num + num_len].parse().unwrap_or(f64::NAN),
+                text[den_at..den_at + den_len].parse().unwrap_or(f64::NAN),
+            );
+            (den_at + den_len, n / d)
+        })
+    };
+    if bytes.get(whole) == Some(&b'-') {
+        let w: f64 = text[..whole].parse().unwrap_or(f64::NAN);
+        return ratio(whole + 1, digits(text, whole + 1)).map(|(len, f)| (len, w + f));
+    }
+    ratio(0, whole)
+}
+
+/// Length of a decimal with optional fraction and exponent after `whole` leading digits.
+fn decimal_len(text: &str, whole: usize) -> usize {
+    let bytes = text.as_bytes();
+    let mut len = whole;
+    if bytes.get(len) == Some(&b'.') && digits(text, len + 1) > 0 {
+        len += 1 + digits(text, len + 1);
+    }
+    if matches!(bytes.get(len), Some(b'e' | b'E')) {
+        let sign = usize::from(matches!(bytes.get(len + 1), Some(b'+' | b'-')));
+        let exponent = digits(text, len + 1 + sign);
+        if exponent > 0 {
+            len += 1 + sign + exponent;
+        }
+    }
+    len
+}
+
+/// A unit symbol after a number, borrowed from the source: a word of letters with `²`, `³`,
+/// `^N` and one `/word` (`in`, `cm³`, `in^2`, `L/s`), or `°` or `%`. A keyword other than
+/// `in` is not a unit.
+pub fn unit_piece(input: Input) -> PResult<Piece> {
     let (start, _) = ws(input)?;
     let frag = *start.fragment();
     let len = unit_len(frag);
@@ -406,8 +515,8 @@ pub fn unit_symbol(input: Input) -> PResult<UnitRef> {
     let rest = advance(start, len);
     Ok((
         rest,
-        UnitRef {
-            symbol: text.to_string(),
+        Piece {
+            text,
             span: span_between(&start, &rest),
         },
     ))
@@ -616,8 +725,8 @@ mod tests {
     }
 
     fn value(text: &str) -> f64 {
-        number(input(text))
-            .map(|(_, n)| n.value)
+        number_piece(input(text))
+            .map(|(_, (v, _))| v)
             .unwrap_or(f64::NAN)
     }
 
@@ -630,6 +739,20 @@ mod tests {
     }
 
     #[test]
+    fn a_number_stops_where_its_syntax_does() {
+        let len = |text: &str| {
+            number_piece(input(text))
+                .map(|(_, (_, p))| p.text.len())
+                .unwrap_or(0)
+        };
+        assert_eq!(len("4.030 in"), 5);
+        assert_eq!(len("4. in"), 1);
+        assert_eq!(len("2e"), 1);
+        assert_eq!(len("1-5/8in"), 5);
+        assert_eq!(len("1-x"), 1);
+    }
+
+    #[test]
     fn decimals_and_exponents() {
         assert_eq!(value("4.030"), 4.03);
         assert_eq!(value("1.5e-3"), 0.0015);
@@ -638,7 +761,7 @@ mod tests {
 
     #[test]
     fn a_fraction_over_zero_is_an_error() {
-        assert!(matches!(number(input("3/0")), Err(Err::Failure(_))));
+        assert!(matches!(number_piece(input("3/0")), Err(Err::Failure(_))));
     }
 
     #[test]
@@ -649,8 +772,8 @@ mod tests {
         assert_eq!(unit_len("L/s"), 3);
         assert_eq!(unit_len("in/2"), 2);
         assert_eq!(unit_len("° "), 2);
-        assert!(unit_symbol(input(" and")).is_err());
-        assert!(unit_symbol(input(" in")).is_ok());
+        assert!(unit_piece(input(" and")).is_err());
+        assert!(unit_piece(input(" in")).is_ok());
     }
 
     #[test]

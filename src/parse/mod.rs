@@ -10,8 +10,8 @@ mod items;
 mod lexical;
 pub mod print;
 
-pub use error::{SyntaxError, SyntaxKind};
-pub use lexical::{KEYWORDS, MAX_DEPTH};
+pub use error::{Expected, SyntaxError, SyntaxKind};
+pub use lexical::{KEYWORDS, MAX_DEPTH, NumberPiece, Piece, QuantityParts, UncertaintyParts};
 
 use ast::Rulebook;
 use lexical::{Context, Input, ws};
@@ -93,14 +93,14 @@ fn skip_to(input: Input, offset: usize) -> Input {
 mod tests;
 
 /// Parses a whole string as one quantity literal, as a declaration writes it: an optional
-/// leading `-`, a number, its unit, and an optional `± U [unit] [(k = K)]`. Returns the
-/// quantity and whether it was negated, or what was expected.
-pub fn quantity_literal(text: &str) -> Result<(bool, ast::Quantity), String> {
+/// leading `-`, a number, its unit, and an optional `± U [unit] [(k = K)]`. Returns whether
+/// it was negated and the parts, borrowed from `text`, or what was expected.
+pub fn quantity_literal(text: &str) -> Result<(bool, lexical::QuantityParts<'_>), String> {
     let input = Input::new_extra(text, Context::default());
     let (input, _) = ws(input).map_err(|_| expected_literal())?;
     let negative = input.fragment().starts_with('-');
     let input = lexical::advance(input, usize::from(negative));
-    let (rest, expr) = expr::quantity_only(input).map_err(|_| expected_literal())?;
+    let (rest, parts) = lexical::quantity_parts(input).map_err(|_| expected_literal())?;
     let (rest, _) = ws(rest).map_err(|_| expected_literal())?;
     if !rest.fragment().is_empty() {
         return Err(format!(
@@ -108,7 +108,7 @@ pub fn quantity_literal(text: &str) -> Result<(bool, ast::Quantity), String> {
             rest.fragment().trim()
         ));
     }
-    Ok((negative, expr))
+    Ok((negative, parts))
 }
 
 fn expected_literal() -> String {
