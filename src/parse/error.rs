@@ -27,7 +27,7 @@ pub enum SyntaxKind {
 /// alternatives of a parse allocate nothing.
 #[derive(Clone, Copy, Debug, Default, PartialEq)]
 pub struct Expected {
-    labels: [&'static str; 8],
+    labels: [&'static str; 4],
     len: u8,
 }
 
