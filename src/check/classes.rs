@@ -240,11 +240,7 @@ impl<'a> Checker<'a> {
                 ClassItem::Rule(rule) => {
                     let mut all = conditions.clone();
                     all.extend(rule.condition.clone());
-                    let entry = ClassRule {
-                        rule: rule.clone(),
-                        conditions: all,
-                        origin: source.origin.clone(),
-                    };
+                    let entry = ClassRule::new(rule.clone(), all, source.origin.clone());
                     let existing = rules
                         .iter()
                         .position(|r| r.rule.section.text == rule.section.text);

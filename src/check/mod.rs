@@ -121,8 +121,12 @@ impl<'a> Checker<'a> {
             .filter_map(|name| {
                 let define = self.defines.get(name)?;
                 let ty = (*self.define_types.get(name)?)?;
+                let mut names = Vec::new();
+                define.expr.names(&mut names);
                 Some(model::Derived {
                     name: name.to_string(),
+                    formula: crate::parse::print::expr_text(&define.expr),
+                    reads: model::unique(names),
                     expr: define.expr.clone(),
                     ty,
                     span: define.name.span,
@@ -138,20 +142,34 @@ impl<'a> Checker<'a> {
             })
             .collect();
         bulletins.sort_by_key(|b| b.source.effective.date);
+        let measurements: Vec<Measurement> = self
+            .measure_order
+            .iter()
+            .filter_map(|n| self.measurements.get(n).cloned())
+            .collect();
+        let derived: Vec<model::Derived> = derived;
+        let index = measurements
+            .iter()
+            .enumerate()
+            .map(|(i, m)| (m.name.clone(), model::Named::Measurement(i)))
+            .chain(
+                derived
+                    .iter()
+                    .enumerate()
+                    .map(|(i, d)| (d.name.clone(), model::Named::Derived(i))),
+            )
+            .collect();
         Some(CheckedRulebook {
             series: self.series?.value.clone(),
             edition: edition.name.value.clone(),
             effective: edition.effective.date,
             decision: self.decision?.rule,
-            measurements: self
-                .measure_order
-                .iter()
-                .filter_map(|n| self.measurements.get(n).cloned())
-                .collect(),
+            measurements,
             derived,
             lists: self.compiled_lists.into_values().collect(),
             classes,
             bulletins,
+            index,
         })
     }
 }

@@ -63,6 +63,10 @@ pub struct Derived {
     pub name: String,
     /// Its expression.
     pub expr: Expr,
+    /// The expression in the rulebook's canonical words.
+    pub formula: String,
+    /// The names it reads, each once, in the order first read.
+    pub reads: Vec<String>,
     /// Its type.
     pub ty: Type,
     /// Where it is defined.
@@ -121,6 +125,43 @@ pub struct ClassRule {
     pub conditions: Vec<Condition>,
     /// Where it was written.
     pub origin: Origin,
+    /// The requirement in the rulebook's canonical words.
+    pub requirement: String,
+    /// Each condition in canonical words.
+    pub condition_texts: Vec<String>,
+    /// The names its conditions and requirement read, each once, in the order first read.
+    pub reads: Vec<String>,
+}
+
+impl ClassRule {
+    /// A rule under its conditions, with its texts and the names it reads worked out once.
+    pub fn new(rule: Rule, conditions: Vec<Condition>, origin: Origin) -> ClassRule {
+        let mut names = Vec::new();
+        conditions.iter().for_each(|c| c.names(&mut names));
+        rule.require.names(&mut names);
+        ClassRule {
+            requirement: crate::parse::print::test_text(&rule.require),
+            condition_texts: conditions
+                .iter()
+                .map(crate::parse::print::condition_text)
+                .collect(),
+            reads: unique(names),
+            rule,
+            conditions,
+            origin,
+        }
+    }
+}
+
+/// The names, each once, in the order first seen.
+pub fn unique(names: Vec<&str>) -> Vec<String> {
+    let mut out: Vec<String> = Vec::new();
+    for n in names {
+        if !out.iter().any(|o| o == n) {
+            out.push(n.to_string());
+        }
+    }
+    out
 }
 
 /// A class with its rules flattened at the edition's effective date.
@@ -168,6 +209,17 @@ pub struct CheckedRulebook {
     pub classes: Vec<Class>,
     /// Bulletins in order of their effective date.
     pub bulletins: Vec<Bulletin>,
+    /// Where each measurement and derived value is, by name.
+    pub index: std::collections::HashMap<String, Named>,
+}
+
+/// What a name of the rulebook stands for.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Named {
+    /// The measurement at this position of `measurements`.
+    Measurement(usize),
+    /// The derived value at this position of `derived`.
+    Derived(usize),
 }
 
 impl CheckedRulebook {
@@ -178,6 +230,17 @@ impl CheckedRulebook {
 
     /// The measurement with this name.
     pub fn measurement(&self, name: &str) -> Option<&Measurement> {
-        self.measurements.iter().find(|m| m.name == name)
+        match self.index.get(name) {
+            Some(Named::Measurement(i)) => self.measurements.get(*i),
+            _ => None,
+        }
+    }
+
+    /// The derived value with this name.
+    pub fn derived_value(&self, name: &str) -> Option<&Derived> {
+        match self.index.get(name) {
+            Some(Named::Derived(i)) => self.derived.get(*i),
+            _ => None,
+        }
     }
 }

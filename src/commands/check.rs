@@ -10,7 +10,7 @@ use crate::diagnostic::{Problem, RenderStyle};
 use crate::evaluate::check_engine;
 use crate::evaluate::outcome::EngineReport;
 use crate::exit::Exit;
-use crate::load::load_declaration;
+use crate::load::{Declaration, load_declaration};
 use crate::parse::ast::DecisionRule;
 use crate::report::{json, text};
 use crate::source::SourceMap;
@@ -67,17 +67,24 @@ pub fn run(request: &CheckRequest, style: RenderStyle) -> Result<(String, Exit),
         return Err(render_all(&loaded.problems, &loaded.sources, style));
     };
     let mut sources = SourceMap::default();
-    let mut reports = Vec::new();
+    let mut engines = Vec::new();
     let mut problems = Vec::new();
     for path in request.declarations {
-        match report_for(path, &rulebook, request, &mut sources) {
-            Ok(report) => reports.push(report),
+        match load_with_class(path, &rulebook, request.class, &mut sources) {
+            Ok(engine) => engines.push(engine),
             Err(p) => problems.push(p),
         }
     }
     if !problems.is_empty() {
         return Err(render_all(&problems, &sources, style));
     }
+    let decision = request.role.map(Role::decision);
+    let reports: Vec<EngineReport> = engines
+        .iter()
+        .map(|(declaration, class)| {
+            check_engine(&rulebook, &rulebook.classes[*class], declaration, decision)
+        })
+        .collect();
     let exit = reports
         .iter()
         .map(EngineReport::exit)
@@ -95,15 +102,15 @@ pub fn run(request: &CheckRequest, style: RenderStyle) -> Result<(String, Exit),
     Ok((out, exit))
 }
 
-fn report_for(
+/// A declaration and the position of the class it is checked against.
+fn load_with_class(
     path: &Path,
     rulebook: &CheckedRulebook,
-    request: &CheckRequest,
+    class: Option<&str>,
     sources: &mut SourceMap,
-) -> Result<EngineReport, Problem> {
+) -> Result<(Declaration, usize), Problem> {
     let declaration = load_declaration(path, rulebook, sources)?;
-    let class_name = request
-        .class
+    let class_name = class
         .map(str::to_string)
         .or_else(|| declaration.identity.class.clone())
         .ok_or_else(|| {
@@ -113,20 +120,15 @@ fn report_for(
             )
             .with_help("add `class: NAME` to the declaration, or pass `--class NAME`")
         })?;
-    let class = rulebook.class(&class_name).ok_or_else(|| {
+    let Some(at) = rulebook.classes.iter().position(|c| c.name == class_name) else {
         let names: Vec<&str> = rulebook.classes.iter().map(|c| c.name.as_str()).collect();
-        Problem::unlocated(
+        return Err(Problem::unlocated(
             "gonogo::check::unknown-class",
             format!("the rulebook has no class `{class_name}`"),
         )
-        .with_help(format!("the classes are {}", names.join(", ")))
-    })?;
-    Ok(check_engine(
-        rulebook,
-        class,
-        &declaration,
-        request.role.map(Role::decision),
-    ))
+        .with_help(format!("the classes are {}", names.join(", "))));
+    };
+    Ok((declaration, at))
 }
 
 /// The more serious of two exit statuses: illegal, then uncertain, then clean.

@@ -19,8 +19,8 @@ pub struct Evaluator<'a> {
     pub rulebook: &'a CheckedRulebook,
     /// The declaration.
     pub declaration: &'a Declaration,
-    /// Every input: the declaration's, then rulebook literals with a stated uncertainty.
-    pub inputs: Vec<Input>,
+    /// Rulebook literals with a stated uncertainty, numbered after the declaration's inputs.
+    pub rulebook_inputs: Vec<Input>,
     derived: HashMap<String, Evaluated<Value>>,
     literal_inputs: HashMap<(u32, usize), InputId>,
 }
@@ -31,17 +31,26 @@ impl<'a> Evaluator<'a> {
         Evaluator {
             rulebook,
             declaration,
-            inputs: declaration.inputs.clone(),
+            rulebook_inputs: Vec::new(),
             derived: HashMap::new(),
             literal_inputs: HashMap::new(),
         }
     }
 
+    /// An input by id: the declaration's, then the rulebook's literals.
+    pub fn input_info(&self, id: InputId) -> Option<&Input> {
+        let declared = self.declaration.inputs.len();
+        match self.declaration.inputs.get(id as usize) {
+            Some(input) => Some(input),
+            None => self
+                .rulebook_inputs
+                .get((id as usize).checked_sub(declared)?),
+        }
+    }
+
     /// The standard uncertainty of an input.
     pub fn uncertainty(&self, id: InputId) -> f64 {
-        self.inputs
-            .get(id as usize)
-            .map_or(0.0, |i| i.standard_uncertainty)
+        self.input_info(id).map_or(0.0, |i| i.standard_uncertainty)
     }
 
     /// The combined standard uncertainty of a number (GUM eq. 10).
@@ -54,14 +63,9 @@ impl<'a> Evaluator<'a> {
         if let Some(v) = self.derived.get(name) {
             return Some(v.clone());
         }
-        let expr = self
-            .rulebook
-            .derived
-            .iter()
-            .find(|d| d.name == name)?
-            .expr
-            .clone();
-        let value = self.eval(&expr);
+        let rulebook = self.rulebook;
+        let expr = &rulebook.derived_value(name)?.expr;
+        let value = self.eval(expr);
         self.derived.insert(name.to_string(), value.clone());
         Some(value)
     }
@@ -97,8 +101,9 @@ impl<'a> Evaluator<'a> {
             .or(q.unit.as_ref())
             .and_then(|s| units::lookup(&s.symbol));
         let k = u.coverage.as_ref().map_or(2.0, |k| k.value);
-        let id = InputId::try_from(self.inputs.len()).unwrap_or(InputId::MAX);
-        self.inputs.push(Input {
+        let count = self.declaration.inputs.len() + self.rulebook_inputs.len();
+        let id = InputId::try_from(count).unwrap_or(InputId::MAX);
+        self.rulebook_inputs.push(Input {
             label: crate::parse::print::expr_text(&Expr {
                 kind: ExprKind::Quantity(q.clone()),
                 span,
@@ -112,6 +117,24 @@ impl<'a> Evaluator<'a> {
         });
         self.literal_inputs.insert(key, id);
         Dual::input(id, value)
+    }
+
+    /// The inputs of the literals with a stated uncertainty in `e` that have been evaluated.
+    pub fn literal_ids(&self, e: &Expr, out: &mut Vec<InputId>) {
+        match &e.kind {
+            ExprKind::Quantity(_) => {
+                out.extend(self.literal_inputs.get(&(e.span.file, e.span.start)))
+            }
+            ExprKind::Negate(inner) => self.literal_ids(inner, out),
+            ExprKind::Binary { left, right, .. } => {
+                self.literal_ids(left, out);
+                self.literal_ids(right, out);
+            }
+            ExprKind::Call { args, .. } => {
+                args.iter().for_each(|a| self.literal_ids(&a.value, out))
+            }
+            ExprKind::Text(_) | ExprKind::Name(_) => {}
+        }
     }
 
     fn name(&mut self, name: &str) -> Evaluated<Value> {

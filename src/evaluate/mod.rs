@@ -19,12 +19,12 @@ use expr::Evaluator;
 use outcome::EngineReport;
 
 /// Checks one declaration against one class. `decision` overrides the rulebook's rule.
-pub fn check_engine(
-    rulebook: &CheckedRulebook,
-    class: &Class,
-    declaration: &Declaration,
+pub fn check_engine<'a>(
+    rulebook: &'a CheckedRulebook,
+    class: &'a Class,
+    declaration: &'a Declaration,
     decision: Option<DecisionRule>,
-) -> EngineReport {
+) -> EngineReport<'a> {
     let rule = decision.unwrap_or(rulebook.decision);
     let mut evaluator = Evaluator::new(rulebook, declaration);
     let outcomes = class
@@ -33,12 +33,10 @@ pub fn check_engine(
         .map(|r| evaluator.rule(r, rule))
         .collect();
     EngineReport {
-        file: declaration.path.display().to_string(),
-        identity: declaration.identity.clone(),
-        series: rulebook.series.clone(),
-        edition: rulebook.edition.clone(),
-        class: class.name.clone(),
-        class_title: class.title.clone(),
+        rulebook,
+        class,
+        declaration,
+        rulebook_inputs: evaluator.rulebook_inputs,
         decision: rule,
         decision_overridden: decision.is_some(),
         outcomes,

@@ -1,9 +1,10 @@
 //! What evaluation found for each rule: the data every report renders. Numbers are in SI
 //! units; each carries the unit it should be shown in.
 
+use super::dual::InputId;
 use super::finding::{Finding, Verdict};
-use crate::check::model::Origin;
-use crate::load::UncertaintySource;
+use crate::check::model::{CheckedRulebook, Class, ClassRule, Derived};
+use crate::load::{Declaration, Input};
 use crate::parse::ast::DecisionRule;
 use crate::units::Unit;
 
@@ -55,72 +56,42 @@ pub struct Checked {
     pub observed: Option<String>,
 }
 
-/// One line of a rule's trace.
-#[derive(Clone, Debug, PartialEq)]
-pub enum Trace {
-    /// A measured input (or a rulebook literal with a stated uncertainty).
-    Input {
-        /// `bore[3]`, `stroke`, or the literal.
-        label: String,
-        /// Value in SI units.
-        value: f64,
-        /// Standard uncertainty in SI units.
-        standard_uncertainty: f64,
-        /// The unit it was written in.
-        unit: Option<&'static Unit>,
-        /// The value as written, when known.
-        written: Option<String>,
-        /// Where the uncertainty comes from.
-        source: UncertaintySource,
-        /// Where it was written.
-        origin: String,
-    },
+/// One line of a rule's trace, borrowing from the rulebook and the declaration.
+#[derive(Clone, Debug)]
+pub enum Trace<'a> {
+    /// A measured input, or a rulebook literal with a stated uncertainty (see
+    /// [`EngineReport::input`]).
+    Input(InputId),
     /// A text measurement.
     Text {
         /// The measurement.
-        label: String,
+        name: &'a str,
         /// Its value.
-        value: String,
+        value: &'a str,
         /// Where it was written.
-        origin: String,
+        origin: &'a str,
     },
-    /// A derived value and how it is computed.
+    /// A derived value, with its value(s) for this engine.
     Derived {
-        /// Its name.
-        name: String,
-        /// The formula as the rulebook writes it.
-        formula: String,
+        /// The derived value.
+        derived: &'a Derived,
         /// Its value(s) in SI units, one per cylinder where per cylinder.
         values: Vec<f64>,
         /// The combined standard uncertainty of each.
         uncertainties: Vec<f64>,
-        /// The unit to show it in.
-        unit: Option<&'static Unit>,
     },
     /// A measurement the declaration does not give.
     Missing {
         /// The measurement.
-        name: String,
+        name: &'a str,
     },
 }
 
 /// One rule's outcome.
-#[derive(Clone, Debug, PartialEq)]
-pub struct Outcome {
-    /// Section number.
-    pub section: String,
-    /// Title.
-    pub title: String,
-    /// Penalty class.
-    pub penalty: Option<String>,
-    /// Note.
-    pub note: Option<String>,
-    /// Where the rule comes from.
-    pub origin: Origin,
-    /// The requirement, in the rulebook's canonical words.
-    pub requirement: String,
-    /// Its conditions, likewise.
-    pub conditions: Vec<String>,
+#[derive(Clone, Debug)]
+pub struct Outcome<'a> {
+    /// The rule, with its texts.
+    pub rule: &'a ClassRule,
     /// Whether its conditions hold.
     pub applies: Applies,
     /// The verdict under the decision rule in force.
@@ -130,10 +101,30 @@ pub struct Outcome {
     /// Measurements it needs that are missing.
     pub missing: Vec<String>,
     /// Every input and derived value it reads.
-    pub trace: Vec<Trace>,
+    pub trace: Vec<Trace<'a>>,
 }
 
-impl Outcome {
+impl Outcome<'_> {
+    /// The rule's section number.
+    pub fn section(&self) -> &str {
+        &self.rule.rule.section.text
+    }
+
+    /// The rule's title.
+    pub fn title(&self) -> &str {
+        &self.rule.rule.title.value
+    }
+
+    /// The rule's penalty class.
+    pub fn penalty(&self) -> Option<&str> {
+        self.rule.rule.penalty.as_ref().map(|p| p.value.as_str())
+    }
+
+    /// The rule's note.
+    pub fn note(&self) -> Option<&str> {
+        self.rule.rule.note.as_ref().map(|n| n.value.as_str())
+    }
+
     /// True when the call is not certain: a conditional finding, an uncertain condition, or a
     /// rule not checked.
     pub fn is_uncertain(&self) -> bool {
@@ -148,28 +139,33 @@ impl Outcome {
 
 /// One engine checked against one class.
 #[derive(Clone, Debug)]
-pub struct EngineReport {
-    /// The declaration's file.
-    pub file: String,
-    /// Who and what.
-    pub identity: crate::load::Identity,
-    /// Series, edition and class.
-    pub series: String,
-    /// The edition.
-    pub edition: String,
+pub struct EngineReport<'a> {
+    /// The rulebook.
+    pub rulebook: &'a CheckedRulebook,
     /// The class checked against.
-    pub class: String,
-    /// The class's title.
-    pub class_title: Option<String>,
+    pub class: &'a Class,
+    /// The declaration.
+    pub declaration: &'a Declaration,
+    /// Rulebook literals with a stated uncertainty, numbered after the declaration's inputs.
+    pub rulebook_inputs: Vec<Input>,
     /// The decision rule applied.
     pub decision: DecisionRule,
     /// Whether it came from the command line rather than the rulebook.
     pub decision_overridden: bool,
     /// Each rule, in rulebook order.
-    pub outcomes: Vec<Outcome>,
+    pub outcomes: Vec<Outcome<'a>>,
 }
 
-impl EngineReport {
+impl EngineReport<'_> {
+    /// An input by id: the declaration's, then the rulebook's literals.
+    pub fn input(&self, id: InputId) -> &Input {
+        let declared = self.declaration.inputs.len();
+        match self.declaration.inputs.get(id as usize) {
+            Some(input) => input,
+            None => &self.rulebook_inputs[id as usize - declared],
+        }
+    }
+
     /// How many rules got each verdict: legal, illegal, not checked, not applicable.
     pub fn counts(&self) -> [usize; 4] {
         let count = |v: Verdict| self.outcomes.iter().filter(|o| o.verdict == v).count();

@@ -9,7 +9,6 @@ use super::value::{Evaluated, Missing, Value};
 use crate::check::model::{ClassRule, ValueKind};
 use crate::load::Supplied;
 use crate::parse::ast::{CompareOp, Condition, DecisionRule, Expr, ExprKind, Test, TestKind};
-use crate::parse::print::{condition_text, expr_text, test_text};
 use crate::units::{self, Unit};
 
 /// Coverage factor for the expanded uncertainty a finding is judged against (about 95 %).
@@ -23,17 +22,11 @@ enum Truth {
     Uncertain,
 }
 
-impl Evaluator<'_> {
+impl<'a> Evaluator<'a> {
     /// Evaluates one rule of a class under a decision rule.
-    pub fn rule(&mut self, r: &ClassRule, decision: DecisionRule) -> Outcome {
+    pub fn rule(&mut self, r: &'a ClassRule, decision: DecisionRule) -> Outcome<'a> {
         let mut outcome = Outcome {
-            section: r.rule.section.text.clone(),
-            title: r.rule.title.value.clone(),
-            penalty: r.rule.penalty.as_ref().map(|p| p.value.clone()),
-            note: r.rule.note.as_ref().map(|n| n.value.clone()),
-            origin: r.origin.clone(),
-            requirement: test_text(&r.rule.require),
-            conditions: r.conditions.iter().map(condition_text).collect(),
+            rule: r,
             applies: Applies::Always,
             verdict: Verdict::NotChecked,
             checked: None,
@@ -352,96 +345,64 @@ impl Evaluator<'_> {
     }
 
     /// Every input and derived value a rule reads, in the order first read.
-    fn trace(&mut self, r: &ClassRule) -> Vec<Trace> {
-        let mut names = Vec::new();
-        for c in &r.conditions {
-            condition_names(c, &mut names);
-        }
-        test_names(&r.rule.require, &mut names);
+    fn trace(&mut self, r: &'a ClassRule) -> Vec<Trace<'a>> {
         let mut lines = Vec::new();
-        let mut seen = Vec::new();
-        for n in names {
-            self.trace_name(&n, &mut lines, &mut seen);
+        let mut seen: Vec<&'a str> = Vec::new();
+        for name in &r.reads {
+            self.trace_name(name, &mut lines, &mut seen);
         }
         lines
     }
 
-    fn trace_name(&mut self, name: &str, lines: &mut Vec<Trace>, seen: &mut Vec<String>) {
-        if seen.iter().any(|s| s == name) || name == "pi" {
+    fn trace_name(&mut self, name: &'a str, lines: &mut Vec<Trace<'a>>, seen: &mut Vec<&'a str>) {
+        if seen.contains(&name) || name == "pi" {
             return;
         }
-        seen.push(name.to_string());
-        if let Some(d) = self
-            .rulebook
-            .derived
-            .iter()
-            .find(|d| d.name == name)
-            .cloned()
-        {
-            let mut inner = Vec::new();
-            expr_names(&d.expr, &mut inner);
-            for n in inner {
-                self.trace_name(&n, lines, seen);
+        seen.push(name);
+        let rulebook = self.rulebook;
+        let declaration = self.declaration;
+        if let Some(d) = rulebook.derived_value(name) {
+            for inner in &d.reads {
+                self.trace_name(inner, lines, seen);
             }
-            let value = self.derived(name).and_then(Result::ok);
-            let numbers = value
-                .as_ref()
+            let numbers = self
+                .derived(name)
+                .and_then(Result::ok)
                 .map(|v| v.numbers().to_vec())
                 .unwrap_or_default();
-            let unit = match d.ty.kind {
-                ValueKind::Number(dim) => units::display_unit(dim),
-                ValueKind::Text => None,
-            };
             self.trace_literals(&d.expr, lines);
             lines.push(Trace::Derived {
-                name: name.to_string(),
-                formula: expr_text(&d.expr),
+                derived: d,
                 values: numbers.iter().map(|n| n.value).collect(),
                 uncertainties: numbers.iter().map(|n| self.combined(n)).collect(),
-                unit,
             });
             return;
         }
-        match self.declaration.supplied.get(name) {
-            None => lines.push(Trace::Missing {
-                name: name.to_string(),
-            }),
+        match declaration.supplied.get(name) {
+            None => lines.push(Trace::Missing { name }),
             Some(Supplied::Text(value, origin)) => lines.push(Trace::Text {
-                label: name.to_string(),
-                value: value.clone(),
-                origin: origin.clone(),
+                name,
+                value,
+                origin,
             }),
-            Some(Supplied::Single(id)) => lines.push(self.input_line(*id)),
+            Some(Supplied::Single(id)) => lines.push(Trace::Input(*id)),
             Some(Supplied::PerCylinder(ids)) => {
-                lines.extend(ids.iter().map(|id| self.input_line(*id)))
+                lines.extend(ids.iter().map(|id| Trace::Input(*id)))
             }
         }
     }
 
-    /// Rulebook literals with a stated uncertainty that a derived value reads.
-    fn trace_literals(&self, e: &Expr, lines: &mut Vec<Trace>) {
-        for i in self.declaration.inputs.len()..self.inputs.len() {
-            let input = &self.inputs[i];
-            let text = expr_text(e);
-            let already = lines
+    /// Rulebook literals with a stated uncertainty that an expression reads.
+    fn trace_literals(&self, e: &Expr, lines: &mut Vec<Trace<'a>>) {
+        let mut ids = Vec::new();
+        self.literal_ids(e, &mut ids);
+        for id in ids {
+            if !lines
                 .iter()
-                .any(|l| matches!(l, Trace::Input { label, .. } if *label == input.label));
-            if text.contains(&input.label) && !already {
-                lines.push(self.input_line(u32::try_from(i).unwrap_or(u32::MAX)));
+                .any(|l| matches!(l, Trace::Input(i) if *i == id))
+            {
+                lines.push(Trace::Input(id));
             }
-        }
-    }
-
-    fn input_line(&self, id: u32) -> Trace {
-        let input = &self.inputs[id as usize];
-        Trace::Input {
-            label: input.label.clone(),
-            value: input.value,
-            standard_uncertainty: input.standard_uncertainty,
-            unit: input.unit.and_then(units::lookup),
-            written: input.written.clone(),
-            source: input.source.clone(),
-            origin: input.origin.clone(),
         }
     }
 }
@@ -500,25 +461,22 @@ fn binary_finding(holds: bool, observed: String) -> Checked {
 fn limit_unit(a: &Expr, b: &Expr, ev: &Evaluator) -> Option<&'static Unit> {
     let written = first_unit(b).or_else(|| first_unit(a));
     written.or_else(|| {
-        let names = [a, b].into_iter().flat_map(|e| {
-            let mut n = Vec::new();
-            expr_names(e, &mut n);
-            n
-        });
+        let mut names = Vec::new();
+        a.names(&mut names);
+        b.names(&mut names);
         names
-            .filter_map(|n| dimension_of(&n, ev))
+            .into_iter()
+            .filter_map(|n| dimension_of(n, ev))
             .find_map(units::display_unit)
     })
 }
 
 fn dimension_of(name: &str, ev: &Evaluator) -> Option<crate::units::Dimension> {
-    let kind = ev.rulebook.measurement(name).map(|m| m.kind).or_else(|| {
-        ev.rulebook
-            .derived
-            .iter()
-            .find(|d| d.name == name)
-            .map(|d| d.ty.kind)
-    })?;
+    let kind = ev
+        .rulebook
+        .measurement(name)
+        .map(|m| m.kind)
+        .or_else(|| ev.rulebook.derived_value(name).map(|d| d.ty.kind))?;
     match kind {
         ValueKind::Number(d) => Some(d),
         ValueKind::Text => None,
@@ -536,56 +494,5 @@ fn first_unit(e: &Expr) -> Option<&'static Unit> {
         ExprKind::Binary { left, right, .. } => first_unit(left).or_else(|| first_unit(right)),
         ExprKind::Call { args, .. } => args.iter().find_map(|a| first_unit(&a.value)),
         ExprKind::Text(_) | ExprKind::Name(_) => None,
-    }
-}
-
-fn expr_names(e: &Expr, out: &mut Vec<String>) {
-    match &e.kind {
-        ExprKind::Name(n) => out.push(n.text.clone()),
-        ExprKind::Negate(inner) => expr_names(inner, out),
-        ExprKind::Binary { left, right, .. } => {
-            expr_names(left, out);
-            expr_names(right, out);
-        }
-        ExprKind::Call { args, .. } => args.iter().for_each(|a| expr_names(&a.value, out)),
-        ExprKind::Quantity(_) | ExprKind::Text(_) => {}
-    }
-}
-
-fn test_names(t: &Test, out: &mut Vec<String>) {
-    match &t.kind {
-        TestKind::Compare {
-            left,
-            right,
-            allowance,
-            ..
-        } => {
-            expr_names(left, out);
-            expr_names(right, out);
-            if let Some(a) = allowance {
-                expr_names(a, out);
-            }
-        }
-        TestKind::Between {
-            subject, low, high, ..
-        } => {
-            expr_names(subject, out);
-            expr_names(low, out);
-            expr_names(high, out);
-        }
-        TestKind::Member { subject, .. } | TestKind::Matches { subject, .. } => {
-            expr_names(subject, out)
-        }
-    }
-}
-
-fn condition_names(c: &Condition, out: &mut Vec<String>) {
-    match c {
-        Condition::Test(t) => test_names(t, out),
-        Condition::Not(inner, _) => condition_names(inner, out),
-        Condition::And(a, b) | Condition::Or(a, b) => {
-            condition_names(a, out);
-            condition_names(b, out);
-        }
     }
 }

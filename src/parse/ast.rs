@@ -520,3 +520,69 @@ pub struct Uncertainty {
     /// The coverage factor, 2 when not written.
     pub coverage: Option<Number>,
 }
+
+impl Expr {
+    /// Every name the expression reads, in the order written (repeats included).
+    pub fn names<'e>(&'e self, out: &mut Vec<&'e str>) {
+        match &self.kind {
+            ExprKind::Name(n) => out.push(&n.text),
+            ExprKind::Negate(inner) => inner.names(out),
+            ExprKind::Binary { left, right, .. } => {
+                left.names(out);
+                right.names(out);
+            }
+            ExprKind::Call { args, .. } => args.iter().for_each(|a| a.value.names(out)),
+            ExprKind::Quantity(_) | ExprKind::Text(_) => {}
+        }
+    }
+}
+
+impl Test {
+    /// Every name the test reads.
+    pub fn names<'e>(&'e self, out: &mut Vec<&'e str>) {
+        match &self.kind {
+            TestKind::Compare {
+                left,
+                right,
+                allowance,
+                ..
+            } => {
+                left.names(out);
+                right.names(out);
+                if let Some(a) = allowance {
+                    a.names(out);
+                }
+            }
+            TestKind::Between {
+                subject,
+                low,
+                high,
+                allowance,
+            } => {
+                subject.names(out);
+                low.names(out);
+                high.names(out);
+                if let Some(a) = allowance {
+                    a.names(out);
+                }
+            }
+            TestKind::Member { subject, .. } | TestKind::Matches { subject, .. } => {
+                subject.names(out)
+            }
+        }
+    }
+}
+
+impl Condition {
+    /// Every name the condition reads.
+    pub fn names<'e>(&'e self, out: &mut Vec<&'e str>) {
+        match self {
+            Condition::Test(t) => t.names(out),
+            Condition::Not(inner, _) => inner.names(out),
+            Condition::And(a, b) | Condition::Or(a, b) => {
+                a.names(out);
+                b.names(out);
+            }
+        }
+    }
+}

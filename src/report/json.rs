@@ -8,7 +8,7 @@ use crate::evaluate::finding::{Finding, Verdict};
 use crate::evaluate::outcome::{Applies, EngineReport, Numeric, Outcome, Trace};
 use crate::exit::Exit;
 use crate::load::UncertaintySource;
-use crate::units::Unit;
+use crate::units::{self, Unit};
 
 /// Schema name and version of the document.
 pub const SCHEMA: &str = "gonogo.check/1";
@@ -118,16 +118,17 @@ enum TraceEntry {
 fn engine(r: &EngineReport) -> Engine {
     let [legal, illegal, not_checked, not_applicable] = r.counts();
     let exit = r.exit();
+    let id = &r.declaration.identity;
     Engine {
-        file: r.file.clone(),
-        engine: r.identity.engine.clone(),
-        car: r.identity.car.clone(),
-        event: r.identity.event.clone(),
-        date: r.identity.date.map(|d| d.to_string()),
-        measured_by: r.identity.measured_by.clone(),
-        series: r.series.clone(),
-        edition: r.edition.clone(),
-        class: r.class.clone(),
+        file: r.declaration.path.display().to_string(),
+        engine: id.engine.clone(),
+        car: id.car.clone(),
+        event: id.event.clone(),
+        date: id.date.map(|d| d.to_string()),
+        measured_by: id.measured_by.clone(),
+        series: r.rulebook.series.clone(),
+        edition: r.rulebook.edition.clone(),
+        class: r.class.name.clone(),
         decision: r.decision.words(),
         decision_from: if r.decision_overridden {
             "command line"
@@ -147,25 +148,25 @@ fn engine(r: &EngineReport) -> Engine {
             not_applicable,
             conditional: r.conditional_count(),
         },
-        rules: r.outcomes.iter().map(rule).collect(),
+        rules: r.outcomes.iter().map(|o| rule(o, r)).collect(),
     }
 }
 
-fn rule(o: &Outcome) -> Rule {
+fn rule(o: &Outcome, r: &EngineReport) -> Rule {
     Rule {
-        section: o.section.clone(),
-        title: o.title.clone(),
+        section: o.section().to_string(),
+        title: o.title().to_string(),
         verdict: o.verdict,
         finding: o.checked.as_ref().map(|c| c.finding),
         applies: o.applies,
-        requirement: o.requirement.clone(),
-        conditions: o.conditions.clone(),
-        from: match &o.origin {
+        requirement: o.rule.requirement.clone(),
+        conditions: o.rule.condition_texts.clone(),
+        from: match &o.rule.origin {
             Origin::Class(c) => format!("class {c}"),
             Origin::Bulletin(b) => format!("bulletin {b}"),
         },
-        penalty: o.penalty.clone(),
-        note: o.note.clone(),
+        penalty: o.penalty().map(str::to_string),
+        note: o.note().map(str::to_string),
         numeric: o
             .checked
             .as_ref()
@@ -173,7 +174,7 @@ fn rule(o: &Outcome) -> Rule {
             .map(number),
         observed: o.checked.as_ref().and_then(|c| c.observed.clone()),
         missing: o.missing.clone(),
-        trace: o.trace.iter().map(trace).collect(),
+        trace: o.trace.iter().map(|t| trace(t, r)).collect(),
     }
 }
 
@@ -196,51 +197,58 @@ fn number(n: &Numeric) -> Number {
     }
 }
 
-fn trace(t: &Trace) -> TraceEntry {
+fn trace(t: &Trace, r: &EngineReport) -> TraceEntry {
     match t {
-        Trace::Input {
-            label,
-            value,
-            standard_uncertainty,
-            unit,
-            source,
-            origin,
-            ..
-        } => TraceEntry::Input {
-            label: label.clone(),
-            unit: unit.map(|u| u.symbol),
-            value: value / scale(*unit),
-            standard_uncertainty: standard_uncertainty / scale(*unit),
-            uncertainty_from: match source {
-                UncertaintySource::Stated { k } => format!("stated, k = {k}"),
-                UncertaintySource::Instrument(i) => format!("instrument {i}"),
-                UncertaintySource::Rulebook => "rulebook".to_string(),
-                UncertaintySource::None => "none stated".to_string(),
-            },
-            origin: origin.clone(),
-        },
+        Trace::Input(id) => {
+            let input = r.input(*id);
+            let unit = input.unit.and_then(units::lookup);
+            TraceEntry::Input {
+                label: input.label.clone(),
+                unit: unit.map(|u| u.symbol),
+                value: input.value / scale(unit),
+                standard_uncertainty: input.standard_uncertainty / scale(unit),
+                uncertainty_from: match &input.source {
+                    UncertaintySource::Stated { k } => format!("stated, k = {k}"),
+                    UncertaintySource::Instrument(i) => format!("instrument {i}"),
+                    UncertaintySource::Rulebook => "rulebook".to_string(),
+                    UncertaintySource::None => "none stated".to_string(),
+                },
+                origin: input.origin.clone(),
+            }
+        }
         Trace::Text {
-            label,
+            name,
             value,
             origin,
         } => TraceEntry::Text {
-            label: label.clone(),
-            value: value.clone(),
-            origin: origin.clone(),
+            label: name.to_string(),
+            value: value.to_string(),
+            origin: origin.to_string(),
         },
         Trace::Derived {
-            name,
-            formula,
+            derived,
             values,
             uncertainties,
-            unit,
-        } => TraceEntry::Derived {
-            name: name.clone(),
-            formula: formula.clone(),
-            unit: unit.map(|u| u.symbol),
-            values: values.iter().map(|v| v / scale(*unit)).collect(),
-            standard_uncertainties: uncertainties.iter().map(|u| u / scale(*unit)).collect(),
+        } => {
+            let unit = derived_unit(derived);
+            TraceEntry::Derived {
+                name: derived.name.clone(),
+                formula: derived.formula.clone(),
+                unit: unit.map(|u| u.symbol),
+                values: values.iter().map(|v| v / scale(unit)).collect(),
+                standard_uncertainties: uncertainties.iter().map(|u| u / scale(unit)).collect(),
+            }
+        }
+        Trace::Missing { name } => TraceEntry::Missing {
+            name: name.to_string(),
         },
-        Trace::Missing { name } => TraceEntry::Missing { name: name.clone() },
+    }
+}
+
+/// The unit a derived value is shown in.
+pub fn derived_unit(d: &crate::check::model::Derived) -> Option<&'static Unit> {
+    match d.ty.kind {
+        crate::check::model::ValueKind::Number(dim) => units::display_unit(dim),
+        crate::check::model::ValueKind::Text => None,
     }
 }

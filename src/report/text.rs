@@ -4,11 +4,13 @@
 use std::fmt::Write;
 
 use super::format::{probability, quantity, uncertainty_in};
+use super::json::derived_unit;
 use crate::check::model::Origin;
-use crate::evaluate::finding::Verdict;
-use crate::evaluate::outcome::{Applies, EngineReport, Outcome, Trace};
+use crate::evaluate::finding::{Finding, Verdict};
+use crate::evaluate::outcome::{Applies, Checked, EngineReport, Outcome, Trace};
 use crate::exit::Exit;
-use crate::load::UncertaintySource;
+use crate::load::{Input, UncertaintySource};
+use crate::units::{self, Unit};
 
 /// The whole report for one engine.
 pub fn engine(report: &EngineReport) -> String {
@@ -16,23 +18,24 @@ pub fn engine(report: &EngineReport) -> String {
     header(&mut out, report);
     for outcome in &report.outcomes {
         out.push('\n');
-        rule(&mut out, outcome);
+        rule(&mut out, outcome, report);
     }
     out
 }
 
 fn header(out: &mut String, r: &EngineReport) {
     let title = r
-        .class_title
+        .class
+        .title
         .as_ref()
         .map(|t| format!(" \"{t}\""))
         .unwrap_or_default();
     let _ = writeln!(
         out,
         "{} — edition {} — class {}{title}",
-        r.series, r.edition, r.class
+        r.rulebook.series, r.rulebook.edition, r.class.name
     );
-    let id = &r.identity;
+    let id = &r.declaration.identity;
     let parts: Vec<String> = [
         id.engine.as_ref().map(|e| format!("engine {e}")),
         id.car.as_ref().map(|c| format!("car {c}")),
@@ -52,7 +55,7 @@ fn header(out: &mut String, r: &EngineReport) {
         "the rulebook's"
     };
     let _ = writeln!(out, "decision rule: {} ({from})", r.decision.words());
-    let _ = writeln!(out, "declaration: {}", r.file);
+    let _ = writeln!(out, "declaration: {}", r.declaration.path.display());
     let [legal, illegal, unchecked, not_applicable] = r.counts();
     let result = match r.exit() {
         Exit::Illegal => "ILLEGAL",
@@ -66,7 +69,7 @@ fn header(out: &mut String, r: &EngineReport) {
     );
 }
 
-fn rule(out: &mut String, o: &Outcome) {
+fn rule(out: &mut String, o: &Outcome, r: &EngineReport) {
     let finding = o
         .checked
         .as_ref()
@@ -82,12 +85,12 @@ fn rule(out: &mut String, o: &Outcome) {
     let _ = writeln!(
         out,
         "{mark} {}  {} — {}{finding}",
-        o.section,
-        o.title,
+        o.section(),
+        o.title(),
         o.verdict.words()
     );
-    let _ = writeln!(out, "    requires   {}", o.requirement);
-    for c in &o.conditions {
+    let _ = writeln!(out, "    requires   {}", o.rule.requirement);
+    for c in &o.rule.condition_texts {
         let state = match o.applies {
             Applies::DoesNotHold => "does not hold",
             Applies::Uncertain => "uncertain: inside the uncertainty band",
@@ -95,7 +98,7 @@ fn rule(out: &mut String, o: &Outcome) {
         };
         let _ = writeln!(out, "    when       {c} ({state})");
     }
-    if let Origin::Bulletin(b) = &o.origin {
+    if let Origin::Bulletin(b) = &o.rule.origin {
         let _ = writeln!(out, "    from       bulletin {b}");
     }
     if !o.missing.is_empty() {
@@ -108,9 +111,7 @@ fn rule(out: &mut String, o: &Outcome) {
     if let Some(c) = &o.checked {
         checked_lines(out, c);
         if o.applies == Applies::Uncertain {
-            let doubt = if o.verdict == Verdict::Legal
-                && !matches!(c.finding, crate::evaluate::finding::Finding::Pass)
-            {
+            let doubt = if o.verdict == Verdict::Legal && c.finding != Finding::Pass {
                 "the rule is not met if its condition holds; an uncertain condition cannot prove a violation"
             } else {
                 "judged as if the condition holds"
@@ -120,26 +121,17 @@ fn rule(out: &mut String, o: &Outcome) {
     }
     if !o.trace.is_empty() {
         let _ = writeln!(out, "    trace");
-        let mut rest = o.trace.as_slice();
-        while let Some(first) = rest.first() {
-            let run = cylinder_run(rest);
-            if run > 1 {
-                cylinder_line(out, &rest[..run]);
-            } else {
-                trace_line(out, first);
-            }
-            rest = &rest[run.max(1)..];
-        }
+        trace_lines(out, &o.trace, r);
     }
-    if let Some(p) = &o.penalty {
+    if let Some(p) = o.penalty() {
         let _ = writeln!(out, "    penalty    {p}");
     }
-    if let Some(n) = &o.note {
+    if let Some(n) = o.note() {
         let _ = writeln!(out, "    note       {n}");
     }
 }
 
-fn checked_lines(out: &mut String, c: &crate::evaluate::outcome::Checked) {
+fn checked_lines(out: &mut String, c: &Checked) {
     if let Some(observed) = &c.observed {
         let _ = writeln!(out, "    found      {observed}");
     }
@@ -177,24 +169,36 @@ fn checked_lines(out: &mut String, c: &crate::evaluate::outcome::Checked) {
     );
 }
 
-/// How many trace lines from the start are the cylinders of one measurement, all with the same
-/// unit and uncertainty, so they can share one line.
-fn cylinder_run(trace: &[Trace]) -> usize {
+/// The trace, with the cylinders of one measurement sharing a line where their unit and
+/// uncertainty agree.
+fn trace_lines(out: &mut String, trace: &[Trace], r: &EngineReport) {
+    let mut rest = trace;
+    while let Some(first) = rest.first() {
+        let run = cylinder_run(rest, r);
+        if run > 1 {
+            cylinder_line(out, &rest[..run], r);
+        } else {
+            trace_line(out, first, r);
+        }
+        rest = &rest[run.max(1)..];
+    }
+}
+
+/// How many trace lines from the start are cylinders of one measurement, all with the same
+/// unit and uncertainty.
+fn cylinder_run(trace: &[Trace], r: &EngineReport) -> usize {
     let key = |t: &Trace| match t {
-        Trace::Input {
-            label,
-            unit,
-            standard_uncertainty,
-            source,
-            ..
-        } => label.split_once('[').map(|(base, _)| {
-            (
-                base.to_string(),
-                unit.map(|u| u.symbol),
-                standard_uncertainty.to_bits(),
-                format!("{source:?}"),
-            )
-        }),
+        Trace::Input(id) => {
+            let i = r.input(*id);
+            i.label.split_once('[').map(|(base, _)| {
+                (
+                    base.to_string(),
+                    i.unit,
+                    i.standard_uncertainty.to_bits(),
+                    i.source.clone(),
+                )
+            })
+        }
         _ => None,
     };
     let Some(first) = trace.first().and_then(key) else {
@@ -207,65 +211,50 @@ fn cylinder_run(trace: &[Trace]) -> usize {
 }
 
 /// `bore = 4.0302, 4.0305, ... in  u 0.000029 in (bore_gauge)  [measurements.bore]`
-fn cylinder_line(out: &mut String, run: &[Trace]) {
-    let Some(Trace::Input {
-        label,
-        standard_uncertainty,
-        unit,
-        source,
-        origin,
-        ..
-    }) = run.first()
-    else {
-        return;
-    };
-    let values: Vec<String> = run
+fn cylinder_line(out: &mut String, run: &[Trace], r: &EngineReport) {
+    let inputs: Vec<&Input> = run
         .iter()
-        .map(|t| match t {
-            Trace::Input {
-                value,
-                unit,
-                written,
-                ..
-            } => shown_value(*value, *unit, written.as_deref(), false),
-            _ => String::new(),
+        .filter_map(|t| match t {
+            Trace::Input(id) => Some(r.input(*id)),
+            _ => None,
         })
         .collect();
-    let base = label.split_once('[').map_or(label.as_str(), |(b, _)| b);
-    let origin = origin.split_once('[').map_or(origin.as_str(), |(o, _)| o);
+    let Some(first) = inputs.first() else { return };
+    let unit = first.unit.and_then(units::lookup);
+    let values: Vec<String> = inputs.iter().map(|i| shown_value(i, unit, false)).collect();
+    let base = first
+        .label
+        .split_once('[')
+        .map_or(first.label.as_str(), |(b, _)| b);
+    let origin = first
+        .origin
+        .split_once('[')
+        .map_or(first.origin.as_str(), |(o, _)| o);
     let symbol = unit.map(|u| format!(" {}", u.symbol)).unwrap_or_default();
+    let u = uncertainty_words(first.standard_uncertainty, unit, &first.source);
     let _ = writeln!(
         out,
-        "      {base} = {}{symbol}  {}  [{origin}]",
-        values.join(", "),
-        uncertainty_words(*standard_uncertainty, *unit, source)
+        "      {base} = {}{symbol}  {u}  [{origin}]",
+        values.join(", ")
     );
 }
 
-fn shown_value(
-    value: f64,
-    unit: Option<&'static crate::units::Unit>,
-    written: Option<&str>,
-    with_unit: bool,
-) -> String {
+/// A value as written (without its unit when `with_unit` is false), or formatted.
+fn shown_value(input: &Input, unit: Option<&'static Unit>, with_unit: bool) -> String {
     let bare = |text: &str| match unit {
         Some(u) if !with_unit => text
             .strip_suffix(u.symbol)
             .map_or(text.to_string(), |t| t.trim_end().to_string()),
         _ => text.to_string(),
     };
-    match written {
+    match input.written.as_deref() {
         Some(w) if !w.contains('±') && !w.contains("+/-") => bare(w),
-        _ if with_unit => quantity(value, unit),
-        _ => bare(&quantity(value, unit)),
+        _ if with_unit => quantity(input.value, unit),
+        _ => bare(&quantity(input.value, unit)),
     }
 }
 
-fn uncertainty_words(
-    u: f64,
-    unit: Option<&'static crate::units::Unit>,
-    source: &UncertaintySource,
-) -> String {
+fn uncertainty_words(u: f64, unit: Option<&'static Unit>, source: &UncertaintySource) -> String {
     match source {
         UncertaintySource::None => "no uncertainty stated".to_string(),
         UncertaintySource::Instrument(i) => format!("u {} ({i})", uncertainty_in(u, unit)),
@@ -276,52 +265,47 @@ fn uncertainty_words(
     }
 }
 
-fn trace_line(out: &mut String, t: &Trace) {
+fn trace_line(out: &mut String, t: &Trace, r: &EngineReport) {
     match t {
-        Trace::Input {
-            label,
-            value,
-            standard_uncertainty,
-            unit,
-            written,
-            source,
-            origin,
-        } => {
-            let u = uncertainty_words(*standard_uncertainty, *unit, source);
+        Trace::Input(id) => {
+            let input = r.input(*id);
+            let unit = input.unit.and_then(units::lookup);
+            let u = uncertainty_words(input.standard_uncertainty, unit, &input.source);
             let _ = writeln!(
                 out,
-                "      {label} = {}  {u}  [{origin}]",
-                shown_value(*value, *unit, written.as_deref(), true)
+                "      {} = {}  {u}  [{}]",
+                input.label,
+                shown_value(input, unit, true),
+                input.origin
             );
         }
         Trace::Text {
-            label,
+            name,
             value,
             origin,
         } => {
-            let _ = writeln!(out, "      {label} = \"{value}\"  [{origin}]");
+            let _ = writeln!(out, "      {name} = \"{value}\"  [{origin}]");
         }
         Trace::Missing { name } => {
             let _ = writeln!(out, "      {name}: missing");
         }
         Trace::Derived {
-            name,
-            formula,
+            derived,
             values,
             uncertainties,
-            unit,
         } => {
+            let unit = derived_unit(derived);
             let shown: Vec<String> = values
                 .iter()
                 .zip(uncertainties)
-                .map(|(v, u)| format!("{} (u {})", quantity(*v, *unit), uncertainty_in(*u, *unit)))
+                .map(|(v, u)| format!("{} (u {})", quantity(*v, unit), uncertainty_in(*u, unit)))
                 .collect();
             let result = if shown.is_empty() {
                 "not computed".to_string()
             } else {
                 shown.join(", ")
             };
-            let _ = writeln!(out, "      {name} = {formula}");
+            let _ = writeln!(out, "      {} = {}", derived.name, derived.formula);
             let _ = writeln!(out, "        = {result}");
         }
     }
