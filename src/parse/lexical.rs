@@ -97,17 +97,21 @@ pub fn span_between(start: &Input, end: &Input) -> Span {
 }
 
 /// Skips white space and `#` comments.
-pub fn ws(mut input: Input) -> PResult<()> {
+pub fn ws(input: Input) -> PResult<()> {
+    let text = *input.fragment();
+    let mut at = 0;
     loop {
-        let (rest, _) = take_while(char::is_whitespace).parse(input)?;
-        input = rest;
-        if input.fragment().starts_with('#') {
-            let (rest, _) = take_while(|c| c != '\n').parse(input)?;
-            input = rest;
-        } else {
-            return Ok((input, ()));
+        let rest = &text[at..];
+        let blank = rest.len() - rest.trim_start().len();
+        at += blank;
+        if text[at..].starts_with('#') {
+            at += text[at..].find('\n').unwrap_or(text.len() - at);
+        } else if blank == 0 {
+            break;
         }
     }
+    // most tokens follow no white space: then the input is returned as it is, unsplit
+    Ok((if at == 0 { input } else { advance(input, at) }, ()))
 }
 
 fn is_name_start(c: char) -> bool {
