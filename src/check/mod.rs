@@ -85,6 +85,8 @@ struct Checker<'a> {
     sound_classes: HashSet<&'a str>,
     /// Every measurement or derived value some rule, condition or definition reads.
     used: HashSet<String>,
+    /// The compiled pattern of every `matches` test, by where the pattern is written.
+    test_patterns: HashMap<(u32, usize), regex::Regex>,
 }
 
 impl Checker<'_> {
@@ -170,6 +172,7 @@ impl<'a> Checker<'a> {
             classes,
             bulletins,
             index,
+            patterns: self.test_patterns,
         })
     }
 }

@@ -211,6 +211,8 @@ pub struct CheckedRulebook {
     pub bulletins: Vec<Bulletin>,
     /// Where each measurement and derived value is, by name.
     pub index: std::collections::HashMap<String, Named>,
+    /// The compiled pattern of every `matches` test, by the file and offset it is written at.
+    pub patterns: std::collections::HashMap<(u32, usize), Regex>,
 }
 
 /// What a name of the rulebook stands for.
@@ -232,6 +234,14 @@ impl CheckedRulebook {
     pub fn measurement(&self, name: &str) -> Option<&Measurement> {
         match self.index.get(name) {
             Some(Named::Measurement(i)) => self.measurements.get(*i),
+            _ => None,
+        }
+    }
+
+    /// The position of the measurement with this name in `measurements`.
+    pub fn measurement_index(&self, name: &str) -> Option<usize> {
+        match self.index.get(name) {
+            Some(Named::Measurement(i)) => Some(*i),
             _ => None,
         }
     }

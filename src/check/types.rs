@@ -786,7 +786,10 @@ impl<'a> Checker<'a> {
                 subject, pattern, ..
             } => {
                 self.expect_text(subject, place);
-                self.compile_pattern(pattern);
+                if let Some(re) = self.compile_pattern(pattern) {
+                    self.test_patterns
+                        .insert((pattern.span.file, pattern.span.start), re);
+                }
             }
         }
     }

@@ -7,8 +7,8 @@ use super::dual::{Dual, InputId};
 use super::formulas::{self, Cylinder};
 use super::value::{Evaluated, Missing, Value, all, both};
 use crate::check::builtins::{self, Function, Generic};
-use crate::check::model::CheckedRulebook;
-use crate::load::{Declaration, Input, Supplied, UncertaintySource};
+use crate::check::model::{CheckedRulebook, Named};
+use crate::load::{Declaration, Input, InputName, Supplied, UncertaintySource};
 use crate::parse::ast::{Arg, BinaryOp, Expr, ExprKind, Quantity};
 use crate::source::Span;
 use crate::units;
@@ -21,7 +21,8 @@ pub struct Evaluator<'a> {
     pub declaration: &'a Declaration,
     /// Rulebook literals with a stated uncertainty, numbered after the declaration's inputs.
     pub rulebook_inputs: Vec<Input>,
-    derived: HashMap<String, Evaluated<Value>>,
+    /// Derived values computed so far, by position in the rulebook's `derived`.
+    derived: Vec<Option<Evaluated<Value>>>,
     literal_inputs: HashMap<(u32, usize), InputId>,
 }
 
@@ -32,7 +33,7 @@ impl<'a> Evaluator<'a> {
             rulebook,
             declaration,
             rulebook_inputs: Vec::new(),
-            derived: HashMap::new(),
+            derived: vec![None; rulebook.derived.len()],
             literal_inputs: HashMap::new(),
         }
     }
@@ -60,14 +61,28 @@ impl<'a> Evaluator<'a> {
 
     /// The value of a derived value, computed once.
     pub fn derived(&mut self, name: &str) -> Option<Evaluated<Value>> {
-        if let Some(v) = self.derived.get(name) {
-            return Some(v.clone());
+        self.computed(name).cloned()
+    }
+
+    /// The value of a derived value, computed once and kept; borrowed from the cache.
+    pub fn computed(&mut self, name: &str) -> Option<&Evaluated<Value>> {
+        let Some(Named::Derived(at)) = self.rulebook.index.get(name).copied() else {
+            return None;
+        };
+        if self.derived.get(at)?.is_none() {
+            let rulebook = self.rulebook;
+            let value = self.eval(&rulebook.derived.get(at)?.expr);
+            self.derived[at] = Some(value);
         }
-        let rulebook = self.rulebook;
-        let expr = &rulebook.derived_value(name)?.expr;
-        let value = self.eval(expr);
-        self.derived.insert(name.to_string(), value.clone());
-        Some(value)
+        self.derived.get(at)?.as_ref()
+    }
+
+    /// A derived value already computed, if it has been.
+    pub fn derived_cache(&self, name: &str) -> Option<&Evaluated<Value>> {
+        match self.rulebook.index.get(name) {
+            Some(Named::Derived(at)) => self.derived.get(*at)?.as_ref(),
+            _ => None,
+        }
     }
 
     /// Evaluates an expression.
@@ -104,16 +119,15 @@ impl<'a> Evaluator<'a> {
         let count = self.declaration.inputs.len() + self.rulebook_inputs.len();
         let id = InputId::try_from(count).unwrap_or(InputId::MAX);
         self.rulebook_inputs.push(Input {
-            label: crate::parse::print::expr_text(&Expr {
+            name: InputName::Literal(crate::parse::print::expr_text(&Expr {
                 kind: ExprKind::Quantity(q.clone()),
                 span,
-            }),
+            })),
             value,
             standard_uncertainty: u.value.value * unit.map_or(1.0, |u| u.to_si) / k,
             unit: unit.map(|u| u.symbol),
             written: None,
             source: UncertaintySource::Rulebook,
-            origin: "rulebook".to_string(),
         });
         self.literal_inputs.insert(key, id);
         Dual::input(id, value)
@@ -144,7 +158,11 @@ impl<'a> Evaluator<'a> {
         if let Some(v) = self.derived(name) {
             return v;
         }
-        match self.declaration.supplied.get(name) {
+        let supplied = self
+            .rulebook
+            .measurement_index(name)
+            .and_then(|i| self.declaration.supplied(i));
+        match supplied {
             Some(Supplied::Single(id)) => Ok(Value::Single(self.input(*id))),
             Some(Supplied::PerCylinder(ids)) => Ok(Value::PerCylinder(
                 ids.iter().map(|id| self.input(*id)).collect(),
@@ -241,24 +259,24 @@ fn generic(g: Generic, values: &[Value]) -> Value {
     }
 }
 
+/// Argument `a` for cylinder `i`: a single value serves every cylinder.
+fn argument_at<'v>(a: &'v Value, i: usize, undefined: &'v Dual) -> &'v Dual {
+    match a {
+        Value::Single(d) => d,
+        Value::PerCylinder(ds) => ds.get(i).unwrap_or(undefined),
+        Value::Text(_) => undefined,
+    }
+}
+
 /// Applies a formula cylinder by cylinder where its arguments are per cylinder.
 fn formula(name: &str, args: &[Value]) -> Value {
     let cylinders = args.iter().find_map(|a| match a {
         Value::PerCylinder(ds) => Some(ds.len()),
         _ => None,
     });
-    let at = |a: &Value, i: usize| -> Dual {
-        match a {
-            Value::Single(d) => d.clone(),
-            Value::PerCylinder(ds) => ds
-                .get(i)
-                .cloned()
-                .unwrap_or_else(|| Dual::constant(f64::NAN)),
-            Value::Text(_) => Dual::constant(f64::NAN),
-        }
-    };
+    let undefined = Dual::constant(f64::NAN);
     let one = |i: usize| -> Dual {
-        let x: Vec<Dual> = args.iter().map(|a| at(a, i)).collect();
+        let x: Vec<&Dual> = args.iter().map(|a| argument_at(a, i, &undefined)).collect();
         match (name, x.as_slice()) {
             ("displacement", [b, s, n]) => formulas::displacement(b, s, n),
             (

@@ -37,9 +37,10 @@ pub struct Cylinder<'a> {
 /// Static compression ratio `(V_swept + V_clear) / V_clear` with
 /// `V_clear = chamber + π/4·gasket_bore²·gasket_thickness + π/4·bore²·deck_clearance + piston`.
 pub fn compression_ratio(c: &Cylinder) -> Dual {
-    let swept = circle_area(c.bore).mul(c.stroke);
+    let bore_area = circle_area(c.bore);
+    let swept = bore_area.mul(c.stroke);
     let gasket = circle_area(c.gasket_bore).mul(c.gasket_thickness);
-    let deck = circle_area(c.bore).mul(c.deck_clearance);
+    let deck = bore_area.mul(c.deck_clearance);
     let clearance = c.chamber.add(&gasket).add(&deck).add(c.piston_volume);
     swept.add(&clearance).div(&clearance)
 }

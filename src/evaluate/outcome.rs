@@ -4,7 +4,7 @@
 use super::dual::InputId;
 use super::finding::{Finding, Verdict};
 use crate::check::model::{CheckedRulebook, Class, ClassRule, Derived};
-use crate::load::{Declaration, Input};
+use crate::load::{Declaration, Input, Place};
 use crate::parse::ast::DecisionRule;
 use crate::units::Unit;
 
@@ -69,7 +69,7 @@ pub enum Trace<'a> {
         /// Its value.
         value: &'a str,
         /// Where it was written.
-        origin: &'a str,
+        place: Place,
     },
     /// A derived value, with its value(s) for this engine.
     Derived {

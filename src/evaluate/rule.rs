@@ -158,10 +158,11 @@ impl<'a> Evaluator<'a> {
                 pattern,
             } => {
                 let text = self.text(subject)?;
-                let matched = regex::RegexBuilder::new(&pattern.source)
-                    .case_insensitive(pattern.ignore_case)
-                    .build()
-                    .is_ok_and(|re| re.is_match(&text));
+                let compiled = self
+                    .rulebook
+                    .patterns
+                    .get(&(pattern.span.file, pattern.span.start));
+                let matched = compiled.is_some_and(|re| re.is_match(&text));
                 Ok(binary_finding(matched != *negated, text))
             }
         }
@@ -211,12 +212,17 @@ impl<'a> Evaluator<'a> {
         let upper = matches!(op, CompareOp::AtMost | CompareOp::Below);
         // margin, positive inside: (limit + allowance) − value, or value − (limit − allowance)
         let margins = subject.zip(limit, |s, t| if upper { t.sub(s) } else { s.sub(t) });
-        let limits = subject.zip(limit, |_, t| t.clone());
-        let values = subject.zip(limit, |s, _| s.clone());
         let (i, m) = self.worst(margins.numbers(), slack, strict);
-        let lim = limits.numbers()[i].value + if upper { slack } else { -slack };
+        // a single value stands for every cylinder
+        let at = |v: &Value| {
+            v.numbers()
+                .get(i)
+                .or(v.numbers().first())
+                .map_or(f64::NAN, |d| d.value)
+        };
+        let lim = at(limit) + if upper { slack } else { -slack };
         let numeric = self.numeric(
-            values.numbers()[i].value,
+            at(subject),
             lim,
             &m,
             slack,
@@ -365,25 +371,30 @@ impl<'a> Evaluator<'a> {
             for inner in &d.reads {
                 self.trace_name(inner, lines, seen);
             }
-            let numbers = self
-                .derived(name)
-                .and_then(Result::ok)
-                .map(|v| v.numbers().to_vec())
-                .unwrap_or_default();
+            self.computed(name);
+            let numbers = match self.derived_cache(name) {
+                Some(Ok(v)) => v.numbers(),
+                _ => &[],
+            };
+            let values = numbers.iter().map(|n| n.value).collect();
+            let uncertainties = numbers.iter().map(|n| self.combined(n)).collect();
             self.trace_literals(&d.expr, lines);
             lines.push(Trace::Derived {
                 derived: d,
-                values: numbers.iter().map(|n| n.value).collect(),
-                uncertainties: numbers.iter().map(|n| self.combined(n)).collect(),
+                values,
+                uncertainties,
             });
             return;
         }
-        match declaration.supplied.get(name) {
+        match rulebook
+            .measurement_index(name)
+            .and_then(|i| declaration.supplied(i))
+        {
             None => lines.push(Trace::Missing { name }),
-            Some(Supplied::Text(value, origin)) => lines.push(Trace::Text {
+            Some(Supplied::Text(value, place)) => lines.push(Trace::Text {
                 name,
                 value,
-                origin,
+                place: *place,
             }),
             Some(Supplied::Single(id)) => lines.push(Trace::Input(*id)),
             Some(Supplied::PerCylinder(ids)) => {

@@ -1,9 +1,9 @@
 //! An engine declaration once loaded: who, what, when, and every measured value in SI units
 //! with its standard uncertainty and where in the file it came from.
 
-use std::collections::BTreeMap;
 use std::path::PathBuf;
 
+use crate::check::model::CheckedRulebook;
 use crate::evaluate::dual::InputId;
 use crate::parse::ast::Date;
 
@@ -40,11 +40,46 @@ pub enum UncertaintySource {
     None,
 }
 
+/// Where in a declaration a value was written.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Hash)]
+pub enum Place {
+    /// Under `measurements:`, by its full name.
+    Measurements,
+    /// Under `components:`, by component and short name.
+    Components,
+}
+
+impl Place {
+    /// The top-level key.
+    pub fn key(self) -> &'static str {
+        match self {
+            Place::Measurements => "measurements",
+            Place::Components => "components",
+        }
+    }
+}
+
+/// What an input is.
+#[derive(Clone, Debug, PartialEq)]
+pub enum InputName {
+    /// A declared measurement.
+    Measured {
+        /// Its position in the rulebook's measurement schema.
+        measurement: usize,
+        /// The cylinder, counting from 1, for per-cylinder values.
+        cylinder: Option<usize>,
+        /// Where the declaration wrote it.
+        place: Place,
+    },
+    /// A rulebook literal with a stated uncertainty, as written.
+    Literal(String),
+}
+
 /// One scalar measured input (each cylinder's bore is its own input).
 #[derive(Clone, Debug, PartialEq)]
 pub struct Input {
-    /// The measurement, with the cylinder for per-cylinder values (`bore[3]`).
-    pub label: String,
+    /// What it is.
+    pub name: InputName,
     /// Value in SI units.
     pub value: f64,
     /// Standard uncertainty in SI units.
@@ -55,9 +90,53 @@ pub struct Input {
     pub written: Option<String>,
     /// Where the uncertainty comes from.
     pub source: UncertaintySource,
-    /// Where it was written: a path in the declaration (`measurements.bore[3]`) or a rulebook
-    /// location.
-    pub origin: String,
+}
+
+impl Input {
+    /// The measurement and cylinder, as a report names it: `bore[3]`, `stroke`, or the literal.
+    pub fn label(&self, rulebook: &CheckedRulebook) -> String {
+        match &self.name {
+            InputName::Measured {
+                measurement,
+                cylinder,
+                ..
+            } => with_cylinder(measurement_name(rulebook, *measurement), *cylinder),
+            InputName::Literal(text) => text.clone(),
+        }
+    }
+
+    /// Where it was written: `measurements.bore[3]`, `components.carburetor.part`, `rulebook`.
+    pub fn origin(&self, rulebook: &CheckedRulebook) -> String {
+        match &self.name {
+            InputName::Measured {
+                measurement,
+                cylinder,
+                place,
+            } => with_cylinder(
+                &format!(
+                    "{}.{}",
+                    place.key(),
+                    measurement_name(rulebook, *measurement)
+                ),
+                *cylinder,
+            ),
+            InputName::Literal(_) => "rulebook".to_string(),
+        }
+    }
+}
+
+fn measurement_name(rulebook: &CheckedRulebook, index: usize) -> &str {
+    rulebook
+        .measurements
+        .get(index)
+        .map_or("?", |m| m.name.as_str())
+}
+
+fn with_cylinder(base: &str, cylinder: Option<usize>) -> String {
+    match cylinder {
+        Some(c) => format!("{base}[{c}]"),
+        None => base.to_string(),
+    }
 }
 
 /// What a declaration gives for one measurement.
@@ -68,7 +147,7 @@ pub enum Supplied {
     /// One number per cylinder, cylinder 1 first.
     PerCylinder(Vec<InputId>),
     /// An identifier or other text, and where it was written.
-    Text(String, String),
+    Text(String, Place),
 }
 
 /// A loaded declaration.
@@ -80,13 +159,19 @@ pub struct Declaration {
     pub identity: Identity,
     /// Every scalar input, indexed by [`InputId`].
     pub inputs: Vec<Input>,
-    /// What was supplied for each measurement; a measurement left out or left empty is absent.
-    pub supplied: BTreeMap<String, Supplied>,
+    /// What was supplied, by position in the rulebook's measurement schema; a measurement
+    /// left out or left empty is `None`.
+    pub supplied: Vec<Option<Supplied>>,
 }
 
 impl Declaration {
     /// The input with this id.
     pub fn input(&self, id: InputId) -> &Input {
         &self.inputs[id as usize]
+    }
+
+    /// What was supplied for the measurement at this position of the schema.
+    pub fn supplied(&self, measurement: usize) -> Option<&Supplied> {
+        self.supplied.get(measurement).and_then(Option::as_ref)
     }
 }

@@ -11,7 +11,9 @@ use std::path::Path;
 
 use serde::de::DeserializeSeed;
 
-pub use declaration::{Declaration, Identity, Input, Supplied, UncertaintySource};
+pub use declaration::{
+    Declaration, Identity, Input, InputName, Place, Supplied, UncertaintySource,
+};
 pub use reading::{Reading, read_text};
 
 use crate::check::model::CheckedRulebook;

@@ -11,9 +11,11 @@ use std::fmt;
 
 use serde::de::{self, DeserializeSeed, Deserializer, MapAccess, SeqAccess, Visitor};
 
-use super::declaration::{Declaration, Identity, Input, Supplied, UncertaintySource};
+use super::declaration::{
+    Declaration, Identity, Input, InputName, Place, Supplied, UncertaintySource,
+};
 use super::reading::{Reading, Refusal, read_instrument_quantity, read_number, read_text};
-use crate::check::model::{CheckedRulebook, Measurement, ValueKind};
+use crate::check::model::{CheckedRulebook, Measurement, Named, ValueKind};
 use crate::suggest::closest;
 use crate::units::Dimension;
 
@@ -67,6 +69,8 @@ pub struct State {
     pub uses: Vec<InstrumentUse>,
     /// The number of cylinders, from `cylinders` or the first per-cylinder list, and where.
     pub cylinders: Option<(usize, String)>,
+    /// Which measurements have been written, by position in the schema.
+    pub declared: Vec<bool>,
 }
 
 /// Reads a whole declaration.
@@ -103,14 +107,13 @@ impl<'de> Visitor<'de> for DeclarationSeed<'_> {
     }
 
     fn visit_map<A: MapAccess<'de>>(self, mut map: A) -> Result<(), A::Error> {
-        let mut seen = HashSet::new();
-        let allowed: Vec<String> = TOP_KEYS.iter().map(|k| k.to_string()).collect();
+        let mut seen = Vec::new();
         while let Some(key) = map.next_key_seed(KeySeed {
-            allowed: &allowed,
+            keys: &Fixed(TOP_KEYS),
             seen: &mut seen,
             what: "declaration key",
         })? {
-            match key.as_str() {
+            match TOP_KEYS[key] {
                 "class" => {
                     let class = map.next_value_seed(ClassSeed {
                         rulebook: self.rulebook,
@@ -125,7 +128,7 @@ impl<'de> Visitor<'de> for DeclarationSeed<'_> {
                 "measurements" => map.next_value_seed(MeasurementsSeed {
                     rulebook: self.rulebook,
                     state: self.state,
-                    prefix: String::new(),
+                    component: None,
                 })?,
                 "components" => map.next_value_seed(ComponentsSeed {
                     rulebook: self.rulebook,
@@ -158,48 +161,143 @@ fn set_identity(identity: &mut Identity, field: &str, text: Option<String>) {
     }
 }
 
-/// A mapping key that must be one of `allowed` and appear once.
+/// The keys one mapping may have: how to find one, and all of them for "did you mean".
+trait Keys {
+    /// The key's position, if it is one.
+    fn find(&self, key: &str) -> Option<usize>;
+    /// Every key, in order.
+    fn all(&self) -> Vec<String>;
+
+    /// How a key given twice is named, and the help for it.
+    fn given_twice(&self, key: &str) -> (String, &'static str) {
+        (key.to_string(), "keep one of the two entries")
+    }
+}
+
+/// A fixed set of keys.
+struct Fixed(&'static [&'static str]);
+
+impl Keys for Fixed {
+    fn find(&self, key: &str) -> Option<usize> {
+        self.0.iter().position(|k| *k == key)
+    }
+
+    fn all(&self) -> Vec<String> {
+        self.0.iter().map(|k| k.to_string()).collect()
+    }
+}
+
+/// The components of the schema (`carburetor` for `carburetor.part`).
+struct Components<'a>(Vec<&'a str>);
+
+impl Keys for Components<'_> {
+    fn find(&self, key: &str) -> Option<usize> {
+        self.0.iter().position(|k| *k == key)
+    }
+
+    fn all(&self) -> Vec<String> {
+        self.0.iter().map(|k| k.to_string()).collect()
+    }
+}
+
+/// Measurement names: full names at `measurements:`, short names under a component;
+/// positions are positions in the rulebook's schema.
+struct MeasurementKeys<'a> {
+    rulebook: &'a CheckedRulebook,
+    component: Option<&'a str>,
+}
+
+impl MeasurementKeys<'_> {
+    /// The name as written at this level, if the measurement belongs here.
+    fn short<'n>(&self, name: &'n str) -> Option<&'n str> {
+        match self.component {
+            None => Some(name),
+            Some(c) => name.strip_prefix(c).and_then(|rest| rest.strip_prefix('.')),
+        }
+    }
+}
+
+impl Keys for MeasurementKeys<'_> {
+    fn find(&self, key: &str) -> Option<usize> {
+        if self.component.is_none() {
+            return match self.rulebook.index.get(key) {
+                Some(Named::Measurement(i)) => Some(*i),
+                _ => None,
+            };
+        }
+        self.rulebook
+            .measurements
+            .iter()
+            .position(|m| self.short(&m.name) == Some(key))
+    }
+
+    fn all(&self) -> Vec<String> {
+        self.rulebook
+            .measurements
+            .iter()
+            .filter_map(|m| self.short(&m.name).map(str::to_string))
+            .collect()
+    }
+
+    fn given_twice(&self, key: &str) -> (String, &'static str) {
+        let full = match self.component {
+            Some(c) => format!("{c}.{key}"),
+            None => key.to_string(),
+        };
+        (
+            full,
+            "give it once, under `measurements` or under its component",
+        )
+    }
+}
+
+/// A mapping key that must be one of `keys` and appear once; gives its position.
 struct KeySeed<'s> {
-    allowed: &'s [String],
-    seen: &'s mut HashSet<String>,
+    keys: &'s dyn Keys,
+    seen: &'s mut Vec<bool>,
     what: &'static str,
 }
 
 impl<'de> DeserializeSeed<'de> for KeySeed<'_> {
-    type Value = String;
+    type Value = usize;
 
-    fn deserialize<D: Deserializer<'de>>(self, d: D) -> Result<String, D::Error> {
+    fn deserialize<D: Deserializer<'de>>(self, d: D) -> Result<usize, D::Error> {
         d.deserialize_str(self)
     }
 }
 
 impl<'de> Visitor<'de> for KeySeed<'_> {
-    type Value = String;
+    type Value = usize;
 
     fn expecting(&self, f: &mut fmt::Formatter) -> fmt::Result {
         write!(f, "a {}", self.what)
     }
 
-    fn visit_str<E: de::Error>(self, key: &str) -> Result<String, E> {
-        if !self.allowed.iter().any(|a| a == key) {
-            let help = match closest(key, self.allowed.iter().map(String::as_str)) {
+    fn visit_str<E: de::Error>(self, key: &str) -> Result<usize, E> {
+        let Some(at) = self.keys.find(key) else {
+            let all = self.keys.all();
+            let help = match closest(key, all.iter().map(String::as_str)) {
                 Some(near) => format!("did you mean `{near}`?"),
-                None => format!("the keys allowed here are {}", backticked(self.allowed)),
+                None => format!("the keys allowed here are {}", backticked(&all)),
             };
             return Err(refuse(
                 "gonogo::load::unknown-key",
                 format_args!("`{key}` is not a {} gonogo knows here", self.what),
                 help,
             ));
+        };
+        if at >= self.seen.len() {
+            self.seen.resize(at + 1, false);
         }
-        if !self.seen.insert(key.to_string()) {
+        if std::mem::replace(&mut self.seen[at], true) {
+            let (name, help) = self.keys.given_twice(key);
             return Err(refuse(
                 "gonogo::load::duplicate-key",
-                format_args!("`{key}` is given twice"),
-                "keep one of the two entries",
+                format_args!("`{name}` is given twice"),
+                help,
             ));
         }
-        Ok(key.to_string())
+        Ok(at)
     }
 }
 
@@ -377,18 +475,15 @@ impl<'de> Visitor<'de> for InstrumentSeed {
     }
 
     fn visit_map<A: MapAccess<'de>>(self, mut map: A) -> Result<Instrument, A::Error> {
-        let allowed: Vec<String> = ["resolution", "uncertainty", "k"]
-            .iter()
-            .map(|s| s.to_string())
-            .collect();
-        let mut seen = HashSet::new();
+        const KEYS: &[&str] = &["resolution", "uncertainty", "k"];
+        let mut seen = Vec::new();
         let (mut resolution, mut expanded, mut k) = (None, None, None);
         while let Some(key) = map.next_key_seed(KeySeed {
-            allowed: &allowed,
+            keys: &Fixed(KEYS),
             seen: &mut seen,
             what: "instrument key",
         })? {
-            match key.as_str() {
+            match KEYS[key] {
                 "k" => k = Some(map.next_value_seed(CoverageSeed)?),
                 "resolution" => resolution = Some(map.next_value_seed(InstrumentQuantitySeed)?),
                 _ => expanded = Some(map.next_value_seed(InstrumentQuantitySeed)?),
@@ -519,23 +614,25 @@ impl<'de> Visitor<'de> for ComponentsSeed<'_> {
     }
 
     fn visit_map<A: MapAccess<'de>>(self, mut map: A) -> Result<(), A::Error> {
-        let mut components: Vec<String> = self
+        let mut names: Vec<&str> = self
             .rulebook
             .measurements
             .iter()
-            .filter_map(|m| m.name.split_once('.').map(|(c, _)| c.to_string()))
+            .filter_map(|m| m.name.split_once('.').map(|(c, _)| c))
             .collect();
-        components.dedup();
-        let mut seen = HashSet::new();
-        while let Some(component) = map.next_key_seed(KeySeed {
-            allowed: &components,
+        names.dedup();
+        let components = Components(names);
+        let mut seen = Vec::new();
+        while let Some(at) = map.next_key_seed(KeySeed {
+            keys: &components,
             seen: &mut seen,
             what: "component",
         })? {
+            let component = Some(components.0[at]);
             map.next_value_seed(MeasurementsSeed {
                 rulebook: self.rulebook,
                 state: self.state,
-                prefix: format!("{component}."),
+                component,
             })?;
         }
         Ok(())
@@ -546,7 +643,7 @@ impl<'de> Visitor<'de> for ComponentsSeed<'_> {
 struct MeasurementsSeed<'a> {
     rulebook: &'a CheckedRulebook,
     state: &'a RefCell<State>,
-    prefix: String,
+    component: Option<&'a str>,
 }
 
 impl<'de> DeserializeSeed<'de> for MeasurementsSeed<'_> {
@@ -565,42 +662,33 @@ impl<'de> Visitor<'de> for MeasurementsSeed<'_> {
     }
 
     fn visit_map<A: MapAccess<'de>>(self, mut map: A) -> Result<(), A::Error> {
-        let allowed: Vec<String> = self
-            .rulebook
-            .measurements
-            .iter()
-            .filter_map(|m| {
-                m.name
-                    .strip_prefix(self.prefix.as_str())
-                    .map(str::to_string)
-            })
-            .collect();
-        let mut seen = HashSet::new();
-        while let Some(key) = map.next_key_seed(KeySeed {
-            allowed: &allowed,
-            seen: &mut seen,
-            what: "measurement",
-        })? {
-            let name = format!("{}{key}", self.prefix);
-            let Some(m) = self.rulebook.measurement(&name) else {
+        let keys = MeasurementKeys {
+            rulebook: self.rulebook,
+            component: self.component,
+        };
+        let place = if self.component.is_none() {
+            Place::Measurements
+        } else {
+            Place::Components
+        };
+        loop {
+            let key = {
+                let mut state = self.state.borrow_mut();
+                map.next_key_seed(KeySeed {
+                    keys: &keys,
+                    seen: &mut state.declared,
+                    what: "measurement",
+                })?
+            };
+            let Some(index) = key else { break };
+            let Some(measurement) = self.rulebook.measurements.get(index) else {
                 continue;
             };
-            if self.state.borrow().declaration.supplied.contains_key(&name) {
-                return Err(refuse(
-                    "gonogo::load::duplicate-key",
-                    format_args!("`{name}` is given twice"),
-                    "give it once, under `measurements` or under its component",
-                ));
-            }
-            let path = if self.prefix.is_empty() {
-                format!("measurements.{name}")
-            } else {
-                format!("components.{name}")
-            };
             map.next_value_seed(ValueSeed {
-                measurement: m,
+                measurement,
+                index,
+                place,
                 state: self.state,
-                path,
             })?;
         }
         Ok(())
@@ -610,8 +698,9 @@ impl<'de> Visitor<'de> for MeasurementsSeed<'_> {
 /// One measurement's value, in any of the forms a declaration may write it.
 struct ValueSeed<'a> {
     measurement: &'a Measurement,
+    index: usize,
+    place: Place,
     state: &'a RefCell<State>,
-    path: String,
 }
 
 impl<'de> DeserializeSeed<'de> for ValueSeed<'_> {
@@ -625,6 +714,27 @@ impl<'de> DeserializeSeed<'de> for ValueSeed<'_> {
 impl ValueSeed<'_> {
     fn is_text(&self) -> bool {
         self.measurement.kind == ValueKind::Text
+    }
+
+    /// Where this value is written, for messages: `components.carburetor.airflow`.
+    fn path(&self) -> String {
+        format!("{}.{}", self.place.key(), self.measurement.name)
+    }
+
+    fn supply(&self, state: &mut State, supplied: Supplied) {
+        let slots = &mut state.declaration.supplied;
+        if slots.len() <= self.index {
+            slots.resize(self.index + 1, None);
+        }
+        slots[self.index] = Some(supplied);
+    }
+
+    fn name(&self, cylinder: Option<usize>) -> InputName {
+        InputName::Measured {
+            measurement: self.index,
+            cylinder,
+            place: self.place,
+        }
     }
 
     fn single<E: de::Error>(
@@ -646,26 +756,14 @@ impl ValueSeed<'_> {
             self.note_cylinders::<E>(reading.value.round() as usize)?;
         }
         let mut state = self.state.borrow_mut();
-        let id = push_input(
-            &mut state.declaration,
-            &self.measurement.name,
-            &self.path,
-            reading,
-            source,
-        );
-        state
-            .declaration
-            .supplied
-            .insert(self.measurement.name.clone(), Supplied::Single(id));
+        let id = push_input(&mut state.declaration, self.name(None), reading, source);
+        self.supply(&mut state, Supplied::Single(id));
         Ok(())
     }
 
     fn text<E: de::Error>(&self, text: String) -> Result<(), E> {
         let mut state = self.state.borrow_mut();
-        state.declaration.supplied.insert(
-            self.measurement.name.clone(),
-            Supplied::Text(text, self.path.clone()),
-        );
+        self.supply(&mut state, Supplied::Text(text, self.place));
         Ok(())
     }
 
@@ -680,7 +778,7 @@ impl ValueSeed<'_> {
             )),
             Some(_) => Ok(()),
             None => {
-                state.cylinders = Some((count, self.path.clone()));
+                state.cylinders = Some((count, self.path()));
                 Ok(())
             }
         }
@@ -714,23 +812,22 @@ impl ValueSeed<'_> {
             .into_iter()
             .enumerate()
             .map(|(i, r)| {
-                let label = format!("{}[{}]", self.measurement.name, i + 1);
-                let path = format!("{}[{}]", self.path, i + 1);
-                push_input(&mut state.declaration, &label, &path, r, source.clone())
+                push_input(
+                    &mut state.declaration,
+                    self.name(Some(i + 1)),
+                    r,
+                    source.clone(),
+                )
             })
             .collect();
-        state.declaration.supplied.insert(
-            self.measurement.name.clone(),
-            Supplied::PerCylinder(ids.clone()),
-        );
+        self.supply(&mut state, Supplied::PerCylinder(ids.clone()));
         Ok(ids)
     }
 }
 
 fn push_input(
     d: &mut Declaration,
-    label: &str,
-    path: &str,
+    name: InputName,
     r: Reading,
     source: Option<UncertaintySource>,
 ) -> u32 {
@@ -740,13 +837,12 @@ fn push_input(
         (None, None) => (0.0, UncertaintySource::None),
     };
     d.inputs.push(Input {
-        label: label.to_string(),
+        name,
         value: r.value,
         standard_uncertainty: u,
         unit: r.unit,
         written: Some(r.written),
         source,
-        origin: path.to_string(),
     });
     u32::try_from(d.inputs.len() - 1).unwrap_or(u32::MAX)
 }
@@ -819,18 +915,15 @@ impl<'de> Visitor<'de> for ValueSeed<'_> {
     }
 
     fn visit_map<A: MapAccess<'de>>(self, mut map: A) -> Result<(), A::Error> {
-        let allowed: Vec<String> = ["value", "values", "instrument"]
-            .iter()
-            .map(|s| s.to_string())
-            .collect();
-        let mut seen = HashSet::new();
+        const KEYS: &[&str] = &["value", "values", "instrument"];
+        let mut seen = Vec::new();
         let (mut single, mut list, mut instrument) = (None, None, None);
         while let Some(key) = map.next_key_seed(KeySeed {
-            allowed: &allowed,
+            keys: &Fixed(KEYS),
             seen: &mut seen,
             what: "value key",
         })? {
-            match key.as_str() {
+            match KEYS[key] {
                 "value" => {
                     single = Some(map.next_value_seed(ElementSeed {
                         measurement: self.measurement,
@@ -883,7 +976,7 @@ impl ValueSeed<'_> {
             (Some(r), None) => {
                 self.single::<E>(r, source)?;
                 let state = self.state.borrow();
-                match state.declaration.supplied.get(&self.measurement.name) {
+                match state.declaration.supplied(self.index) {
                     Some(Supplied::Single(id)) => vec![*id],
                     _ => Vec::new(),
                 }
@@ -900,7 +993,7 @@ impl ValueSeed<'_> {
                 instrument: name,
                 inputs: ids,
                 dimension,
-                path: self.path.clone(),
+                path: self.path(),
             });
         }
         Ok(())

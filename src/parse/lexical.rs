@@ -87,6 +87,17 @@ pub const KEYWORDS: &[&str] = &[
     "matches",
 ];
 
+/// Whether a word is reserved.
+pub fn is_keyword(word: &str) -> bool {
+    static SORTED: std::sync::OnceLock<Vec<&'static str>> = std::sync::OnceLock::new();
+    let sorted = SORTED.get_or_init(|| {
+        let mut all = KEYWORDS.to_vec();
+        all.sort_unstable();
+        all
+    });
+    sorted.binary_search(&word).is_ok()
+}
+
 /// The span from `start` to `end` (two positions in the same file).
 pub fn span_between(start: &Input, end: &Input) -> Span {
     Span::new(
@@ -207,7 +218,7 @@ pub fn symbol<'a>(
 pub fn identifier(input: Input) -> PResult<Name> {
     let (start, _) = ws(input)?;
     match word(start) {
-        Ok((rest, w)) if !KEYWORDS.contains(w.fragment()) => Ok((
+        Ok((rest, w)) if !is_keyword(w.fragment()) => Ok((
             rest,
             Name {
                 text: w.fragment().to_string(),
@@ -245,7 +256,7 @@ pub fn dotted_name(input: Input) -> PResult<Name> {
 fn identifier_here(input: Input) -> PResult<String> {
     let (rest, w) =
         recognize((take_while1(is_name_start), take_while(is_name_char))).parse(input)?;
-    if KEYWORDS.contains(w.fragment()) {
+    if is_keyword(w.fragment()) {
         return Err(Err::Error(SyntaxError::expected(&input, "a name")));
     }
     Ok((rest, w.fragment().to_string()))
@@ -513,7 +524,7 @@ pub fn unit_piece(input: Input) -> PResult<Piece> {
     let frag = *start.fragment();
     let len = unit_len(frag);
     let text = &frag[..len];
-    if len == 0 || (text != "in" && KEYWORDS.contains(&text)) {
+    if len == 0 || (text != "in" && is_keyword(text)) {
         return Err(Err::Error(SyntaxError::expected(&start, "a unit")));
     }
     let rest = advance(start, len);

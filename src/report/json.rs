@@ -203,7 +203,7 @@ fn trace(t: &Trace, r: &EngineReport) -> TraceEntry {
             let input = r.input(*id);
             let unit = input.unit.and_then(units::lookup);
             TraceEntry::Input {
-                label: input.label.clone(),
+                label: input.label(r.rulebook),
                 unit: unit.map(|u| u.symbol),
                 value: input.value / scale(unit),
                 standard_uncertainty: input.standard_uncertainty / scale(unit),
@@ -213,17 +213,13 @@ fn trace(t: &Trace, r: &EngineReport) -> TraceEntry {
                     UncertaintySource::Rulebook => "rulebook".to_string(),
                     UncertaintySource::None => "none stated".to_string(),
                 },
-                origin: input.origin.clone(),
+                origin: input.origin(r.rulebook),
             }
         }
-        Trace::Text {
-            name,
-            value,
-            origin,
-        } => TraceEntry::Text {
+        Trace::Text { name, value, place } => TraceEntry::Text {
             label: name.to_string(),
             value: value.to_string(),
-            origin: origin.to_string(),
+            origin: format!("{}.{name}", place.key()),
         },
         Trace::Derived {
             derived,

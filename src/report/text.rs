@@ -9,7 +9,7 @@ use crate::check::model::Origin;
 use crate::evaluate::finding::{Finding, Verdict};
 use crate::evaluate::outcome::{Applies, Checked, EngineReport, Outcome, Trace};
 use crate::exit::Exit;
-use crate::load::{Input, UncertaintySource};
+use crate::load::{Input, InputName, UncertaintySource};
 use crate::units::{self, Unit};
 
 /// The whole report for one engine.
@@ -190,14 +190,19 @@ fn cylinder_run(trace: &[Trace], r: &EngineReport) -> usize {
     let key = |t: &Trace| match t {
         Trace::Input(id) => {
             let i = r.input(*id);
-            i.label.split_once('[').map(|(base, _)| {
-                (
-                    base.to_string(),
+            match i.name {
+                InputName::Measured {
+                    measurement,
+                    cylinder: Some(_),
+                    ..
+                } => Some((
+                    measurement,
                     i.unit,
                     i.standard_uncertainty.to_bits(),
                     i.source.clone(),
-                )
-            })
+                )),
+                _ => None,
+            }
         }
         _ => None,
     };
@@ -222,14 +227,9 @@ fn cylinder_line(out: &mut String, run: &[Trace], r: &EngineReport) {
     let Some(first) = inputs.first() else { return };
     let unit = first.unit.and_then(units::lookup);
     let values: Vec<String> = inputs.iter().map(|i| shown_value(i, unit, false)).collect();
-    let base = first
-        .label
-        .split_once('[')
-        .map_or(first.label.as_str(), |(b, _)| b);
-    let origin = first
-        .origin
-        .split_once('[')
-        .map_or(first.origin.as_str(), |(o, _)| o);
+    let (label, origin) = (first.label(r.rulebook), first.origin(r.rulebook));
+    let base = label.split_once('[').map_or(label.as_str(), |(b, _)| b);
+    let origin = origin.split_once('[').map_or(origin.as_str(), |(o, _)| o);
     let symbol = unit.map(|u| format!(" {}", u.symbol)).unwrap_or_default();
     let u = uncertainty_words(first.standard_uncertainty, unit, &first.source);
     let _ = writeln!(
@@ -274,17 +274,13 @@ fn trace_line(out: &mut String, t: &Trace, r: &EngineReport) {
             let _ = writeln!(
                 out,
                 "      {} = {}  {u}  [{}]",
-                input.label,
+                input.label(r.rulebook),
                 shown_value(input, unit, true),
-                input.origin
+                input.origin(r.rulebook)
             );
         }
-        Trace::Text {
-            name,
-            value,
-            origin,
-        } => {
-            let _ = writeln!(out, "      {name} = \"{value}\"  [{origin}]");
+        Trace::Text { name, value, place } => {
+            let _ = writeln!(out, "      {name} = \"{value}\"  [{}.{name}]", place.key());
         }
         Trace::Missing { name } => {
             let _ = writeln!(out, "      {name}: missing");

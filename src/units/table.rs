@@ -96,7 +96,16 @@ pub const UNITS: &[Unit] = &[
 
 /// Finds a unit by its exact symbol.
 pub fn lookup(symbol: &str) -> Option<&'static Unit> {
-    UNITS.iter().find(|u| u.symbol == symbol)
+    static SORTED: std::sync::OnceLock<Vec<&'static Unit>> = std::sync::OnceLock::new();
+    let sorted = SORTED.get_or_init(|| {
+        let mut all: Vec<&'static Unit> = UNITS.iter().collect();
+        all.sort_by_key(|u| u.symbol);
+        all
+    });
+    sorted
+        .binary_search_by_key(&symbol, |u| u.symbol)
+        .ok()
+        .map(|i| sorted[i])
 }
 
 /// The symbol gonogo uses when it shows a value of this dimension in US customary terms,

@@ -11,7 +11,7 @@ use gonogo::load::declaration_from_text;
 use gonogo::source::SourceMap;
 
 const ENGINES: usize = 10_000;
-const ROUNDS: usize = 5;
+const ROUNDS: usize = 7;
 
 /// A small deterministic generator (64-bit linear congruential, Knuth's MMIX constants).
 struct Lcg(u64);
@@ -70,15 +70,18 @@ fn replace_line(text: &str, starts: &str, with: &str) -> String {
         + "\n"
 }
 
-fn best_of(mut f: impl FnMut() -> usize) -> (Duration, usize) {
-    let mut best = Duration::MAX;
-    let mut work = 0;
+/// The best time of each workload over `ROUNDS` rounds, the workloads taking turns within
+/// each round so that both sides of a ratio see the same machine.
+fn best_of_interleaved(workloads: &mut [&mut dyn FnMut() -> usize]) -> Vec<(Duration, usize)> {
+    let mut best = vec![(Duration::MAX, 0); workloads.len()];
     for _ in 0..ROUNDS {
-        let start = Instant::now();
-        work = f();
-        best = best.min(start.elapsed());
+        for (slot, work) in best.iter_mut().zip(workloads.iter_mut()) {
+            let start = Instant::now();
+            let done = work();
+            *slot = (slot.0.min(start.elapsed()), done);
+        }
     }
-    (best, work)
+    best
 }
 
 fn main() {
@@ -95,77 +98,51 @@ fn main() {
         std::process::exit(2);
     };
     let texts = declarations();
-
-    let (floor, values) = best_of(|| {
+    let load = |t: &String| {
+        let mut sources = SourceMap::default();
+        declaration_from_text(Path::new("bench.yaml"), t.clone(), &rulebook, &mut sources).ok()
+    };
+    let mut floor = || {
         texts
             .iter()
             .filter(|t| serde_yaml::from_str::<serde_yaml::Value>(t).is_ok())
             .count()
-    });
-    let (checked, rules) = best_of(|| {
-        let mut rules = 0;
-        for t in &texts {
-            let mut sources = SourceMap::default();
-            if let Ok(d) =
-                declaration_from_text(Path::new("bench.yaml"), t.clone(), &rulebook, &mut sources)
-            {
-                rules += check_engine(&rulebook, class, &d, None).outcomes.len();
-            }
-        }
-        rules
-    });
-    let (load_only, _) = best_of(|| {
+    };
+    let mut load_only = || texts.iter().filter_map(load).count();
+    let mut checked = || {
         texts
             .iter()
-            .filter(|t| {
-                let mut sources = SourceMap::default();
-                declaration_from_text(
-                    Path::new("bench.yaml"),
-                    (*t).clone(),
-                    &rulebook,
-                    &mut sources,
-                )
-                .is_ok()
-            })
-            .count()
-    });
-    println!(
-        "  load only:                       {:>8.1} ms",
-        load_only.as_secs_f64() * 1e3
-    );
-    let (reported, bytes) = best_of(|| {
-        let mut bytes = 0;
-        for t in &texts {
-            let mut sources = SourceMap::default();
-            if let Ok(d) =
-                declaration_from_text(Path::new("bench.yaml"), t.clone(), &rulebook, &mut sources)
-            {
-                bytes +=
-                    gonogo::report::text::engine(&check_engine(&rulebook, class, &d, None)).len();
-            }
-        }
-        bytes
-    });
+            .filter_map(load)
+            .map(|d| check_engine(&rulebook, class, &d, None).outcomes.len())
+            .sum()
+    };
+    let mut reported = || {
+        texts
+            .iter()
+            .filter_map(load)
+            .map(|d| gonogo::report::text::engine(&check_engine(&rulebook, class, &d, None)).len())
+            .sum()
+    };
+    let times = best_of_interleaved(&mut [&mut floor, &mut load_only, &mut checked, &mut reported]);
+    let ms = |i: usize| times[i].0.as_secs_f64() * 1e3;
 
-    println!("{ENGINES} declarations, best of {ROUNDS} rounds");
+    println!("{ENGINES} declarations, best of {ROUNDS} interleaved rounds");
     println!(
-        "  serde_yaml into a Value (floor): {:>8.1} ms  ({values} parsed)",
-        floor.as_secs_f64() * 1e3
+        "  serde_yaml into a Value (floor): {:>8.1} ms  ({} parsed)",
+        ms(0),
+        times[0].1
+    );
+    println!("  load only:                       {:>8.1} ms", ms(1));
+    println!(
+        "  load and check:                  {:>8.1} ms  ({} rule outcomes)",
+        ms(2),
+        times[2].1
     );
     println!(
-        "  load and check:                  {:>8.1} ms  ({rules} rule outcomes)",
-        checked.as_secs_f64() * 1e3
+        "  load, check and text report:     {:>8.1} ms  ({} bytes)",
+        ms(3),
+        times[3].1
     );
-    println!(
-        "  load, check and text report:     {:>8.1} ms  ({bytes} bytes)",
-        reported.as_secs_f64() * 1e3
-    );
-    println!(
-        "  ratio check / floor:             {:>8.2}",
-        checked.as_secs_f64() / floor.as_secs_f64()
-    );
-    println!(
-        "  ratio with report / floor:       {:>8.2}",
-        reported.as_secs_f64() / floor.as_secs_f64()
-    );
+    println!("  ratio check / floor:             {:>8.2}", ms(2) / ms(0));
+    println!("  ratio with report / floor:       {:>8.2}", ms(3) / ms(0));
 }
