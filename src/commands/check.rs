@@ -94,7 +94,7 @@ pub fn run(request: &CheckRequest, style: RenderStyle) -> Result<(String, Exit),
         CheckFormat::Text => {
             let mut out: Vec<String> = reports.iter().map(text::engine).collect();
             if reports.len() > 1 {
-                out.push(text::field_line(&reports));
+                out.push(text::field_summary(&reports));
             }
             out.join("\n")
         }

@@ -307,14 +307,108 @@ fn trace_line(out: &mut String, t: &Trace, r: &EngineReport) {
     }
 }
 
-/// The closing line of a run over several engines.
-pub fn field_line(reports: &[EngineReport]) -> String {
+/// The closing table of a run over several engines: each engine's result and the rule that
+/// decided it (the first illegal one, else the one with the least probability of conformance).
+pub fn field_summary(reports: &[EngineReport]) -> String {
+    let rows: Vec<[String; 4]> = reports.iter().map(summary_row).collect();
+    let header = ["engine", "class", "result", "closest call"].map(str::to_string);
+    let widths: Vec<usize> = (0..4)
+        .map(|c| {
+            rows.iter()
+                .chain([&header])
+                .map(|r| r[c].chars().count())
+                .max()
+                .unwrap_or(0)
+        })
+        .collect();
+    let line = |r: &[String; 4]| {
+        let cells: Vec<String> = r
+            .iter()
+            .zip(&widths)
+            .map(|(cell, w)| format!("{cell:<w$}"))
+            .collect();
+        format!("  {}\n", cells.join("  ").trim_end())
+    };
+    let mut out = String::from("field\n");
+    out.push_str(&line(&header));
+    rows.iter().for_each(|r| out.push_str(&line(r)));
     let count = |e: Exit| reports.iter().filter(|r| r.exit() == e).count();
-    format!(
+    out.push_str(&format!(
         "{} engines: {} legal, {} illegal, {} not all clear\n",
         reports.len(),
         count(Exit::Clean),
         count(Exit::Illegal),
         count(Exit::Uncertain)
-    )
+    ));
+    out
+}
+
+fn summary_row(r: &EngineReport) -> [String; 4] {
+    let engine = r
+        .declaration
+        .identity
+        .engine
+        .clone()
+        .unwrap_or_else(|| r.declaration.path.display().to_string());
+    let result = match r.exit() {
+        Exit::Illegal => "ILLEGAL",
+        Exit::Uncertain => "not all clear",
+        _ => "legal",
+    };
+    [
+        engine,
+        r.class.name.clone(),
+        result.to_string(),
+        closest_call(r),
+    ]
+}
+
+fn closest_call(r: &EngineReport) -> String {
+    let describe = |o: &Outcome| {
+        format!(
+            "{} {} ({})",
+            o.section(),
+            o.title(),
+            o.checked
+                .as_ref()
+                .map_or(o.verdict.words(), |c| c.finding.words())
+        )
+    };
+    if let Some(o) = r.outcomes.iter().find(|o| o.verdict == Verdict::Illegal) {
+        return describe(o);
+    }
+    if let Some(o) = r.outcomes.iter().find(|o| o.verdict == Verdict::NotChecked) {
+        return format!("{} {} (not checked)", o.section(), o.title());
+    }
+    // least probability of conformance first; among certain passes, least margin for the limit
+    let closeness = |n: &crate::evaluate::outcome::Numeric| {
+        (
+            n.probability,
+            n.margin / n.limit.abs().max(f64::MIN_POSITIVE),
+        )
+    };
+    r.outcomes
+        .iter()
+        .filter_map(|o| {
+            Some((
+                o,
+                o.checked.as_ref()?,
+                o.checked.as_ref()?.numeric.as_ref()?,
+            ))
+        })
+        .min_by(|a, b| {
+            closeness(a.2)
+                .partial_cmp(&closeness(b.2))
+                .unwrap_or(std::cmp::Ordering::Equal)
+        })
+        .map(|(o, c, n)| {
+            format!(
+                "{} {} ({}, p {})",
+                o.section(),
+                o.title(),
+                c.finding.words(),
+                probability(n.probability, n.expanded > 0.0)
+            )
+        })
+        .unwrap_or_default()
 }
