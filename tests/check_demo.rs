@@ -95,3 +95,80 @@ fn bad_declarations_give_their_diagnostics() {
     });
     assert!(count >= 20, "only {count} bad declarations");
 }
+
+/// The demo's after-bulletin engine with its date moved.
+fn after_bulletin_dated(date: &str) -> String {
+    let text = std::fs::read_to_string(concat!(
+        env!("CARGO_MANIFEST_DIR"),
+        "/engines-demo/limited2-after-bulletin.yaml"
+    ))
+    .unwrap_or_default();
+    text.replace("date: \"2027-07-10\"", &format!("date: \"{date}\""))
+}
+
+#[test]
+fn a_declaration_gets_the_rules_in_force_on_its_date() {
+    let loaded = gonogo::commands::load_rulebook(Path::new(RULES));
+    let rulebook = loaded.checked.unwrap_or_else(|| panic!("demo rulebook"));
+    let class = rulebook
+        .class("limited2")
+        .unwrap_or_else(|| panic!("limited2"));
+    let verdict_of = |date: &str, section: &str| {
+        let mut sources = gonogo::source::SourceMap::default();
+        let d = gonogo::load::declaration_from_text(
+            Path::new("dated.yaml"),
+            after_bulletin_dated(date),
+            &rulebook,
+            &mut sources,
+        )
+        .unwrap_or_else(|p| panic!("{p:?}"));
+        let report = gonogo::evaluate::check_engine(&rulebook, class, &d, None);
+        let bulletins = report.bulletins.to_vec();
+        (
+            report
+                .outcomes
+                .iter()
+                .find(|o| o.section() == section)
+                .map(|o| o.verdict),
+            bulletins,
+        )
+    };
+    use gonogo::evaluate::finding::Verdict;
+    // TVB-27-04 takes effect on 2027-06-14: the day before, 0.485 in is over the 0.480 in limit
+    assert_eq!(
+        verdict_of("2027-06-13", "5.3"),
+        (Some(Verdict::Illegal), vec![])
+    );
+    assert_eq!(
+        verdict_of("2027-06-13", "4.8").0,
+        None,
+        "the bulletin's new rule is not in force yet"
+    );
+    // from that day on the limit is 0.490 in and rule 4.8 exists
+    assert_eq!(
+        verdict_of("2027-06-14", "5.3"),
+        (Some(Verdict::Legal), vec!["TVB-27-04".to_string()])
+    );
+    assert_eq!(
+        verdict_of("2027-06-14", "4.8").0,
+        Some(Verdict::NotApplicable)
+    );
+}
+
+#[test]
+fn a_declaration_dated_before_the_edition_is_refused() {
+    let path = std::env::temp_dir().join(format!("gonogo-{}-early.yaml", std::process::id()));
+    std::fs::write(&path, after_bulletin_dated("2027-01-10")).unwrap_or_else(|e| panic!("{e}"));
+    let message = run(&path, CheckFormat::Text, None)
+        .err()
+        .unwrap_or_default();
+    let _ = std::fs::remove_file(&path);
+    assert!(
+        message.contains("gonogo::check::before-edition"),
+        "{message}"
+    );
+    assert!(
+        message.contains("is dated 2027-01-10, before edition 2027 took effect"),
+        "{message}"
+    );
+}

@@ -171,6 +171,20 @@ impl<'a> Checker<'a> {
         states
     }
 
+    /// The bulletins on `class` or a class it extends in force by `date`, in order of date.
+    pub(super) fn bulletins_in_force(&self, class: &str, date: Date) -> Vec<String> {
+        let mut applied: Vec<_> = self
+            .bulletins
+            .iter()
+            .filter(|b| {
+                b.effective.date <= date && self.is_ancestor_or_self(b.amends.text.as_str(), class)
+            })
+            .map(|b| (b.effective.date, b.id.value.clone()))
+            .collect();
+        applied.sort();
+        applied.into_iter().map(|(_, id)| id).collect()
+    }
+
     fn is_ancestor_or_self(&self, ancestor: &str, class: &str) -> bool {
         let mut current = Some(class);
         let mut steps = 0;

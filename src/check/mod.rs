@@ -108,11 +108,25 @@ impl<'a> Checker<'a> {
                 let state = states
                     .iter()
                     .find(|s| s.class == *name && s.from == edition_date)?;
+                let amended = states
+                    .iter()
+                    .filter(|s| s.class == *name && s.from > edition_date)
+                    .filter_map(|s| {
+                        let from = s.from?;
+                        Some(model::Amended {
+                            from,
+                            bulletins: self.bulletins_in_force(name, from),
+                            rules: s.rules.clone(),
+                        })
+                    })
+                    .collect();
                 Some(model::Class {
                     name: name.to_string(),
                     title: class.title.as_ref().map(|t| t.value.clone()),
                     extends: class.extends.as_ref().map(|e| e.text.clone()),
                     rules: state.rules.clone(),
+                    edition_bulletins: self.bulletins_in_force(name, edition.effective.date),
+                    amended,
                     span: class.name.span,
                 })
             })

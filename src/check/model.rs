@@ -175,8 +175,36 @@ pub struct Class {
     pub extends: Option<String>,
     /// Its rules in force at the edition's effective date, in rulebook order.
     pub rules: Vec<ClassRule>,
+    /// Bulletins already in force on the edition's effective date.
+    pub edition_bulletins: Vec<String>,
+    /// Its rules from each later bulletin date on (bulletins on the class or a class it
+    /// extends), earliest first.
+    pub amended: Vec<Amended>,
     /// Where it is defined.
     pub span: Span,
+}
+
+/// A class's rules as a bulletin left them.
+#[derive(Clone, Debug)]
+pub struct Amended {
+    /// From when.
+    pub from: ast::Date,
+    /// Every bulletin in force by then, in order of date.
+    pub bulletins: Vec<String>,
+    /// The rules in force.
+    pub rules: Vec<ClassRule>,
+}
+
+impl Class {
+    /// The rules in force on `date` and the bulletins applied; the edition's rules when the
+    /// date is not known.
+    pub fn in_force(&self, date: Option<ast::Date>) -> (&[ClassRule], &[String]) {
+        let latest = date.and_then(|d| self.amended.iter().rev().find(|a| a.from <= d));
+        match latest {
+            Some(a) => (&a.rules, &a.bulletins),
+            None => (&self.rules, &self.edition_bulletins),
+        }
+    }
 }
 
 /// A bulletin, kept as written.

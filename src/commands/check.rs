@@ -110,6 +110,22 @@ fn load_with_class(
     sources: &mut SourceMap,
 ) -> Result<(Declaration, usize), Problem> {
     let declaration = load_declaration(path, rulebook, sources)?;
+    if let Some(date) = declaration.identity.date
+        && date < rulebook.effective
+    {
+        return Err(Problem::unlocated(
+            "gonogo::check::before-edition",
+            format!(
+                "`{}` is dated {date}, before edition {} took effect on {}",
+                path.display(),
+                rulebook.edition,
+                rulebook.effective
+            ),
+        )
+        .with_help(
+            "check the date, or check the engine against the rulebook in force on that date",
+        ));
+    }
     let class_name = class
         .map(str::to_string)
         .or_else(|| declaration.identity.class.clone())

@@ -18,7 +18,8 @@ use crate::parse::ast::DecisionRule;
 use expr::Evaluator;
 use outcome::EngineReport;
 
-/// Checks one declaration against one class. `decision` overrides the rulebook's rule.
+/// Checks one declaration against one class, with the rules in force on the declaration's date
+/// (the edition's when it has none). `decision` overrides the rulebook's rule.
 pub fn check_engine<'a>(
     rulebook: &'a CheckedRulebook,
     class: &'a Class,
@@ -26,16 +27,14 @@ pub fn check_engine<'a>(
     decision: Option<DecisionRule>,
 ) -> EngineReport<'a> {
     let rule = decision.unwrap_or(rulebook.decision);
+    let (rules, bulletins) = class.in_force(declaration.identity.date);
     let mut evaluator = Evaluator::new(rulebook, declaration);
-    let outcomes = class
-        .rules
-        .iter()
-        .map(|r| evaluator.rule(r, rule))
-        .collect();
+    let outcomes = rules.iter().map(|r| evaluator.rule(r, rule)).collect();
     EngineReport {
         rulebook,
         class,
         declaration,
+        bulletins,
         rulebook_inputs: evaluator.rulebook_inputs,
         decision: rule,
         decision_overridden: decision.is_some(),

@@ -146,6 +146,8 @@ pub struct EngineReport<'a> {
     pub class: &'a Class,
     /// The declaration.
     pub declaration: &'a Declaration,
+    /// The bulletins in force on the declaration's date, applied to the class.
+    pub bulletins: &'a [String],
     /// Rulebook literals with a stated uncertainty, numbered after the declaration's inputs.
     pub rulebook_inputs: Vec<Input>,
     /// The decision rule applied.

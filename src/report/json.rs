@@ -38,6 +38,8 @@ struct Engine {
     measured_by: Option<String>,
     series: String,
     edition: String,
+    effective: String,
+    bulletins: Vec<String>,
     class: String,
     decision: &'static str,
     decision_from: &'static str,
@@ -128,6 +130,8 @@ fn engine(r: &EngineReport) -> Engine {
         measured_by: id.measured_by.clone(),
         series: r.rulebook.series.clone(),
         edition: r.rulebook.edition.clone(),
+        effective: r.rulebook.effective.to_string(),
+        bulletins: r.bulletins.to_vec(),
         class: r.class.name.clone(),
         decision: r.decision.words(),
         decision_from: if r.decision_overridden {

@@ -55,6 +55,7 @@ fn header(out: &mut String, r: &EngineReport) {
         "the rulebook's"
     };
     let _ = writeln!(out, "decision rule: {} ({from})", r.decision.words());
+    let _ = writeln!(out, "rules in force: {}", in_force(r));
     let _ = writeln!(out, "declaration: {}", r.declaration.path.display());
     let [legal, illegal, unchecked, not_applicable] = r.counts();
     let result = match r.exit() {
@@ -67,6 +68,25 @@ fn header(out: &mut String, r: &EngineReport) {
         "\nresult: {result} — {legal} legal, {illegal} illegal, {unchecked} not checked, {not_applicable} not applicable; {} conditional",
         r.conditional_count()
     );
+}
+
+/// `edition 2027 (from 2027-03-06) with bulletin TVB-27-04`.
+fn in_force(r: &EngineReport) -> String {
+    let edition = format!(
+        "edition {} (from {})",
+        r.rulebook.edition, r.rulebook.effective
+    );
+    let bulletins = match r.bulletins {
+        [] => String::new(),
+        [one] => format!(" with bulletin {one}"),
+        many => format!(" with bulletins {}", many.join(", ")),
+    };
+    let undated = if r.declaration.identity.date.is_none() {
+        "; the declaration has no date, so no bulletin is applied"
+    } else {
+        ""
+    };
+    format!("{edition}{bulletins}{undated}")
 }
 
 fn rule(out: &mut String, o: &Outcome, r: &EngineReport) {
