@@ -41,7 +41,7 @@ enum Command {
         /// Output format.
         #[arg(long, value_enum, default_value_t = CheckFormat::Text)]
         format: CheckFormat,
-        /// Engine declarations (YAML).
+        /// Engine declarations (YAML), or folders of them (searched recursively).
         #[arg(required = true)]
         declarations: Vec<PathBuf>,
     },

@@ -362,3 +362,30 @@ fn check_class_override_is_applied() {
         "a two-barrel fails the open class's four-barrel rule"
     );
 }
+
+#[test]
+fn check_reads_a_folder_recursively_and_refuses_an_empty_one() {
+    let run = gonogo(&[
+        "check",
+        "--rules",
+        RULES,
+        "--format",
+        "json",
+        "engines-demo",
+    ]);
+    let doc: serde_json::Value =
+        serde_json::from_str(&run.stdout).unwrap_or_else(|e| panic!("{e}\n{}", run.stderr));
+    let count = std::fs::read_dir(concat!(env!("CARGO_MANIFEST_DIR"), "/engines-demo"))
+        .map(|d| d.count())
+        .unwrap_or(0);
+    assert_eq!(doc["engines"].as_array().map(Vec::len), Some(count));
+    let empty = gonogo(&["check", "--rules", RULES, "grammar"]);
+    assert_eq!(empty.code, 2);
+    assert!(
+        empty
+            .stderr
+            .contains("holds no `.yaml` or `.yml` declaration"),
+        "{}",
+        empty.stderr
+    );
+}

@@ -69,7 +69,9 @@ pub fn run(request: &CheckRequest, style: RenderStyle) -> Result<(String, Exit),
     let mut sources = SourceMap::default();
     let mut engines = Vec::new();
     let mut problems = Vec::new();
-    for path in request.declarations {
+    let paths =
+        declaration_files(request.declarations).map_err(|p| render_all(&[p], &sources, style))?;
+    for path in &paths {
         match load_with_class(path, &rulebook, request.class, &mut sources) {
             Ok(engine) => engines.push(engine),
             Err(p) => problems.push(p),
@@ -100,6 +102,50 @@ pub fn run(request: &CheckRequest, style: RenderStyle) -> Result<(String, Exit),
         }
     };
     Ok((out, exit))
+}
+
+/// The declarations named: files as given, folders searched recursively for `.yaml` and
+/// `.yml` files (sorted, so the order is the same on every machine).
+fn declaration_files(named: &[PathBuf]) -> Result<Vec<PathBuf>, Problem> {
+    let mut files = Vec::new();
+    for path in named {
+        if path.is_dir() {
+            let before = files.len();
+            collect_yaml(path, &mut files).map_err(|e| {
+                Problem::unlocated(
+                    "gonogo::read::io",
+                    format!("cannot read the folder `{}`: {e}", path.display()),
+                )
+                .with_help("check the path and that the folder may be read")
+            })?;
+            files[before..].sort();
+            if files.len() == before {
+                return Err(Problem::unlocated(
+                    "gonogo::check::empty-folder",
+                    format!(
+                        "`{}` holds no `.yaml` or `.yml` declaration",
+                        path.display()
+                    ),
+                )
+                .with_help("name the declaration files, or a folder that holds some"));
+            }
+        } else {
+            files.push(path.clone());
+        }
+    }
+    Ok(files)
+}
+
+fn collect_yaml(folder: &Path, files: &mut Vec<PathBuf>) -> std::io::Result<()> {
+    for entry in std::fs::read_dir(folder)? {
+        let path = entry?.path();
+        if path.is_dir() {
+            collect_yaml(&path, files)?;
+        } else if path.extension().is_some_and(|e| e == "yaml" || e == "yml") {
+            files.push(path);
+        }
+    }
+    Ok(())
 }
 
 /// A declaration and the position of the class it is checked against.
