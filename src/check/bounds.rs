@@ -32,13 +32,7 @@ impl<'a> Checker<'a> {
         for state in states {
             self.check_contradictions(state);
         }
-        let bodies: Vec<&'a [ClassItem]> = self
-            .classes
-            .values()
-            .map(|c| c.body.as_slice())
-            .chain(self.bulletins.iter().map(|b| b.body.as_slice()))
-            .collect();
-        for body in bodies {
+        for body in self.bodies() {
             self.check_conditions_in(body, &mut Vec::new());
         }
     }
@@ -202,7 +196,7 @@ impl<'a> Checker<'a> {
                 }
                 let (subject, op, limit) = match (self.constant(left), self.constant(right)) {
                     (None, Some(c)) => (left, *op, c),
-                    (Some(c), None) => (right, flipped(*op), c),
+                    (Some(c), None) => (right, op.flipped(), c),
                     _ => return None,
                 };
                 let interval = match op {
@@ -249,17 +243,6 @@ fn text_literal(e: &Expr) -> Option<String> {
     match &e.kind {
         ExprKind::Text(t) => Some(t.value.clone()),
         _ => None,
-    }
-}
-
-/// `3 < x` is `x > 3`.
-fn flipped(op: CompareOp) -> CompareOp {
-    match op {
-        CompareOp::AtMost => CompareOp::AtLeast,
-        CompareOp::Below => CompareOp::Above,
-        CompareOp::AtLeast => CompareOp::AtMost,
-        CompareOp::Above => CompareOp::Below,
-        other => other,
     }
 }
 

@@ -89,9 +89,18 @@ struct Checker<'a> {
     test_patterns: HashMap<(u32, usize), regex::Regex>,
 }
 
-impl Checker<'_> {
+impl<'a> Checker<'a> {
     fn error(&mut self, problem: Problem) {
         self.problems.push(problem);
+    }
+
+    /// The bodies of every class and bulletin, as written.
+    fn bodies(&self) -> Vec<&'a [ast::ClassItem]> {
+        self.classes
+            .values()
+            .map(|c| c.body.as_slice())
+            .chain(self.bulletins.iter().map(|b| b.body.as_slice()))
+            .collect()
     }
 }
 

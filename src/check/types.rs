@@ -692,13 +692,7 @@ impl<'a> Checker<'a> {
 
     /// Type-checks the rules of every class and bulletin, as written.
     pub(super) fn check_rules(&mut self) {
-        let bodies: Vec<&'a [ClassItem]> = self
-            .classes
-            .values()
-            .map(|c| c.body.as_slice())
-            .chain(self.bulletins.iter().map(|b| b.body.as_slice()))
-            .collect();
-        for body in bodies {
+        for body in self.bodies() {
             self.check_body(body);
         }
     }

@@ -4,7 +4,7 @@
 use std::collections::HashMap;
 
 use super::dual::{Dual, InputId};
-use super::formulas::{self, Cylinder};
+use super::formulas;
 use super::value::{Evaluated, Missing, Value, all, both};
 use crate::check::builtins::{self, Function, Generic};
 use crate::check::model::{CheckedRulebook, Named};
@@ -277,34 +277,7 @@ fn formula(name: &str, args: &[Value]) -> Value {
     let undefined = Dual::constant(f64::NAN);
     let one = |i: usize| -> Dual {
         let x: Vec<&Dual> = args.iter().map(|a| argument_at(a, i, &undefined)).collect();
-        match (name, x.as_slice()) {
-            ("displacement", [b, s, n]) => formulas::displacement(b, s, n),
-            (
-                "compression_ratio",
-                [
-                    bore,
-                    stroke,
-                    chamber,
-                    gasket_bore,
-                    gasket_thickness,
-                    deck_clearance,
-                    piston_volume,
-                ],
-            ) => formulas::compression_ratio(&Cylinder {
-                bore,
-                stroke,
-                chamber,
-                gasket_bore,
-                gasket_thickness,
-                deck_clearance,
-                piston_volume,
-            }),
-            ("valve_lift", [l, r]) => formulas::valve_lift(l, r),
-            ("net_valve_lift", [l, r, lash]) => formulas::net_valve_lift(l, r, lash),
-            ("airflow_at", [f, rated, target]) => formulas::airflow_at(f, rated, target),
-            ("airflow_demand", [d, s, e]) => formulas::airflow_demand(d, s, e),
-            _ => Dual::constant(f64::NAN),
-        }
+        formulas::apply(name, &x).unwrap_or_else(|| Dual::constant(f64::NAN))
     };
     match cylinders {
         Some(n) => Value::PerCylinder((0..n).map(one).collect()),

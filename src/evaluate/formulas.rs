@@ -67,6 +67,39 @@ pub fn airflow_demand(displacement: &Dual, speed: &Dual, efficiency: &Dual) -> D
     displacement.mul(speed).mul(efficiency).scale(0.5)
 }
 
+/// Applies the built-in formula `name` to its arguments in parameter order (as in
+/// `check::builtins::FORMULAS`); `None` for an unknown name or a wrong number of arguments.
+pub fn apply(name: &str, x: &[&Dual]) -> Option<Dual> {
+    Some(match (name, x) {
+        ("displacement", [b, s, n]) => displacement(b, s, n),
+        (
+            "compression_ratio",
+            [
+                bore,
+                stroke,
+                chamber,
+                gasket_bore,
+                gasket_thickness,
+                deck_clearance,
+                piston_volume,
+            ],
+        ) => compression_ratio(&Cylinder {
+            bore,
+            stroke,
+            chamber,
+            gasket_bore,
+            gasket_thickness,
+            deck_clearance,
+            piston_volume,
+        }),
+        ("valve_lift", [l, r]) => valve_lift(l, r),
+        ("net_valve_lift", [l, r, lash]) => net_valve_lift(l, r, lash),
+        ("airflow_at", [f, rated, target]) => airflow_at(f, rated, target),
+        ("airflow_demand", [d, s, e]) => airflow_demand(d, s, e),
+        _ => return None,
+    })
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

@@ -206,7 +206,7 @@ impl<'a> Evaluator<'a> {
         let (subject, limit, op) = if is_constant(r) || !is_constant(l) {
             (l, r, op)
         } else {
-            (r, l, flip(op))
+            (r, l, op.flipped())
         };
         let strict = matches!(op, CompareOp::Below | CompareOp::Above);
         let upper = matches!(op, CompareOp::AtMost | CompareOp::Below);
@@ -437,16 +437,6 @@ fn first(v: &Value) -> f64 {
 
 fn is_constant(v: &Value) -> bool {
     matches!(v, Value::Single(d) if d.partials.is_empty())
-}
-
-fn flip(op: CompareOp) -> CompareOp {
-    match op {
-        CompareOp::AtMost => CompareOp::AtLeast,
-        CompareOp::Below => CompareOp::Above,
-        CompareOp::AtLeast => CompareOp::AtMost,
-        CompareOp::Above => CompareOp::Below,
-        other => other,
-    }
 }
 
 fn truth_of(f: Finding, decision: DecisionRule) -> Truth {

@@ -301,6 +301,17 @@ pub enum CompareOp {
 }
 
 impl CompareOp {
+    /// The same comparison with its sides swapped: `3 < x` is `x > 3`.
+    pub fn flipped(self) -> CompareOp {
+        match self {
+            CompareOp::AtMost => CompareOp::AtLeast,
+            CompareOp::Below => CompareOp::Above,
+            CompareOp::AtLeast => CompareOp::AtMost,
+            CompareOp::Above => CompareOp::Below,
+            other => other,
+        }
+    }
+
     /// The operator as written.
     pub fn symbol(self) -> &'static str {
         match self {
