@@ -28,6 +28,7 @@ measure head.material: text "cast iron or aluminium"
 measure stroke: length "Dial indicator"
 
 define total = car.weight + ballast
+define weight_per_ballast = car.weight / ballast
 
 class hobby "Hobby"
   rule 1 "Bore" require bore <= 4.030 in end
@@ -37,6 +38,7 @@ class hobby "Hobby"
   rule 5 "Total" require total >= 3100 lb end
   rule 6 "Heavy cars only" when car.weight >= 3050 lb require stroke <= 3.48 in end
   rule 7 "Aluminium" when head.material == "aluminium" require car.weight >= 3200 lb end
+  rule 8 "Ballast share" require weight_per_ballast <= 100 end
 end
 "#;
 
@@ -116,6 +118,7 @@ impl Case {
                     .and_then(|n| n.cylinder),
                 applies: o.applies,
                 missing: o.missing.clone(),
+                not_finite: o.not_finite,
             })
             .collect()
     }
@@ -131,6 +134,7 @@ struct Row {
     cylinder: Option<usize>,
     applies: Applies,
     missing: Vec<String>,
+    not_finite: bool,
 }
 
 const IN: f64 = 0.0254; // NIST SP 811 B.8
@@ -306,4 +310,15 @@ fn an_instrument_resolution_is_a_rectangular_distribution() {
         phi(0.0005 * IN / u),
         1e-9
     ));
+}
+
+#[test]
+fn a_value_that_is_not_a_number_decides_nothing() {
+    // ballast 0 lb makes weight / ballast infinite: bad input must not become "illegal"
+    let rows = Case::new().run(
+        &declaration("\"4.0 in\"", "3100 lb", "  ballast: \"0 lb\"\n"),
+        DecisionRule::GuardedRejection,
+    );
+    assert!(rows[7].not_finite, "{:?}", rows[7]);
+    assert_eq!(rows[7].verdict, Verdict::NotChecked);
 }

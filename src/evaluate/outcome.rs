@@ -56,6 +56,19 @@ pub struct Checked {
     pub observed: Option<String>,
 }
 
+impl Checked {
+    /// False when a number behind the finding is not finite (a division by zero, the root of
+    /// a negative number): such a finding decides nothing.
+    pub fn is_finite(&self) -> bool {
+        self.numeric.as_ref().is_none_or(|n| {
+            n.value.is_finite()
+                && n.limit.is_finite()
+                && n.margin.is_finite()
+                && n.expanded.is_finite()
+        })
+    }
+}
+
 /// One line of a rule's trace, borrowing from the rulebook and the declaration.
 #[derive(Clone, Debug)]
 pub enum Trace<'a> {
@@ -100,6 +113,8 @@ pub struct Outcome<'a> {
     pub checked: Option<Checked>,
     /// Measurements it needs that are missing.
     pub missing: Vec<String>,
+    /// True when the value it tests could not be computed as a finite number.
+    pub not_finite: bool,
     /// Every input and derived value it reads.
     pub trace: Vec<Trace<'a>>,
 }

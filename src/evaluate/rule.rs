@@ -31,6 +31,7 @@ impl<'a> Evaluator<'a> {
             verdict: Verdict::NotChecked,
             checked: None,
             missing: Vec::new(),
+            not_finite: false,
             trace: Vec::new(),
         };
         outcome.trace = self.trace(r);
@@ -50,6 +51,11 @@ impl<'a> Evaluator<'a> {
         }
         match self.test(&r.rule.require) {
             Err(missing) => outcome.missing = missing.0.into_iter().collect(),
+            Ok(checked) if !checked.is_finite() => {
+                // bad input must not turn into a verdict: a value that is not a number decides nothing
+                outcome.not_finite = true;
+                outcome.checked = Some(checked);
+            }
             Ok(checked) => {
                 let mut v = verdict(checked.finding, decision);
                 // The inspector's rule gives the doubt to the competitor: a rule that may not
@@ -87,7 +93,14 @@ impl<'a> Evaluator<'a> {
     /// other side is missing or uncertain.
     fn condition(&mut self, c: &Condition, decision: DecisionRule) -> Evaluated<Truth> {
         match c {
-            Condition::Test(t) => Ok(truth_of(self.test(t)?.finding, decision)),
+            Condition::Test(t) => {
+                let checked = self.test(t)?;
+                // a condition that cannot be computed may or may not hold
+                if !checked.is_finite() {
+                    return Ok(Truth::Uncertain);
+                }
+                Ok(truth_of(checked.finding, decision))
+            }
             Condition::Not(inner, _) => Ok(match self.condition(inner, decision)? {
                 Truth::True => Truth::False,
                 Truth::False => Truth::True,

@@ -73,6 +73,7 @@ struct Rule {
     numeric: Option<Number>,
     observed: Option<String>,
     missing: Vec<String>,
+    not_finite: bool,
     trace: Vec<TraceEntry>,
 }
 
@@ -178,6 +179,7 @@ fn rule(o: &Outcome, r: &EngineReport) -> Rule {
             .map(number),
         observed: o.checked.as_ref().and_then(|c| c.observed.clone()),
         missing: o.missing.clone(),
+        not_finite: o.not_finite,
         trace: o.trace.iter().map(|t| trace(t, r)).collect(),
     }
 }

@@ -128,7 +128,13 @@ fn rule(out: &mut String, o: &Outcome, r: &EngineReport) {
             o.missing.join(", ")
         );
     }
-    if let Some(c) = &o.checked {
+    if o.not_finite {
+        let _ = writeln!(
+            out,
+            "    not computed  the value tested is not a finite number (a division by zero or the root of a negative number); check the inputs in the trace"
+        );
+    }
+    if let Some(c) = o.checked.as_ref().filter(|c| c.is_finite()) {
         checked_lines(out, c);
         if o.applies == Applies::Uncertain {
             let doubt = if o.verdict == Verdict::Legal && c.finding != Finding::Pass {
