@@ -6,6 +6,7 @@ use std::process::ExitCode;
 
 use clap::{Parser, Subcommand};
 use gonogo::commands::check::{self, CheckFormat, CheckRequest, Role};
+use gonogo::commands::sheet::{self, SheetFormat};
 use gonogo::commands::{fmt, lint};
 use gonogo::diagnostic::RenderStyle;
 use gonogo::exit::Exit;
@@ -56,6 +57,21 @@ enum Command {
         /// Output format.
         #[arg(long, value_enum, default_value_t = lint::LintFormat::Text)]
         format: lint::LintFormat,
+    },
+    /// The blank measurement sheet of a class: Markdown to print, or a YAML template to fill in.
+    #[command(
+        after_help = "Examples:\n  gonogo sheet --rules rulebooks-demo/tamsin-2027.rules --class limited2\n  gonogo sheet --rules rulebooks-demo/tamsin-2027.rules --class open4 --format yaml > car44.yaml"
+    )]
+    Sheet {
+        /// The rulebook.
+        #[arg(long)]
+        rules: PathBuf,
+        /// The class.
+        #[arg(long)]
+        class: String,
+        /// Output format.
+        #[arg(long, value_enum, default_value_t = SheetFormat::Markdown)]
+        format: SheetFormat,
     },
     /// Print a rulebook in canonical form (comments are not kept).
     #[command(after_help = "Example:\n  gonogo fmt rulebooks-demo/lakeshore-2027.rules")]
@@ -116,6 +132,25 @@ fn run(cli: Cli) -> Exit {
             write_out(&out);
             exit
         }
+        Command::Sheet {
+            rules,
+            class,
+            format,
+        } => match sheet::run(
+            &rules,
+            &class,
+            format,
+            style_for(std::io::stderr().is_terminal()),
+        ) {
+            Ok(text) => {
+                write_out(&text);
+                Exit::Clean
+            }
+            Err(diagnostics) => {
+                eprint!("{diagnostics}");
+                Exit::BadInput
+            }
+        },
         Command::Fmt { file } => {
             match fmt::run(&file, style_for(std::io::stderr().is_terminal())) {
                 Ok(text) => {

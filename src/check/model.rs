@@ -50,6 +50,8 @@ pub struct Measurement {
     pub required: bool,
     /// The plausible range, in SI units.
     pub range: Option<(f64, f64)>,
+    /// The unit the rulebook writes this measurement in (from its `range`), if it writes one.
+    pub unit: Option<&'static str>,
     /// The procedure text.
     pub procedure: Option<String>,
     /// Where it is declared.

@@ -46,6 +46,7 @@ impl<'a> Checker<'a> {
                         per_cylinder: m.per_cylinder,
                         required: m.required,
                         range,
+                        unit: m.range.as_ref().and_then(|(low, _)| written_unit(low)),
                         procedure: m.procedure.as_ref().map(|p| p.value.clone()),
                         span: m.name.span,
                     },
@@ -917,6 +918,19 @@ impl<'a> Checker<'a> {
                 .with_help("write the allowance as a number with a unit, like `allowing 0.005 in`"),
             ),
         }
+    }
+}
+
+/// The unit written on a range end (`40 cc` gives `cc`).
+fn written_unit(e: &Expr) -> Option<&'static str> {
+    match &e.kind {
+        ExprKind::Quantity(q) => q
+            .unit
+            .as_ref()
+            .and_then(|u| units::lookup(&u.symbol))
+            .map(|u| u.symbol),
+        ExprKind::Negate(inner) => written_unit(inner),
+        _ => None,
     }
 }
 

@@ -4,6 +4,7 @@
 pub mod check;
 pub mod fmt;
 pub mod lint;
+pub mod sheet;
 
 use crate::check::model::CheckedRulebook;
 use crate::diagnostic::{Level, Problem, RenderStyle, render};

@@ -240,6 +240,7 @@ mod tests {
             per_cylinder: true,
             required: true,
             range: Some((0.0254 * 3.5, 0.0254 * 4.5)),
+            unit: Some("in"),
             procedure: None,
             span: Span::default(),
         }

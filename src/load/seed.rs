@@ -122,7 +122,7 @@ impl<'de> Visitor<'de> for DeclarationSeed<'_> {
                 }
                 "date" => {
                     let date = map.next_value_seed(DateSeed)?;
-                    self.state.borrow_mut().declaration.identity.date = Some(date);
+                    self.state.borrow_mut().declaration.identity.date = date;
                 }
                 "instruments" => map.next_value_seed(InstrumentsSeed { state: self.state })?,
                 "measurements" => map.next_value_seed(MeasurementsSeed {
@@ -395,22 +395,29 @@ impl Visitor<'_> for ClassSeed<'_> {
 struct DateSeed;
 
 impl<'de> DeserializeSeed<'de> for DateSeed {
-    type Value = crate::parse::ast::Date;
+    type Value = Option<crate::parse::ast::Date>;
 
     fn deserialize<D: Deserializer<'de>>(self, d: D) -> Result<Self::Value, D::Error> {
-        d.deserialize_str(self)
+        d.deserialize_any(self)
     }
 }
 
 impl Visitor<'_> for DateSeed {
-    type Value = crate::parse::ast::Date;
+    type Value = Option<crate::parse::ast::Date>;
 
     fn expecting(&self, f: &mut fmt::Formatter) -> fmt::Result {
         f.write_str("a date like 2027-07-19")
     }
 
+    fn visit_unit<E: de::Error>(self) -> Result<Self::Value, E> {
+        Ok(None)
+    }
+
     fn visit_str<E: de::Error>(self, v: &str) -> Result<Self::Value, E> {
-        crate::parse::date_literal(v).ok_or_else(|| {
+        if v.trim().is_empty() {
+            return Ok(None);
+        }
+        crate::parse::date_literal(v).map(Some).ok_or_else(|| {
             refuse(
                 "gonogo::load::bad-date",
                 format_args!("`{v}` is not a calendar date"),

@@ -2,4 +2,5 @@
 
 pub mod format;
 pub mod json;
+pub mod sheet;
 pub mod text;
