@@ -7,7 +7,7 @@ use std::process::ExitCode;
 use clap::{Parser, Subcommand};
 use gonogo::commands::check::{self, CheckFormat, CheckRequest, Role};
 use gonogo::commands::sheet::{self, SheetFormat};
-use gonogo::commands::{fmt, lint};
+use gonogo::commands::{explain, fmt, lint};
 use gonogo::diagnostic::RenderStyle;
 use gonogo::exit::Exit;
 
@@ -57,6 +57,21 @@ enum Command {
         /// Output format.
         #[arg(long, value_enum, default_value_t = lint::LintFormat::Text)]
         format: lint::LintFormat,
+    },
+    /// One rule in plain words: what it requires, what is measured, when it applies, where it
+    /// is written and how the class came to have it.
+    #[command(
+        after_help = "Examples:\n  gonogo explain --rules rulebooks-demo/tamsin-2027.rules 3.2\n  gonogo explain --rules rulebooks-demo/tamsin-2027.rules --class open4 3.1"
+    )]
+    Explain {
+        /// The rulebook.
+        #[arg(long)]
+        rules: PathBuf,
+        /// Only this class (every class that has the rule otherwise).
+        #[arg(long)]
+        class: Option<String>,
+        /// The rule's section number.
+        section: String,
     },
     /// The blank measurement sheet of a class: Markdown to print, or a YAML template to fill in.
     #[command(
@@ -131,6 +146,27 @@ fn run(cli: Cli) -> Exit {
             let (out, exit) = lint::run(&files, format, style_for(std::io::stdout().is_terminal()));
             write_out(&out);
             exit
+        }
+        Command::Explain {
+            rules,
+            class,
+            section,
+        } => {
+            match explain::run(
+                &rules,
+                class.as_deref(),
+                &section,
+                style_for(std::io::stderr().is_terminal()),
+            ) {
+                Ok(text) => {
+                    write_out(&text);
+                    Exit::Clean
+                }
+                Err(diagnostics) => {
+                    eprint!("{diagnostics}");
+                    Exit::BadInput
+                }
+            }
         }
         Command::Sheet {
             rules,

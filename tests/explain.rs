@@ -1,0 +1,85 @@
+//! `gonogo explain`: every section number of both demo editions explains, and the 2027 demo's
+//! explanations are snapshotted.
+
+use std::path::Path;
+
+use gonogo::commands::explain;
+use gonogo::commands::load_rulebook;
+use gonogo::diagnostic::RenderStyle;
+
+fn sections(rules: &str) -> Vec<String> {
+    let loaded = load_rulebook(Path::new(rules));
+    let rulebook = loaded
+        .checked
+        .unwrap_or_else(|| panic!("{rules} does not check"));
+    let mut all: Vec<String> = rulebook
+        .classes
+        .iter()
+        .flat_map(|c| {
+            c.rules
+                .iter()
+                .chain(c.amended.iter().flat_map(|a| a.rules.iter()))
+        })
+        .map(|r| r.rule.section.text.clone())
+        .collect();
+    all.sort();
+    all.dedup();
+    all
+}
+
+#[test]
+fn every_section_of_both_editions_explains() {
+    for rules in [
+        "rulebooks-demo/tamsin-2027.rules",
+        "rulebooks-demo/tamsin-2028.rules",
+    ] {
+        let all = sections(rules);
+        assert!(all.len() >= 20, "{rules}: only {} sections", all.len());
+        for section in all {
+            let text = explain::run(Path::new(rules), None, &section, RenderStyle::PLAIN)
+                .unwrap_or_else(|e| panic!("{rules} {section}: {e}"));
+            assert!(text.starts_with(&format!("{section} \"")), "{text}");
+        }
+    }
+}
+
+#[test]
+fn explanations_of_the_2027_demo() {
+    let rules = "rulebooks-demo/tamsin-2027.rules";
+    let all: Vec<String> = sections(rules)
+        .iter()
+        .map(|s| explain::run(Path::new(rules), None, s, RenderStyle::PLAIN).unwrap_or_default())
+        .collect();
+    insta::assert_snapshot!(all.join("\n----\n"));
+}
+
+#[test]
+fn a_class_shows_the_rule_as_inherited_or_overridden() {
+    let rules = Path::new("rulebooks-demo/tamsin-2027.rules");
+    let inherited =
+        explain::run(rules, Some("open4"), "3.4", RenderStyle::PLAIN).unwrap_or_default();
+    assert!(
+        inherited.contains("inherited from class limited2"),
+        "{inherited}"
+    );
+    let overridden =
+        explain::run(rules, Some("open4"), "3.2", RenderStyle::PLAIN).unwrap_or_default();
+    assert!(
+        overridden.contains("overridden in class open4"),
+        "{overridden}"
+    );
+    assert!(overridden.contains("(so at most 4.065 in)"), "{overridden}");
+}
+
+#[test]
+fn an_unknown_section_is_an_error() {
+    let e = explain::run(
+        Path::new("rulebooks-demo/tamsin-2027.rules"),
+        Some("limited2"),
+        "99.9",
+        RenderStyle::PLAIN,
+    )
+    .err()
+    .unwrap_or_default();
+    assert!(e.contains("class `limited2` has no rule 99.9"), "{e}");
+}
