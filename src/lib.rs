@@ -7,6 +7,7 @@
 
 pub mod check;
 pub mod commands;
+pub mod compare;
 pub mod diagnostic;
 pub mod evaluate;
 pub mod exit;

@@ -7,9 +7,10 @@ use std::process::ExitCode;
 use clap::{Parser, Subcommand};
 use gonogo::commands::check::{self, CheckFormat, CheckRequest, Role};
 use gonogo::commands::sheet::{self, SheetFormat};
-use gonogo::commands::{explain, fmt, lint};
+use gonogo::commands::{diff, explain, fmt, lint};
 use gonogo::diagnostic::RenderStyle;
 use gonogo::exit::Exit;
+use gonogo::report::diff::DiffFormat;
 
 /// Stack for the worker thread: deep but bounded syntax trees are walked recursively.
 const STACK_BYTES: usize = 256 * 1024 * 1024;
@@ -57,6 +58,22 @@ enum Command {
         /// Output format.
         #[arg(long, value_enum, default_value_t = lint::LintFormat::Text)]
         format: lint::LintFormat,
+    },
+    /// Compare two editions rule by rule: added, dropped, tightened, loosened, changed.
+    #[command(
+        after_help = "Examples:\n  gonogo diff rulebooks-demo/tamsin-2027.rules rulebooks-demo/tamsin-2028.rules\n  gonogo diff --class limited2 --format markdown old.rules new.rules"
+    )]
+    Diff {
+        /// The old edition.
+        old: PathBuf,
+        /// The new edition.
+        new: PathBuf,
+        /// Only this class.
+        #[arg(long)]
+        class: Option<String>,
+        /// Output format.
+        #[arg(long, value_enum, default_value_t = DiffFormat::Text)]
+        format: DiffFormat,
     },
     /// One rule in plain words: what it requires, what is measured, when it applies, where it
     /// is written and how the class came to have it.
@@ -146,6 +163,29 @@ fn run(cli: Cli) -> Exit {
             let (out, exit) = lint::run(&files, format, style_for(std::io::stdout().is_terminal()));
             write_out(&out);
             exit
+        }
+        Command::Diff {
+            old,
+            new,
+            class,
+            format,
+        } => {
+            match diff::run(
+                &old,
+                &new,
+                class.as_deref(),
+                format,
+                style_for(std::io::stderr().is_terminal()),
+            ) {
+                Ok(text) => {
+                    write_out(&text);
+                    Exit::Clean
+                }
+                Err(diagnostics) => {
+                    eprint!("{diagnostics}");
+                    Exit::BadInput
+                }
+            }
         }
         Command::Explain {
             rules,

@@ -2,6 +2,7 @@
 //! output, returning the exit status; none of them prints half a report on bad input.
 
 pub mod check;
+pub mod diff;
 pub mod explain;
 pub mod fmt;
 pub mod lint;

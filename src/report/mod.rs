@@ -1,5 +1,6 @@
 //! Reports: the same evaluated data rendered as text for people and as JSON for programs.
 
+pub mod diff;
 pub mod explain;
 pub mod format;
 pub mod json;

@@ -1,0 +1,585 @@
+//! Comparing two checked editions of a series: what changed, rule by rule and in the schema,
+//! as data. Rules are matched by section number, then by title (a renumbered rule); limits are
+//! compared by value after unit conversion, so `360 ci` to `5.9 L` is seen for what it is.
+//! Formatting and order of the rulebook text are not changes: the comparison works on the
+//! checked rulebooks and their canonical texts.
+
+use crate::check::model::{CheckedRulebook, ClassRule, Measurement, PartEntry, ValueKind};
+use crate::evaluate::expr::Evaluator;
+use crate::evaluate::value::Value;
+use crate::load::Declaration;
+use crate::parse::ast::{CompareOp, Expr, ExprKind, TestKind};
+use crate::units::{self, Unit};
+
+/// What happened to one rule.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, serde::Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum RuleChange {
+    /// New in the new edition.
+    Added,
+    /// Gone from the new edition.
+    Dropped,
+    /// The limit allows less than before.
+    Tightened,
+    /// The limit allows more than before.
+    Loosened,
+    /// Something else changed: the test, a condition, the penalty, the title.
+    Changed,
+}
+
+/// A numeric limit's old and new value, in one unit.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Limits {
+    /// The old limit (low end first for a range), SI units.
+    pub old: (f64, Option<f64>),
+    /// The new limit, SI units.
+    pub new: (f64, Option<f64>),
+    /// The unit to show both in.
+    pub unit: Option<&'static Unit>,
+}
+
+/// One rule's change in one class.
+#[derive(Clone, Debug)]
+pub struct RuleDiff {
+    /// The class.
+    pub class: String,
+    /// Section number in the new edition (the old one for a dropped rule).
+    pub section: String,
+    /// Section number in the old edition when the rule was renumbered.
+    pub renumbered_from: Option<String>,
+    /// Title.
+    pub title: String,
+    /// What happened.
+    pub change: RuleChange,
+    /// The old requirement and conditions, in canonical words.
+    pub old: Option<String>,
+    /// The new ones.
+    pub new: Option<String>,
+    /// The limits compared, for tightened and loosened rules.
+    pub limits: Option<Limits>,
+    /// What else differs, in words (`condition`, `penalty`, ...).
+    pub notes: Vec<String>,
+}
+
+/// What happened to one measurement of the schema.
+#[derive(Clone, Debug, serde::Serialize)]
+pub struct MeasurementDiff {
+    /// Its name.
+    pub name: String,
+    /// `added`, `dropped` or `changed`.
+    pub change: &'static str,
+    /// Its description in the old edition.
+    pub old: Option<String>,
+    /// In the new one.
+    pub new: Option<String>,
+}
+
+/// Entries added to and removed from one parts list.
+#[derive(Clone, Debug, serde::Serialize)]
+pub struct ListDiff {
+    /// The list.
+    pub name: String,
+    /// Entries only in the new edition.
+    pub added: Vec<String>,
+    /// Entries only in the old edition.
+    pub removed: Vec<String>,
+}
+
+/// Everything that differs between two editions.
+#[derive(Clone, Debug)]
+pub struct EditionDiff {
+    /// The old edition's name and effective date.
+    pub old: (String, String),
+    /// The new edition's.
+    pub new: (String, String),
+    /// The series.
+    pub series: String,
+    /// The decision rule, when it changed: old, new.
+    pub decision: Option<(&'static str, &'static str)>,
+    /// Measurement schema changes.
+    pub measurements: Vec<MeasurementDiff>,
+    /// Parts list changes.
+    pub lists: Vec<ListDiff>,
+    /// Bulletins of the old edition not in the new, and of the new not in the old.
+    pub bulletins: (Vec<String>, Vec<String>),
+    /// Classes only in the old edition, and only in the new.
+    pub classes: (Vec<String>, Vec<String>),
+    /// Rule changes, class by class in the new edition's order.
+    pub rules: Vec<RuleDiff>,
+}
+
+/// Why two rulebooks cannot be compared.
+#[derive(Clone, Debug, PartialEq)]
+pub enum Incomparable {
+    /// They belong to different series.
+    DifferentSeries(String, String),
+}
+
+/// Compares two editions, limited to one class when `class` is given.
+pub fn compare(
+    old: &CheckedRulebook,
+    new: &CheckedRulebook,
+    class: Option<&str>,
+) -> Result<EditionDiff, Incomparable> {
+    if old.series != new.series {
+        return Err(Incomparable::DifferentSeries(
+            old.series.clone(),
+            new.series.clone(),
+        ));
+    }
+    let names = |b: &CheckedRulebook| -> Vec<String> {
+        b.classes
+            .iter()
+            .map(|c| c.name.clone())
+            .filter(|n| class.is_none_or(|c| c == n))
+            .collect()
+    };
+    let (old_classes, new_classes) = (names(old), names(new));
+    let mut rules = Vec::new();
+    for name in new_classes.iter().filter(|n| old_classes.contains(n)) {
+        if let (Some(o), Some(n)) = (old.class(name), new.class(name)) {
+            rules.extend(class_rules(old, new, name, &o.rules, &n.rules));
+        }
+    }
+    let ids =
+        |b: &CheckedRulebook| -> Vec<String> { b.bulletins.iter().map(|x| x.id.clone()).collect() };
+    let (old_ids, new_ids) = (ids(old), ids(new));
+    Ok(EditionDiff {
+        old: (old.edition.clone(), old.effective.to_string()),
+        new: (new.edition.clone(), new.effective.to_string()),
+        series: new.series.clone(),
+        decision: (old.decision != new.decision)
+            .then(|| (old.decision.words(), new.decision.words())),
+        measurements: measurements(old, new),
+        lists: lists(old, new),
+        bulletins: (only_in(&old_ids, &new_ids), only_in(&new_ids, &old_ids)),
+        classes: (
+            only_in(&old_classes, &new_classes),
+            only_in(&new_classes, &old_classes),
+        ),
+        rules,
+    })
+}
+
+fn only_in(a: &[String], b: &[String]) -> Vec<String> {
+    a.iter().filter(|x| !b.contains(x)).cloned().collect()
+}
+
+fn class_rules(
+    old_book: &CheckedRulebook,
+    new_book: &CheckedRulebook,
+    class: &str,
+    old: &[ClassRule],
+    new: &[ClassRule],
+) -> Vec<RuleDiff> {
+    let mut out = Vec::new();
+    let mut matched_old: Vec<usize> = Vec::new();
+    for n in new {
+        let by_section = old
+            .iter()
+            .position(|o| o.rule.section.text == n.rule.section.text);
+        let by_title = || {
+            old.iter().enumerate().position(|(i, o)| {
+                o.rule.title.value == n.rule.title.value
+                    && !new
+                        .iter()
+                        .any(|x| x.rule.section.text == o.rule.section.text)
+                    && !matched_old.contains(&i)
+            })
+        };
+        let Some(i) = by_section.or_else(by_title) else {
+            out.push(rule_diff(
+                class,
+                n,
+                None,
+                RuleChange::Added,
+                None,
+                Some(words(n)),
+            ));
+            continue;
+        };
+        matched_old.push(i);
+        let o = &old[i];
+        let mut diff = compare_rule(old_book, new_book, class, o, n);
+        if o.rule.section.text != n.rule.section.text {
+            diff.renumbered_from = Some(o.rule.section.text.clone());
+            if diff.change == RuleChange::Changed && diff.notes.is_empty() && diff.limits.is_none()
+            {
+                diff.notes.push("renumbered".to_string());
+            }
+        }
+        if diff.change != RuleChange::Changed
+            || !diff.notes.is_empty()
+            || diff.renumbered_from.is_some()
+        {
+            out.push(diff);
+        }
+    }
+    for (i, o) in old.iter().enumerate() {
+        if !matched_old.contains(&i) {
+            out.push(rule_diff(
+                class,
+                o,
+                None,
+                RuleChange::Dropped,
+                Some(words(o)),
+                None,
+            ));
+        }
+    }
+    out
+}
+
+fn rule_diff(
+    class: &str,
+    r: &ClassRule,
+    limits: Option<Limits>,
+    change: RuleChange,
+    old: Option<String>,
+    new: Option<String>,
+) -> RuleDiff {
+    RuleDiff {
+        class: class.to_string(),
+        section: r.rule.section.text.clone(),
+        renumbered_from: None,
+        title: r.rule.title.value.clone(),
+        change,
+        old,
+        new,
+        limits,
+        notes: Vec::new(),
+    }
+}
+
+/// A rule's requirement and conditions in canonical words.
+fn words(r: &ClassRule) -> String {
+    let mut text = r.requirement.clone();
+    for c in &r.condition_texts {
+        text.push_str(&format!(" when {c}"));
+    }
+    text
+}
+
+/// Compares a matched pair; `Changed` with no notes and no limits means nothing differs.
+fn compare_rule(
+    old_book: &CheckedRulebook,
+    new_book: &CheckedRulebook,
+    class: &str,
+    o: &ClassRule,
+    n: &ClassRule,
+) -> RuleDiff {
+    let mut notes = Vec::new();
+    if o.condition_texts != n.condition_texts {
+        notes.push("condition".to_string());
+    }
+    if o.rule.title.value != n.rule.title.value {
+        notes.push("title".to_string());
+    }
+    if o.rule.penalty.as_ref().map(|p| &p.value) != n.rule.penalty.as_ref().map(|p| &p.value) {
+        notes.push("penalty".to_string());
+    }
+    let mut limits = None;
+    let mut change = RuleChange::Changed;
+    if o.requirement != n.requirement {
+        match (bound(old_book, o), bound(new_book, n)) {
+            (Some(a), Some(b)) if a.subject == b.subject && a.side == b.side => {
+                // `None`: the same limit, written another way
+                if let Some(moved) = direction(&a, &b) {
+                    change = moved;
+                    if moved == RuleChange::Changed {
+                        notes.push("limit".to_string());
+                    }
+                    limits = Some(Limits {
+                        old: a.values,
+                        new: b.values,
+                        unit: a.unit.or(b.unit),
+                    });
+                }
+            }
+            _ => notes.push("requirement".to_string()),
+        }
+    }
+    let mut diff = rule_diff(class, n, limits, change, Some(words(o)), Some(words(n)));
+    diff.notes = notes;
+    diff
+}
+
+/// Which way a limit points.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+enum Side {
+    /// An upper limit (`<=`, `<`).
+    Upper,
+    /// A lower limit (`>=`, `>`).
+    Lower,
+    /// A range (`between`).
+    Range,
+}
+
+/// A numeric limit on a subject, in SI units, allowance included.
+struct Bound {
+    subject: String,
+    side: Side,
+    values: (f64, Option<f64>),
+    unit: Option<&'static Unit>,
+}
+
+/// The numeric limit a rule sets, when its limit side is a constant.
+fn bound(book: &CheckedRulebook, r: &ClassRule) -> Option<Bound> {
+    let empty = Declaration::default();
+    let mut ev = Evaluator::new(book, &empty);
+    let mut constant = |e: &Expr| match ev.eval(e) {
+        Ok(Value::Single(d)) if d.partials.is_empty() && d.value.is_finite() => Some(d.value),
+        _ => None,
+    };
+    match &r.rule.require.kind {
+        TestKind::Compare {
+            left,
+            op,
+            right,
+            allowance,
+        } => {
+            let slack = match allowance {
+                Some(a) => constant(a)?,
+                None => 0.0,
+            };
+            let side = match op {
+                CompareOp::AtMost | CompareOp::Below => Side::Upper,
+                CompareOp::AtLeast | CompareOp::Above => Side::Lower,
+                _ => return None,
+            };
+            let limit = constant(right)?;
+            let value = if side == Side::Upper {
+                limit + slack
+            } else {
+                limit - slack
+            };
+            Some(Bound {
+                subject: crate::parse::print::expr_text(left),
+                side,
+                values: (value, None),
+                unit: first_unit(right),
+            })
+        }
+        TestKind::Between {
+            subject,
+            low,
+            high,
+            allowance,
+        } => {
+            let slack = match allowance {
+                Some(a) => constant(a)?,
+                None => 0.0,
+            };
+            let (lo, hi) = (constant(low)?, constant(high)?);
+            Some(Bound {
+                subject: crate::parse::print::expr_text(subject),
+                side: Side::Range,
+                values: (lo - slack, Some(hi + slack)),
+                unit: first_unit(low),
+            })
+        }
+        _ => None,
+    }
+}
+
+fn first_unit(e: &Expr) -> Option<&'static Unit> {
+    match &e.kind {
+        ExprKind::Quantity(q) => q.unit.as_ref().and_then(|u| units::lookup(&u.symbol)),
+        ExprKind::Negate(inner) => first_unit(inner),
+        ExprKind::Binary { left, right, .. } => first_unit(left).or_else(|| first_unit(right)),
+        _ => None,
+    }
+}
+
+/// Tightened, loosened, changed (a range that grew at one end and shrank at the other), or
+/// `None` when the limit is the same.
+fn direction(old: &Bound, new: &Bound) -> Option<RuleChange> {
+    let same = |a: f64, b: f64| (a - b).abs() <= 1e-12 * a.abs().max(b.abs());
+    let (lo_a, lo_b) = (old.values.0, new.values.0);
+    match (old.side, old.values.1, new.values.1) {
+        (Side::Range, Some(hi_a), Some(hi_b)) => {
+            if same(lo_a, lo_b) && same(hi_a, hi_b) {
+                return None;
+            }
+            let narrower = lo_b >= lo_a && hi_b <= hi_a;
+            let wider = lo_b <= lo_a && hi_b >= hi_a;
+            Some(match (narrower, wider) {
+                (true, _) => RuleChange::Tightened,
+                (_, true) => RuleChange::Loosened,
+                _ => RuleChange::Changed,
+            })
+        }
+        _ if same(lo_a, lo_b) => None,
+        (side, _, _) => Some(if (lo_b < lo_a) == (side == Side::Upper) {
+            RuleChange::Tightened
+        } else {
+            RuleChange::Loosened
+        }),
+    }
+}
+
+fn describe(m: &Measurement) -> String {
+    let kind = match m.kind {
+        ValueKind::Text => "text".to_string(),
+        ValueKind::Number(_) => m.dimension_word.clone(),
+    };
+    let shape = if m.per_cylinder { ", per cylinder" } else { "" };
+    let need = if m.required {
+        ", required"
+    } else {
+        ", optional"
+    };
+    format!("{kind}{shape}{need}")
+}
+
+fn measurements(old: &CheckedRulebook, new: &CheckedRulebook) -> Vec<MeasurementDiff> {
+    let mut out = Vec::new();
+    for n in &new.measurements {
+        match old.measurement(&n.name) {
+            None => out.push(MeasurementDiff {
+                name: n.name.clone(),
+                change: "added",
+                old: None,
+                new: Some(describe(n)),
+            }),
+            Some(o) if describe(o) != describe(n) => out.push(MeasurementDiff {
+                name: n.name.clone(),
+                change: "changed",
+                old: Some(describe(o)),
+                new: Some(describe(n)),
+            }),
+            Some(_) => {}
+        }
+    }
+    for o in old
+        .measurements
+        .iter()
+        .filter(|o| new.measurement(&o.name).is_none())
+    {
+        out.push(MeasurementDiff {
+            name: o.name.clone(),
+            change: "dropped",
+            old: Some(describe(o)),
+            new: None,
+        });
+    }
+    out
+}
+
+fn entry_text(e: &PartEntry) -> String {
+    match e {
+        PartEntry::Exact(s) => format!("\"{s}\""),
+        PartEntry::Pattern(_, source) => format!("/{source}/"),
+    }
+}
+
+fn lists(old: &CheckedRulebook, new: &CheckedRulebook) -> Vec<ListDiff> {
+    let entries = |b: &CheckedRulebook, name: &str| -> Vec<String> {
+        b.lists
+            .iter()
+            .find(|l| l.name == name)
+            .map(|l| l.entries.iter().map(entry_text).collect())
+            .unwrap_or_default()
+    };
+    let mut names: Vec<String> = new
+        .lists
+        .iter()
+        .chain(&old.lists)
+        .map(|l| l.name.clone())
+        .collect();
+    names.sort();
+    names.dedup();
+    names
+        .into_iter()
+        .filter_map(|name| {
+            let (o, n) = (entries(old, &name), entries(new, &name));
+            let diff = ListDiff {
+                added: only_in(&n, &o),
+                removed: only_in(&o, &n),
+                name,
+            };
+            (!diff.added.is_empty() || !diff.removed.is_empty()).then_some(diff)
+        })
+        .collect()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    const CI: f64 = 0.0254 * 0.0254 * 0.0254; // NIST SP 811 B.8
+    const LITRE: f64 = 1e-3;
+
+    fn bound(side: Side, values: (f64, Option<f64>)) -> Bound {
+        Bound {
+            subject: "x".to_string(),
+            side,
+            values,
+            unit: None,
+        }
+    }
+
+    #[test]
+    fn an_upper_limit_lowered_is_tightened_across_units() {
+        // 365 ci to 5.9 L: 5.9 L is 360.04 ci, so the cap came down
+        let d = direction(
+            &bound(Side::Upper, (365.0 * CI, None)),
+            &bound(Side::Upper, (5.9 * LITRE, None)),
+        );
+        assert_eq!(d, Some(RuleChange::Tightened));
+        // 360 ci to 5.9 L: 5.9 L is a little more than 360 ci, so the cap went up
+        let d = direction(
+            &bound(Side::Upper, (360.0 * CI, None)),
+            &bound(Side::Upper, (5.9 * LITRE, None)),
+        );
+        assert_eq!(d, Some(RuleChange::Loosened));
+    }
+
+    #[test]
+    fn a_lower_limit_lowered_is_loosened() {
+        let lb = 0.453_592_37;
+        assert_eq!(
+            direction(
+                &bound(Side::Lower, (3000.0 * lb, None)),
+                &bound(Side::Lower, (2950.0 * lb, None))
+            ),
+            Some(RuleChange::Loosened)
+        );
+        assert_eq!(
+            direction(
+                &bound(Side::Lower, (1360.0, None)),
+                &bound(Side::Lower, (3000.0 * lb, None))
+            ),
+            Some(RuleChange::Tightened)
+        );
+    }
+
+    #[test]
+    fn the_same_limit_in_another_unit_is_no_change() {
+        // 1 in is 25.4 mm exactly (NIST SP 811 B.8)
+        assert_eq!(
+            direction(
+                &bound(Side::Upper, (0.0254, None)),
+                &bound(Side::Upper, (25.4e-3, None))
+            ),
+            None
+        );
+    }
+
+    #[test]
+    fn a_range_narrowed_is_tightened_and_one_shifted_is_changed() {
+        let r = |a: f64, b: f64| bound(Side::Range, (a, Some(b)));
+        assert_eq!(
+            direction(&r(1.0, 3.0), &r(1.5, 2.5)),
+            Some(RuleChange::Tightened)
+        );
+        assert_eq!(
+            direction(&r(1.0, 3.0), &r(0.5, 3.5)),
+            Some(RuleChange::Loosened)
+        );
+        assert_eq!(
+            direction(&r(1.0, 3.0), &r(2.0, 4.0)),
+            Some(RuleChange::Changed)
+        );
+    }
+}
