@@ -70,10 +70,10 @@ fn rule_line(r: &RuleDiff) -> String {
 
 fn lines(d: &EditionDiff, markdown: bool) -> String {
     let mut out = String::new();
-    let (h1, h2, item) = if markdown {
-        ("# ", "\n## ", "- ")
+    let (h1, h2, item, sub) = if markdown {
+        ("# ", "\n## ", "- ", "  - ")
     } else {
-        ("", "\n", "  ")
+        ("", "\n", "  ", "      ")
     };
     let _ = writeln!(
         out,
@@ -143,10 +143,10 @@ fn lines(d: &EditionDiff, markdown: bool) -> String {
             && r.change != RuleChange::Tightened
             && r.change != RuleChange::Loosened
         {
-            let _ = writeln!(out, "{item}    was {}", code(o, markdown));
-            let _ = writeln!(out, "{item}    now {}", code(n, markdown));
+            let _ = writeln!(out, "{sub}was {}", code(o, markdown));
+            let _ = writeln!(out, "{sub}now {}", code(n, markdown));
         } else if let Some(text) = r.new.as_ref().or(r.old.as_ref()) {
-            let _ = writeln!(out, "{item}    {}", code(text, markdown));
+            let _ = writeln!(out, "{sub}{}", code(text, markdown));
         }
     }
     if d.rules.is_empty() && d.measurements.is_empty() && d.lists.is_empty() && d.decision.is_none()
