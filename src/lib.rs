@@ -11,6 +11,7 @@ pub mod compare;
 pub mod diagnostic;
 pub mod evaluate;
 pub mod exit;
+pub mod impact;
 pub mod load;
 pub mod parse;
 pub mod report;

@@ -7,10 +7,11 @@ use std::process::ExitCode;
 use clap::{Parser, Subcommand};
 use gonogo::commands::check::{self, CheckFormat, CheckRequest, Role};
 use gonogo::commands::sheet::{self, SheetFormat};
-use gonogo::commands::{diff, explain, fmt, lint};
+use gonogo::commands::{diff, explain, fmt, impact, lint};
 use gonogo::diagnostic::RenderStyle;
 use gonogo::exit::Exit;
 use gonogo::report::diff::DiffFormat;
+use gonogo::report::impact::ImpactFormat;
 
 /// Stack for the worker thread: deep but bounded syntax trees are walked recursively.
 const STACK_BYTES: usize = 256 * 1024 * 1024;
@@ -74,6 +75,25 @@ enum Command {
         /// Output format.
         #[arg(long, value_enum, default_value_t = DiffFormat::Text)]
         format: DiffFormat,
+    },
+    /// Check a field of engines under two editions and list the verdicts that change.
+    #[command(
+        after_help = "Examples:\n  gonogo impact rulebooks-demo/tamsin-2027.rules rulebooks-demo/tamsin-2028.rules engines-demo/\n  gonogo impact --as builder --format markdown old.rules new.rules season/\n\nEach edition is applied as published on its effective date, whatever the declarations' dates."
+    )]
+    Impact {
+        /// The old edition.
+        old: PathBuf,
+        /// The new edition.
+        new: PathBuf,
+        /// Engine declarations, or folders of them (searched recursively).
+        #[arg(required = true)]
+        declarations: Vec<PathBuf>,
+        /// Whose decision rule to apply (the new edition's by default).
+        #[arg(long = "as", value_enum)]
+        role: Option<Role>,
+        /// Output format.
+        #[arg(long, value_enum, default_value_t = ImpactFormat::Text)]
+        format: ImpactFormat,
     },
     /// One rule in plain words: what it requires, what is measured, when it applies, where it
     /// is written and how the class came to have it.
@@ -174,6 +194,31 @@ fn run(cli: Cli) -> Exit {
                 &old,
                 &new,
                 class.as_deref(),
+                format,
+                style_for(std::io::stderr().is_terminal()),
+            ) {
+                Ok(text) => {
+                    write_out(&text);
+                    Exit::Clean
+                }
+                Err(diagnostics) => {
+                    eprint!("{diagnostics}");
+                    Exit::BadInput
+                }
+            }
+        }
+        Command::Impact {
+            old,
+            new,
+            declarations,
+            role,
+            format,
+        } => {
+            match impact::run(
+                &old,
+                &new,
+                &declarations,
+                role,
                 format,
                 style_for(std::io::stderr().is_terminal()),
             ) {

@@ -106,7 +106,7 @@ pub fn run(request: &CheckRequest, style: RenderStyle) -> Result<(String, Exit),
 
 /// The declarations named: files as given, folders searched recursively for `.yaml` and
 /// `.yml` files (sorted, so the order is the same on every machine).
-fn declaration_files(named: &[PathBuf]) -> Result<Vec<PathBuf>, Problem> {
+pub(super) fn declaration_files(named: &[PathBuf]) -> Result<Vec<PathBuf>, Problem> {
     let mut files = Vec::new();
     for path in named {
         if path.is_dir() {

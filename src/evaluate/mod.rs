@@ -12,7 +12,7 @@ pub mod value;
 
 pub use rule::COVERAGE;
 
-use crate::check::model::{CheckedRulebook, Class};
+use crate::check::model::{CheckedRulebook, Class, ClassRule};
 use crate::load::Declaration;
 use crate::parse::ast::DecisionRule;
 use expr::Evaluator;
@@ -26,8 +26,20 @@ pub fn check_engine<'a>(
     declaration: &'a Declaration,
     decision: Option<DecisionRule>,
 ) -> EngineReport<'a> {
-    let rule = decision.unwrap_or(rulebook.decision);
     let (rules, bulletins) = class.in_force(declaration.identity.date);
+    check_against(rulebook, class, rules, bulletins, declaration, decision)
+}
+
+/// Checks one declaration against the given rules of a class, whatever its date.
+pub fn check_against<'a>(
+    rulebook: &'a CheckedRulebook,
+    class: &'a Class,
+    rules: &'a [ClassRule],
+    bulletins: &'a [String],
+    declaration: &'a Declaration,
+    decision: Option<DecisionRule>,
+) -> EngineReport<'a> {
+    let rule = decision.unwrap_or(rulebook.decision);
     let mut evaluator = Evaluator::new(rulebook, declaration);
     let outcomes = rules.iter().map(|r| evaluator.rule(r, rule)).collect();
     EngineReport {

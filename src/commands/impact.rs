@@ -1,0 +1,104 @@
+//! `gonogo impact`: a field of engines checked under two editions; whose verdicts change.
+
+use std::path::PathBuf;
+
+use super::check::{Role, declaration_files};
+use super::{load_rulebook, render_all};
+use crate::check::model::CheckedRulebook;
+use crate::diagnostic::{Problem, RenderStyle};
+use crate::impact::{Engine, impact};
+use crate::load::{Declaration, load_declaration};
+use crate::report::impact::{Heading, ImpactFormat, render};
+use crate::source::SourceMap;
+
+/// The impact report, or the diagnostics when nothing could be compared (exit 2).
+pub fn run(
+    old: &std::path::Path,
+    new: &std::path::Path,
+    named: &[PathBuf],
+    role: Option<Role>,
+    format: ImpactFormat,
+    style: RenderStyle,
+) -> Result<String, String> {
+    let (a, b) = (load_rulebook(old), load_rulebook(new));
+    let (Some(old_book), Some(new_book)) = (&a.checked, &b.checked) else {
+        let mut out = render_all(&a.problems, &a.sources, style);
+        out.push_str(&render_all(&b.problems, &b.sources, style));
+        return Err(out);
+    };
+    let none = SourceMap::default();
+    if old_book.series != new_book.series {
+        let problem = Problem::unlocated(
+            "gonogo::diff::different-series",
+            format!(
+                "these rulebooks belong to different series: `{}` and `{}`",
+                old_book.series, new_book.series
+            ),
+        )
+        .with_help("compare two editions of the same series");
+        return Err(render_all(&[problem], &none, style));
+    }
+    let files = declaration_files(named).map_err(|p| render_all(&[p], &none, style))?;
+    let mut loaded: Vec<(Declaration, Declaration, String)> = Vec::new();
+    let mut unreadable: Vec<(String, String)> = Vec::new();
+    for path in &files {
+        match load_both(path, old_book, new_book) {
+            Ok(both) => loaded.push(both),
+            Err(why) => unreadable.push((path.display().to_string(), why)),
+        }
+    }
+    if loaded.is_empty() {
+        let list: Vec<String> = unreadable
+            .iter()
+            .map(|(f, w)| format!("{f}: {w}"))
+            .collect();
+        let problem = Problem::unlocated(
+            "gonogo::impact::nothing-to-compare",
+            "no declaration could be compared under both editions",
+        )
+        .with_help(if list.is_empty() {
+            "name declaration files or folders that hold some".to_string()
+        } else {
+            list.join("\n")
+        });
+        return Err(render_all(&[problem], &none, style));
+    }
+    let engines: Vec<Engine> = loaded
+        .iter()
+        .map(|(o, n, c)| Engine {
+            old: o,
+            new: n,
+            class: c,
+        })
+        .collect();
+    let decision = role.map(Role::decision);
+    let result = impact(old_book, new_book, &engines, decision);
+    let heading = Heading {
+        series: &new_book.series,
+        old: &old_book.edition,
+        new: &new_book.edition,
+        decision: decision.unwrap_or(new_book.decision).words(),
+    };
+    Ok(render(&heading, &result, &unreadable, format))
+}
+
+/// The declaration read against each edition's schema, and its class (in both editions).
+fn load_both(
+    path: &std::path::Path,
+    old: &CheckedRulebook,
+    new: &CheckedRulebook,
+) -> Result<(Declaration, Declaration, String), String> {
+    let mut sources = SourceMap::default();
+    let first_line = |p: Problem| format!("{} ({})", p.message, p.code);
+    let o = load_declaration(path, old, &mut sources).map_err(first_line)?;
+    let n = load_declaration(path, new, &mut sources).map_err(first_line)?;
+    let class = n
+        .identity
+        .class
+        .clone()
+        .ok_or_else(|| "the declaration names no class".to_string())?;
+    if old.class(&class).is_none() {
+        return Err(format!("class `{class}` is not in edition {}", old.edition));
+    }
+    Ok((o, n, class))
+}
