@@ -67,7 +67,7 @@ fn an_unreadable_file_is_listed_and_does_not_stop_the_run() {
         "class: limited2\nmeasurements:\n  bore: \"76 cc\"\n",
     )
     .unwrap_or_else(|e| panic!("{e}"));
-    let out = run(&[dir.clone()], ImpactFormat::Text);
+    let out = run(std::slice::from_ref(&dir), ImpactFormat::Text);
     let _ = std::fs::remove_dir_all(&dir);
     let out = out.unwrap_or_else(|e| panic!("{e}"));
     assert!(out.contains("on 1 engines"), "{out}");
