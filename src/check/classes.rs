@@ -259,6 +259,24 @@ impl<'a> Checker<'a> {
                         .iter()
                         .position(|r| r.rule.section.text == rule.section.text);
                     match (rule.overrides, existing) {
+                        (true, Some(i)) if same_rule(&rules[i], &entry) => {
+                            self.error(
+                                Problem::warning(
+                                    "gonogo::check::override-changes-nothing",
+                                    format!(
+                                        "this override of rule {} changes nothing",
+                                        rule.section.text
+                                    ),
+                                    rule.section.span,
+                                    "same as the rule it replaces",
+                                )
+                                .with_label(rules[i].rule.section.span, "the rule it replaces")
+                                .with_help(
+                                    "remove the override, or write the change it was meant to make",
+                                ),
+                            );
+                            place(rules, existing, entry);
+                        }
                         (false, None) | (true, Some(_)) => place(rules, existing, entry),
                         (false, Some(i)) => self.report_duplicate(&rules[i], rule, source),
                         (true, None) => self.report_nothing_to_override(rule, source),
@@ -354,6 +372,16 @@ impl<'a> Checker<'a> {
             .with_help("remove `override` to add a new rule, or check the section number"),
         );
     }
+}
+
+/// Whether two versions of a rule say the same thing (the origin aside).
+fn same_rule(a: &ClassRule, b: &ClassRule) -> bool {
+    let (x, y) = (&a.rule, &b.rule);
+    a.requirement == b.requirement
+        && a.condition_texts == b.condition_texts
+        && x.title == y.title
+        && x.penalty == y.penalty
+        && x.note == y.note
 }
 
 /// Replaces the rule at `at`, or appends a new one.

@@ -15,6 +15,7 @@ pub use constants::quantity_si;
 pub mod interval;
 pub mod model;
 mod patterns;
+mod ranges;
 mod symbols;
 mod types;
 mod usage;
@@ -34,10 +35,12 @@ pub fn check(files: &RulebookFiles) -> (Option<CheckedRulebook>, Vec<Problem>) {
     checker.resolve_measurements();
     checker.type_defines();
     checker.compile_lists();
+    checker.check_approved_against_banned();
     checker.check_class_graph();
     checker.check_rules();
     let classes = checker.flatten_all();
     checker.check_bounds(&classes);
+    checker.check_ranges(&classes);
     checker.report_unused();
     let problems = dedupe(std::mem::take(&mut checker.problems));
     if problems.iter().any(|p| p.level == Level::Error) {

@@ -55,6 +55,52 @@ impl<'a> Checker<'a> {
         }
     }
 
+    /// Warns about each pattern of an approved list that also matches an entry of a banned list:
+    /// the rulebook would approve and ban the same part.
+    pub(super) fn check_approved_against_banned(&mut self) {
+        let banned: Vec<(&str, String, crate::source::Span)> = self
+            .lists
+            .values()
+            .filter(|l| l.kind == crate::parse::ast::ListKind::Banned)
+            .flat_map(|l| {
+                l.entries.iter().filter_map(move |e| match e {
+                    ListEntry::Exact(t) => Some((l.name.text.as_str(), t.value.clone(), t.span)),
+                    ListEntry::Pattern(_) => None,
+                })
+            })
+            .collect();
+        let mut found = Vec::new();
+        for list in self
+            .lists
+            .values()
+            .filter(|l| l.kind == crate::parse::ast::ListKind::Approved)
+        {
+            for entry in &list.entries {
+                let ListEntry::Pattern(pattern) = entry else {
+                    continue;
+                };
+                let compiled = RegexBuilder::new(&pattern.source)
+                    .case_insensitive(pattern.ignore_case)
+                    .size_limit(PATTERN_SIZE_LIMIT)
+                    .build();
+                let Ok(re) = compiled else { continue }; // reported where the list is compiled
+                for (banned_list, id, span) in banned.iter().filter(|(_, id, _)| re.is_match(id)) {
+                    found.push(
+                        Problem::warning(
+                            "gonogo::check::approved-and-banned",
+                            format!("this pattern of approved list `{}` also matches `{id}`, which banned list `{banned_list}` bans", list.name.text),
+                            pattern.span,
+                            "matches a banned part",
+                        )
+                        .with_label(*span, "banned here")
+                        .with_help("narrow the pattern so it leaves out the banned part"),
+                    );
+                }
+            }
+        }
+        self.problems.extend(found);
+    }
+
     /// Compiles one pattern, anchored as written, reporting why it cannot be.
     pub(super) fn compile_pattern(&mut self, pattern: &Pattern) -> Option<regex::Regex> {
         let built = RegexBuilder::new(&pattern.source)
