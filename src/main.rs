@@ -7,10 +7,11 @@ use std::process::ExitCode;
 use clap::{Parser, Subcommand};
 use gonogo::commands::check::{self, CheckFormat, CheckRequest, Role};
 use gonogo::commands::sheet::{self, SheetFormat};
-use gonogo::commands::{diff, explain, fmt, impact, lint};
+use gonogo::commands::{diff, explain, fmt, headroom, impact, lint};
 use gonogo::diagnostic::RenderStyle;
 use gonogo::exit::Exit;
 use gonogo::report::diff::DiffFormat;
+use gonogo::report::headroom::HeadroomFormat;
 use gonogo::report::impact::ImpactFormat;
 
 /// Stack for the worker thread: deep but bounded syntax trees are walked recursively.
@@ -94,6 +95,28 @@ enum Command {
         /// Output format.
         #[arg(long, value_enum, default_value_t = ImpactFormat::Text)]
         format: ImpactFormat,
+    },
+    /// For a builder: the margin on each numeric rule, and how far each input may move before
+    /// the limit is reached.
+    #[command(
+        after_help = "Examples:\n  gonogo headroom --rules rulebooks-demo/tamsin-2027.rules engines-demo/limited2-close-bore.yaml\n  gonogo headroom --rules season.rules --format json car14.yaml"
+    )]
+    Headroom {
+        /// The rulebook.
+        #[arg(long)]
+        rules: PathBuf,
+        /// Use this class instead of the one each declaration names.
+        #[arg(long)]
+        class: Option<String>,
+        /// Whose decision rule to apply (it changes the findings shown, not the moves).
+        #[arg(long = "as", value_enum)]
+        role: Option<Role>,
+        /// Output format.
+        #[arg(long, value_enum, default_value_t = HeadroomFormat::Text)]
+        format: HeadroomFormat,
+        /// Engine declarations, or folders of them.
+        #[arg(required = true)]
+        declarations: Vec<PathBuf>,
     },
     /// One rule in plain words: what it requires, what is measured, when it applies, where it
     /// is written and how the class came to have it.
@@ -219,6 +242,31 @@ fn run(cli: Cli) -> Exit {
                 &new,
                 &declarations,
                 role,
+                format,
+                style_for(std::io::stderr().is_terminal()),
+            ) {
+                Ok(text) => {
+                    write_out(&text);
+                    Exit::Clean
+                }
+                Err(diagnostics) => {
+                    eprint!("{diagnostics}");
+                    Exit::BadInput
+                }
+            }
+        }
+        Command::Headroom {
+            rules,
+            class,
+            role,
+            format,
+            declarations,
+        } => {
+            match headroom::run(
+                &rules,
+                class.as_deref(),
+                role,
+                &declarations,
                 format,
                 style_for(std::io::stderr().is_terminal()),
             ) {

@@ -5,6 +5,7 @@ pub mod check;
 pub mod diff;
 pub mod explain;
 pub mod fmt;
+pub mod headroom;
 pub mod impact;
 pub mod lint;
 pub mod sheet;

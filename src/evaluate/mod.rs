@@ -6,6 +6,7 @@ pub mod dual;
 pub mod expr;
 pub mod finding;
 pub mod formulas;
+pub mod headroom;
 pub mod outcome;
 mod rule;
 pub mod value;

@@ -27,6 +27,8 @@ pub enum Applies {
 pub struct Numeric {
     /// The measured or derived value tested (at the deciding cylinder).
     pub value: f64,
+    /// The margin's sensitivity coefficients ∂margin/∂input, SI units.
+    pub sensitivities: Vec<(InputId, f64)>,
     /// The limit in force, allowance included; for `between`, the nearer limit.
     pub limit: f64,
     /// Distance inside the limit (negative outside).

@@ -277,14 +277,15 @@ impl<'a> Evaluator<'a> {
                 .get(i)
                 .or(s.numbers().first())
                 .map_or(f64::NAN, |d| d.value);
-            let (limit, margin, u) = if low_value < high_value {
-                (value - low_value, low_value, ul)
+            let (limit, margin, u, near) = if low_value < high_value {
+                (value - low_value, low_value, ul, ml)
             } else {
-                (value + high_value, high_value, uh)
+                (value + high_value, high_value, uh, mh)
             };
             let range = (value - low_value, value + high_value);
             let numeric = Numeric {
                 value,
+                sensitivities: near.partials.clone(),
                 limit,
                 margin,
                 expanded: COVERAGE * u,
@@ -351,6 +352,7 @@ impl<'a> Evaluator<'a> {
         let f = finding(margin, COVERAGE * u, strict);
         let n = Numeric {
             value,
+            sensitivities: m.partials.clone(),
             limit,
             margin,
             expanded: COVERAGE * u,

@@ -3,6 +3,7 @@
 pub mod diff;
 pub mod explain;
 pub mod format;
+pub mod headroom;
 pub mod impact;
 pub mod json;
 pub mod sheet;
