@@ -4,7 +4,7 @@ use std::io::{IsTerminal, Write};
 use std::path::PathBuf;
 use std::process::ExitCode;
 
-use clap::{Parser, Subcommand};
+use clap::{CommandFactory, Parser, Subcommand};
 use gonogo::commands::check::{self, CheckFormat, CheckRequest, Role};
 use gonogo::commands::sheet::{self, SheetFormat};
 use gonogo::commands::{diff, explain, fmt, headroom, impact, lint};
@@ -21,6 +21,10 @@ const STACK_BYTES: usize = 256 * 1024 * 1024;
 #[derive(Parser)]
 #[command(name = "gonogo", version, about, long_about = None)]
 struct Cli {
+    /// Write the output to this file instead of standard output. The file is written beside
+    /// its final place and renamed into it, so it is never left half-written.
+    #[arg(long, global = true, value_name = "FILE")]
+    output: Option<PathBuf>,
     #[command(subcommand)]
     command: Command,
 }
@@ -148,6 +152,15 @@ enum Command {
         #[arg(long, value_enum, default_value_t = SheetFormat::Markdown)]
         format: SheetFormat,
     },
+    /// Print a shell completion script (bash, zsh, fish, elvish or powershell).
+    #[command(after_help = "Example:\n  gonogo completions bash > /etc/bash_completion.d/gonogo")]
+    Completions {
+        /// The shell.
+        shell: clap_complete::Shell,
+    },
+    /// Print the manual page (roff), made from these same definitions.
+    #[command(after_help = "Example:\n  gonogo man > gonogo.1 && man ./gonogo.1")]
+    Man,
     /// Print a rulebook in canonical form (comments are not kept).
     #[command(after_help = "Example:\n  gonogo fmt rulebooks-demo/lakeshore-2027.rules")]
     Fmt {
@@ -176,6 +189,7 @@ fn style_for(stream_is_terminal: bool) -> RenderStyle {
 }
 
 fn run(cli: Cli) -> Exit {
+    let output = cli.output;
     match cli.command {
         Command::Check {
             rules,
@@ -192,10 +206,7 @@ fn run(cli: Cli) -> Exit {
                 declarations: &declarations,
             };
             match check::run(&request, style_for(std::io::stderr().is_terminal())) {
-                Ok((out, exit)) => {
-                    write_out(&out);
-                    exit
-                }
+                Ok((out, exit)) => write_out(&out, output.as_deref(), exit),
                 Err(diagnostics) => {
                     eprint!("{diagnostics}");
                     Exit::BadInput
@@ -204,8 +215,7 @@ fn run(cli: Cli) -> Exit {
         }
         Command::Lint { files, format } => {
             let (out, exit) = lint::run(&files, format, style_for(std::io::stdout().is_terminal()));
-            write_out(&out);
-            exit
+            write_out(&out, output.as_deref(), exit)
         }
         Command::Diff {
             old,
@@ -220,10 +230,7 @@ fn run(cli: Cli) -> Exit {
                 format,
                 style_for(std::io::stderr().is_terminal()),
             ) {
-                Ok(text) => {
-                    write_out(&text);
-                    Exit::Clean
-                }
+                Ok(text) => write_out(&text, output.as_deref(), Exit::Clean),
                 Err(diagnostics) => {
                     eprint!("{diagnostics}");
                     Exit::BadInput
@@ -245,10 +252,7 @@ fn run(cli: Cli) -> Exit {
                 format,
                 style_for(std::io::stderr().is_terminal()),
             ) {
-                Ok(text) => {
-                    write_out(&text);
-                    Exit::Clean
-                }
+                Ok(text) => write_out(&text, output.as_deref(), Exit::Clean),
                 Err(diagnostics) => {
                     eprint!("{diagnostics}");
                     Exit::BadInput
@@ -270,10 +274,7 @@ fn run(cli: Cli) -> Exit {
                 format,
                 style_for(std::io::stderr().is_terminal()),
             ) {
-                Ok(text) => {
-                    write_out(&text);
-                    Exit::Clean
-                }
+                Ok(text) => write_out(&text, output.as_deref(), Exit::Clean),
                 Err(diagnostics) => {
                     eprint!("{diagnostics}");
                     Exit::BadInput
@@ -291,10 +292,7 @@ fn run(cli: Cli) -> Exit {
                 &section,
                 style_for(std::io::stderr().is_terminal()),
             ) {
-                Ok(text) => {
-                    write_out(&text);
-                    Exit::Clean
-                }
+                Ok(text) => write_out(&text, output.as_deref(), Exit::Clean),
                 Err(diagnostics) => {
                     eprint!("{diagnostics}");
                     Exit::BadInput
@@ -311,21 +309,38 @@ fn run(cli: Cli) -> Exit {
             format,
             style_for(std::io::stderr().is_terminal()),
         ) {
-            Ok(text) => {
-                write_out(&text);
-                Exit::Clean
-            }
+            Ok(text) => write_out(&text, output.as_deref(), Exit::Clean),
             Err(diagnostics) => {
                 eprint!("{diagnostics}");
                 Exit::BadInput
             }
         },
+        Command::Completions { shell } => {
+            let mut script = Vec::new();
+            clap_complete::generate(shell, &mut Cli::command(), "gonogo", &mut script);
+            write_out(
+                &String::from_utf8_lossy(&script),
+                output.as_deref(),
+                Exit::Clean,
+            )
+        }
+        Command::Man => {
+            let mut page = Vec::new();
+            match clap_mangen::Man::new(Cli::command()).render(&mut page) {
+                Ok(()) => write_out(
+                    &String::from_utf8_lossy(&page),
+                    output.as_deref(),
+                    Exit::Clean,
+                ),
+                Err(e) => {
+                    eprintln!("gonogo: cannot make the manual page: {e}");
+                    Exit::BadInput
+                }
+            }
+        }
         Command::Fmt { file } => {
             match fmt::run(&file, style_for(std::io::stderr().is_terminal())) {
-                Ok(text) => {
-                    write_out(&text);
-                    Exit::Clean
-                }
+                Ok(text) => write_out(&text, output.as_deref(), Exit::Clean),
                 Err((diagnostics, exit)) => {
                     eprint!("{diagnostics}");
                     exit
@@ -335,8 +350,37 @@ fn run(cli: Cli) -> Exit {
     }
 }
 
-fn write_out(text: &str) {
-    let mut stdout = std::io::stdout().lock();
-    let _ = stdout.write_all(text.as_bytes());
-    let _ = stdout.flush();
+/// Writes the output, to standard output or atomically to `--output`; a failed write is exit 2.
+fn write_out(text: &str, output: Option<&std::path::Path>, exit: Exit) -> Exit {
+    let Some(path) = output else {
+        let mut stdout = std::io::stdout().lock();
+        let _ = stdout.write_all(text.as_bytes());
+        let _ = stdout.flush();
+        return exit;
+    };
+    match write_atomically(path, text) {
+        Ok(()) => exit,
+        Err(e) => {
+            eprintln!("gonogo: cannot write `{}`: {e}", path.display());
+            Exit::BadInput
+        }
+    }
+}
+
+/// Writes `text` to a temporary file in the same folder, then renames it over `path`.
+fn write_atomically(path: &std::path::Path, text: &str) -> std::io::Result<()> {
+    let folder = path
+        .parent()
+        .filter(|p| !p.as_os_str().is_empty())
+        .unwrap_or(std::path::Path::new("."));
+    let name = path
+        .file_name()
+        .map(|n| n.to_string_lossy().into_owned())
+        .unwrap_or_default();
+    let temporary = folder.join(format!(".{name}.{}.partial", std::process::id()));
+    let written = std::fs::write(&temporary, text).and_then(|()| std::fs::rename(&temporary, path));
+    if written.is_err() {
+        let _ = std::fs::remove_file(&temporary);
+    }
+    written
 }

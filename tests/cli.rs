@@ -389,3 +389,70 @@ fn check_reads_a_folder_recursively_and_refuses_an_empty_one() {
         empty.stderr
     );
 }
+
+#[test]
+fn output_goes_to_the_file_whole_and_nothing_is_left_beside_it() {
+    let dir = std::env::temp_dir().join(format!("gonogo-{}-out", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap_or_else(|e| panic!("{e}"));
+    let target = dir.join("report.json");
+    let run = gonogo(&[
+        "check",
+        "--rules",
+        RULES,
+        "--format",
+        "json",
+        "--output",
+        target.to_str().unwrap_or_default(),
+        "engines-demo/limited2-legal.yaml",
+    ]);
+    assert_eq!(run.code, 0, "{}", run.stderr);
+    assert!(
+        run.stdout.is_empty(),
+        "the report went to standard output too"
+    );
+    let text = std::fs::read_to_string(&target).unwrap_or_default();
+    let doc: serde_json::Value = serde_json::from_str(&text).unwrap_or_else(|e| panic!("{e}"));
+    assert_eq!(doc["schema"], "gonogo.check/1");
+    let left: Vec<_> = std::fs::read_dir(&dir)
+        .map(|d| d.flatten().map(|e| e.file_name()).collect())
+        .unwrap_or_default();
+    let _ = std::fs::remove_dir_all(&dir);
+    assert_eq!(
+        left.len(),
+        1,
+        "temporary files left beside the output: {left:?}"
+    );
+}
+
+#[test]
+fn bad_input_writes_no_output_file() {
+    let target = std::env::temp_dir().join(format!("gonogo-{}-never.json", std::process::id()));
+    let run = gonogo(&[
+        "check",
+        "--rules",
+        RULES,
+        "--output",
+        target.to_str().unwrap_or_default(),
+        "tests/bad-declarations/wrong-dimension.yaml",
+    ]);
+    assert_eq!(run.code, 2);
+    assert!(!target.exists(), "a report was written for bad input");
+}
+
+#[test]
+fn completions_and_the_manual_page_come_from_the_command_definitions() {
+    let bash = gonogo(&["completions", "bash"]);
+    assert_eq!(bash.code, 0);
+    assert!(
+        bash.stdout.contains("headroom") && bash.stdout.contains("impact"),
+        "subcommands missing from the completions"
+    );
+    let man = gonogo(&["man"]);
+    assert_eq!(man.code, 0);
+    assert!(
+        man.stdout.starts_with(".ie"),
+        "not a roff page: {}",
+        &man.stdout[..man.stdout.len().min(80)]
+    );
+    assert!(man.stdout.contains("gonogo"));
+}
