@@ -24,6 +24,12 @@ fn every_demo_class_has_both_sheets() {
             sheet_of(class, SheetFormat::Markdown)
         );
         insta::assert_snapshot!(format!("yaml_{class}"), sheet_of(class, SheetFormat::Yaml));
+        let html = sheet_of(class, SheetFormat::Html);
+        assert!(
+            !html.contains("http") && !html.contains("src="),
+            "{class}: the HTML sheet refers outside itself"
+        );
+        insta::assert_snapshot!(format!("html_{class}"), html);
     }
 }
 

@@ -44,6 +44,10 @@ pub enum CheckFormat {
     Text,
     /// One JSON document (schema `gonogo.check/1`).
     Json,
+    /// A self-contained, printable tech sheet.
+    Html,
+    /// The tech sheet's content in Markdown.
+    Markdown,
 }
 
 /// What `check` was asked to do.
@@ -93,6 +97,8 @@ pub fn run(request: &CheckRequest, style: RenderStyle) -> Result<(String, Exit),
         .fold(Exit::Clean, worse);
     let out = match request.format {
         CheckFormat::Json => json::document(&reports),
+        CheckFormat::Html => crate::report::html::page(&reports),
+        CheckFormat::Markdown => crate::report::markdown::document(&reports),
         CheckFormat::Text => {
             let mut out: Vec<String> = reports.iter().map(text::engine).collect();
             if reports.len() > 1 {

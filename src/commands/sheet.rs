@@ -13,6 +13,8 @@ pub enum SheetFormat {
     Markdown,
     /// A declaration template to fill in.
     Yaml,
+    /// A printable sheet as a self-contained HTML page.
+    Html,
 }
 
 /// The sheet, or the diagnostics that prevent it.
@@ -38,5 +40,6 @@ pub fn run(
     Ok(match format {
         SheetFormat::Markdown => sheet::markdown(&rulebook, found),
         SheetFormat::Yaml => sheet::yaml(&rulebook, found),
+        SheetFormat::Html => sheet::html(&rulebook, found),
     })
 }

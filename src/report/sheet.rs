@@ -127,6 +127,56 @@ pub fn markdown(rulebook: &CheckedRulebook, class: &Class) -> String {
     out
 }
 
+/// The printable sheet as a self-contained HTML page (no external file), for the browser's
+/// print dialogue.
+pub fn html(rulebook: &CheckedRulebook, class: &Class) -> String {
+    use super::html::escape;
+    let mut out =
+        String::from("<!doctype html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n");
+    let _ = writeln!(
+        out,
+        "<title>Measurement sheet — {}</title>",
+        escape(&title(rulebook, class))
+    );
+    out.push_str("<style>body{font-family:system-ui,sans-serif;font-size:10pt;margin:1.5em}table{border-collapse:collapse;width:100%}td,th{border:1px solid #444;padding:.25em .4em;vertical-align:top;text-align:left}.box{display:inline-block;min-width:5em;border-bottom:1px solid #111;margin:0 .6em .2em 0}.sig{margin-top:2.5em;display:flex;gap:3em}.sig div{flex:1;border-top:1px solid #111;padding-top:.3em}@page{margin:12mm}@media print{body{margin:0}}</style>\n</head>\n<body>\n");
+    let _ = writeln!(
+        out,
+        "<h1>Measurement sheet: {}</h1>",
+        escape(&title(rulebook, class))
+    );
+    out.push_str("<p>Engine <span class=\"box\"></span> Car <span class=\"box\"></span> Event <span class=\"box\"></span> Date <span class=\"box\"></span></p>\n");
+    out.push_str("<table>\n<tr><th>measurement</th><th>unit</th><th>procedure</th><th>value</th><th>instrument</th><th>feeds rules</th></tr>\n");
+    let boxes = cylinder_boxes(rulebook);
+    for line in lines(rulebook, class) {
+        let m = line.measurement;
+        let value = if m.per_cylinder {
+            (1..=boxes)
+                .map(|c| format!("{c} <span class=\"box\"></span>"))
+                .collect::<Vec<_>>()
+                .join(" ")
+        } else {
+            "<span class=\"box\"></span>".to_string()
+        };
+        let optional = if m.required { "" } else { " (optional)" };
+        let _ = writeln!(
+            out,
+            "<tr><td><code>{}</code>{optional}</td><td>{}</td><td>{}</td><td>{value}</td><td></td><td>{}</td></tr>",
+            escape(&m.name),
+            escape(unit_of(m)),
+            escape(m.procedure.as_deref().unwrap_or("")),
+            escape(&line.feeds.join(", "))
+        );
+    }
+    out.push_str("</table>\n");
+    let _ = writeln!(
+        out,
+        "<p>Decision rule: {}.</p>",
+        escape(rulebook.decision.words())
+    );
+    out.push_str("<div class=\"sig\"><div>Inspector — name, signature, time</div><div>Competitor — name, signature, time</div></div>\n</body>\n</html>\n");
+    out
+}
+
 /// A declaration template: every key the class needs, every value empty. Checked as it is,
 /// it gives "not checked" for every rule that needs a measurement.
 pub fn yaml(rulebook: &CheckedRulebook, class: &Class) -> String {

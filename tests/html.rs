@@ -1,0 +1,156 @@
+//! The printable tech sheet (`check --format html`): self-contained for every demo engine,
+//! snapshotted for one, and rendered by headless Chromium into a page that is not blank.
+//! Chromium is Debian's `chromium` package, which `.ci/run` installs when it is missing; where
+//! it cannot be had, the browser test says so and is skipped.
+
+use std::path::{Path, PathBuf};
+use std::process::Command;
+
+use gonogo::commands::check::{self, CheckFormat, CheckRequest};
+use gonogo::diagnostic::RenderStyle;
+
+mod common;
+
+const RULES: &str = "rulebooks-demo/tamsin-2027.rules";
+
+fn sheet(declaration: &Path) -> String {
+    let declarations = [declaration
+        .strip_prefix(env!("CARGO_MANIFEST_DIR"))
+        .unwrap_or(declaration)
+        .to_path_buf()];
+    let request = CheckRequest {
+        rules: Path::new(RULES),
+        class: None,
+        role: None,
+        format: CheckFormat::Html,
+        declarations: &declarations,
+    };
+    check::run(&request, RenderStyle::PLAIN)
+        .map(|(html, _)| html)
+        .unwrap_or_else(|e| panic!("{e}"))
+}
+
+#[test]
+fn every_tech_sheet_stands_alone() {
+    for path in common::files_under("engines-demo", ".yaml") {
+        let html = sheet(&path);
+        assert!(html.starts_with("<!doctype html>"), "{}", path.display());
+        assert!(
+            !html.contains("http"),
+            "{}: refers to the network",
+            path.display()
+        );
+        assert!(
+            !html.contains("src="),
+            "{}: loads an outside file",
+            path.display()
+        );
+        assert!(
+            html.contains("Inspector — name, signature, time"),
+            "{}: no signature lines",
+            path.display()
+        );
+    }
+}
+
+#[test]
+fn the_close_bore_tech_sheet() {
+    let html = sheet(Path::new("engines-demo/limited2-close-bore.yaml"));
+    assert!(
+        html.matches("<svg class=\"scale\"").count() >= 10,
+        "a scale for every numeric limit"
+    );
+    insta::assert_snapshot!(html);
+}
+
+#[test]
+fn the_close_bore_markdown_report() {
+    let declarations = [PathBuf::from("engines-demo/limited2-close-bore.yaml")];
+    let request = CheckRequest {
+        rules: Path::new(RULES),
+        class: None,
+        role: None,
+        format: CheckFormat::Markdown,
+        declarations: &declarations,
+    };
+    let (markdown, _) = check::run(&request, RenderStyle::PLAIN).unwrap_or_else(|e| panic!("{e}"));
+    assert!(
+        markdown.contains("## ~ 3.2 Bore, every cylinder — LEGAL · conditional pass"),
+        "{markdown}"
+    );
+    insta::assert_snapshot!(markdown);
+}
+
+fn chromium() -> Option<PathBuf> {
+    ["/usr/bin/chromium", "/usr/bin/chromium-browser"]
+        .iter()
+        .map(PathBuf::from)
+        .find(|p| p.exists())
+}
+
+#[test]
+fn the_tech_sheet_renders_in_headless_chromium() {
+    let Some(browser) = chromium() else {
+        println!(
+            "skipped: Chromium is not installed here (Debian package `chromium`; .ci/run installs it)"
+        );
+        return;
+    };
+    let dir = std::env::temp_dir().join(format!("gonogo-{}-browser", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap_or_else(|e| panic!("{e}"));
+    let page = dir.join("sheet.html");
+    std::fs::write(
+        &page,
+        sheet(Path::new("engines-demo/limited2-close-bore.yaml")),
+    )
+    .unwrap_or_else(|e| panic!("{e}"));
+    let png = dir.join("sheet.png");
+    let status = Command::new(browser)
+        .args([
+            "--headless",
+            "--no-sandbox",
+            "--disable-gpu",
+            "--disable-quic",
+            "--no-first-run",
+            "--disable-background-networking",
+            "--disable-component-update",
+            "--disable-sync",
+        ])
+        .arg(format!("--user-data-dir={}", dir.join("profile").display()))
+        .args(["--window-size=1000,1400"])
+        .arg(format!("--screenshot={}", png.display()))
+        .arg(format!("file://{}", page.display()))
+        .output()
+        .unwrap_or_else(|e| panic!("cannot start Chromium: {e}"));
+    assert!(
+        png.exists(),
+        "Chromium wrote no screenshot: {}",
+        String::from_utf8_lossy(&status.stderr)
+    );
+    let decoder = png::Decoder::new(std::io::BufReader::new(
+        std::fs::File::open(&png).unwrap_or_else(|e| panic!("{e}")),
+    ));
+    let mut reader = decoder.read_info().unwrap_or_else(|e| panic!("{e}"));
+    let mut pixels = vec![0; reader.output_buffer_size().unwrap_or(0)];
+    let info = reader
+        .next_frame(&mut pixels)
+        .unwrap_or_else(|e| panic!("{e}"));
+    let _ = std::fs::remove_dir_all(&dir);
+    let bytes = &pixels[..info.buffer_size()];
+    let dark = bytes
+        .chunks(info.color_type.samples())
+        .filter(|p| p.iter().take(3).any(|c| *c < 128))
+        .count();
+    let total = bytes.len() / info.color_type.samples();
+    // text, rules and scales darken a few percent of a page; a blank page darkens none
+    assert!(
+        dark * 200 > total,
+        "the rendered page is blank: {dark} dark pixels of {total}"
+    );
+    // the blue of the value markers is there: the SVG scales were drawn
+    let blue = bytes
+        .chunks(info.color_type.samples())
+        .filter(|p| p.len() >= 3 && p[2] > 120 && p[0] < 80 && p[1] < 120)
+        .count();
+    assert!(blue > 50, "no value marker drawn ({blue} blue pixels)");
+}
