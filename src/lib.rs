@@ -13,6 +13,7 @@ pub mod evaluate;
 pub mod exit;
 pub mod impact;
 pub mod load;
+pub mod parallel;
 pub mod parse;
 pub mod report;
 pub mod source;

@@ -49,6 +49,9 @@ enum Command {
         /// Output format.
         #[arg(long, value_enum, default_value_t = CheckFormat::Text)]
         format: CheckFormat,
+        /// Threads for a field of declarations (every core by default).
+        #[arg(long)]
+        jobs: Option<usize>,
         /// Engine declarations (YAML), or folders of them (searched recursively).
         #[arg(required = true)]
         declarations: Vec<PathBuf>,
@@ -196,6 +199,7 @@ fn run(cli: Cli) -> Exit {
             class,
             role,
             format,
+            jobs,
             declarations,
         } => {
             let request = CheckRequest {
@@ -204,6 +208,7 @@ fn run(cli: Cli) -> Exit {
                 role,
                 format,
                 declarations: &declarations,
+                jobs,
             };
             match check::run(&request, style_for(std::io::stderr().is_terminal())) {
                 Ok((out, exit)) => write_out(&out, output.as_deref(), exit),

@@ -29,6 +29,7 @@ fn run(
         role,
         format,
         declarations: &declarations,
+        jobs: None,
     };
     check::run(&request, RenderStyle::PLAIN)
 }

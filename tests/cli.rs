@@ -456,3 +456,34 @@ fn completions_and_the_manual_page_come_from_the_command_definitions() {
     );
     assert!(man.stdout.contains("gonogo"));
 }
+
+#[test]
+fn two_threads_give_the_same_report_as_one() {
+    // three copies of the demo field: enough declarations for the work to be split
+    let dir = std::env::temp_dir().join(format!("gonogo-{}-threads", std::process::id()));
+    for copy in 0..3 {
+        let sub = dir.join(format!("copy{copy}"));
+        std::fs::create_dir_all(&sub).unwrap_or_else(|e| panic!("{e}"));
+        for entry in std::fs::read_dir(concat!(env!("CARGO_MANIFEST_DIR"), "/engines-demo"))
+            .into_iter()
+            .flatten()
+            .flatten()
+        {
+            let _ = std::fs::copy(entry.path(), sub.join(entry.file_name()));
+        }
+    }
+    let folder = dir.to_str().unwrap_or_default();
+    let one = gonogo(&["check", "--rules", RULES, "--jobs", "1", folder]);
+    let two = gonogo(&["check", "--rules", RULES, "--jobs", "2", folder]);
+    let _ = std::fs::remove_dir_all(&dir);
+    assert_eq!(one.code, two.code);
+    assert!(
+        one.stdout.contains("57 engines"),
+        "{}",
+        &one.stdout[one.stdout.len().saturating_sub(200)..]
+    );
+    assert!(
+        one.stdout == two.stdout,
+        "the reports differ between one and two threads"
+    );
+}

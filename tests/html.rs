@@ -24,6 +24,7 @@ fn sheet(declaration: &Path) -> String {
         role: None,
         format: CheckFormat::Html,
         declarations: &declarations,
+        jobs: None,
     };
     check::run(&request, RenderStyle::PLAIN)
         .map(|(html, _)| html)
@@ -72,6 +73,7 @@ fn the_close_bore_markdown_report() {
         role: None,
         format: CheckFormat::Markdown,
         declarations: &declarations,
+        jobs: None,
     };
     let (markdown, _) = check::run(&request, RenderStyle::PLAIN).unwrap_or_else(|e| panic!("{e}"));
     assert!(

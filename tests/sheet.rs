@@ -48,6 +48,7 @@ fn an_unfilled_template_checks_to_not_checked() {
             role: None,
             format: CheckFormat::Json,
             declarations: &declarations,
+            jobs: None,
         };
         let result = check::run(&request, RenderStyle::PLAIN);
         let _ = std::fs::remove_file(&path);

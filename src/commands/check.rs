@@ -11,6 +11,7 @@ use crate::evaluate::check_engine;
 use crate::evaluate::outcome::EngineReport;
 use crate::exit::Exit;
 use crate::load::{Declaration, load_declaration};
+use crate::parallel;
 use crate::parse::ast::DecisionRule;
 use crate::report::{json, text};
 use crate::source::SourceMap;
@@ -62,6 +63,8 @@ pub struct CheckRequest<'a> {
     pub format: CheckFormat,
     /// The declarations.
     pub declarations: &'a [PathBuf],
+    /// Threads to use; every core when `None`.
+    pub jobs: Option<usize>,
 }
 
 /// Runs `check`: the report on success, or diagnostics; with the exit status.
@@ -70,27 +73,32 @@ pub fn run(request: &CheckRequest, style: RenderStyle) -> Result<(String, Exit),
     let Some(rulebook) = loaded.checked else {
         return Err(render_all(&loaded.problems, &loaded.sources, style));
     };
-    let mut sources = SourceMap::default();
-    let mut engines = Vec::new();
-    let mut problems = Vec::new();
-    let paths =
-        declaration_files(request.declarations).map_err(|p| render_all(&[p], &sources, style))?;
-    for path in &paths {
-        match load_with_class(path, &rulebook, request.class, &mut sources) {
-            Ok(engine) => engines.push(engine),
-            Err(p) => problems.push(p),
-        }
+    let paths = declaration_files(request.declarations)
+        .map_err(|p| render_all(&[p], &SourceMap::default(), style))?;
+    let threads = parallel::threads(request.jobs);
+    let progress = Progress::new(paths.len());
+    let loaded: Vec<Result<(Declaration, usize), String>> =
+        parallel::map(&paths, threads, |path| {
+            let mut sources = SourceMap::default();
+            let engine = load_with_class(path, &rulebook, request.class, &mut sources)
+                .map_err(|p| render_all(&[p], &sources, style));
+            progress.advance();
+            engine
+        });
+    progress.finish();
+    let errors: Vec<&String> = loaded.iter().filter_map(|r| r.as_ref().err()).collect();
+    if !errors.is_empty() {
+        return Err(errors
+            .iter()
+            .map(|e| e.as_str())
+            .collect::<Vec<_>>()
+            .join("\n"));
     }
-    if !problems.is_empty() {
-        return Err(render_all(&problems, &sources, style));
-    }
+    let engines: Vec<(Declaration, usize)> = loaded.into_iter().filter_map(Result::ok).collect();
     let decision = request.role.map(Role::decision);
-    let reports: Vec<EngineReport> = engines
-        .iter()
-        .map(|(declaration, class)| {
-            check_engine(&rulebook, &rulebook.classes[*class], declaration, decision)
-        })
-        .collect();
+    let reports: Vec<EngineReport> = parallel::map(&engines, threads, |(declaration, class)| {
+        check_engine(&rulebook, &rulebook.classes[*class], declaration, decision)
+    });
     let exit = reports
         .iter()
         .map(EngineReport::exit)
@@ -100,7 +108,7 @@ pub fn run(request: &CheckRequest, style: RenderStyle) -> Result<(String, Exit),
         CheckFormat::Html => crate::report::html::page(&reports),
         CheckFormat::Markdown => crate::report::markdown::document(&reports),
         CheckFormat::Text => {
-            let mut out: Vec<String> = reports.iter().map(text::engine).collect();
+            let mut out: Vec<String> = parallel::map(&reports, threads, text::engine);
             if reports.len() > 1 {
                 out.push(text::field_summary(&reports));
             }
@@ -108,6 +116,35 @@ pub fn run(request: &CheckRequest, style: RenderStyle) -> Result<(String, Exit),
         }
     };
     Ok((out, exit))
+}
+
+/// A progress bar on standard error for long runs, only when standard error is a terminal
+/// (never in pipes or CI) and colour is not turned off.
+struct Progress(Option<indicatif::ProgressBar>);
+
+impl Progress {
+    /// Declarations from which a run counts as long.
+    const LONG_RUN: usize = 200;
+
+    fn new(total: usize) -> Progress {
+        use std::io::IsTerminal;
+        let show = total >= Self::LONG_RUN
+            && std::io::stderr().is_terminal()
+            && std::env::var_os("CI").is_none();
+        Progress(show.then(|| indicatif::ProgressBar::new(total as u64)))
+    }
+
+    fn advance(&self) {
+        if let Some(bar) = &self.0 {
+            bar.inc(1);
+        }
+    }
+
+    fn finish(&self) {
+        if let Some(bar) = &self.0 {
+            bar.finish_and_clear();
+        }
+    }
 }
 
 /// The declarations named: files as given, folders searched recursively for `.yaml` and
