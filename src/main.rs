@@ -227,99 +227,76 @@ fn run(cli: Cli) -> Exit {
             new,
             class,
             format,
-        } => {
-            match diff::run(
+        } => finish(
+            diff::run(
                 &old,
                 &new,
                 class.as_deref(),
                 format,
                 style_for(std::io::stderr().is_terminal()),
-            ) {
-                Ok(text) => write_out(&text, output.as_deref(), Exit::Clean),
-                Err(diagnostics) => {
-                    eprint!("{diagnostics}");
-                    Exit::BadInput
-                }
-            }
-        }
+            ),
+            output.as_deref(),
+        ),
         Command::Impact {
             old,
             new,
             declarations,
             role,
             format,
-        } => {
-            match impact::run(
+        } => finish(
+            impact::run(
                 &old,
                 &new,
                 &declarations,
                 role,
                 format,
                 style_for(std::io::stderr().is_terminal()),
-            ) {
-                Ok(text) => write_out(&text, output.as_deref(), Exit::Clean),
-                Err(diagnostics) => {
-                    eprint!("{diagnostics}");
-                    Exit::BadInput
-                }
-            }
-        }
+            ),
+            output.as_deref(),
+        ),
         Command::Headroom {
             rules,
             class,
             role,
             format,
             declarations,
-        } => {
-            match headroom::run(
+        } => finish(
+            headroom::run(
                 &rules,
                 class.as_deref(),
                 role,
                 &declarations,
                 format,
                 style_for(std::io::stderr().is_terminal()),
-            ) {
-                Ok(text) => write_out(&text, output.as_deref(), Exit::Clean),
-                Err(diagnostics) => {
-                    eprint!("{diagnostics}");
-                    Exit::BadInput
-                }
-            }
-        }
+            ),
+            output.as_deref(),
+        ),
         Command::Explain {
             rules,
             class,
             section,
-        } => {
-            match explain::run(
+        } => finish(
+            explain::run(
                 &rules,
                 class.as_deref(),
                 &section,
                 style_for(std::io::stderr().is_terminal()),
-            ) {
-                Ok(text) => write_out(&text, output.as_deref(), Exit::Clean),
-                Err(diagnostics) => {
-                    eprint!("{diagnostics}");
-                    Exit::BadInput
-                }
-            }
-        }
+            ),
+            output.as_deref(),
+        ),
         Command::Sheet {
             rules,
             class,
             format,
-        } => match sheet::run(
-            &rules,
-            &class,
-            format,
-            style_for(std::io::stderr().is_terminal()),
-        ) {
-            Ok(text) => write_out(&text, output.as_deref(), Exit::Clean),
-            Err(diagnostics) => {
-                eprint!("{diagnostics}");
-                Exit::BadInput
-            }
-        },
+        } => finish(
+            sheet::run(
+                &rules,
+                &class,
+                format,
+                style_for(std::io::stderr().is_terminal()),
+            ),
+            output.as_deref(),
+        ),
         Command::Completions { shell } => {
             let mut script = Vec::new();
             clap_complete::generate(shell, &mut Cli::command(), "gonogo", &mut script);
@@ -351,6 +328,17 @@ fn run(cli: Cli) -> Exit {
                     exit
                 }
             }
+        }
+    }
+}
+
+/// Writes a command's text, or prints its diagnostics and gives exit 2.
+fn finish(result: Result<String, String>, output: Option<&std::path::Path>) -> Exit {
+    match result {
+        Ok(text) => write_out(&text, output, Exit::Clean),
+        Err(diagnostics) => {
+            eprint!("{diagnostics}");
+            Exit::BadInput
         }
     }
 }

@@ -142,6 +142,18 @@ impl Outcome<'_> {
         self.rule.rule.note.as_ref().map(|n| n.value.as_str())
     }
 
+    /// The symbol reports print beside the verdict, so it never rests on colour alone:
+    /// ✓ legal, ~ legal but not certain, ✗ illegal, ? not checked, – not applicable.
+    pub fn mark(&self) -> &'static str {
+        match self.verdict {
+            Verdict::Legal if self.is_uncertain() => "~",
+            Verdict::Legal => "✓",
+            Verdict::Illegal => "✗",
+            Verdict::NotChecked => "?",
+            Verdict::NotApplicable => "–",
+        }
+    }
+
     /// True when the call is not certain: a conditional finding, an uncertain condition, or a
     /// rule not checked.
     pub fn is_uncertain(&self) -> bool {
@@ -204,6 +216,15 @@ impl EngineReport<'_> {
             crate::exit::Exit::Uncertain
         } else {
             crate::exit::Exit::Clean
+        }
+    }
+
+    /// The engine's result as a symbol and in words.
+    pub fn result(&self) -> (&'static str, &'static str) {
+        match self.exit() {
+            crate::exit::Exit::Illegal => ("✗", "ILLEGAL"),
+            crate::exit::Exit::Uncertain => ("~", "NO PROVEN VIOLATION, BUT NOT ALL CLEAR"),
+            _ => ("✓", "LEGAL"),
         }
     }
 

@@ -9,7 +9,6 @@ use std::fmt::Write;
 use super::format::{probability, quantity, uncertainty_in};
 use crate::evaluate::finding::Verdict;
 use crate::evaluate::outcome::{EngineReport, Numeric, Outcome, Trace};
-use crate::exit::Exit;
 
 /// HTML-escapes text.
 pub fn escape(text: &str) -> String {
@@ -116,11 +115,7 @@ fn engine(out: &mut String, r: &EngineReport) {
     }
     out.push_str("</table>\n");
     let [legal, illegal, unchecked, not_applicable] = r.counts();
-    let (mark, result) = match r.exit() {
-        Exit::Illegal => ("✗", "ILLEGAL"),
-        Exit::Uncertain => ("~", "NO PROVEN VIOLATION, BUT NOT ALL CLEAR"),
-        _ => ("✓", "LEGAL"),
-    };
+    let (mark, result) = r.result();
     let _ = writeln!(
         out,
         "<p class=\"summary\">{mark} {result} — {legal} legal, {illegal} illegal, {unchecked} not checked, {not_applicable} not applicable; {} conditional</p>",
@@ -133,13 +128,14 @@ fn engine(out: &mut String, r: &EngineReport) {
 }
 
 fn rule(out: &mut String, o: &Outcome, r: &EngineReport) {
-    let (class, mark) = match o.verdict {
-        Verdict::Legal if o.is_uncertain() => ("uncertain", "~"),
-        Verdict::Legal => ("legal", "✓"),
-        Verdict::Illegal => ("illegal", "✗"),
-        Verdict::NotChecked => ("uncertain", "?"),
-        Verdict::NotApplicable => ("na", "–"),
+    let class = match o.verdict {
+        Verdict::Legal if o.is_uncertain() => "uncertain",
+        Verdict::Legal => "legal",
+        Verdict::Illegal => "illegal",
+        Verdict::NotChecked => "uncertain",
+        Verdict::NotApplicable => "na",
     };
+    let mark = o.mark();
     let finding = o
         .checked
         .as_ref()

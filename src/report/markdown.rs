@@ -6,9 +6,7 @@ use std::fmt::Write;
 
 use super::format::{probability, quantity, uncertainty_in};
 use super::html::trace_line;
-use crate::evaluate::finding::Verdict;
 use crate::evaluate::outcome::{EngineReport, Outcome};
-use crate::exit::Exit;
 
 /// The report for one or more engines.
 pub fn document(reports: &[EngineReport]) -> String {
@@ -55,11 +53,8 @@ fn engine(r: &EngineReport) -> String {
         r.decision.words()
     );
     let [legal, illegal, unchecked, not_applicable] = r.counts();
-    let result = match r.exit() {
-        Exit::Illegal => "✗ ILLEGAL",
-        Exit::Uncertain => "~ NO PROVEN VIOLATION, BUT NOT ALL CLEAR",
-        _ => "✓ LEGAL",
-    };
+    let (mark, words) = r.result();
+    let result = format!("{mark} {words}");
     let _ = writeln!(
         out,
         "**{result}** — {legal} legal, {illegal} illegal, {unchecked} not checked, {not_applicable} not applicable; {} conditional\n",
@@ -74,13 +69,7 @@ fn engine(r: &EngineReport) -> String {
 }
 
 fn rule(out: &mut String, o: &Outcome, r: &EngineReport) {
-    let mark = match o.verdict {
-        Verdict::Legal if o.is_uncertain() => "~",
-        Verdict::Legal => "✓",
-        Verdict::Illegal => "✗",
-        Verdict::NotChecked => "?",
-        Verdict::NotApplicable => "–",
-    };
+    let mark = o.mark();
     let finding = o
         .checked
         .as_ref()

@@ -58,11 +58,7 @@ fn header(out: &mut String, r: &EngineReport) {
     let _ = writeln!(out, "rules in force: {}", in_force(r));
     let _ = writeln!(out, "declaration: {}", r.declaration.path.display());
     let [legal, illegal, unchecked, not_applicable] = r.counts();
-    let result = match r.exit() {
-        Exit::Illegal => "ILLEGAL",
-        Exit::Uncertain => "NO PROVEN VIOLATION, BUT NOT ALL CLEAR",
-        _ => "LEGAL",
-    };
+    let (_, result) = r.result();
     let _ = writeln!(
         out,
         "\nresult: {result} — {legal} legal, {illegal} illegal, {unchecked} not checked, {not_applicable} not applicable; {} conditional",
@@ -95,13 +91,7 @@ fn rule(out: &mut String, o: &Outcome, r: &EngineReport) {
         .as_ref()
         .map(|c| format!(" · {}", c.finding.words()))
         .unwrap_or_default();
-    let mark = match o.verdict {
-        Verdict::Legal if o.is_uncertain() => "~",
-        Verdict::Legal => "✓",
-        Verdict::Illegal => "✗",
-        Verdict::NotChecked => "?",
-        Verdict::NotApplicable => "–",
-    };
+    let mark = o.mark();
     let _ = writeln!(
         out,
         "{mark} {}  {} — {}{finding}",
