@@ -2,7 +2,7 @@
 
 use std::path::Path;
 
-use super::{load_rulebook, render_all};
+use super::{different_series, load_editions, render_all};
 use crate::compare::{Incomparable, compare};
 use crate::diagnostic::{Problem, RenderStyle};
 use crate::report::diff::{DiffFormat, render};
@@ -16,12 +16,7 @@ pub fn run(
     format: DiffFormat,
     style: RenderStyle,
 ) -> Result<String, String> {
-    let (a, b) = (load_rulebook(old), load_rulebook(new));
-    let (Some(old_book), Some(new_book)) = (&a.checked, &b.checked) else {
-        let mut out = render_all(&a.problems, &a.sources, style);
-        out.push_str(&render_all(&b.problems, &b.sources, style));
-        return Err(out);
-    };
+    let (old_book, new_book) = load_editions(old, new, style)?;
     if let Some(name) = class
         && old_book.class(name).is_none()
         && new_book.class(name).is_none()
@@ -33,15 +28,12 @@ pub fn run(
         .with_help("name a class of either edition, or leave out `--class`");
         return Err(render_all(&[problem], &SourceMap::default(), style));
     }
-    match compare(old_book, new_book, class) {
+    match compare(&old_book, &new_book, class) {
         Ok(diff) => Ok(render(&diff, format)),
-        Err(Incomparable::DifferentSeries(x, y)) => {
-            let problem = Problem::unlocated(
-                "gonogo::diff::different-series",
-                format!("these rulebooks belong to different series: `{x}` and `{y}`"),
-            )
-            .with_help("compare two editions of the same series");
-            Err(render_all(&[problem], &SourceMap::default(), style))
-        }
+        Err(Incomparable::DifferentSeries(x, y)) => Err(render_all(
+            &[different_series(&x, &y)],
+            &SourceMap::default(),
+            style,
+        )),
     }
 }

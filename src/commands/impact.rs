@@ -3,7 +3,7 @@
 use std::path::PathBuf;
 
 use super::check::{Role, declaration_files};
-use super::{load_rulebook, render_all};
+use super::{load_editions, render_all};
 use crate::check::model::CheckedRulebook;
 use crate::diagnostic::{Problem, RenderStyle};
 use crate::impact::{Engine, impact};
@@ -20,24 +20,9 @@ pub fn run(
     format: ImpactFormat,
     style: RenderStyle,
 ) -> Result<String, String> {
-    let (a, b) = (load_rulebook(old), load_rulebook(new));
-    let (Some(old_book), Some(new_book)) = (&a.checked, &b.checked) else {
-        let mut out = render_all(&a.problems, &a.sources, style);
-        out.push_str(&render_all(&b.problems, &b.sources, style));
-        return Err(out);
-    };
+    let (old_book, new_book) = load_editions(old, new, style)?;
+    let (old_book, new_book) = (&old_book, &new_book);
     let none = SourceMap::default();
-    if old_book.series != new_book.series {
-        let problem = Problem::unlocated(
-            "gonogo::diff::different-series",
-            format!(
-                "these rulebooks belong to different series: `{}` and `{}`",
-                old_book.series, new_book.series
-            ),
-        )
-        .with_help("compare two editions of the same series");
-        return Err(render_all(&[problem], &none, style));
-    }
     let files = declaration_files(named).map_err(|p| render_all(&[p], &none, style))?;
     let mut loaded: Vec<(Declaration, Declaration, String)> = Vec::new();
     let mut unreadable: Vec<(String, String)> = Vec::new();

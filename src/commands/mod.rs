@@ -55,3 +55,35 @@ pub fn render_all(problems: &[Problem], sources: &SourceMap, style: RenderStyle)
         .collect::<Vec<_>>()
         .join("\n")
 }
+
+/// Two editions of one series, both checked; or every problem of either, and a refusal when
+/// they belong to different series (nothing can then be compared).
+pub fn load_editions(
+    old: &std::path::Path,
+    new: &std::path::Path,
+    style: RenderStyle,
+) -> Result<(CheckedRulebook, CheckedRulebook), String> {
+    let (a, b) = (load_rulebook(old), load_rulebook(new));
+    let (Some(old_book), Some(new_book)) = (a.checked, b.checked) else {
+        let mut out = render_all(&a.problems, &a.sources, style);
+        out.push_str(&render_all(&b.problems, &b.sources, style));
+        return Err(out);
+    };
+    if old_book.series != new_book.series {
+        return Err(render_all(
+            &[different_series(&old_book.series, &new_book.series)],
+            &SourceMap::default(),
+            style,
+        ));
+    }
+    Ok((old_book, new_book))
+}
+
+/// The refusal to compare rulebooks of two series.
+pub fn different_series(a: &str, b: &str) -> Problem {
+    Problem::unlocated(
+        "gonogo::diff::different-series",
+        format!("these rulebooks belong to different series: `{a}` and `{b}`"),
+    )
+    .with_help("compare two editions of the same series")
+}

@@ -219,6 +219,20 @@ impl EngineReport<'_> {
         }
     }
 
+    /// `Series — edition 2027 — class limited2 “Limited Two-Barrel”`: every report's heading.
+    pub fn heading(&self) -> String {
+        let title = self
+            .class
+            .title
+            .as_ref()
+            .map(|t| format!(" “{t}”"))
+            .unwrap_or_default();
+        format!(
+            "{} — edition {} — class {}{title}",
+            self.rulebook.series, self.rulebook.edition, self.class.name
+        )
+    }
+
     /// The engine's result as a symbol and in words.
     pub fn result(&self) -> (&'static str, &'static str) {
         match self.exit() {

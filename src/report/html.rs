@@ -71,20 +71,7 @@ pub fn page(reports: &[EngineReport]) -> String {
 
 fn engine(out: &mut String, r: &EngineReport) {
     let id = &r.declaration.identity;
-    let title = r
-        .class
-        .title
-        .as_ref()
-        .map(|t| format!(" “{t}”"))
-        .unwrap_or_default();
-    let _ = writeln!(
-        out,
-        "<h1>{} — edition {} — class {}{}</h1>",
-        escape(&r.rulebook.series),
-        escape(&r.rulebook.edition),
-        escape(&r.class.name),
-        escape(&title)
-    );
+    let _ = writeln!(out, "<h1>{}</h1>", escape(&r.heading()));
     out.push_str("<table class=\"identity\">\n");
     let rows = [
         ("Engine", id.engine.clone()),

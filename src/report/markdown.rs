@@ -20,16 +20,11 @@ pub fn document(reports: &[EngineReport]) -> String {
 fn engine(r: &EngineReport) -> String {
     let mut out = String::new();
     let id = &r.declaration.identity;
-    let title = r
-        .class
-        .title
-        .as_ref()
-        .map(|t| format!(" “{t}”"))
-        .unwrap_or_default();
     let _ = writeln!(
         out,
-        "# {} — edition {} — class {}{title}\n",
-        r.rulebook.series, r.rulebook.edition, r.class.name
+        "# {}
+",
+        r.heading()
     );
     let _ = writeln!(
         out,

@@ -24,17 +24,7 @@ pub fn engine(report: &EngineReport) -> String {
 }
 
 fn header(out: &mut String, r: &EngineReport) {
-    let title = r
-        .class
-        .title
-        .as_ref()
-        .map(|t| format!(" \"{t}\""))
-        .unwrap_or_default();
-    let _ = writeln!(
-        out,
-        "{} — edition {} — class {}{title}",
-        r.rulebook.series, r.rulebook.edition, r.class.name
-    );
+    let _ = writeln!(out, "{}", r.heading());
     let id = &r.declaration.identity;
     let parts: Vec<String> = [
         id.engine.as_ref().map(|e| format!("engine {e}")),
