@@ -353,7 +353,7 @@ fn check_class_override_is_applied() {
         "engines-demo/limited2-legal.yaml",
     ]);
     assert!(
-        run.stdout.contains("class open4 \"Open Four-Barrel\""),
+        run.stdout.contains("class open4 “Open Four-Barrel”"),
         "{}",
         run.stdout
     );
