@@ -13,6 +13,7 @@ mod classes;
 mod constants;
 pub use constants::quantity_si;
 pub mod interval;
+pub mod limit;
 pub mod model;
 mod patterns;
 mod ranges;
