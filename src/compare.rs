@@ -4,11 +4,13 @@
 //! Formatting and order of the rulebook text are not changes: the comparison works on the
 //! checked rulebooks and their canonical texts.
 
+use crate::check::interval::{End, Interval};
+use crate::check::limit::SideKind;
 use crate::check::model::{CheckedRulebook, ClassRule, Measurement, PartEntry, ValueKind};
 use crate::evaluate::expr::Evaluator;
 use crate::evaluate::value::Value;
 use crate::load::Declaration;
-use crate::parse::ast::{CompareOp, Expr, ExprKind, TestKind};
+use crate::parse::ast::{Expr, ExprKind};
 use crate::units::{self, Unit};
 
 /// What happened to one rule.
@@ -290,8 +292,8 @@ fn compare_rule(
                         notes.push("limit".to_string());
                     }
                     limits = Some(Limits {
-                        old: a.values,
-                        new: b.values,
+                        old: a.values(),
+                        new: b.values(),
                         unit: a.unit.or(b.unit),
                     });
                 }
@@ -304,82 +306,47 @@ fn compare_rule(
     diff
 }
 
-/// Which way a limit points.
-#[derive(Clone, Copy, Debug, PartialEq, Eq)]
-enum Side {
-    /// An upper limit (`<=`, `<`).
-    Upper,
-    /// A lower limit (`>=`, `>`).
-    Lower,
-    /// A range (`between`).
-    Range,
-}
-
-/// A numeric limit on a subject, in SI units, allowance included.
+/// A numeric limit on a subject: the values it allows in SI units, allowance included.
 struct Bound {
     subject: String,
-    side: Side,
-    values: (f64, Option<f64>),
+    side: SideKind,
+    allowed: Interval,
     unit: Option<&'static Unit>,
 }
 
-/// The numeric limit a rule sets, when its limit side is a constant.
+impl Bound {
+    /// The limit's value, or the low and high ends of a range.
+    fn values(&self) -> (f64, Option<f64>) {
+        match (self.allowed.low, self.allowed.high) {
+            (Some(low), Some(high)) => (low.value, Some(high.value)),
+            (Some(end), None) | (None, Some(end)) => (end.value, None),
+            (None, None) => (f64::NAN, None),
+        }
+    }
+}
+
+/// The numeric limit a rule sets, when it is a one-sided limit or a range whose limits are
+/// constants, whichever side they are written on.
 fn bound(book: &CheckedRulebook, r: &ClassRule) -> Option<Bound> {
+    let limit = r.limit.as_ref()?;
+    if !matches!(
+        limit.kind(),
+        SideKind::Upper | SideKind::Lower | SideKind::Between
+    ) {
+        return None;
+    }
     let empty = Declaration::default();
     let mut ev = Evaluator::new(book, &empty);
-    let mut constant = |e: &Expr| match ev.eval(e) {
+    let numbers = limit.evaluated(|e| match ev.eval(e) {
         Ok(Value::Single(d)) if d.partials.is_empty() && d.value.is_finite() => Some(d.value),
         _ => None,
-    };
-    match &r.rule.require.kind {
-        TestKind::Compare {
-            left,
-            op,
-            right,
-            allowance,
-        } => {
-            let slack = match allowance {
-                Some(a) => constant(a)?,
-                None => 0.0,
-            };
-            let side = match op {
-                CompareOp::AtMost | CompareOp::Below => Side::Upper,
-                CompareOp::AtLeast | CompareOp::Above => Side::Lower,
-                _ => return None,
-            };
-            let limit = constant(right)?;
-            let value = if side == Side::Upper {
-                limit + slack
-            } else {
-                limit - slack
-            };
-            Some(Bound {
-                subject: crate::parse::print::expr_text(left),
-                side,
-                values: (value, None),
-                unit: first_unit(right),
-            })
-        }
-        TestKind::Between {
-            subject,
-            low,
-            high,
-            allowance,
-        } => {
-            let slack = match allowance {
-                Some(a) => constant(a)?,
-                None => 0.0,
-            };
-            let (lo, hi) = (constant(low)?, constant(high)?);
-            Some(Bound {
-                subject: crate::parse::print::expr_text(subject),
-                side: Side::Range,
-                values: (lo - slack, Some(hi + slack)),
-                unit: first_unit(low),
-            })
-        }
-        _ => None,
-    }
+    })?;
+    Some(Bound {
+        subject: crate::parse::print::expr_text(&limit.subject),
+        side: limit.kind(),
+        allowed: numbers.interval()?,
+        unit: first_unit(limit.limits().0),
+    })
 }
 
 fn first_unit(e: &Expr) -> Option<&'static Unit> {
@@ -391,30 +358,50 @@ fn first_unit(e: &Expr) -> Option<&'static Unit> {
     }
 }
 
+/// How one end of the allowed values moved.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+enum Moved {
+    /// It allows as much as before.
+    Same,
+    /// It allows less.
+    In,
+    /// It allows more.
+    Out,
+}
+
+/// How an end moved from `old` to `new`; `lower` for the low end. Ends equal but for the
+/// rounding of a unit conversion are the same; at the same value a closed end allows more.
+fn moved(old: Option<End>, new: Option<End>, lower: bool) -> Moved {
+    let same = |a: f64, b: f64| (a - b).abs() <= 1e-12 * a.abs().max(b.abs());
+    match (old, new) {
+        (None, None) => Moved::Same,
+        (None, Some(_)) => Moved::In,
+        (Some(_), None) => Moved::Out,
+        (Some(a), Some(b)) if same(a.value, b.value) => match (a.closed, b.closed) {
+            (true, false) => Moved::In,
+            (false, true) => Moved::Out,
+            _ => Moved::Same,
+        },
+        (Some(a), Some(b)) => {
+            if (b.value > a.value) == lower {
+                Moved::In
+            } else {
+                Moved::Out
+            }
+        }
+    }
+}
+
 /// Tightened, loosened, changed (a range that grew at one end and shrank at the other), or
 /// `None` when the limit is the same.
 fn direction(old: &Bound, new: &Bound) -> Option<RuleChange> {
-    let same = |a: f64, b: f64| (a - b).abs() <= 1e-12 * a.abs().max(b.abs());
-    let (lo_a, lo_b) = (old.values.0, new.values.0);
-    match (old.side, old.values.1, new.values.1) {
-        (Side::Range, Some(hi_a), Some(hi_b)) => {
-            if same(lo_a, lo_b) && same(hi_a, hi_b) {
-                return None;
-            }
-            let narrower = lo_b >= lo_a && hi_b <= hi_a;
-            let wider = lo_b <= lo_a && hi_b >= hi_a;
-            Some(match (narrower, wider) {
-                (true, _) => RuleChange::Tightened,
-                (_, true) => RuleChange::Loosened,
-                _ => RuleChange::Changed,
-            })
-        }
-        _ if same(lo_a, lo_b) => None,
-        (side, _, _) => Some(if (lo_b < lo_a) == (side == Side::Upper) {
-            RuleChange::Tightened
-        } else {
-            RuleChange::Loosened
-        }),
+    let low = moved(old.allowed.low, new.allowed.low, true);
+    let high = moved(old.allowed.high, new.allowed.high, false);
+    match (low, high) {
+        (Moved::Same, Moved::Same) => None,
+        (Moved::Same | Moved::In, Moved::Same | Moved::In) => Some(RuleChange::Tightened),
+        (Moved::Same | Moved::Out, Moved::Same | Moved::Out) => Some(RuleChange::Loosened),
+        _ => Some(RuleChange::Changed),
     }
 }
 
@@ -510,11 +497,16 @@ mod tests {
     const CI: f64 = 0.0254 * 0.0254 * 0.0254; // NIST SP 811 B.8
     const LITRE: f64 = 1e-3;
 
-    fn bound(side: Side, values: (f64, Option<f64>)) -> Bound {
+    fn bound(side: SideKind, values: (f64, Option<f64>)) -> Bound {
+        let allowed = match (side, values) {
+            (SideKind::Upper, (v, _)) => Interval::below(v, true),
+            (SideKind::Lower, (v, _)) => Interval::above(v, true),
+            (_, (low, high)) => Interval::closed(low, high.unwrap_or(low)),
+        };
         Bound {
             subject: "x".to_string(),
             side,
-            values,
+            allowed,
             unit: None,
         }
     }
@@ -523,14 +515,14 @@ mod tests {
     fn an_upper_limit_lowered_is_tightened_across_units() {
         // 365 ci to 5.9 L: 5.9 L is 360.04 ci, so the cap came down
         let d = direction(
-            &bound(Side::Upper, (365.0 * CI, None)),
-            &bound(Side::Upper, (5.9 * LITRE, None)),
+            &bound(SideKind::Upper, (365.0 * CI, None)),
+            &bound(SideKind::Upper, (5.9 * LITRE, None)),
         );
         assert_eq!(d, Some(RuleChange::Tightened));
         // 360 ci to 5.9 L: 5.9 L is a little more than 360 ci, so the cap went up
         let d = direction(
-            &bound(Side::Upper, (360.0 * CI, None)),
-            &bound(Side::Upper, (5.9 * LITRE, None)),
+            &bound(SideKind::Upper, (360.0 * CI, None)),
+            &bound(SideKind::Upper, (5.9 * LITRE, None)),
         );
         assert_eq!(d, Some(RuleChange::Loosened));
     }
@@ -540,15 +532,15 @@ mod tests {
         let lb = 0.453_592_37;
         assert_eq!(
             direction(
-                &bound(Side::Lower, (3000.0 * lb, None)),
-                &bound(Side::Lower, (2950.0 * lb, None))
+                &bound(SideKind::Lower, (3000.0 * lb, None)),
+                &bound(SideKind::Lower, (2950.0 * lb, None))
             ),
             Some(RuleChange::Loosened)
         );
         assert_eq!(
             direction(
-                &bound(Side::Lower, (1360.0, None)),
-                &bound(Side::Lower, (3000.0 * lb, None))
+                &bound(SideKind::Lower, (1360.0, None)),
+                &bound(SideKind::Lower, (3000.0 * lb, None))
             ),
             Some(RuleChange::Tightened)
         );
@@ -559,8 +551,8 @@ mod tests {
         // 1 in is 25.4 mm exactly (NIST SP 811 B.8)
         assert_eq!(
             direction(
-                &bound(Side::Upper, (0.0254, None)),
-                &bound(Side::Upper, (25.4e-3, None))
+                &bound(SideKind::Upper, (0.0254, None)),
+                &bound(SideKind::Upper, (25.4e-3, None))
             ),
             None
         );
@@ -568,7 +560,7 @@ mod tests {
 
     #[test]
     fn a_range_narrowed_is_tightened_and_one_shifted_is_changed() {
-        let r = |a: f64, b: f64| bound(Side::Range, (a, Some(b)));
+        let r = |a: f64, b: f64| bound(SideKind::Between, (a, Some(b)));
         assert_eq!(
             direction(&r(1.0, 3.0), &r(1.5, 2.5)),
             Some(RuleChange::Tightened)

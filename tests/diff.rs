@@ -109,3 +109,86 @@ fn two_series_cannot_be_compared() {
     .unwrap_or_default();
     assert!(e.contains("gonogo::diff::different-series"), "{e}");
 }
+
+/// `gonogo diff` in text of two one-class rulebooks whose rules are given, in order.
+fn diff_of(old_rules: &[&str], new_rules: &[&str]) -> String {
+    let book = |edition: &str, rules: &[&str]| {
+        let mut text = format!(
+            "series \"Tamsin Valley Stock Car Club\"\nedition \"{edition}\" effective {edition}-03-01\n\
+             decision guarded rejection\n\
+             measure bore: length per cylinder range 3.5 in to 4.5 in \"Bore gauge\"\n\
+             measure car.weight: mass range 2000 lb to 4000 lb \"Scale\"\n\
+             class hobby \"Hobby\"\n"
+        );
+        for (i, r) in rules.iter().enumerate() {
+            text.push_str(&format!(
+                "  rule 1.{} \"Rule {}\"\n    require {r}\n  end\n",
+                i + 1,
+                i + 1
+            ));
+        }
+        text.push_str("end\n");
+        static NEXT: std::sync::atomic::AtomicUsize = std::sync::atomic::AtomicUsize::new(0);
+        let n = NEXT.fetch_add(1, std::sync::atomic::Ordering::Relaxed);
+        let path =
+            std::env::temp_dir().join(format!("gonogo-{}-{edition}-{n}.rules", std::process::id()));
+        std::fs::write(&path, text).unwrap_or_else(|e| panic!("{e}"));
+        path
+    };
+    let (old, new) = (book("2027", old_rules), book("2028", new_rules));
+    let result = diff::run(&old, &new, None, DiffFormat::Text, RenderStyle::PLAIN);
+    let _ = std::fs::remove_file(&old);
+    let _ = std::fs::remove_file(&new);
+    result.unwrap_or_else(|e| panic!("{e}"))
+}
+
+#[test]
+fn a_limit_written_the_other_way_round_is_tightened_or_loosened_by_value() {
+    let out = diff_of(
+        &[
+            "4.030 in >= max(bore)",
+            "4.030 in >= max(bore)",
+            "max(bore) <= 4.030 in",
+            "3000 lb <= car.weight",
+        ],
+        &[
+            "4.020 in >= max(bore)",
+            "4.040 in >= max(bore)",
+            "4.020 in >= max(bore)",
+            "2950 lb <= car.weight",
+        ],
+    );
+    assert!(
+        out.contains("1.1 Rule 1: tightened, limit 4.03 in → 4.02 in"),
+        "{out}"
+    );
+    assert!(
+        out.contains("1.2 Rule 2: loosened, limit 4.03 in → 4.04 in"),
+        "{out}"
+    );
+    // one way of writing to the other
+    assert!(
+        out.contains("1.3 Rule 3: tightened, limit 4.03 in → 4.02 in"),
+        "{out}"
+    );
+    assert!(
+        out.contains("1.4 Rule 4: loosened, limit 3000 lb → 2950 lb"),
+        "{out}"
+    );
+    assert!(!out.contains("requirement changed"), "{out}");
+}
+
+#[test]
+fn the_same_limit_written_the_other_way_round_is_no_change() {
+    let out = diff_of(
+        &["max(bore) <= 4.030 in", "car.weight >= 3000 lb"],
+        &["4.030 in >= max(bore)", "3000 lb <= car.weight"],
+    );
+    assert!(out.trim_end().ends_with("no change"), "{out}");
+}
+
+#[test]
+fn a_limit_that_now_excludes_its_value_is_tightened() {
+    let out = diff_of(&["max(bore) <= 4.030 in"], &["max(bore) < 4.030 in"]);
+    assert!(out.contains("1.1 Rule 1: tightened"), "{out}");
+}

@@ -58,6 +58,11 @@ impl Interval {
         }
     }
 
+    /// True when every value of `other` is inside this interval.
+    pub fn contains(self, other: Interval) -> bool {
+        self.intersect(other) == other
+    }
+
     /// True when no value is inside.
     pub fn is_empty(self) -> bool {
         match (self.low, self.high) {
@@ -117,6 +122,15 @@ mod tests {
                 .intersect(Interval::below(2.0, true))
                 .is_empty()
         );
+    }
+
+    #[test]
+    fn containment_respects_open_ends() {
+        let reach = Interval::closed(1.0, 2.0);
+        assert!(Interval::below(2.0, true).contains(reach));
+        assert!(!Interval::below(2.0, false).contains(reach));
+        assert!(Interval::above(0.5, false).contains(reach));
+        assert!(!reach.contains(Interval::above(1.0, true)));
     }
 
     #[test]

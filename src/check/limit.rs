@@ -195,35 +195,73 @@ impl<S, L> Limit<S, L> {
 
     /// The same limit with the subject mapped by `subject` and every limit and the allowance
     /// by `limit`.
-    pub fn map<T, M>(self, subject: impl FnOnce(S) -> T, mut limit: impl FnMut(L) -> M) -> Limit<T, M> {
-        let side = match self.side {
-            Side::Upper { limit: l, strict } => Side::Upper {
-                limit: limit(l),
-                strict,
-            },
-            Side::Lower { limit: l, strict } => Side::Lower {
-                limit: limit(l),
-                strict,
-            },
-            Side::Between { low, high } => Side::Between {
-                low: limit(low),
-                high: limit(high),
-            },
-            Side::Equal { value } => Side::Equal {
-                value: limit(value),
-            },
-            Side::NotEqual { value } => Side::NotEqual {
-                value: limit(value),
-            },
-        };
+    pub fn map<T, M>(
+        self,
+        subject: impl FnOnce(S) -> T,
+        mut limit: impl FnMut(L) -> M,
+    ) -> Limit<T, M> {
         Limit {
             subject: subject(self.subject),
-            side,
+            side: self.side.map(&mut limit),
             allowance: self.allowance.map(limit),
             reversed: self.reversed,
         }
     }
 
+    /// The limit with its limits and allowance evaluated by `constant`, the subject borrowed;
+    /// `None` when any of them is not a constant.
+    pub fn evaluated(&self, constant: impl FnMut(&L) -> Option<f64>) -> Option<Limit<&S, f64>> {
+        self.as_ref().map(|s| s, constant).transpose()
+    }
+
+    /// The same limit with every part borrowed.
+    pub fn as_ref(&self) -> Limit<&S, &L> {
+        Limit {
+            subject: &self.subject,
+            side: self.side.as_ref(),
+            allowance: self.allowance.as_ref(),
+            reversed: self.reversed,
+        }
+    }
+}
+
+impl<L> Side<L> {
+    /// The same side with each limit mapped by `f`.
+    pub fn map<M>(self, mut f: impl FnMut(L) -> M) -> Side<M> {
+        match self {
+            Side::Upper { limit, strict } => Side::Upper {
+                limit: f(limit),
+                strict,
+            },
+            Side::Lower { limit, strict } => Side::Lower {
+                limit: f(limit),
+                strict,
+            },
+            Side::Between { low, high } => Side::Between {
+                low: f(low),
+                high: f(high),
+            },
+            Side::Equal { value } => Side::Equal { value: f(value) },
+            Side::NotEqual { value } => Side::NotEqual { value: f(value) },
+        }
+    }
+
+    /// The same side with each limit borrowed.
+    pub fn as_ref(&self) -> Side<&L> {
+        match self {
+            Side::Upper { limit, strict } => Side::Upper {
+                limit,
+                strict: *strict,
+            },
+            Side::Lower { limit, strict } => Side::Lower {
+                limit,
+                strict: *strict,
+            },
+            Side::Between { low, high } => Side::Between { low, high },
+            Side::Equal { value } => Side::Equal { value },
+            Side::NotEqual { value } => Side::NotEqual { value },
+        }
+    }
 }
 
 impl<S, L> Limit<S, Option<L>> {
@@ -414,7 +452,14 @@ mod tests {
     fn an_allowance_is_kept_on_either_way_of_writing() {
         assert_eq!(
             form("bore <= 4.030 in allowing 0.005 in"),
-            expect("bore", SideKind::Upper, "4.030 in", "0.005 in", false, false)
+            expect(
+                "bore",
+                SideKind::Upper,
+                "4.030 in",
+                "0.005 in",
+                false,
+                false
+            )
         );
         assert_eq!(
             form("4.030 in >= bore allowing 0.005 in"),
@@ -422,7 +467,14 @@ mod tests {
         );
         assert_eq!(
             form("3000 lb <= car.weight allowing 10 lb"),
-            expect("car.weight", SideKind::Lower, "3000 lb", "10 lb", false, true)
+            expect(
+                "car.weight",
+                SideKind::Lower,
+                "3000 lb",
+                "10 lb",
+                false,
+                true
+            )
         );
     }
 
@@ -510,7 +562,10 @@ mod tests {
         for t in ["intake.part in intakes", "lifter.kind matches /^flat /"] {
             let test = require(t);
             assert!(of(&test).is_none(), "{t}");
-            assert_eq!(Some(expr_text(subject(&test)).as_str()), t.split(' ').next());
+            assert_eq!(
+                Some(expr_text(subject(&test)).as_str()),
+                t.split(' ').next()
+            );
         }
         assert_eq!(expr_text(subject(&require("4.030 in >= bore"))), "bore");
     }

@@ -133,6 +133,8 @@ pub struct ClassRule {
     pub condition_texts: Vec<String>,
     /// The names its conditions and requirement read, each once, in the order first read.
     pub reads: Vec<String>,
+    /// The requirement's limit in normal form; `None` for a membership or pattern test.
+    pub limit: Option<super::limit::Limit<Expr>>,
 }
 
 impl ClassRule {
@@ -148,6 +150,7 @@ impl ClassRule {
                 .map(crate::parse::print::condition_text)
                 .collect(),
             reads: unique(names),
+            limit: super::limit::owned(&rule.require),
             rule,
             conditions,
             origin,
