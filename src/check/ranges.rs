@@ -5,8 +5,11 @@
 
 use super::Checker;
 use super::classes::ClassState;
+use super::interval::Interval;
+use super::limit::SideKind;
+use super::model::ClassRule;
 use crate::diagnostic::Problem;
-use crate::parse::ast::{BinaryOp, CompareOp, Expr, ExprKind, TestKind};
+use crate::parse::ast::{BinaryOp, Expr, ExprKind};
 use crate::parse::print::expr_text;
 
 /// A closed interval of values, in SI units.
@@ -93,59 +96,33 @@ impl Checker<'_> {
     pub(super) fn check_ranges(&mut self, states: &[ClassState]) {
         for state in states {
             for r in &state.rules {
-                if let Some(problem) = self.decided_in_advance(&r.rule.require) {
+                if let Some(problem) = self.decided_in_advance(r) {
                     self.error(problem);
                 }
             }
         }
     }
 
-    fn decided_in_advance(&self, test: &crate::parse::ast::Test) -> Option<Problem> {
-        let (subject, allowed) = match &test.kind {
-            TestKind::Compare {
-                left,
-                op,
-                right,
-                allowance,
-            } => {
-                let limit = self.constant(right)?;
-                let slack = allowance.as_ref().map_or(Some(0.0), |a| self.constant(a))?;
-                let allowed = match op {
-                    CompareOp::AtMost | CompareOp::Below => Span {
-                        low: f64::NEG_INFINITY,
-                        high: limit + slack,
-                    },
-                    CompareOp::AtLeast | CompareOp::Above => Span {
-                        low: limit - slack,
-                        high: f64::INFINITY,
-                    },
-                    _ => return None,
-                };
-                (left, allowed)
-            }
-            TestKind::Between {
-                subject,
-                low,
-                high,
-                allowance,
-            } => {
-                let slack = allowance.as_ref().map_or(Some(0.0), |a| self.constant(a))?;
-                (
-                    subject,
-                    Span {
-                        low: self.constant(low)? - slack,
-                        high: self.constant(high)? + slack,
-                    },
-                )
-            }
-            _ => return None,
-        };
+    /// A warning when the declared ranges keep the rule's subject wholly inside or wholly
+    /// outside its limit, whichever side the limit is written on.
+    fn decided_in_advance(&self, rule: &ClassRule) -> Option<Problem> {
+        let limit = rule.limit.as_ref()?;
+        if !matches!(
+            limit.kind(),
+            SideKind::Upper | SideKind::Lower | SideKind::Between
+        ) {
+            return None;
+        }
+        let allowed = limit.evaluated(|e| self.constant(e))?.interval()?;
+        let subject = &limit.subject;
+        let test = &rule.rule.require;
         let reach = self.interval(subject, 0)?;
         if !reach.is_finite() {
             return None;
         }
         let name = expr_text(subject);
-        if reach.low >= allowed.low && reach.high <= allowed.high {
+        let reach = Interval::closed(reach.low, reach.high);
+        if allowed.contains(reach) {
             return Some(
                 Problem::warning(
                     "gonogo::check::never-fails",
@@ -156,7 +133,7 @@ impl Checker<'_> {
                 .with_help("tighten the limit, or widen the `range` of the measurements it reads if real engines go further"),
             );
         }
-        if reach.high < allowed.low || reach.low > allowed.high {
+        if allowed.intersect(reach).is_empty() {
             return Some(
                 Problem::warning(
                     "gonogo::check::never-met",
