@@ -7,8 +7,9 @@ use std::collections::BTreeMap;
 use super::Checker;
 use super::classes::ClassState;
 use super::interval::Interval;
+use super::limit::{self, Limit, Operand, Side};
 use crate::diagnostic::Problem;
-use crate::parse::ast::{ClassItem, CompareOp, Condition, Expr, ExprKind, Test, TestKind};
+use crate::parse::ast::{ClassItem, Condition, Expr, ExprKind};
 use crate::parse::print::expr_text;
 use crate::source::Span;
 
@@ -40,7 +41,8 @@ impl<'a> Checker<'a> {
     fn check_contradictions(&mut self, state: &ClassState) {
         let mut by_subject: BTreeMap<String, Vec<Bound>> = BTreeMap::new();
         for r in state.rules.iter().filter(|r| r.conditions.is_empty()) {
-            if let Some(b) = self.bound_of(&r.rule.require) {
+            let limit = r.limit.as_ref().map(Limit::as_ref);
+            if let Some(b) = limit.and_then(|l| self.bound_of(l, r.rule.require.span)) {
                 by_subject.entry(b.subject.clone()).or_default().push(b);
             }
         }
@@ -161,81 +163,31 @@ impl<'a> Checker<'a> {
                 self.conjuncts(a, out);
                 self.conjuncts(b, out);
             }
-            Condition::Test(t) => out.extend(self.bound_of(t)),
+            Condition::Test(t) => out.extend(limit::of(t).and_then(|l| self.bound_of(l, t.span))),
             Condition::Or(..) | Condition::Not(..) => {}
         }
     }
 
-    /// What a test says about one quantity compared with a constant, if it says anything.
-    fn bound_of(&self, test: &Test) -> Option<Bound> {
-        let span = test.span;
-        match &test.kind {
-            TestKind::Compare {
-                left,
-                op,
-                right,
-                allowance,
-            } => {
-                let slack = match allowance {
-                    Some(a) => self.constant(a)?,
-                    None => 0.0,
-                };
-                if let Some(text) = text_literal(right).or_else(|| text_literal(left)) {
-                    let subject = if text_literal(right).is_some() {
-                        left
-                    } else {
-                        right
-                    };
-                    return (*op == CompareOp::Equal).then(|| Bound {
-                        subject: expr_text(subject),
-                        interval: None,
-                        text: Some(text),
-                        span,
-                        label: None,
-                    });
-                }
-                let (subject, op, limit) = match (self.constant(left), self.constant(right)) {
-                    (None, Some(c)) => (left, *op, c),
-                    (Some(c), None) => (right, op.flipped(), c),
-                    _ => return None,
-                };
-                let interval = match op {
-                    CompareOp::AtMost => Interval::below(limit + slack, true),
-                    CompareOp::Below => Interval::below(limit + slack, false),
-                    CompareOp::AtLeast => Interval::above(limit - slack, true),
-                    CompareOp::Above => Interval::above(limit - slack, false),
-                    CompareOp::Equal => Interval::closed(limit, limit),
-                    CompareOp::NotEqual => return None,
-                };
-                Some(Bound {
-                    subject: expr_text(subject),
-                    interval: Some(interval),
-                    text: None,
-                    span,
-                    label: None,
-                })
-            }
-            TestKind::Between {
-                subject,
-                low,
-                high,
-                allowance,
-            } => {
-                let slack = match allowance {
-                    Some(a) => self.constant(a)?,
-                    None => 0.0,
-                };
-                let (lo, hi) = (self.constant(low)?, self.constant(high)?);
-                Some(Bound {
-                    subject: expr_text(subject),
-                    interval: Some(Interval::closed(lo - slack, hi + slack)),
-                    text: None,
-                    span,
-                    label: None,
-                })
-            }
-            TestKind::Member { .. } | TestKind::Matches { .. } => None,
+    /// What a test says about one quantity compared with a constant, whichever side the
+    /// constant is written on, if it says anything.
+    fn bound_of(&self, limit: Limit<&Expr>, span: Span) -> Option<Bound> {
+        if limit.subject.is_fixed() {
+            return None;
         }
+        let (interval, text) = match &limit.side {
+            Side::Equal { value } if text_literal(value).is_some() => (None, text_literal(value)),
+            _ => (
+                Some(limit.evaluated(|e| self.constant(e))?.interval()?),
+                None,
+            ),
+        };
+        Some(Bound {
+            subject: expr_text(limit.subject),
+            interval,
+            text,
+            span,
+            label: None,
+        })
     }
 }
 
