@@ -83,3 +83,46 @@ fn an_unknown_section_is_an_error() {
     .unwrap_or_default();
     assert!(e.contains("class `limited2` has no rule 99.9"), "{e}");
 }
+
+/// The `requires` line of rule 2.1 of a one-rule rulebook with the requirement given.
+fn requires_line(require: &str) -> String {
+    static NEXT: std::sync::atomic::AtomicUsize = std::sync::atomic::AtomicUsize::new(0);
+    let n = NEXT.fetch_add(1, std::sync::atomic::Ordering::Relaxed);
+    let text = format!(
+        "series \"Tamsin Valley Stock Car Club\"\nedition \"2027\" effective 2027-03-01\n\
+         decision guarded rejection\n\
+         measure bore: length per cylinder range 3.5 in to 4.5 in \"Bore gauge\"\n\
+         measure car.weight: mass range 2000 lb to 4000 lb \"Scale\"\n\
+         class hobby \"Hobby\"\n  rule 2.1 \"Rule\"\n    require {require}\n  end\nend\n"
+    );
+    let path =
+        std::env::temp_dir().join(format!("gonogo-{}-explain-{n}.rules", std::process::id()));
+    std::fs::write(&path, text).unwrap_or_else(|e| panic!("{e}"));
+    let out = explain::run(&path, None, "2.1", RenderStyle::PLAIN);
+    let _ = std::fs::remove_file(&path);
+    let out = out.unwrap_or_else(|e| panic!("{e}"));
+    out.lines()
+        .find(|l| l.trim_start().starts_with("requires"))
+        .unwrap_or_default()
+        .trim()
+        .to_string()
+}
+
+#[test]
+fn a_limit_written_first_reads_subject_first() {
+    // written either way, the same words, with the per-cylinder note and the sum of the
+    // allowance (4.030 in + 0.005 in)
+    let expected = "requires   on every cylinder, bore at most 4.030 in, with a written allowance of 0.005 in (so at most 4.035 in)";
+    assert_eq!(
+        requires_line("bore <= 4.030 in allowing 0.005 in"),
+        expected
+    );
+    assert_eq!(
+        requires_line("4.030 in >= bore allowing 0.005 in"),
+        expected
+    );
+    assert_eq!(
+        requires_line("3000 lb < car.weight"),
+        "requires   car.weight above 3000 lb"
+    );
+}

@@ -5,6 +5,7 @@
 use std::fmt::Write;
 
 use crate::check::builtins::{self, Function};
+use crate::check::limit::{self, Limit};
 use crate::check::model::{CheckedRulebook, Class, ClassRule, Origin, ValueKind};
 use crate::parse::ast::{CompareOp, Expr, ExprKind, TestKind};
 use crate::parse::print::{expr_text, test_text};
@@ -131,41 +132,40 @@ fn requirement_words(rulebook: &CheckedRulebook, rule: &ClassRule) -> String {
     } else {
         ""
     };
-    let words = match &test.kind {
-        TestKind::Compare {
-            left,
-            op,
-            right,
-            allowance,
-        } => {
-            let allowance = allowance
-                .as_ref()
-                .map(|a| allowance_words(right, a, *op))
-                .unwrap_or_default();
-            format!(
-                "{} {} {}{allowance}",
-                expr_text(left),
-                op_words(*op),
-                expr_text(right)
-            )
-        }
-        TestKind::Between {
-            subject,
-            low,
-            high,
-            allowance,
-        } => {
-            let allowance = allowance
-                .as_ref()
-                .map(|a| format!(", each end widened by {}", expr_text(a)))
-                .unwrap_or_default();
-            format!(
-                "{} between {} and {}{allowance}",
-                expr_text(subject),
-                expr_text(low),
-                expr_text(high)
-            )
-        }
+    let words = match &rule.limit {
+        Some(limit) => limit_words(limit),
+        None => other_test_words(rulebook, test),
+    };
+    format!("{every}{words}")
+}
+
+/// A limit in words, subject first whichever side the limit is written on.
+fn limit_words(limit: &Limit<Expr>) -> String {
+    let subject = expr_text(&limit.subject);
+    let (first, second) = limit.limits();
+    let Some(op) = limit.op() else {
+        let allowance = limit
+            .allowance
+            .as_ref()
+            .map(|a| format!(", each end widened by {}", expr_text(a)))
+            .unwrap_or_default();
+        let high = second.map(expr_text).unwrap_or_default();
+        return format!(
+            "{subject} between {} and {high}{allowance}",
+            expr_text(first)
+        );
+    };
+    let allowance = limit
+        .allowance
+        .as_ref()
+        .map(|a| allowance_words(limit, a, op))
+        .unwrap_or_default();
+    format!("{subject} {} {}{allowance}", op_words(op), expr_text(first))
+}
+
+/// A membership or pattern test in words.
+fn other_test_words(rulebook: &CheckedRulebook, test: &crate::parse::ast::Test) -> String {
+    match &test.kind {
         TestKind::Member {
             subject,
             negated,
@@ -202,44 +202,44 @@ fn requirement_words(rulebook: &CheckedRulebook, rule: &ClassRule) -> String {
                 }
             )
         }
-    };
-    format!("{every}{words}")
+        TestKind::Compare { .. } | TestKind::Between { .. } => test_text(test),
+    }
 }
 
 /// `, with a written allowance of 0.005 in (so at most 4.035 in)`; the sum is shown when both
 /// are plain quantities.
-fn allowance_words(limit: &Expr, allowance: &Expr, op: CompareOp) -> String {
+fn allowance_words(limit: &Limit<Expr>, allowance: &Expr, op: CompareOp) -> String {
     let written = format!(", with a written allowance of {}", expr_text(allowance));
-    let (ExprKind::Quantity(l), ExprKind::Quantity(a)) = (&limit.kind, &allowance.kind) else {
+    let literal = |e: &Expr| match &e.kind {
+        ExprKind::Quantity(q) => crate::check::quantity_si(q),
+        _ => None,
+    };
+    let end = limit
+        .evaluated(literal)
+        .and_then(|l| l.interval())
+        .and_then(|i| match (i.low, i.high) {
+            (Some(end), None) | (None, Some(end)) => Some(end.value),
+            _ => None,
+        });
+    let ExprKind::Quantity(l) = &limit.limits().0.kind else {
         return written;
     };
     let unit = l
         .unit
         .as_ref()
         .and_then(|u| crate::units::lookup(&u.symbol));
-    let (Some(l_si), Some(a_si)) = (crate::check::quantity_si(l), crate::check::quantity_si(a))
-    else {
-        return written;
-    };
-    let effective = match op {
-        CompareOp::AtMost | CompareOp::Below => l_si + a_si,
-        _ => l_si - a_si,
-    };
-    format!(
-        "{written} (so {} {})",
-        op_words(op),
-        crate::report::format::quantity(effective, unit)
-    )
+    match end {
+        Some(effective) => format!(
+            "{written} (so {} {})",
+            op_words(op),
+            crate::report::format::quantity(effective, unit)
+        ),
+        None => written,
+    }
 }
 
 fn per_cylinder(rulebook: &CheckedRulebook, test: &crate::parse::ast::Test) -> bool {
-    let subject = match &test.kind {
-        TestKind::Compare { left, .. } => left,
-        TestKind::Between { subject, .. }
-        | TestKind::Member { subject, .. }
-        | TestKind::Matches { subject, .. } => subject,
-    };
-    match &subject.kind {
+    match &limit::subject(test).kind {
         ExprKind::Name(n) => rulebook
             .measurement(&n.text)
             .map(|m| m.per_cylinder)
