@@ -121,3 +121,39 @@ fn reports_of_two_engines() {
     let doc: serde_json::Value = serde_json::from_str(&json).unwrap_or_else(|e| panic!("{e}"));
     assert_eq!(doc["schema"], "gonogo.headroom/1");
 }
+
+#[test]
+fn a_limit_written_first_has_the_same_headroom() {
+    // the demo edition with two limits written the other way round, beside the original so
+    // that its include resolves
+    let text = std::fs::read_to_string(RULES).unwrap_or_else(|e| panic!("{e}"));
+    let reversed = text
+        .replace(
+            "require bore <= 4.030 in allowing 0.005 in",
+            "require 4.030 in >= bore allowing 0.005 in",
+        )
+        .replace(
+            "require scale_weight >= 3000 lb",
+            "require 3000 lb <= scale_weight",
+        );
+    assert_ne!(reversed, text, "the demo rules to reverse are not there");
+    let path =
+        Path::new("rulebooks-demo").join(format!(".limit-first-{}.rules", std::process::id()));
+    std::fs::write(&path, reversed).unwrap_or_else(|e| panic!("{e}"));
+    let run = |rules: &Path| {
+        headroom::run(
+            rules,
+            None,
+            None,
+            &["engines-demo/limited2-close-bore.yaml".into()],
+            HeadroomFormat::Text,
+            RenderStyle::PLAIN,
+        )
+    };
+    let limit_first = run(&path);
+    let _ = std::fs::remove_file(&path);
+    let limit_first = limit_first.unwrap_or_else(|e| panic!("{e}"));
+    let original = run(Path::new(RULES)).unwrap_or_else(|e| panic!("{e}"));
+    assert!(original.contains("3.2 "), "{original}");
+    assert_eq!(limit_first, original);
+}
