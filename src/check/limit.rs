@@ -6,7 +6,13 @@
 //!
 //! The form is generic over the expression type, so that it can hold syntax-tree expressions
 //! (`Limit<&ast::Expr>`, `Limit<ast::Expr>`), resolved expressions, or numbers once the limit
-//! side is evaluated (`Limit<f64>`).
+//! side is evaluated (`Limit<&ast::Expr, f64>`, whose [`Limit::interval`] is the set of values
+//! the rule allows).
+//!
+//! Which side is the limit is decided by [`Operand::is_fixed`]: over the syntax tree, a side
+//! is fixed when it reads no name but `pi`. A `define` whose value is a constant is a name, so
+//! `cap >= bore` keeps `cap` as its subject; a resolved tree that knows which values are
+//! constants can say better through its own `Operand`.
 
 use super::interval::Interval;
 use crate::parse::ast::{CompareOp, Expr, Test, TestKind};
@@ -29,7 +35,7 @@ impl Operand for &Expr {
 
 impl Operand for Expr {
     fn is_fixed(&self) -> bool {
-        (&self).is_fixed()
+        <&Expr as Operand>::is_fixed(&self)
     }
 }
 
@@ -553,7 +559,7 @@ mod tests {
             )
         );
         // `pi` is a constant of the language, not something read from the engine
-        assert_eq!(form("pi * bore <= 13 in").5, false);
+        assert!(!form("pi * bore <= 13 in").5);
         assert_eq!(form("13 in >= pi * bore").0, "pi * bore");
     }
 

@@ -4,8 +4,9 @@
 //! contradictions, conditions that can never hold and measurements that are never used.
 //!
 //! The work is split by concern: [`symbols`] collects and de-duplicates the declarations,
-//! [`types`] types expressions, [`classes`] flattens classes, [`bounds`] reasons about limits
-//! and conditions, [`usage`] finds what is never used.
+//! [`types`] types expressions, [`classes`] flattens classes, [`limit`] puts every limit in one
+//! normal form, [`bounds`] reasons about limits and conditions, [`usage`] finds what is never
+//! used.
 
 mod bounds;
 pub mod builtins;
