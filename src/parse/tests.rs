@@ -181,7 +181,18 @@ fn spans_cover_what_was_written() {
 fn trees_ignore_spans_and_layout() {
     let a = parse_ok("define x = (a+b)*c");
     let b = parse_ok("define   x =\n  ( a + b ) * c   # comment");
+    let (Some(Item::Define(da)), Some(Item::Define(db))) = (a.first(), b.first()) else {
+        panic!("no define")
+    };
+    assert_ne!(da.expr.span, db.expr.span, "the spans differ");
     assert_eq!(a, b);
+}
+
+#[test]
+fn trees_that_differ_in_structure_are_unequal() {
+    assert_ne!(parse_ok("define x = a + b"), parse_ok("define x = a - b"));
+    assert_ne!(parse_ok("define x = a + b"), parse_ok("define y = a + b"));
+    assert_ne!(parse_ok("define x = 4 in"), parse_ok("define x = 4 mm"));
 }
 
 #[test]
