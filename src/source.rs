@@ -12,9 +12,10 @@ pub const MAX_FILE_BYTES: u64 = 8 * 1024 * 1024;
 /// Index of a file in a [`SourceMap`].
 pub type FileId = u32;
 
-/// A byte range in one source file. Spans never take part in equality, so syntax trees parsed
-/// from differently formatted text compare equal when their structure is the same.
-#[derive(Clone, Copy, Debug, Default)]
+/// A byte range in one source file. Two spans are equal when they cover the same bytes of the
+/// same file; the syntax tree leaves its spans out of its own equality (see
+/// [`crate::parse::ast`]).
+#[derive(Clone, Copy, Debug, Default, PartialEq, Eq, Hash)]
 pub struct Span {
     /// The file the span lies in.
     pub file: FileId,
@@ -22,12 +23,6 @@ pub struct Span {
     pub start: usize,
     /// One past the last byte.
     pub end: usize,
-}
-
-impl PartialEq for Span {
-    fn eq(&self, _: &Span) -> bool {
-        true
-    }
 }
 
 impl Span {
@@ -147,6 +142,14 @@ impl SourceMap {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn spans_are_equal_only_when_they_cover_the_same_bytes() {
+        assert_eq!(Span::new(0, 3, 7), Span::new(0, 3, 7));
+        assert_ne!(Span::new(0, 3, 7), Span::new(0, 4, 7));
+        assert_ne!(Span::new(0, 3, 7), Span::new(0, 3, 8));
+        assert_ne!(Span::new(0, 3, 7), Span::new(1, 3, 7));
+    }
 
     #[test]
     fn line_and_column_are_one_based_and_count_characters() {

@@ -15,6 +15,9 @@ const WARNINGS_ONLY: &[&str] = &[
     "never-met.rules",
     "approved-and-banned.rules",
     "override-changes-nothing.rules",
+    "empty-bulletin.rules",
+    "duplicate-list-entry.rules",
+    "unused-define.rules",
 ];
 
 #[test]

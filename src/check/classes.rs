@@ -2,8 +2,8 @@
 //! flattened through inheritance, `override`, `drop`, `when` groups and bulletins.
 
 use super::Checker;
+use super::error::{CheckError, ClassReference};
 use super::model::{ClassRule, Origin};
-use crate::diagnostic::Problem;
 use crate::parse::ast::{ClassItem, Condition, Date};
 use crate::suggest::closest;
 
@@ -36,49 +36,37 @@ impl<'a> Checker<'a> {
         }
         for bulletin in self.bulletins.clone() {
             if !self.classes.contains_key(bulletin.amends.text.as_str()) {
-                let help = match closest(&bulletin.amends.text, self.classes.keys().copied()) {
-                    Some(near) => format!("did you mean `{near}`?"),
-                    None => "name a class defined in this rulebook".to_string(),
-                };
                 self.error(
-                    Problem::error(
-                        "gonogo::check::unknown-class",
-                        format!(
-                            "bulletin `{}` amends `{}`, which is not a class of this rulebook",
-                            bulletin.id.value, bulletin.amends.text
-                        ),
-                        bulletin.amends.span,
-                        "unknown class",
-                    )
-                    .with_help(help),
+                    CheckError::UnknownClass {
+                        name: bulletin.amends.text.clone(),
+                        from: ClassReference::Amends(bulletin.id.value.clone()),
+                        suggestion: self.near_class(&bulletin.amends.text),
+                        at: bulletin.amends.span,
+                    }
+                    .into(),
                 );
             }
             if let Some(edition) = self.edition
                 && bulletin.effective.date < edition.effective.date
             {
                 self.error(
-                    Problem::error(
-                        "gonogo::check::bulletin-before-edition",
-                        format!(
-                            "bulletin `{}` takes effect on {}, before the edition it amends ({})",
-                            bulletin.id.value, bulletin.effective.date, edition.effective.date
-                        ),
-                        bulletin.effective.span,
-                        "too early",
-                    )
-                    .with_label(edition.effective.span, "edition takes effect")
-                    .with_help("a bulletin amends an edition already in force; correct the date"),
+                    CheckError::BulletinBeforeEdition {
+                        id: bulletin.id.value.clone(),
+                        date: bulletin.effective.date,
+                        edition_date: edition.effective.date,
+                        at: bulletin.effective.span,
+                        edition_at: edition.effective.span,
+                    }
+                    .into(),
                 );
             }
             if bulletin.body.is_empty() {
                 self.error(
-                    Problem::warning(
-                        "gonogo::check::empty-bulletin",
-                        format!("bulletin `{}` changes nothing", bulletin.id.value),
-                        bulletin.id.span,
-                        "no rules",
-                    )
-                    .with_help("add the rules it changes, or remove it"),
+                    CheckError::EmptyBulletin {
+                        id: bulletin.id.value.clone(),
+                        at: bulletin.id.span,
+                    }
+                    .into(),
                 );
             }
         }
@@ -89,19 +77,15 @@ impl<'a> Checker<'a> {
         let mut current = name;
         while let Some(parent) = self.classes.get(current).and_then(|c| c.extends.as_ref()) {
             if !self.classes.contains_key(parent.text.as_str()) {
-                let help = match closest(&parent.text, self.classes.keys().copied()) {
-                    Some(near) => format!("did you mean `{near}`?"),
-                    None => "name a class defined in this rulebook".to_string(),
-                };
                 if current == name {
                     self.error(
-                        Problem::error(
-                            "gonogo::check::unknown-class",
-                            format!("class `{current}` extends `{}`, which is not a class of this rulebook", parent.text),
-                            parent.span,
-                            "unknown class",
-                        )
-                        .with_help(help),
+                        CheckError::UnknownClass {
+                            name: parent.text.clone(),
+                            from: ClassReference::Extends(current.to_string()),
+                            suggestion: self.near_class(&parent.text),
+                            at: parent.span,
+                        }
+                        .into(),
                     );
                 }
                 return false;
@@ -111,22 +95,17 @@ impl<'a> Checker<'a> {
                 members.sort_unstable();
                 // report each loop once, from its first member in alphabetical order
                 if at == 0 && members.first() == Some(&name) {
-                    let loop_text = chain
+                    let chain = chain
                         .iter()
                         .chain([&parent.text.as_str()])
-                        .copied()
-                        .collect::<Vec<_>>()
-                        .join("` → `");
+                        .map(|c| c.to_string())
+                        .collect();
                     self.error(
-                        Problem::error(
-                            "gonogo::check::extends-cycle",
-                            format!("classes extend each other in a loop: `{loop_text}`"),
-                            parent.span,
-                            "closes the loop",
-                        )
-                        .with_help(
-                            "one class of the loop must stand on its own; remove its `extends`",
-                        ),
+                        CheckError::ExtendsCycle {
+                            chain,
+                            at: parent.span,
+                        }
+                        .into(),
                     );
                 }
                 return false;
@@ -139,6 +118,11 @@ impl<'a> Checker<'a> {
             chain.push(current);
         }
         true
+    }
+
+    /// The class name nearest to `name`, for a "did you mean".
+    fn near_class(&self, name: &str) -> Option<String> {
+        closest(name, self.classes.keys().copied()).map(str::to_string)
     }
 
     /// Every sound class flattened at the edition's date and at each later bulletin's date.
@@ -261,19 +245,12 @@ impl<'a> Checker<'a> {
                     match (rule.overrides, existing) {
                         (true, Some(i)) if same_rule(&rules[i], &entry) => {
                             self.error(
-                                Problem::warning(
-                                    "gonogo::check::override-changes-nothing",
-                                    format!(
-                                        "this override of rule {} changes nothing",
-                                        rule.section.text
-                                    ),
-                                    rule.section.span,
-                                    "same as the rule it replaces",
-                                )
-                                .with_label(rules[i].rule.section.span, "the rule it replaces")
-                                .with_help(
-                                    "remove the override, or write the change it was meant to make",
-                                ),
+                                CheckError::OverrideChangesNothing {
+                                    section: rule.section.text.clone(),
+                                    at: rule.section.span,
+                                    replaced: rules[i].rule.section.span,
+                                }
+                                .into(),
                             );
                             place(rules, existing, entry);
                         }
@@ -290,13 +267,11 @@ impl<'a> Checker<'a> {
                 ClassItem::Drop(section) => {
                     if !conditions.is_empty() {
                         self.error(
-                            Problem::error(
-                                "gonogo::check::conditional-drop",
-                                format!("`drop {}` cannot sit inside a `when` group", section.text),
-                                section.span,
-                                "inside `when`",
-                            )
-                            .with_help("to make a rule conditional, `override` it with a `when` line instead"),
+                            CheckError::ConditionalDrop {
+                                section: section.text.clone(),
+                                at: section.span,
+                            }
+                            .into(),
                         );
                     } else if let Some(i) = rules
                         .iter()
@@ -305,13 +280,12 @@ impl<'a> Checker<'a> {
                         rules.remove(i);
                     } else {
                         self.error(
-                            Problem::error(
-                                "gonogo::check::nothing-to-drop",
-                                format!("`{}` has no rule {} to drop", source.class, section.text),
-                                section.span,
-                                "no such rule",
-                            )
-                            .with_help("check the section number against the class it extends"),
+                            CheckError::NothingToDrop {
+                                class: source.class.clone(),
+                                section: section.text.clone(),
+                                at: section.span,
+                            }
+                            .into(),
                         );
                     }
                 }
@@ -325,51 +299,37 @@ impl<'a> Checker<'a> {
         rule: &crate::parse::ast::Rule,
         source: &Source,
     ) {
-        let first = existing.rule.section.span;
-        let problem = if existing.origin == source.origin {
-            Problem::error(
-                "gonogo::check::duplicate-section",
-                format!(
-                    "section {} appears twice in `{}`",
-                    rule.section.text, source.class
-                ),
-                rule.section.span,
-                "second rule with this number",
-            )
-            .with_label(first, "first rule with this number")
-            .with_help("give each rule its own section number")
+        let (section, at, first) = (
+            rule.section.text.clone(),
+            rule.section.span,
+            existing.rule.section.span,
+        );
+        let error = if existing.origin == source.origin {
+            CheckError::DuplicateSection {
+                class: source.class.clone(),
+                section,
+                at,
+                first,
+            }
         } else {
-            let from = match &existing.origin {
-                Origin::Class(c) => format!("class `{c}`"),
-                Origin::Bulletin(b) => format!("bulletin `{b}`"),
-            };
-            Problem::error(
-                "gonogo::check::duplicate-section",
-                format!("section {} already comes from {from}", rule.section.text),
-                rule.section.span,
-                "same section number",
-            )
-            .with_label(first, "the rule it would clash with")
-            .with_help(format!(
-                "write `override rule {}` to replace it, or use a new section number",
-                rule.section.text
-            ))
+            CheckError::SectionClash {
+                section,
+                from: existing.origin.clone(),
+                at,
+                first,
+            }
         };
-        self.error(problem);
+        self.error(error.into());
     }
 
     fn report_nothing_to_override(&mut self, rule: &crate::parse::ast::Rule, source: &Source) {
         self.error(
-            Problem::error(
-                "gonogo::check::nothing-to-override",
-                format!(
-                    "`{}` has no rule {} to override",
-                    source.class, rule.section.text
-                ),
-                rule.section.span,
-                "no such rule",
-            )
-            .with_help("remove `override` to add a new rule, or check the section number"),
+            CheckError::NothingToOverride {
+                class: source.class.clone(),
+                section: rule.section.text.clone(),
+                at: rule.section.span,
+            }
+            .into(),
         );
     }
 }

@@ -12,6 +12,7 @@ mod bounds;
 pub mod builtins;
 mod classes;
 mod constants;
+pub mod error;
 pub use constants::quantity_si;
 pub mod interval;
 pub mod limit;

@@ -4,8 +4,8 @@
 use regex::RegexBuilder;
 
 use super::Checker;
+use super::error::CheckError;
 use super::model::{PartEntry, PartsList};
-use crate::diagnostic::Problem;
 use crate::parse::ast::{ListEntry, Pattern};
 
 /// Largest compiled program a pattern may have, in bytes.
@@ -23,13 +23,12 @@ impl<'a> Checker<'a> {
                     ListEntry::Exact(text) => {
                         if seen.contains(&text.value.as_str()) {
                             self.error(
-                                Problem::warning(
-                                    "gonogo::check::duplicate-entry",
-                                    format!("`{}` is listed twice in `{name}`", text.value),
-                                    text.span,
-                                    "listed again",
-                                )
-                                .with_help("remove the second entry"),
+                                CheckError::DuplicateEntry {
+                                    entry: text.value.clone(),
+                                    list: name.to_string(),
+                                    at: text.span,
+                                }
+                                .into(),
                             );
                         }
                         seen.push(&text.value);
@@ -86,14 +85,14 @@ impl<'a> Checker<'a> {
                 let Ok(re) = compiled else { continue }; // reported where the list is compiled
                 for (banned_list, id, span) in banned.iter().filter(|(_, id, _)| re.is_match(id)) {
                     found.push(
-                        Problem::warning(
-                            "gonogo::check::approved-and-banned",
-                            format!("this pattern of approved list `{}` also matches `{id}`, which banned list `{banned_list}` bans", list.name.text),
-                            pattern.span,
-                            "matches a banned part",
-                        )
-                        .with_label(*span, "banned here")
-                        .with_help("narrow the pattern so it leaves out the banned part"),
+                        CheckError::ApprovedAndBanned {
+                            approved: list.name.text.clone(),
+                            part: id.clone(),
+                            banned: banned_list.to_string(),
+                            at: pattern.span,
+                            banned_at: *span,
+                        }
+                        .into(),
                     );
                 }
             }
@@ -111,13 +110,11 @@ impl<'a> Checker<'a> {
             Ok(re) => Some(re),
             Err(regex::Error::CompiledTooBig(limit)) => {
                 self.error(
-                    Problem::error(
-                        "gonogo::check::pattern-too-large",
-                        format!("this pattern compiles to more than {limit} bytes"),
-                        pattern.span,
-                        "too large",
-                    )
-                    .with_help("a casting-number family is a short pattern; list long families as several smaller patterns"),
+                    CheckError::PatternTooLarge {
+                        limit,
+                        at: pattern.span,
+                    }
+                    .into(),
                 );
                 None
             }
@@ -130,13 +127,11 @@ impl<'a> Checker<'a> {
                     .trim()
                     .trim_start_matches("error: ");
                 self.error(
-                    Problem::error(
-                        "gonogo::check::bad-pattern",
-                        format!("this pattern does not compile: {last}"),
-                        pattern.span,
-                        "bad pattern",
-                    )
-                    .with_help("check the brackets and escapes; write `\\/` for a slash"),
+                    CheckError::BadPattern {
+                        reason: last.to_string(),
+                        at: pattern.span,
+                    }
+                    .into(),
                 );
                 None
             }

@@ -4,6 +4,7 @@
 use std::collections::BTreeMap;
 
 use super::Checker;
+use super::error::{CheckError, Definition, HeaderLine};
 use crate::diagnostic::Problem;
 use crate::parse::ast::{Item, Name};
 use crate::parse::includes::RulebookFiles;
@@ -25,36 +26,28 @@ impl<'a> Checker<'a> {
     fn collect_item(&mut self, item: &'a Item, in_root: bool) {
         match item {
             Item::Series(_) | Item::Edition(_) | Item::Decision(_) if !in_root => {
-                let span = header_span(item);
-                self.error(
-                    Problem::error(
-                        "gonogo::check::header-in-include",
-                        "an included file cannot set the rulebook's header",
-                        span,
-                        "header line",
-                    )
-                    .with_help("move `series`, `edition` and `decision` to the main rulebook file"),
-                );
+                let at = header_span(item);
+                self.error(CheckError::HeaderInInclude { at }.into());
             }
             Item::Series(text) => once(
                 &mut self.series,
                 text,
                 text.span,
-                "series",
+                HeaderLine::Series,
                 &mut self.problems,
             ),
             Item::Edition(e) => once(
                 &mut self.edition,
                 e,
                 e.name.span,
-                "edition",
+                HeaderLine::Edition,
                 &mut self.problems,
             ),
             Item::Decision(d) => once(
                 &mut self.decision,
                 d,
                 d.span,
-                "decision",
+                HeaderLine::Decision,
                 &mut self.problems,
             ),
             Item::Include(_) => {}
@@ -73,7 +66,7 @@ impl<'a> Checker<'a> {
             Item::List(l) => {
                 let spans: BTreeMap<&str, Span> =
                     self.lists.iter().map(|(k, v)| (*k, v.name.span)).collect();
-                if unique_in(&spans, &l.name, "parts list", &mut self.problems) {
+                if unique_in(&spans, &l.name, Definition::PartsList, &mut self.problems) {
                     self.lists.insert(&l.name.text, l);
                 }
             }
@@ -83,7 +76,7 @@ impl<'a> Checker<'a> {
                     .iter()
                     .map(|(k, v)| (*k, v.name.span))
                     .collect();
-                if unique_in(&spans, &c.name, "class", &mut self.problems) {
+                if unique_in(&spans, &c.name, Definition::Class, &mut self.problems) {
                     self.classes.insert(&c.name.text, c);
                     self.class_order.push(&c.name.text);
                 }
@@ -96,14 +89,12 @@ impl<'a> Checker<'a> {
         if let Some(first) = self.bulletins.iter().find(|o| o.id.value == b.id.value) {
             let first = first.id.span;
             self.error(
-                Problem::error(
-                    "gonogo::check::duplicate-bulletin",
-                    format!("bulletin `{}` is issued twice", b.id.value),
-                    b.id.span,
-                    "second time",
-                )
-                .with_label(first, "first time")
-                .with_help("give each bulletin its own identifier, or merge the two"),
+                CheckError::DuplicateBulletin {
+                    id: b.id.value.clone(),
+                    at: b.id.span,
+                    first,
+                }
+                .into(),
             );
             return;
         }
@@ -121,52 +112,26 @@ impl<'a> Checker<'a> {
             return true;
         };
         self.error(
-            Problem::error(
-                "gonogo::check::duplicate-name",
-                format!("`{}` is declared twice", name.text),
-                name.span,
-                "declared again here",
-            )
-            .with_label(first, "first declared here")
-            .with_help(
-                "measurements and derived values share one set of names; rename or remove one",
-            ),
+            CheckError::DuplicateValueName {
+                name: name.text.clone(),
+                at: name.span,
+                first,
+            }
+            .into(),
         );
         false
     }
 
     fn require_header(&mut self, file: crate::source::FileId) {
-        let start = Span::new(file, 0, 0);
+        let at = Span::new(file, 0, 0);
         let missing = [
-            (
-                self.series.is_none(),
-                "series",
-                "series \"Tamsin Valley Stock Car Club\"",
-            ),
-            (
-                self.edition.is_none(),
-                "edition",
-                "edition \"2027\" effective 2027-03-06",
-            ),
-            (
-                self.decision.is_none(),
-                "decision",
-                "decision guarded rejection",
-            ),
+            (self.series.is_none(), HeaderLine::Series),
+            (self.edition.is_none(), HeaderLine::Edition),
+            (self.decision.is_none(), HeaderLine::Decision),
         ];
-        for (absent, what, example) in missing {
+        for (absent, line) in missing {
             if absent {
-                self.error(
-                    Problem::error(
-                        "gonogo::check::missing-header",
-                        format!("the rulebook has no `{what}` line"),
-                        start,
-                        "",
-                    )
-                    .with_help(format!(
-                        "add a line like `{example}` at the top of the file"
-                    )),
-                );
+                self.error(CheckError::MissingHeader { line, at }.into());
             }
         }
     }
@@ -184,20 +149,12 @@ fn header_span(item: &Item) -> Span {
 fn once<'a, T>(
     slot: &mut Option<&'a T>,
     value: &'a T,
-    span: Span,
-    what: &str,
+    at: Span,
+    line: HeaderLine,
     problems: &mut Vec<Problem>,
 ) {
     if slot.is_some() {
-        problems.push(
-            Problem::error(
-                "gonogo::check::duplicate-header",
-                format!("the rulebook sets `{what}` twice"),
-                span,
-                "second time",
-            )
-            .with_help(format!("keep one `{what}` line")),
-        );
+        problems.push(CheckError::DuplicateHeader { line, at }.into());
     } else {
         *slot = Some(value);
     }
@@ -206,23 +163,20 @@ fn once<'a, T>(
 fn unique_in(
     existing: &BTreeMap<&str, Span>,
     name: &Name,
-    what: &str,
+    kind: Definition,
     problems: &mut Vec<Problem>,
 ) -> bool {
     let Some(first) = existing.get(name.text.as_str()) else {
         return true;
     };
     problems.push(
-        Problem::error(
-            "gonogo::check::duplicate-name",
-            format!("{what} `{}` is defined twice", name.text),
-            name.span,
-            "defined again here",
-        )
-        .with_label(*first, "first defined here")
-        .with_help(format!(
-            "rename or remove one of the two {what} definitions"
-        )),
+        CheckError::DuplicateDefinition {
+            kind,
+            name: name.text.clone(),
+            at: name.span,
+            first: *first,
+        }
+        .into(),
     );
     false
 }

@@ -1,5 +1,9 @@
-//! The syntax tree of a rulebook, exactly as written. Every node keeps its [`Span`]; spans
-//! never take part in equality, so two trees compare equal when their structure does.
+//! The syntax tree of a rulebook, exactly as written. Every node keeps its [`Span`], and every
+//! span field is marked `#[derive_where(skip)]`, so the trees' equality leaves spans out: two
+//! trees compare equal when their structure does, wherever they were written. [`Span`] itself
+//! has real equality.
+
+use derive_where::derive_where;
 
 use crate::source::Span;
 
@@ -38,20 +42,24 @@ pub enum Item {
 }
 
 /// A string literal with escapes resolved.
-#[derive(Clone, Debug, PartialEq)]
+#[derive(Clone, Debug)]
+#[derive_where(PartialEq)]
 pub struct Text {
     /// The value after escapes.
     pub value: String,
     /// Where it was written, quotes included.
+    #[derive_where(skip)]
     pub span: Span,
 }
 
 /// A name: a single identifier or a dotted path (`carburetor.airflow`).
-#[derive(Clone, Debug, PartialEq)]
+#[derive(Clone, Debug)]
+#[derive_where(PartialEq)]
 pub struct Name {
     /// The full dotted text.
     pub text: String,
     /// Where it was written.
+    #[derive_where(skip)]
     pub span: Span,
 }
 
@@ -73,11 +81,13 @@ impl std::fmt::Display for Date {
 }
 
 /// A date with the span it was written at.
-#[derive(Clone, Copy, Debug, PartialEq)]
+#[derive(Clone, Copy, Debug)]
+#[derive_where(PartialEq)]
 pub struct DateAt {
     /// The date.
     pub date: Date,
     /// Where.
+    #[derive_where(skip)]
     pub span: Span,
 }
 
@@ -113,16 +123,19 @@ impl DecisionRule {
 }
 
 /// `decision guarded rejection`
-#[derive(Clone, Debug, PartialEq)]
+#[derive(Clone, Debug)]
+#[derive_where(PartialEq)]
 pub struct Decision {
     /// The rule chosen.
     pub rule: DecisionRule,
     /// Where.
+    #[derive_where(skip)]
     pub span: Span,
 }
 
 /// `measure NAME: DIMENSION [per cylinder] [required|optional] [range A to B] ["procedure"]`
-#[derive(Clone, Debug, PartialEq)]
+#[derive(Clone, Debug)]
+#[derive_where(PartialEq)]
 pub struct Measure {
     /// What the declaration calls it.
     pub name: Name,
@@ -137,17 +150,20 @@ pub struct Measure {
     /// The one-line procedure printed on the measurement sheet.
     pub procedure: Option<Text>,
     /// The whole item.
+    #[derive_where(skip)]
     pub span: Span,
 }
 
 /// `define NAME = EXPR`
-#[derive(Clone, Debug, PartialEq)]
+#[derive(Clone, Debug)]
+#[derive_where(PartialEq)]
 pub struct Define {
     /// The derived value's name.
     pub name: Name,
     /// How it is computed.
     pub expr: Expr,
     /// The whole item.
+    #[derive_where(skip)]
     pub span: Span,
 }
 
@@ -161,7 +177,8 @@ pub enum ListKind {
 }
 
 /// `approved list NAME "title" ENTRY... end`
-#[derive(Clone, Debug, PartialEq)]
+#[derive(Clone, Debug)]
+#[derive_where(PartialEq)]
 pub struct PartsList {
     /// Approved or banned.
     pub kind: ListKind,
@@ -172,6 +189,7 @@ pub struct PartsList {
     /// Exact identifiers and patterns.
     pub entries: Vec<ListEntry>,
     /// The whole item.
+    #[derive_where(skip)]
     pub span: Span,
 }
 
@@ -185,18 +203,21 @@ pub enum ListEntry {
 }
 
 /// A regular expression literal `/.../` with an optional `i` flag.
-#[derive(Clone, Debug, PartialEq)]
+#[derive(Clone, Debug)]
+#[derive_where(PartialEq)]
 pub struct Pattern {
     /// The expression, with `\/` turned back into `/`.
     pub source: String,
     /// The `i` flag.
     pub ignore_case: bool,
     /// Where, slashes included.
+    #[derive_where(skip)]
     pub span: Span,
 }
 
 /// `class NAME "title" [extends NAME] BODY end`
-#[derive(Clone, Debug, PartialEq)]
+#[derive(Clone, Debug)]
+#[derive_where(PartialEq)]
 pub struct Class {
     /// The class's name.
     pub name: Name,
@@ -207,11 +228,13 @@ pub struct Class {
     /// Rules, conditional groups and drops.
     pub body: Vec<ClassItem>,
     /// The whole item.
+    #[derive_where(skip)]
     pub span: Span,
 }
 
 /// `bulletin "ID" ["title"] effective DATE amends CLASS BODY end`
-#[derive(Clone, Debug, PartialEq)]
+#[derive(Clone, Debug)]
+#[derive_where(PartialEq)]
 pub struct Bulletin {
     /// The bulletin's identifier.
     pub id: Text,
@@ -224,6 +247,7 @@ pub struct Bulletin {
     /// New rules, overrides and drops.
     pub body: Vec<ClassItem>,
     /// The whole item.
+    #[derive_where(skip)]
     pub span: Span,
 }
 
@@ -243,27 +267,32 @@ pub enum ClassItem {
 }
 
 /// `when COND BODY end`
-#[derive(Clone, Debug, PartialEq)]
+#[derive(Clone, Debug)]
+#[derive_where(PartialEq)]
 pub struct WhenGroup {
     /// When the body applies.
     pub condition: Condition,
     /// The items it guards.
     pub body: Vec<ClassItem>,
     /// The whole group.
+    #[derive_where(skip)]
     pub span: Span,
 }
 
 /// A section number as the rulebook writes it (`3.1`, `7.4.2`, `12a`).
-#[derive(Clone, Debug, PartialEq)]
+#[derive(Clone, Debug)]
+#[derive_where(PartialEq)]
 pub struct Section {
     /// The text.
     pub text: String,
     /// Where.
+    #[derive_where(skip)]
     pub span: Span,
 }
 
 /// `[override] rule SECTION "title" [when COND] require TEST [penalty "..."] [note "..."] end`
-#[derive(Clone, Debug, PartialEq)]
+#[derive(Clone, Debug)]
+#[derive_where(PartialEq)]
 pub struct Rule {
     /// Replaces an inherited rule of the same section.
     pub overrides: bool,
@@ -280,6 +309,7 @@ pub struct Rule {
     /// A note for the report.
     pub note: Option<Text>,
     /// The whole rule.
+    #[derive_where(skip)]
     pub span: Span,
 }
 
@@ -326,11 +356,13 @@ impl CompareOp {
 }
 
 /// A single test: what a rule requires, or one atom of a condition.
-#[derive(Clone, Debug, PartialEq)]
+#[derive(Clone, Debug)]
+#[derive_where(PartialEq)]
 pub struct Test {
     /// What is tested.
     pub kind: TestKind,
     /// The whole test.
+    #[derive_where(skip)]
     pub span: Span,
 }
 
@@ -384,7 +416,8 @@ pub enum TestKind {
 }
 
 /// A condition: tests joined by `and`, `or`, `not`.
-#[derive(Clone, Debug, PartialEq)]
+#[derive(Clone, Debug)]
+#[derive_where(PartialEq)]
 #[allow(
     clippy::large_enum_variant,
     reason = "a rulebook's tree is small and built once; boxing would only add indirection"
@@ -397,7 +430,7 @@ pub enum Condition {
     /// Either holds.
     Or(Box<Condition>, Box<Condition>),
     /// Does not hold.
-    Not(Box<Condition>, Span),
+    Not(Box<Condition>, #[derive_where(skip)] Span),
 }
 
 impl Condition {
@@ -412,11 +445,13 @@ impl Condition {
 }
 
 /// An arithmetic expression.
-#[derive(Clone, Debug, PartialEq)]
+#[derive(Clone, Debug)]
+#[derive_where(PartialEq)]
 pub struct Expr {
     /// What kind.
     pub kind: ExprKind,
     /// Where.
+    #[derive_where(skip)]
     pub span: Span,
 }
 
@@ -486,27 +521,26 @@ pub struct Arg {
     pub value: Expr,
 }
 
-/// A number as written, with the value it denotes.
+/// A number as written, with the value it denotes. Two numbers are equal when their values
+/// are: the digits as written (`4.0`, `4.000`) are kept for printing, not for equality.
 #[derive(Clone, Debug)]
+#[derive_where(PartialEq)]
 pub struct Number {
     /// The value.
     pub value: f64,
     /// The text written (`1-5/8`, `4.030`), kept for printing.
+    #[derive_where(skip)]
     pub text: String,
 }
 
-impl PartialEq for Number {
-    fn eq(&self, other: &Number) -> bool {
-        self.value == other.value
-    }
-}
-
 /// A unit symbol as written, resolved by the checker.
-#[derive(Clone, Debug, PartialEq)]
+#[derive(Clone, Debug)]
+#[derive_where(PartialEq)]
 pub struct UnitRef {
     /// The symbol.
     pub symbol: String,
     /// Where.
+    #[derive_where(skip)]
     pub span: Span,
 }
 

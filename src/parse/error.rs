@@ -1,26 +1,333 @@
-//! The parser's error type: where parsing stopped, what it expected there, or a specific
-//! complaint (an unterminated string, a bad date), and its conversion to a [`Problem`].
+//! The parse stage's errors as data. [`ParseError`] says what went wrong in a rulebook's text
+//! and [`ReadError`] why a file could not be read or included; each derives its code, message,
+//! label and help from its fields in one place and becomes a [`Problem`]. [`SyntaxError`] is
+//! the nom error type that carries a [`ParseError`] (or the set of things expected) to the
+//! place parsing stopped.
 
-use nom::error::{ErrorKind, ParseError};
+use std::path::Path;
 
-use super::lexical::Input;
+use nom::error::{ErrorKind, ParseError as NomParseError};
+
+use super::lexical::{Input, MAX_CHAIN, MAX_DEPTH};
 use crate::diagnostic::Problem;
-use crate::source::{FileId, Span};
+use crate::source::{FileId, MAX_FILE_BYTES, ReadFailure, Span};
+
+/// What went wrong in a rulebook's text. Where it went wrong travels beside it (in a
+/// [`SyntaxError`]) and is given to [`ParseError::problem`].
+#[derive(Clone, Debug, PartialEq)]
+pub enum ParseError {
+    /// Something else was expected where `found` stands (empty at the end of the file).
+    Unexpected {
+        /// What would have been accepted.
+        expected: Expected,
+        /// The token written there.
+        found: String,
+    },
+    /// More than [`MAX_CHAIN`] terms joined in one expression or condition.
+    TooLong,
+    /// Nesting deeper than [`MAX_DEPTH`] levels.
+    TooDeep,
+    /// An escape in a string that is not one of the known ones.
+    BadEscape,
+    /// A string with no closing quote on its line.
+    UnterminatedString,
+    /// A fraction with a zero denominator.
+    BadFraction,
+    /// A number too large to be finite.
+    NumberTooLarge,
+    /// A date in the right shape that is not on the calendar.
+    BadDate {
+        /// The date as written.
+        written: String,
+    },
+    /// A pattern with no closing `/` on its line.
+    UnterminatedPattern,
+    /// `allowing` in a condition.
+    AllowanceInCondition,
+    /// `allowing` after a list or pattern test.
+    AllowanceOnList,
+    /// `and` or `or` joining tests in a rule's `require`.
+    JoinedRequire,
+}
+
+impl ParseError {
+    /// The stable code.
+    pub fn code(&self) -> &'static str {
+        match self {
+            ParseError::Unexpected { .. } => "gonogo::parse::unexpected",
+            ParseError::TooLong => "gonogo::parse::too-long",
+            ParseError::TooDeep => "gonogo::parse::too-deep",
+            ParseError::BadEscape => "gonogo::parse::bad-escape",
+            ParseError::UnterminatedString => "gonogo::parse::unterminated-string",
+            ParseError::BadFraction => "gonogo::parse::bad-fraction",
+            ParseError::NumberTooLarge => "gonogo::parse::number-too-large",
+            ParseError::BadDate { .. } => "gonogo::parse::bad-date",
+            ParseError::UnterminatedPattern => "gonogo::parse::unterminated-pattern",
+            ParseError::AllowanceInCondition => "gonogo::parse::allowance-in-condition",
+            ParseError::AllowanceOnList => "gonogo::parse::allowance-on-list",
+            ParseError::JoinedRequire => "gonogo::parse::joined-require",
+        }
+    }
+
+    /// What is wrong.
+    pub fn message(&self) -> String {
+        match self {
+            ParseError::Unexpected { expected, found } => {
+                let found = if found.is_empty() {
+                    "the end of the file".to_string()
+                } else {
+                    format!("`{found}`")
+                };
+                format!(
+                    "expected {}, found {found}",
+                    list_alternatives(expected.labels())
+                )
+            }
+            ParseError::TooLong => {
+                format!("more than {MAX_CHAIN} terms are joined in one expression or condition")
+            }
+            ParseError::TooDeep => format!("nesting is deeper than {MAX_DEPTH} levels"),
+            ParseError::BadEscape => "unknown escape in string".to_string(),
+            ParseError::UnterminatedString => "this string has no closing quote".to_string(),
+            ParseError::BadFraction => "this fraction divides by zero".to_string(),
+            ParseError::NumberTooLarge => "this number is too large".to_string(),
+            ParseError::BadDate { written } => format!("`{written}` is not a calendar date"),
+            ParseError::UnterminatedPattern => "this pattern has no closing `/`".to_string(),
+            ParseError::AllowanceInCondition => {
+                "an allowance belongs to a rule's `require`, not to a condition".to_string()
+            }
+            ParseError::AllowanceOnList => {
+                "an allowance applies to a numeric limit, not to a parts list or pattern"
+                    .to_string()
+            }
+            ParseError::JoinedRequire => "a rule's `require` holds a single test".to_string(),
+        }
+    }
+
+    /// The label under the offending text.
+    pub fn label(&self) -> &'static str {
+        match self {
+            ParseError::Unexpected { .. } => "not expected here",
+            _ => "here",
+        }
+    }
+
+    /// How to fix it.
+    pub fn help(&self) -> String {
+        let fixed = match self {
+            ParseError::Unexpected { expected, found } => {
+                return expected_help(expected.labels(), found);
+            }
+            ParseError::TooLong => "name parts of it with `define` and join the names",
+            ParseError::TooDeep => {
+                "split the expression into named `define` values, or flatten the `when` groups"
+            }
+            ParseError::BadEscape => "the escapes are `\\\"`, `\\\\`, `\\n`, `\\t` and `\\u{...}`",
+            ParseError::UnterminatedString => "end the string with `\"` on the same line",
+            ParseError::BadFraction => {
+                "a fraction is written like `5/8` or `1-5/8`, with a denominator above zero"
+            }
+            ParseError::NumberTooLarge => "write a number below 1e300",
+            ParseError::BadDate { .. } => {
+                "write the date as year-month-day, for example `2027-03-06`"
+            }
+            ParseError::UnterminatedPattern => {
+                "end the pattern with `/` on the same line; write `\\/` for a slash inside it"
+            }
+            ParseError::AllowanceInCondition => {
+                "move `allowing ...` to the rule's `require` line, or drop it"
+            }
+            ParseError::AllowanceOnList => {
+                "drop `allowing ...`, or add the part to the list instead"
+            }
+            ParseError::JoinedRequire => {
+                "split it into two rules with their own section numbers, or put the extra test in a `when` line"
+            }
+        };
+        fixed.to_string()
+    }
+
+    /// The problem to show the user, underlining `at`.
+    pub fn problem(&self, at: Span) -> Problem {
+        Problem::error(self.code(), self.message(), at, self.label()).with_help(self.help())
+    }
+}
+
+/// Why a rulebook file, or a file it includes, could not be read.
+#[derive(Clone, Debug, PartialEq)]
+pub enum ReadError {
+    /// The operating system refused to read the file.
+    Io {
+        /// The file, as given.
+        path: String,
+        /// The operating system's reason.
+        reason: String,
+        /// The `include` that named it, if an include did.
+        included_at: Option<Span>,
+    },
+    /// The file is larger than [`MAX_FILE_BYTES`].
+    TooLarge {
+        /// The file, as given.
+        path: String,
+        /// Its size in bytes.
+        size: u64,
+        /// The `include` that named it, if an include did.
+        included_at: Option<Span>,
+    },
+    /// The file is not UTF-8 text.
+    NotUtf8 {
+        /// The file, as given.
+        path: String,
+        /// Byte offset of the first bad byte.
+        offset: usize,
+        /// The `include` that named it, if an include did.
+        included_at: Option<Span>,
+    },
+    /// An include path that is absolute or climbs out with `..`.
+    IncludeOutside {
+        /// The path as written.
+        include: String,
+        /// Where.
+        at: Span,
+    },
+    /// An include whose file is a link leading out of the including file's folder.
+    IncludeLeadsOutside {
+        /// The path as written.
+        include: String,
+        /// Where.
+        at: Span,
+    },
+    /// An include whose file does not exist.
+    IncludeMissing {
+        /// The path as written.
+        include: String,
+        /// Where.
+        at: Span,
+    },
+    /// An include that leads back to a file being read.
+    IncludeCycle {
+        /// The path as written.
+        include: String,
+        /// Where.
+        at: Span,
+    },
+}
+
+impl ReadError {
+    /// The error for `path` that could not be read, named by an include at `included_at`.
+    pub fn unreadable(path: &Path, failure: ReadFailure, included_at: Option<Span>) -> ReadError {
+        let path = path.display().to_string();
+        match failure {
+            ReadFailure::Io(e) => ReadError::Io {
+                path,
+                reason: e.to_string(),
+                included_at,
+            },
+            ReadFailure::TooLarge(size) => ReadError::TooLarge {
+                path,
+                size,
+                included_at,
+            },
+            ReadFailure::NotUtf8(offset) => ReadError::NotUtf8 {
+                path,
+                offset,
+                included_at,
+            },
+        }
+    }
+
+    /// The stable code.
+    pub fn code(&self) -> &'static str {
+        match self {
+            ReadError::Io { .. } => "gonogo::read::io",
+            ReadError::TooLarge { .. } => "gonogo::read::too-large",
+            ReadError::NotUtf8 { .. } => "gonogo::read::not-utf8",
+            ReadError::IncludeOutside { .. } | ReadError::IncludeLeadsOutside { .. } => {
+                "gonogo::read::include-outside"
+            }
+            ReadError::IncludeMissing { .. } => "gonogo::read::include-missing",
+            ReadError::IncludeCycle { .. } => "gonogo::read::include-cycle",
+        }
+    }
+
+    /// What is wrong.
+    pub fn message(&self) -> String {
+        match self {
+            ReadError::Io { path, reason, .. } => format!("cannot read `{path}`: {reason}"),
+            ReadError::TooLarge { path, size, .. } => {
+                format!("`{path}` is {size} bytes, over the limit of {MAX_FILE_BYTES} bytes")
+            }
+            ReadError::NotUtf8 { path, offset, .. } => {
+                format!("`{path}` is not UTF-8 text (first bad byte at offset {offset})")
+            }
+            ReadError::IncludeOutside { include, .. } => {
+                format!("`{include}` is not in this file's folder or below it")
+            }
+            ReadError::IncludeLeadsOutside { include, .. } => {
+                format!("`{include}` leads outside this file's folder")
+            }
+            ReadError::IncludeMissing { include, .. } => {
+                format!("the included file `{include}` does not exist")
+            }
+            ReadError::IncludeCycle { include, .. } => {
+                format!("`{include}` includes itself, directly or through other files")
+            }
+        }
+    }
+
+    /// The place to underline and its label, when there is one.
+    pub fn label(&self) -> Option<(Span, &'static str)> {
+        match self {
+            ReadError::Io { included_at, .. }
+            | ReadError::TooLarge { included_at, .. }
+            | ReadError::NotUtf8 { included_at, .. } => included_at.map(|s| (s, "included here")),
+            ReadError::IncludeOutside { at, .. } => Some((*at, "include path")),
+            ReadError::IncludeLeadsOutside { at, .. } => Some((*at, "a link leads elsewhere")),
+            ReadError::IncludeMissing { at, .. } => Some((*at, "not found")),
+            ReadError::IncludeCycle { at, .. } => Some((*at, "cycle")),
+        }
+    }
+
+    /// How to fix it.
+    pub fn help(&self) -> &'static str {
+        match self {
+            ReadError::Io { .. } => "check the path and that the file may be read",
+            ReadError::TooLarge { .. } => {
+                "a rulebook or declaration this large is not a real one; split it or check the file"
+            }
+            ReadError::NotUtf8 { .. } => "save the file as UTF-8",
+            ReadError::IncludeOutside { .. } => {
+                "an include names a file beside this one or in a folder below it, like `parts/heads.rules`"
+            }
+            ReadError::IncludeLeadsOutside { .. } => {
+                "copy the file into this folder instead of linking to it"
+            }
+            ReadError::IncludeMissing { .. } => {
+                "check the file name; the path is relative to this file's folder"
+            }
+            ReadError::IncludeCycle { .. } => "remove one of the includes that close the loop",
+        }
+    }
+}
+
+impl From<ReadError> for Problem {
+    fn from(e: ReadError) -> Problem {
+        let mut problem = Problem::unlocated(e.code(), e.message()).with_help(e.help());
+        if let Some((span, label)) = e.label() {
+            problem = problem.with_label(span, label);
+        }
+        problem
+    }
+}
 
 /// Why parsing failed at one place.
 #[derive(Clone, Debug, PartialEq)]
 pub enum SyntaxKind {
     /// Something else was expected; the labels say what.
     Expected(Expected),
-    /// A specific complaint, with its code, message and help line.
-    Specific {
-        /// Stable code.
-        code: &'static str,
-        /// What is wrong.
-        message: String,
-        /// How to fix it.
-        help: String,
-    },
+    /// A specific complaint, boxed: it is rare, and the nom error stays small for the many
+    /// failed alternatives of a parse.
+    Specific(Box<ParseError>),
 }
 
 /// What was expected at one place: a few labels, kept inline so that the many failed
@@ -78,66 +385,37 @@ impl SyntaxError {
     }
 
     /// A specific complaint about the `len` bytes at `input`.
-    pub fn specific(
-        input: &Input,
-        len: usize,
-        code: &'static str,
-        message: impl Into<String>,
-        help: impl Into<String>,
-    ) -> SyntaxError {
+    pub fn specific(input: &Input, len: usize, error: ParseError) -> SyntaxError {
         SyntaxError {
             file: input.extra.file,
             offset: input.location_offset(),
             len,
-            kind: SyntaxKind::Specific {
-                code,
-                message: message.into(),
-                help: help.into(),
-            },
+            kind: SyntaxKind::Specific(Box::new(error)),
         }
     }
 
     /// The problem to show the user, with the offending token quoted from `text`.
     pub fn to_problem(&self, text: &str) -> Problem {
+        let found = found_token(text, self.offset);
         match &self.kind {
-            SyntaxKind::Expected(what) => {
-                let found = found_token(text, self.offset);
-                let span = Span::new(self.file, self.offset, self.offset + found.len().max(1));
-                let found_words = if found.is_empty() {
-                    "the end of the file".to_string()
-                } else {
-                    format!("`{found}`")
-                };
-                Problem::error(
-                    "gonogo::parse::unexpected",
-                    format!(
-                        "expected {}, found {found_words}",
-                        list_alternatives(what.labels())
-                    ),
-                    span,
-                    "not expected here",
-                )
-                .with_help(expected_help(what.labels(), found))
+            SyntaxKind::Expected(expected) => ParseError::Unexpected {
+                expected: *expected,
+                found: found.to_string(),
             }
-            SyntaxKind::Specific {
-                code,
-                message,
-                help,
-            } => {
+            .problem(self.span(found.len().max(1))),
+            SyntaxKind::Specific(error) => {
                 let len = if self.len == 0 {
-                    found_token(text, self.offset).len().max(1)
+                    found.len().max(1)
                 } else {
                     self.len
                 };
-                Problem::error(
-                    code,
-                    message.clone(),
-                    Span::new(self.file, self.offset, self.offset + len),
-                    "here",
-                )
-                .with_help(help.clone())
+                error.problem(self.span(len))
             }
         }
+    }
+
+    fn span(&self, len: usize) -> Span {
+        Span::new(self.file, self.offset, self.offset + len)
     }
 }
 
@@ -193,7 +471,7 @@ fn list_alternatives(items: &[&'static str]) -> String {
     }
 }
 
-impl<'a> ParseError<Input<'a>> for SyntaxError {
+impl<'a> NomParseError<Input<'a>> for SyntaxError {
     fn from_error_kind(input: Input<'a>, _kind: ErrorKind) -> SyntaxError {
         SyntaxError {
             file: input.extra.file,
@@ -235,6 +513,71 @@ impl<'a> ParseError<Input<'a>> for SyntaxError {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn each_parse_error_has_its_own_code() {
+        let all = [
+            ParseError::Unexpected {
+                expected: Expected::one("a name"),
+                found: String::new(),
+            },
+            ParseError::TooLong,
+            ParseError::TooDeep,
+            ParseError::BadEscape,
+            ParseError::UnterminatedString,
+            ParseError::BadFraction,
+            ParseError::NumberTooLarge,
+            ParseError::BadDate {
+                written: "2027-02-30".to_string(),
+            },
+            ParseError::UnterminatedPattern,
+            ParseError::AllowanceInCondition,
+            ParseError::AllowanceOnList,
+            ParseError::JoinedRequire,
+        ];
+        let mut codes: Vec<&str> = all.iter().map(ParseError::code).collect();
+        codes.sort_unstable();
+        codes.dedup();
+        assert_eq!(codes.len(), all.len());
+    }
+
+    #[test]
+    fn an_unexpected_end_of_file_is_named_so() {
+        let e = ParseError::Unexpected {
+            expected: Expected::one("`end`"),
+            found: String::new(),
+        };
+        assert_eq!(e.message(), "expected `end`, found the end of the file");
+        let p = e.problem(Span::new(0, 4, 5));
+        assert_eq!(
+            p.labels,
+            vec![(Span::new(0, 4, 5), "not expected here".to_string())]
+        );
+    }
+
+    #[test]
+    fn an_unreadable_file_points_at_the_include_that_named_it() {
+        let at = Span::new(0, 8, 20);
+        let failure = ReadFailure::TooLarge(MAX_FILE_BYTES + 1);
+        let p: Problem = ReadError::unreadable(Path::new("big.rules"), failure, Some(at)).into();
+        assert_eq!(
+            p.code,
+            ReadError::TooLarge {
+                path: String::new(),
+                size: 0,
+                included_at: None
+            }
+            .code()
+        );
+        assert_eq!(
+            p.message,
+            "`big.rules` is 8388609 bytes, over the limit of 8388608 bytes"
+        );
+        assert_eq!(p.primary_span(), Some(at));
+        let unlocated: Problem =
+            ReadError::unreadable(Path::new("big.rules"), ReadFailure::NotUtf8(3), None).into();
+        assert_eq!(unlocated.primary_span(), None);
+    }
 
     #[test]
     fn alternatives_read_as_a_sentence() {

@@ -9,7 +9,7 @@ use super::ast::{
     Arg, BinaryOp, CompareOp, Condition, Expr, ExprKind, Number, Quantity, Test, TestKind,
     Uncertainty, UnitRef,
 };
-use super::error::SyntaxError;
+use super::error::{ParseError, SyntaxError};
 use super::lexical::{
     Input, MAX_CHAIN, NumberPiece, PResult, Piece, QuantityParts, chain_too_long, dotted_name,
     identifier, keyword, nested, pattern, quantity_parts, span_between, string, symbol, ws,
@@ -353,9 +353,7 @@ fn with_allowance(input: Input, mut kind: TestKind, allowance: Allowance) -> PRe
         return Err(Err::Failure(SyntaxError::specific(
             &start,
             at.end - at.start,
-            "gonogo::parse::allowance-in-condition",
-            "an allowance belongs to a rule's `require`, not to a condition",
-            "move `allowing ...` to the rule's `require` line, or drop it",
+            ParseError::AllowanceInCondition,
         )));
     }
     let (rest, value) = nom::combinator::cut(expr).parse(rest)?;
@@ -369,9 +367,7 @@ fn with_allowance(input: Input, mut kind: TestKind, allowance: Allowance) -> PRe
             Err(Err::Failure(SyntaxError::specific(
                 &start,
                 at.end - at.start,
-                "gonogo::parse::allowance-on-list",
-                "an allowance applies to a numeric limit, not to a parts list or pattern",
-                "drop `allowing ...`, or add the part to the list instead",
+                ParseError::AllowanceOnList,
             )))
         }
     }

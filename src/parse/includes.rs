@@ -5,9 +5,10 @@
 use std::path::{Component, Path, PathBuf};
 
 use super::ast::{Item, Rulebook, Text};
+use super::error::ReadError;
 use super::parse_rulebook;
 use crate::diagnostic::Problem;
-use crate::source::{FileId, MAX_FILE_BYTES, ReadFailure, SourceMap};
+use crate::source::{FileId, ReadFailure, SourceMap};
 
 /// Every file of one rulebook, parsed; the root file first.
 #[derive(Debug, Default)]
@@ -35,25 +36,7 @@ pub fn read_rulebook(path: &Path, sources: &mut SourceMap) -> (RulebookFiles, Ve
 
 /// The problem for a file that could not be read.
 pub fn read_problem(path: &Path, failure: ReadFailure) -> Problem {
-    let shown = path.display();
-    match failure {
-        ReadFailure::Io(e) => {
-            Problem::unlocated("gonogo::read::io", format!("cannot read `{shown}`: {e}"))
-                .with_help("check the path and that the file may be read")
-        }
-        ReadFailure::TooLarge(size) => Problem::unlocated(
-            "gonogo::read::too-large",
-            format!("`{shown}` is {size} bytes, over the limit of {MAX_FILE_BYTES} bytes"),
-        )
-        .with_help(
-            "a rulebook or declaration this large is not a real one; split it or check the file",
-        ),
-        ReadFailure::NotUtf8(at) => Problem::unlocated(
-            "gonogo::read::not-utf8",
-            format!("`{shown}` is not UTF-8 text (first bad byte at offset {at})"),
-        )
-        .with_help("save the file as UTF-8"),
-    }
+    ReadError::unreadable(path, failure, None).into()
 }
 
 struct Reader<'a> {
@@ -98,68 +81,45 @@ impl Reader<'_> {
 
     fn follow(&mut self, folder: &Path, include: &Text) {
         let Some(relative) = safe_relative(&include.value) else {
-            self.problems.push(
-                Problem::error(
-                    "gonogo::read::include-outside",
-                    format!("`{}` is not in this file's folder or below it", include.value),
-                    include.span,
-                    "include path",
-                )
-                .with_help("an include names a file beside this one or in a folder below it, like `parts/heads.rules`"),
-            );
+            self.refuse(ReadError::IncludeOutside {
+                include: include.value.clone(),
+                at: include.span,
+            });
             return;
         };
         let target = folder.join(relative);
         let (canonical, inside) = match (target.canonicalize(), folder.canonicalize()) {
             (Ok(t), Ok(f)) => (t.clone(), t.starts_with(f)),
             _ => {
-                self.problems.push(
-                    Problem::error(
-                        "gonogo::read::include-missing",
-                        format!("the included file `{}` does not exist", include.value),
-                        include.span,
-                        "not found",
-                    )
-                    .with_help("check the file name; the path is relative to this file's folder"),
-                );
+                self.refuse(ReadError::IncludeMissing {
+                    include: include.value.clone(),
+                    at: include.span,
+                });
                 return;
             }
         };
         if !inside {
-            self.problems.push(
-                Problem::error(
-                    "gonogo::read::include-outside",
-                    format!("`{}` leads outside this file's folder", include.value),
-                    include.span,
-                    "a link leads elsewhere",
-                )
-                .with_help("copy the file into this folder instead of linking to it"),
-            );
+            self.refuse(ReadError::IncludeLeadsOutside {
+                include: include.value.clone(),
+                at: include.span,
+            });
         } else if self.stack.contains(&canonical) {
-            self.problems.push(
-                Problem::error(
-                    "gonogo::read::include-cycle",
-                    format!(
-                        "`{}` includes itself, directly or through other files",
-                        include.value
-                    ),
-                    include.span,
-                    "cycle",
-                )
-                .with_help("remove one of the includes that close the loop"),
-            );
+            self.refuse(ReadError::IncludeCycle {
+                include: include.value.clone(),
+                at: include.span,
+            });
         } else if !self.seen.contains(&canonical) {
             match self.sources.read(&target) {
                 Ok(id) => self.parse_file(id, &target),
                 Err(failure) => {
-                    let mut problem = read_problem(&target, failure);
-                    problem
-                        .labels
-                        .push((include.span, "included here".to_string()));
-                    self.problems.push(problem);
+                    self.refuse(ReadError::unreadable(&target, failure, Some(include.span)))
                 }
             }
         }
+    }
+
+    fn refuse(&mut self, error: ReadError) {
+        self.problems.push(error.into());
     }
 }
 

@@ -9,7 +9,7 @@ use super::ast::{
     Bulletin, Class, ClassItem, Decision, DecisionRule, Define, Edition, Item, ListEntry, ListKind,
     Measure, PartsList, Rule, WhenGroup,
 };
-use super::error::SyntaxError;
+use super::error::{ParseError, SyntaxError};
 use super::expr::{Allowance, condition, expr, test};
 use super::lexical::{
     Input, PResult, date, dotted_name, identifier, keyword, nested, pattern, section, span_between,
@@ -313,9 +313,7 @@ fn refuse_joined_tests(input: Input) -> PResult<()> {
         Ok((_, span)) => Err(Err::Failure(SyntaxError::specific(
             &start,
             span.end - span.start,
-            "gonogo::parse::joined-require",
-            "a rule's `require` holds a single test",
-            "split it into two rules with their own section numbers, or put the extra test in a `when` line",
+            ParseError::JoinedRequire,
         ))),
         Err(_) => Ok((input, ())),
     }

@@ -9,7 +9,7 @@ use nom::{Err, IResult, Parser};
 use nom_locate::LocatedSpan;
 
 use super::ast::{Date, DateAt, Name, Pattern, Section, Text};
-use super::error::SyntaxError;
+use super::error::{ParseError, SyntaxError};
 use crate::source::{FileId, Span};
 
 /// Deepest nesting of parentheses, calls and `when` groups the parser accepts.
@@ -20,13 +20,7 @@ pub const MAX_CHAIN: usize = 200;
 
 /// The error for a chain longer than [`MAX_CHAIN`].
 pub fn chain_too_long(input: &Input) -> Err<SyntaxError> {
-    Err::Failure(SyntaxError::specific(
-        input,
-        1,
-        "gonogo::parse::too-long",
-        format!("more than {MAX_CHAIN} terms are joined in one expression or condition"),
-        "name parts of it with `define` and join the names",
-    ))
+    Err::Failure(SyntaxError::specific(input, 1, ParseError::TooLong))
 }
 
 /// What the parser carries along with its position: the file and the nesting depth.
@@ -294,9 +288,7 @@ pub fn string(input: Input) -> PResult<Text> {
                     return Err(Err::Failure(SyntaxError::specific(
                         &bad,
                         2,
-                        "gonogo::parse::bad-escape",
-                        "unknown escape in string",
-                        "the escapes are `\\\"`, `\\\\`, `\\n`, `\\t` and `\\u{...}`",
+                        ParseError::BadEscape,
                     )));
                 }
             },
@@ -306,9 +298,7 @@ pub fn string(input: Input) -> PResult<Text> {
     Err(Err::Failure(SyntaxError::specific(
         &start,
         1,
-        "gonogo::parse::unterminated-string",
-        "this string has no closing quote",
-        "end the string with `\"` on the same line",
+        ParseError::UnterminatedString,
     )))
 }
 
@@ -440,22 +430,12 @@ pub fn number_piece(input: Input) -> PResult<NumberPiece> {
         }
     };
     if !value.is_finite() {
-        let (code, message, help) = if text[..len].contains('/') {
-            (
-                "gonogo::parse::bad-fraction",
-                "this fraction divides by zero",
-                "a fraction is written like `5/8` or `1-5/8`, with a denominator above zero",
-            )
+        let error = if text[..len].contains('/') {
+            ParseError::BadFraction
         } else {
-            (
-                "gonogo::parse::number-too-large",
-                "this number is too large",
-                "write a number below 1e300",
-            )
+            ParseError::NumberTooLarge
         };
-        return Err(Err::Failure(SyntaxError::specific(
-            &start, len, code, message, help,
-        )));
+        return Err(Err::Failure(SyntaxError::specific(&start, len, error)));
     }
     let rest = advance(start, len);
     Ok((
@@ -597,9 +577,9 @@ pub fn date(input: Input) -> PResult<DateAt> {
         None => Err(Err::Failure(SyntaxError::specific(
             &start,
             len,
-            "gonogo::parse::bad-date",
-            format!("`{}` is not a calendar date", text.fragment()),
-            "write the date as year-month-day, for example `2027-03-06`",
+            ParseError::BadDate {
+                written: text.fragment().to_string(),
+            },
         ))),
     }
 }
@@ -672,9 +652,7 @@ pub fn pattern(input: Input) -> PResult<Pattern> {
     Err(Err::Failure(SyntaxError::specific(
         &start,
         1,
-        "gonogo::parse::unterminated-pattern",
-        "this pattern has no closing `/`",
-        "end the pattern with `/` on the same line; write `\\/` for a slash inside it",
+        ParseError::UnterminatedPattern,
     )))
 }
 
@@ -712,9 +690,7 @@ pub fn nested<'a, T>(
         return Err(Err::Failure(SyntaxError::specific(
             &input,
             1,
-            "gonogo::parse::too-deep",
-            format!("nesting is deeper than {MAX_DEPTH} levels"),
-            "split the expression into named `define` values, or flatten the `when` groups",
+            ParseError::TooDeep,
         )));
     }
     let deeper = input.map_extra(|c| Context {

@@ -10,7 +10,7 @@ mod items;
 mod lexical;
 pub mod print;
 
-pub use error::{Expected, SyntaxError, SyntaxKind};
+pub use error::{Expected, ParseError, ReadError, SyntaxError, SyntaxKind};
 pub use lexical::{KEYWORDS, MAX_DEPTH, NumberPiece, Piece, QuantityParts, UncertaintyParts};
 
 use ast::Rulebook;

@@ -2,6 +2,7 @@
 //! and the underlined text of syntax errors.
 
 use super::ast::{BinaryOp, ClassItem, Condition, ExprKind, Item, TestKind};
+use super::error::ParseError;
 use super::parse_rulebook;
 use super::print::{canonical, expr_text};
 use crate::diagnostic::Problem;
@@ -181,7 +182,18 @@ fn spans_cover_what_was_written() {
 fn trees_ignore_spans_and_layout() {
     let a = parse_ok("define x = (a+b)*c");
     let b = parse_ok("define   x =\n  ( a + b ) * c   # comment");
+    let (Some(Item::Define(da)), Some(Item::Define(db))) = (a.first(), b.first()) else {
+        panic!("no define")
+    };
+    assert_ne!(da.expr.span, db.expr.span, "the spans differ");
     assert_eq!(a, b);
+}
+
+#[test]
+fn trees_that_differ_in_structure_are_unequal() {
+    assert_ne!(parse_ok("define x = a + b"), parse_ok("define x = a - b"));
+    assert_ne!(parse_ok("define x = a + b"), parse_ok("define y = a + b"));
+    assert_ne!(parse_ok("define x = 4 in"), parse_ok("define x = 4 mm"));
 }
 
 #[test]
@@ -224,19 +236,19 @@ fn deep_nesting_is_an_error_not_a_crash() {
     let text = format!("define x = {}1", "(".repeat(100_000));
     let p = problems(&text);
     assert_eq!(p.len(), 1);
-    assert_eq!(p[0].code, "gonogo::parse::too-deep");
+    assert_eq!(p[0].code, ParseError::TooDeep.code());
 }
 
 #[test]
 fn long_chains_are_an_error_not_a_crash() {
     let text = format!("define x = 1{}", " + 1".repeat(10_000));
-    assert_eq!(problems(&text)[0].code, "gonogo::parse::too-long");
+    assert_eq!(problems(&text)[0].code, ParseError::TooLong.code());
 }
 
 #[test]
 fn a_require_with_and_gets_a_specific_error() {
     let text = "class c rule 1 \"t\" require a == 1 and b == 2 end end";
-    assert_eq!(problems(text)[0].code, "gonogo::parse::joined-require");
+    assert_eq!(problems(text)[0].code, ParseError::JoinedRequire.code());
 }
 
 #[test]
@@ -244,6 +256,6 @@ fn an_allowance_in_a_condition_is_refused() {
     let text = "class c when a <= 1 allowing 1 rule 1 \"t\" require a == 1 end end end";
     assert_eq!(
         problems(text)[0].code,
-        "gonogo::parse::allowance-in-condition"
+        ParseError::AllowanceInCondition.code()
     );
 }
