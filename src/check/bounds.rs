@@ -6,9 +6,9 @@ use std::collections::BTreeMap;
 
 use super::Checker;
 use super::classes::ClassState;
+use super::error::CheckError;
 use super::interval::Interval;
 use super::limit::{self, Limit, Operand, Side};
-use crate::diagnostic::Problem;
 use crate::parse::ast::{ClassItem, Condition, Expr, ExprKind};
 use crate::parse::print::expr_text;
 use crate::source::Span;
@@ -49,17 +49,15 @@ impl<'a> Checker<'a> {
         for (subject, bounds) in by_subject {
             if let Some((a, b)) = first_conflict(&bounds) {
                 let ((a, _), (b, _)) = (a, b);
-                let mut problem = Problem::error(
-                    "gonogo::check::contradictory-limits",
-                    format!("the limits on `{subject}` in class `{}` leave no legal value", state.class),
-                    b,
-                    "this limit",
-                )
-                .with_help("no engine can pass both; correct one limit, or make one rule conditional with `when`");
-                if a.start != b.start {
-                    problem = problem.with_label(a, "conflicts with this one");
-                }
-                self.error(problem);
+                self.error(
+                    CheckError::ContradictoryLimits {
+                        subject,
+                        class: state.class.to_string(),
+                        at: b,
+                        other: (a.start != b.start).then_some(a),
+                    }
+                    .into(),
+                );
             }
         }
     }
@@ -135,24 +133,20 @@ impl<'a> Checker<'a> {
         } else {
             (cond.span(), "never true")
         };
-        let mut problem = Problem::error(
-            "gonogo::check::never-holds",
-            "this condition can never hold",
-            primary,
-            label,
-        )
-        .with_help(
-            "the rules under it would never apply; correct the condition or remove the rules",
-        );
-        for (span, label) in [
+        let parts = [
             (first, first_label.unwrap_or("this part")),
             (second, second_label.unwrap_or("this part")),
-        ] {
-            if span.start != primary.start || span.file != primary.file {
-                problem = problem.with_label(span, label);
+        ]
+        .into_iter()
+        .filter(|(span, _)| span.start != primary.start || span.file != primary.file)
+        .collect();
+        self.error(
+            CheckError::NeverHolds {
+                at: (primary, label),
+                parts,
             }
-        }
-        self.error(problem);
+            .into(),
+        );
         false
     }
 

@@ -5,6 +5,7 @@
 
 use super::Checker;
 use super::classes::ClassState;
+use super::error::CheckError;
 use super::interval::Interval;
 use super::limit::SideKind;
 use super::model::ClassRule;
@@ -124,24 +125,20 @@ impl Checker<'_> {
         let reach = Interval::closed(reach.low, reach.high);
         if allowed.contains(reach) {
             return Some(
-                Problem::warning(
-                    "gonogo::check::never-fails",
-                    format!("this rule can never fail: the declared measurement ranges keep `{name}` inside its limit"),
-                    test.span,
-                    "always met",
-                )
-                .with_help("tighten the limit, or widen the `range` of the measurements it reads if real engines go further"),
+                CheckError::NeverFails {
+                    subject: name,
+                    at: test.span,
+                }
+                .into(),
             );
         }
         if allowed.intersect(reach).is_empty() {
             return Some(
-                Problem::warning(
-                    "gonogo::check::never-met",
-                    format!("this rule can never be met: the declared measurement ranges keep `{name}` outside its limit"),
-                    test.span,
-                    "never met",
-                )
-                .with_help("check the limit and its unit against the `range` of the measurements it reads"),
+                CheckError::NeverMet {
+                    subject: name,
+                    at: test.span,
+                }
+                .into(),
             );
         }
         None
