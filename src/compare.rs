@@ -5,9 +5,6 @@
 //! checked rulebooks and their canonical texts.
 
 use crate::check::model::{CheckedRulebook, ClassRule, Measurement, PartEntry, ValueKind};
-use crate::evaluate::expr::Evaluator;
-use crate::evaluate::value::Value;
-use crate::load::Declaration;
 use crate::parse::ast::{CompareOp, Expr, ExprKind, TestKind};
 use crate::units::{self, Unit};
 
@@ -325,12 +322,7 @@ struct Bound {
 
 /// The numeric limit a rule sets, when its limit side is a constant.
 fn bound(book: &CheckedRulebook, r: &ClassRule) -> Option<Bound> {
-    let empty = Declaration::default();
-    let mut ev = Evaluator::new(book, &empty);
-    let mut constant = |e: &Expr| match ev.eval(e) {
-        Ok(Value::Single(d)) if d.partials.is_empty() && d.value.is_finite() => Some(d.value),
-        _ => None,
-    };
+    let constant = |e: &Expr| book.constant(e);
     match &r.rule.require.kind {
         TestKind::Compare {
             left,

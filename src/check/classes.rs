@@ -2,7 +2,7 @@
 //! flattened through inheritance, `override`, `drop`, `when` groups and bulletins.
 
 use super::Checker;
-use super::model::{ClassRule, Origin};
+use super::model::{Origin, WrittenRule as ClassRule};
 use crate::diagnostic::Problem;
 use crate::parse::ast::{ClassItem, Condition, Date};
 use crate::suggest::closest;
