@@ -196,13 +196,7 @@ impl<'a> Evaluator<'a> {
         }
         let rulebook = self.rulebook;
         let written = rulebook.literals.get(literal.index()).ok_or_else(unknown)?;
-        let count = self.declaration.inputs.len() + self.rulebook_inputs.len();
-        let id = InputId::try_from(count).map_err(|_| {
-            Unevaluated::internal(format!(
-                "{count} inputs are more than gonogo can number (at most {})",
-                InputId::MAX
-            ))
-        })?;
+        let id = input_id(self.declaration.inputs.len() + self.rulebook_inputs.len())?;
         self.rulebook_inputs.push(Input {
             name: InputName::Literal(written.text.clone()),
             value: written.value,
@@ -272,5 +266,29 @@ fn binary(op: BinaryOp, l: &Value, r: &Value) -> Value {
         BinaryOp::Divide => l.zip(r, Dual::div),
         // the checker allows only constant exponents
         BinaryOp::Power => l.zip(r, |a, b| a.powf(b.value)),
+    }
+}
+
+/// The id of the input numbered `count`, or an error when ids run out (never a reused id).
+fn input_id(count: usize) -> Evaluated<InputId> {
+    InputId::try_from(count).map_err(|_| {
+        Unevaluated::internal(format!(
+            "input {count} is beyond the {} inputs gonogo can number",
+            InputId::MAX
+        ))
+    })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn input_ids_that_run_out_are_an_error_not_a_shared_id() {
+        // issue 8: the input after the last id fell back to `u32::MAX`, an id it could share
+        assert_eq!(input_id(7), Ok(7));
+        let last = InputId::MAX as usize;
+        assert_eq!(input_id(last), Ok(InputId::MAX));
+        assert!(matches!(input_id(last + 1), Err(Unevaluated::Internal(_))));
     }
 }
