@@ -7,9 +7,6 @@
 use crate::check::interval::{End, Interval};
 use crate::check::limit::SideKind;
 use crate::check::model::{CheckedRulebook, ClassRule, Measurement, PartEntry, ValueKind};
-use crate::evaluate::expr::Evaluator;
-use crate::evaluate::value::Value;
-use crate::load::Declaration;
 use crate::parse::ast::{Expr, ExprKind};
 use crate::units::{self, Unit};
 
@@ -335,12 +332,7 @@ fn bound(book: &CheckedRulebook, r: &ClassRule) -> Option<Bound> {
     ) {
         return None;
     }
-    let empty = Declaration::default();
-    let mut ev = Evaluator::new(book, &empty);
-    let numbers = limit.evaluated(|e| match ev.eval(e) {
-        Ok(Value::Single(d)) if d.partials.is_empty() && d.value.is_finite() => Some(d.value),
-        _ => None,
-    })?;
+    let numbers = limit.evaluated(|e| book.constant(e).filter(|v| v.is_finite()))?;
     Some(Bound {
         subject: crate::parse::print::expr_text(&limit.subject),
         side: limit.kind(),

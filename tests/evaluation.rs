@@ -10,7 +10,7 @@ use gonogo::check::model::CheckedRulebook;
 use gonogo::evaluate::check_engine;
 use gonogo::evaluate::finding::{Finding, Verdict};
 use gonogo::evaluate::outcome::Applies;
-use gonogo::load::declaration_from_text;
+use gonogo::load::{Declaration, Supplied, declaration_from_text};
 use gonogo::parse::ast::DecisionRule;
 use gonogo::parse::includes::RulebookFiles;
 use gonogo::parse::parse_rulebook;
@@ -26,6 +26,11 @@ measure car.weight: mass "Scale"
 measure ballast: mass optional "Ballast weighed apart"
 measure head.material: text "cast iron or aluminium"
 measure stroke: length "Dial indicator"
+measure head.casting: text optional "Casting number"
+
+banned list banned_heads "Banned heads"
+  "BF-290"
+end
 
 define total = car.weight + ballast
 define weight_per_ballast = car.weight / ballast
@@ -39,6 +44,11 @@ class hobby "Hobby"
   rule 6 "Heavy cars only" when car.weight >= 3050 lb require stroke <= 3.48 in end
   rule 7 "Aluminium" when head.material == "aluminium" require car.weight >= 3200 lb end
   rule 8 "Ballast share" require weight_per_ballast <= 100 end
+  rule 9 "Stock bore" require bore == 4.000 in end
+  rule 10 "Not the stock bore" require bore != 4.000 in end
+  rule 11 "Bore window" require bore between 3.990 in and 4.040 in end
+  rule 12 "Head not banned" require head.casting not in banned_heads end
+  rule 13 "Stroke of the engine" require displacement(4.000 in, stroke, 8) <= 360 ci end
 end
 "#;
 
@@ -76,21 +86,30 @@ impl Case {
         }
     }
 
-    /// The outcome of every rule for `yaml` under `decision`.
-    fn run(&self, yaml: &str, decision: DecisionRule) -> Vec<Row> {
+    /// The declaration written in `yaml`.
+    fn declaration(&self, yaml: &str) -> Declaration {
         let mut sources = SourceMap::default();
-        let d = declaration_from_text(
+        declaration_from_text(
             Path::new("case.yaml"),
             yaml.to_string(),
             &self.rulebook,
             &mut sources,
         )
-        .unwrap_or_else(|p| panic!("{p:?}"));
+        .unwrap_or_else(|p| panic!("{p:?}"))
+    }
+
+    /// The outcome of every rule for `yaml` under `decision`.
+    fn run(&self, yaml: &str, decision: DecisionRule) -> Vec<Row> {
+        self.run_declaration(&self.declaration(yaml), decision)
+    }
+
+    /// The outcome of every rule for a declaration under `decision`.
+    fn run_declaration(&self, d: &Declaration, decision: DecisionRule) -> Vec<Row> {
         let class = self
             .rulebook
             .class("hobby")
             .unwrap_or_else(|| panic!("no class"));
-        check_engine(&self.rulebook, class, &d, Some(decision))
+        check_engine(&self.rulebook, class, d, Some(decision))
             .outcomes
             .iter()
             .map(|o| Row {
@@ -116,9 +135,11 @@ impl Case {
                     .as_ref()
                     .and_then(|c| c.numeric.as_ref())
                     .and_then(|n| n.cylinder),
+                observed: o.checked.as_ref().and_then(|c| c.observed.clone()),
                 applies: o.applies,
                 missing: o.missing.clone(),
                 not_finite: o.not_finite,
+                error: o.error.clone(),
             })
             .collect()
     }
@@ -132,9 +153,11 @@ struct Row {
     expanded: Option<f64>,
     probability: Option<f64>,
     cylinder: Option<usize>,
+    observed: Option<String>,
     applies: Applies,
     missing: Vec<String>,
     not_finite: bool,
+    error: Option<String>,
 }
 
 const IN: f64 = 0.0254; // NIST SP 811 B.8
@@ -321,4 +344,115 @@ fn a_value_that_is_not_a_number_decides_nothing() {
     );
     assert!(rows[7].not_finite, "{:?}", rows[7]);
     assert_eq!(rows[7].verdict, Verdict::NotChecked);
+}
+
+#[test]
+fn per_cylinder_equality_holds_on_every_cylinder_and_names_the_deciding_one() {
+    // issue 8: `bore == 4.000 in` with 4.000, 4.200, 4.300, 4.100 in was LEGAL, because only
+    // cylinder 1 was compared; cylinder 2 is the first that is not 4.000 in
+    let case = Case::new();
+    let bores = "\"4.000 in\", \"4.200 in\", \"4.300 in\", \"4.100 in\"";
+    let rows = case.run(
+        &declaration(bores, "3100 lb", ""),
+        DecisionRule::GuardedRejection,
+    );
+    assert_eq!(rows[8].finding, Some(Finding::Fail), "{:?}", rows[8]);
+    assert_eq!(rows[8].verdict, Verdict::Illegal);
+    assert_eq!(rows[8].observed.as_deref(), Some("4.2 (cylinder 2)"));
+    // `!=` likewise: cylinder 3 is the stock bore, so the rule fails there
+    let bores = "\"4.100 in\", \"4.200 in\", \"4.000 in\", \"4.300 in\"";
+    let rows = case.run(
+        &declaration(bores, "3100 lb", ""),
+        DecisionRule::GuardedRejection,
+    );
+    assert_eq!(rows[9].verdict, Verdict::Illegal, "{:?}", rows[9]);
+    assert_eq!(rows[9].observed.as_deref(), Some("4 (cylinder 3)"));
+    // every cylinder at 4.000 in: `==` passes, `!=` fails at cylinder 1
+    let bores = "\"4.000 in\", \"4.000 in\", \"4.000 in\", \"4.000 in\"";
+    let rows = case.run(
+        &declaration(bores, "3100 lb", ""),
+        DecisionRule::GuardedRejection,
+    );
+    assert_eq!(rows[8].verdict, Verdict::Legal, "{:?}", rows[8]);
+    assert_eq!(rows[9].verdict, Verdict::Illegal, "{:?}", rows[9]);
+    assert_eq!(rows[9].observed.as_deref(), Some("4 (cylinder 1)"));
+}
+
+/// A declaration whose bores are a per-cylinder list of no cylinders, which the loader never
+/// makes: a state evaluation must meet with "not checked", not with a finding.
+fn no_bores(case: &Case) -> Declaration {
+    let mut d = case.declaration(&declaration("\"4.0 in\"", "3100 lb", ""));
+    let bore = case
+        .rulebook
+        .measurement_index("bore")
+        .unwrap_or_else(|| panic!("no bore"));
+    d.supplied[bore] = Some(Supplied::PerCylinder(Vec::new()));
+    d
+}
+
+#[test]
+fn a_between_with_no_number_is_not_checked() {
+    // issue 8: a `between` over no value gave `fail`, so ILLEGAL
+    let case = Case::new();
+    let rows = case.run_declaration(&no_bores(&case), DecisionRule::GuardedRejection);
+    assert_eq!(rows[10].verdict, Verdict::NotChecked, "{:?}", rows[10]);
+    assert_eq!(rows[10].finding, None);
+    let why = rows[10].error.as_deref().unwrap_or_default();
+    assert!(why.contains("no number"), "{why}");
+    // and so are the other per-cylinder tests of it
+    assert_eq!(rows[0].verdict, Verdict::NotChecked, "{:?}", rows[0]);
+    assert_eq!(rows[8].verdict, Verdict::NotChecked, "{:?}", rows[8]);
+}
+
+#[test]
+fn a_parts_list_missing_from_the_model_is_not_a_pass() {
+    // issue 8: a list that could not be found counted as "not on it", so `not in` passed
+    let case = Case::new();
+    let d = case.declaration(&declaration(
+        "\"4.0 in\"",
+        "3100 lb",
+        "  head.casting: \"BF-290\"\n",
+    ));
+    let rows = case.run_declaration(&d, DecisionRule::GuardedRejection);
+    assert_eq!(rows[11].verdict, Verdict::Illegal, "banned: {:?}", rows[11]);
+    let mut broken = Case::new();
+    broken.rulebook.lists.clear();
+    let rows = broken.run_declaration(&d, DecisionRule::GuardedRejection);
+    assert_eq!(rows[11].verdict, Verdict::NotChecked, "{:?}", rows[11]);
+}
+
+#[test]
+fn evaluation_reads_the_resolved_call_not_the_name_as_written() {
+    // issue 8: an unknown formula name evaluated to NaN. The checker refuses an unknown name,
+    // and evaluation folds over the call it bound, so even a written name changed after
+    // checking cannot reach evaluation. π/4 · 4² · 3.480 · 8 in³ = 349.85 ci (by hand)
+    let mut case = Case::new();
+    let rows = case.run(
+        &declaration("\"4.0 in\"", "3100 lb", ""),
+        DecisionRule::GuardedRejection,
+    );
+    assert_eq!(rows[12].verdict, Verdict::Legal, "{:?}", rows[12]);
+    let by_hand = (360.0 - std::f64::consts::PI * 4.0 * 3.480 * 8.0) * IN * IN * IN;
+    assert!(close(rows[12].margin.unwrap_or(f64::NAN), by_hand, 1e-9));
+    for class in &mut case.rulebook.classes {
+        for rule in &mut class.rules {
+            rename_calls(&mut rule.rule.require);
+        }
+    }
+    let rows = case.run(
+        &declaration("\"4.0 in\"", "3100 lb", ""),
+        DecisionRule::GuardedRejection,
+    );
+    assert_eq!(rows[12].verdict, Verdict::Legal, "{:?}", rows[12]);
+    assert!(!rows[12].not_finite);
+}
+
+/// Renames every call written in a test to a function that does not exist.
+fn rename_calls(test: &mut gonogo::parse::ast::Test) {
+    use gonogo::parse::ast::{ExprKind, TestKind};
+    if let TestKind::Compare { left, .. } = &mut test.kind
+        && let ExprKind::Call { function, .. } = &mut left.kind
+    {
+        function.text = "nonesuch".to_string();
+    }
 }

@@ -3,7 +3,7 @@
 
 use super::Checker;
 use super::error::{CheckError, ClassReference};
-use super::model::{ClassRule, Origin};
+use super::model::{Origin, WrittenRule as ClassRule};
 use crate::parse::ast::{ClassItem, Condition, Date};
 use crate::suggest::closest;
 

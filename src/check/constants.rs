@@ -9,34 +9,54 @@ use crate::units;
 const MAX_FOLD_DEPTH: u32 = 32;
 
 impl Checker<'_> {
-    /// The expression's constant value in SI units, if it has one.
+    /// The expression's constant value in SI units, if it has one (a number with a stated
+    /// uncertainty counts as its value).
     pub(super) fn constant(&self, expr: &Expr) -> Option<f64> {
-        self.fold(expr, 0)
+        let lookup = |name: &str| self.defines.get(name).map(|d| &d.expr);
+        fold(expr, &lookup, true)
     }
+}
 
-    fn fold(&self, expr: &Expr, depth: u32) -> Option<f64> {
-        if depth > MAX_FOLD_DEPTH {
-            return None;
-        }
-        let value = match &expr.kind {
-            ExprKind::Quantity(q) => quantity_si(q)?,
-            ExprKind::Name(n) if n.text == "pi" => std::f64::consts::PI,
-            ExprKind::Name(n) => self.fold(&self.defines.get(n.text.as_str())?.expr, depth + 1)?,
-            ExprKind::Negate(inner) => -self.fold(inner, depth)?,
-            ExprKind::Binary { op, left, right } => {
-                let (a, b) = (self.fold(left, depth)?, self.fold(right, depth)?);
-                match op {
-                    BinaryOp::Add => a + b,
-                    BinaryOp::Subtract => a - b,
-                    BinaryOp::Multiply => a * b,
-                    BinaryOp::Divide => a / b,
-                    BinaryOp::Power => a.powf(b),
-                }
-            }
-            ExprKind::Text(_) | ExprKind::Call { .. } => return None,
-        };
-        value.is_finite().then_some(value)
+/// The constant value of `expr` in SI units, following names through `lookup` to the
+/// expressions of derived values. A number with a stated uncertainty is a constant only when
+/// `uncertain_is_constant`.
+pub(super) fn fold<'e>(
+    expr: &'e Expr,
+    lookup: &dyn Fn(&str) -> Option<&'e Expr>,
+    uncertain_is_constant: bool,
+) -> Option<f64> {
+    fold_at(expr, lookup, uncertain_is_constant, 0)
+}
+
+fn fold_at<'e>(
+    expr: &'e Expr,
+    lookup: &dyn Fn(&str) -> Option<&'e Expr>,
+    uncertain: bool,
+    depth: u32,
+) -> Option<f64> {
+    if depth > MAX_FOLD_DEPTH {
+        return None;
     }
+    let value = match &expr.kind {
+        ExprKind::Quantity(q) if q.uncertainty.is_some() && !uncertain => return None,
+        ExprKind::Quantity(q) => quantity_si(q)?,
+        ExprKind::Name(n) if n.text == "pi" => std::f64::consts::PI,
+        ExprKind::Name(n) => fold_at(lookup(&n.text)?, lookup, uncertain, depth + 1)?,
+        ExprKind::Negate(inner) => -fold_at(inner, lookup, uncertain, depth)?,
+        ExprKind::Binary { op, left, right } => {
+            let a = fold_at(left, lookup, uncertain, depth)?;
+            let b = fold_at(right, lookup, uncertain, depth)?;
+            match op {
+                BinaryOp::Add => a + b,
+                BinaryOp::Subtract => a - b,
+                BinaryOp::Multiply => a * b,
+                BinaryOp::Divide => a / b,
+                BinaryOp::Power => a.powf(b),
+            }
+        }
+        ExprKind::Text(_) | ExprKind::Call { .. } => return None,
+    };
+    value.is_finite().then_some(value)
 }
 
 /// A quantity literal's value in SI units (a number without a unit is itself).

@@ -4,7 +4,8 @@
 //! contradictions, conditions that can never hold and measurements that are never used.
 //!
 //! The work is split by concern: [`symbols`] collects and de-duplicates the declarations,
-//! [`types`] types expressions, [`classes`] flattens classes, [`limit`] puts every limit in one
+//! [`types`] types expressions and resolves them into [`resolved`] trees, [`builtins`] is the
+//! table of built-in functions, [`classes`] flattens classes, [`limit`] puts every limit in one
 //! normal form, [`bounds`] reasons about limits and conditions, [`usage`] finds what is never
 //! used.
 
@@ -19,6 +20,7 @@ pub mod limit;
 pub mod model;
 mod patterns;
 mod ranges;
+pub mod resolved;
 mod symbols;
 mod types;
 mod usage;
@@ -28,7 +30,7 @@ use std::collections::{BTreeMap, HashMap, HashSet};
 use crate::diagnostic::{Level, Problem};
 use crate::parse::ast;
 use crate::parse::includes::RulebookFiles;
-use model::{CheckedRulebook, Measurement, PartsList, Type};
+use model::{CheckedRulebook, ClassRule, Measurement, PartsList, Type, WrittenRule};
 
 /// Checks a parsed rulebook. Returns the checked rulebook when there is no error, and every
 /// problem found (warnings too) either way.
@@ -49,7 +51,10 @@ pub fn check(files: &RulebookFiles) -> (Option<CheckedRulebook>, Vec<Problem>) {
     if problems.iter().any(|p| p.level == Level::Error) {
         return (None, problems);
     }
-    (checker.into_model(classes), problems)
+    match checker.into_model(classes) {
+        Ok(model) => (Some(model), problems),
+        Err(problem) => (None, problems.into_iter().chain([problem]).collect()),
+    }
 }
 
 /// Problems found more than once (a class flattened at several dates) are shown once.
@@ -91,7 +96,16 @@ struct Checker<'a> {
     sound_classes: HashSet<&'a str>,
     /// Every measurement or derived value some rule, condition or definition reads.
     used: HashSet<String>,
-    /// The compiled pattern of every `matches` test, by where the pattern is written.
+    /// Resolved expressions of derived values.
+    define_terms: HashMap<&'a str, resolved::Term>,
+    /// Literals with a stated uncertainty, by [`resolved::LiteralId`].
+    literals: Vec<resolved::UncertainLiteral>,
+    /// While checking, the id of each literal with a stated uncertainty by where it is
+    /// written, so that a literal resolved again (a rule flattened into several classes)
+    /// keeps its one id.
+    literal_ids: HashMap<(u32, usize), resolved::LiteralId>,
+    /// While checking, the compiled pattern of every `matches` test by where it is written,
+    /// so that each is compiled once.
     test_patterns: HashMap<(u32, usize), regex::Regex>,
 }
 
@@ -110,60 +124,63 @@ impl<'a> Checker<'a> {
     }
 }
 
+/// The problem raised when the checks passed but the model cannot be built: a mistake in
+/// gonogo, never in the rulebook.
+fn internal(what: &str, span: crate::source::Span) -> Problem {
+    Problem::error(
+        "gonogo::check::internal",
+        format!("the checked rulebook could not be built: {what}"),
+        span,
+        "here",
+    )
+    .with_help("this is a mistake in gonogo, not in the rulebook; please report it")
+}
+
 impl<'a> Checker<'a> {
-    /// The checked rulebook, once no error is left.
-    fn into_model(self, states: Vec<classes::ClassState>) -> Option<CheckedRulebook> {
-        let edition = self.edition?;
+    /// The checked rulebook, once no error is left: every rule and derived value resolved.
+    fn into_model(mut self, states: Vec<classes::ClassState>) -> Result<CheckedRulebook, Problem> {
+        let span = crate::source::Span::default();
+        let edition = self.edition.ok_or_else(|| internal("no edition", span))?;
+        let series = self.series.ok_or_else(|| internal("no series", span))?;
+        let decision = self
+            .decision
+            .ok_or_else(|| internal("no decision rule", span))?;
         let edition_date = Some(edition.effective.date);
-        let classes = self
-            .class_order
-            .iter()
-            .filter_map(|name| {
-                let class = self.classes.get(name)?;
-                let state = states
-                    .iter()
-                    .find(|s| s.class == *name && s.from == edition_date)?;
-                let amended = states
-                    .iter()
-                    .filter(|s| s.class == *name && s.from > edition_date)
-                    .filter_map(|s| {
-                        let from = s.from?;
-                        Some(model::Amended {
-                            from,
-                            bulletins: self.bulletins_in_force(name, from),
-                            rules: s.rules.clone(),
-                        })
-                    })
-                    .collect();
-                Some(model::Class {
-                    name: name.to_string(),
-                    title: class.title.as_ref().map(|t| t.value.clone()),
-                    extends: class.extends.as_ref().map(|e| e.text.clone()),
-                    rules: state.rules.clone(),
-                    edition_bulletins: self.bulletins_in_force(name, edition.effective.date),
-                    amended,
-                    span: class.name.span,
-                })
-            })
-            .collect();
-        let derived = self
-            .define_order
-            .iter()
-            .filter_map(|name| {
-                let define = self.defines.get(name)?;
-                let ty = (*self.define_types.get(name)?)?;
-                let mut names = Vec::new();
-                define.expr.names(&mut names);
-                Some(model::Derived {
-                    name: name.to_string(),
-                    formula: crate::parse::print::expr_text(&define.expr),
-                    reads: model::unique(names),
-                    expr: define.expr.clone(),
-                    ty,
-                    span: define.name.span,
-                })
-            })
-            .collect();
+        let mut classes = Vec::new();
+        for name in self.class_order.clone() {
+            let Some(class) = self.classes.get(name).copied() else {
+                continue;
+            };
+            let Some(state) = states
+                .iter()
+                .find(|s| s.class == name && s.from == edition_date)
+            else {
+                continue;
+            };
+            let rules = self.resolve_rules(&state.rules)?;
+            let mut amended = Vec::new();
+            for s in states
+                .iter()
+                .filter(|s| s.class == name && s.from > edition_date)
+            {
+                let Some(from) = s.from else { continue };
+                amended.push(model::Amended {
+                    from,
+                    bulletins: self.bulletins_in_force(name, from),
+                    rules: self.resolve_rules(&s.rules)?,
+                });
+            }
+            classes.push(model::Class {
+                name: name.to_string(),
+                title: class.title.as_ref().map(|t| t.value.clone()),
+                extends: class.extends.as_ref().map(|e| e.text.clone()),
+                rules,
+                edition_bulletins: self.bulletins_in_force(name, edition.effective.date),
+                amended,
+                span: class.name.span,
+            });
+        }
+        let derived = self.derived_values()?;
         let mut bulletins: Vec<model::Bulletin> = self
             .bulletins
             .iter()
@@ -176,9 +193,14 @@ impl<'a> Checker<'a> {
         let measurements: Vec<Measurement> = self
             .measure_order
             .iter()
-            .filter_map(|n| self.measurements.get(n).cloned())
-            .collect();
-        let derived: Vec<model::Derived> = derived;
+            .map(|n| {
+                let at = self.measures.get(n).map_or(span, |m| m.name.span);
+                self.measurements
+                    .get(n)
+                    .cloned()
+                    .ok_or_else(|| internal(&format!("`{n}` has no dimension"), at))
+            })
+            .collect::<Result<_, _>>()?;
         let index = measurements
             .iter()
             .enumerate()
@@ -190,18 +212,74 @@ impl<'a> Checker<'a> {
                     .map(|(i, d)| (d.name.clone(), model::Named::Derived(i))),
             )
             .collect();
-        Some(CheckedRulebook {
-            series: self.series?.value.clone(),
+        Ok(CheckedRulebook {
+            series: series.value.clone(),
             edition: edition.name.value.clone(),
             effective: edition.effective.date,
-            decision: self.decision?.rule,
+            decision: decision.rule,
             measurements,
             derived,
-            lists: self.compiled_lists.into_values().collect(),
+            lists: std::mem::take(&mut self.compiled_lists)
+                .into_values()
+                .collect(),
             classes,
             bulletins,
             index,
-            patterns: self.test_patterns,
+            literals: std::mem::take(&mut self.literals),
         })
+    }
+
+    /// Every derived value, in the order written, with its resolved expression.
+    fn derived_values(&self) -> Result<Vec<model::Derived>, Problem> {
+        self.define_order
+            .iter()
+            .map(|name| {
+                let define = self.defines.get(name).ok_or_else(|| {
+                    internal(&format!("`{name}` is not defined"), Default::default())
+                })?;
+                let missing = || internal(&format!("`{name}` was not typed"), define.name.span);
+                let ty = self
+                    .define_types
+                    .get(name)
+                    .copied()
+                    .flatten()
+                    .ok_or_else(missing)?;
+                let body = self.define_terms.get(name).cloned().ok_or_else(missing)?;
+                let mut names = Vec::new();
+                define.expr.names(&mut names);
+                let mut read_ids = Vec::new();
+                body.reads(&mut read_ids);
+                Ok(model::Derived {
+                    name: name.to_string(),
+                    formula: crate::parse::print::expr_text(&define.expr),
+                    reads: model::unique(names),
+                    expr: define.expr.clone(),
+                    ty,
+                    body,
+                    read_ids,
+                    span: define.name.span,
+                })
+            })
+            .collect()
+    }
+
+    /// The rules of a class as flattened, each with its requirement and conditions resolved.
+    fn resolve_rules(&mut self, rules: &[WrittenRule]) -> Result<Vec<ClassRule>, Problem> {
+        rules
+            .iter()
+            .map(|r| {
+                let failed = || internal("a rule did not resolve", r.rule.require.span);
+                let test = self
+                    .resolve_test(&r.rule.require, types::Place::Require)
+                    .ok_or_else(failed)?;
+                let when = r
+                    .conditions
+                    .iter()
+                    .map(|c| self.resolve_condition(c))
+                    .collect::<Option<Vec<_>>>()
+                    .ok_or_else(failed)?;
+                Ok(ClassRule::resolved(r.clone(), test, when))
+            })
+            .collect()
     }
 }

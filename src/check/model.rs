@@ -1,9 +1,11 @@
-//! The checked rulebook: what the static checks hand on to evaluation. Names are resolved,
-//! every measurement has its dimension, patterns are compiled, and each class's rules are
-//! flattened through `extends`, `override`, `drop` and bulletins.
+//! The checked rulebook: what the static checks hand on to evaluation. Every measurement has
+//! its dimension, each class's rules are flattened through `extends`, `override`, `drop` and
+//! bulletins, and every rule and derived value carries its [`resolved`](super::resolved) form
+//! (names as ids, calls bound, patterns compiled) beside the form as written.
 
 use regex::Regex;
 
+use super::resolved::{self, Read, Term, UncertainLiteral};
 use crate::parse::ast::{self, Condition, DecisionRule, Expr, ListKind, Rule};
 use crate::source::Span;
 use crate::units::Dimension;
@@ -71,6 +73,10 @@ pub struct Derived {
     pub reads: Vec<String>,
     /// Its type.
     pub ty: Type,
+    /// Its expression, resolved.
+    pub body: Term,
+    /// The measurements and derived values it reads, each once, in the order first read.
+    pub read_ids: Vec<Read>,
     /// Where it is defined.
     pub span: Span,
 }
@@ -118,9 +124,10 @@ pub enum Origin {
     Bulletin(String),
 }
 
-/// A rule as it stands in a class: the rule and every condition it sits under.
+/// A rule as the flattening of classes places it: the rule as written and every condition
+/// it sits under, before it is resolved into a [`ClassRule`].
 #[derive(Clone, Debug)]
-pub struct ClassRule {
+pub struct WrittenRule {
     /// The rule as written.
     pub rule: Rule,
     /// The conditions of enclosing `when` groups, outermost first, then the rule's own.
@@ -137,13 +144,13 @@ pub struct ClassRule {
     pub limit: Option<super::limit::Limit<Expr>>,
 }
 
-impl ClassRule {
+impl WrittenRule {
     /// A rule under its conditions, with its texts and the names it reads worked out once.
-    pub fn new(rule: Rule, conditions: Vec<Condition>, origin: Origin) -> ClassRule {
+    pub fn new(rule: Rule, conditions: Vec<Condition>, origin: Origin) -> WrittenRule {
         let mut names = Vec::new();
         conditions.iter().for_each(|c| c.names(&mut names));
         rule.require.names(&mut names);
-        ClassRule {
+        WrittenRule {
             requirement: crate::parse::print::test_text(&rule.require),
             condition_texts: conditions
                 .iter()
@@ -154,6 +161,57 @@ impl ClassRule {
             rule,
             conditions,
             origin,
+        }
+    }
+}
+
+/// A rule as it stands in a class: the rule and every condition it sits under, as written and
+/// resolved.
+#[derive(Clone, Debug)]
+pub struct ClassRule {
+    /// The rule as written.
+    pub rule: Rule,
+    /// The conditions of enclosing `when` groups, outermost first, then the rule's own.
+    pub conditions: Vec<Condition>,
+    /// Where it was written.
+    pub origin: Origin,
+    /// The requirement in the rulebook's canonical words.
+    pub requirement: String,
+    /// Each condition in canonical words.
+    pub condition_texts: Vec<String>,
+    /// The names its conditions and requirement read, each once, in the order first read.
+    pub reads: Vec<String>,
+    /// The requirement, resolved.
+    pub test: resolved::Test,
+    /// The conditions, resolved, in the order of `conditions`.
+    pub when: Vec<resolved::Condition>,
+    /// What its conditions and requirement read, each once, in the order first read.
+    pub read_ids: Vec<Read>,
+    /// The requirement's limit in normal form; `None` for a membership or pattern test.
+    pub limit: Option<super::limit::Limit<Expr>>,
+}
+
+impl ClassRule {
+    /// A written rule with its requirement and conditions resolved.
+    pub fn resolved(
+        written: WrittenRule,
+        test: resolved::Test,
+        when: Vec<resolved::Condition>,
+    ) -> ClassRule {
+        let mut read_ids = Vec::new();
+        when.iter().for_each(|c| c.reads(&mut read_ids));
+        test.reads(&mut read_ids);
+        ClassRule {
+            rule: written.rule,
+            conditions: written.conditions,
+            origin: written.origin,
+            requirement: written.requirement,
+            condition_texts: written.condition_texts,
+            reads: written.reads,
+            limit: written.limit,
+            test,
+            when,
+            read_ids,
         }
     }
 }
@@ -242,10 +300,11 @@ pub struct CheckedRulebook {
     pub classes: Vec<Class>,
     /// Bulletins in order of their effective date.
     pub bulletins: Vec<Bulletin>,
-    /// Where each measurement and derived value is, by name.
+    /// Where each measurement and derived value is, by name, for commands that look names up
+    /// from what a user typed (evaluation reads ids, never names).
     pub index: std::collections::HashMap<String, Named>,
-    /// The compiled pattern of every `matches` test, by the file and offset it is written at.
-    pub patterns: std::collections::HashMap<(u32, usize), Regex>,
+    /// Every literal with a stated uncertainty, by [`resolved::LiteralId`].
+    pub literals: Vec<UncertainLiteral>,
 }
 
 /// What a name of the rulebook stands for.
@@ -285,5 +344,13 @@ impl CheckedRulebook {
             Some(Named::Derived(i)) => self.derived.get(*i),
             _ => None,
         }
+    }
+
+    /// The value in SI units of an expression as written that no engine affects: numbers
+    /// without a stated uncertainty, `pi`, arithmetic, and derived values that are themselves
+    /// such constants. For analyses of the rulebook as written, like `diff`.
+    pub fn constant(&self, expr: &Expr) -> Option<f64> {
+        let lookup = |name: &str| self.derived_value(name).map(|d| &d.expr);
+        super::constants::fold(expr, &lookup, false)
     }
 }

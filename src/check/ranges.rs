@@ -8,7 +8,7 @@ use super::classes::ClassState;
 use super::error::CheckError;
 use super::interval::Interval;
 use super::limit::SideKind;
-use super::model::ClassRule;
+use super::model::WrittenRule;
 use crate::diagnostic::Problem;
 use crate::parse::ast::{BinaryOp, Expr, ExprKind};
 use crate::parse::print::expr_text;
@@ -106,7 +106,7 @@ impl Checker<'_> {
 
     /// A warning when the declared ranges keep the rule's subject wholly inside or wholly
     /// outside its limit, whichever side the limit is written on.
-    fn decided_in_advance(&self, rule: &ClassRule) -> Option<Problem> {
+    fn decided_in_advance(&self, rule: &WrittenRule) -> Option<Problem> {
         let limit = rule.limit.as_ref()?;
         if !matches!(
             limit.kind(),

@@ -1,9 +1,14 @@
 //! Typing: every name, unit and function resolved, and every expression, comparison and
-//! argument checked for dimension and for per-cylinder shape.
+//! argument checked for dimension and for per-cylinder shape. Typing an expression also
+//! resolves it: each typed expression comes back as a [`resolved`](super::resolved) tree.
 
 use super::Checker;
-use super::builtins::{self, Formula, Function, Generic, Shape};
+use super::builtins::{self, Formula, Function, Generic, Reduce, Shape};
 use super::model::{Measurement, Type, ValueKind};
+use super::resolved::{
+    self, Call, DerivedId, ExprKind as R, Literal, LiteralId, MeasurementId, Term, TextExpr,
+    TextKind, UncertainLiteral,
+};
 use crate::diagnostic::Problem;
 use crate::parse::ast::{
     Arg, BinaryOp, ClassItem, CompareOp, Condition, Expr, ExprKind, Measure, Quantity, Test,
@@ -11,7 +16,7 @@ use crate::parse::ast::{
 };
 use crate::source::Span;
 use crate::suggest::closest;
-use crate::units::{self, DIMENSION_NAMES, Dimension, dimension_named};
+use crate::units::{self, DIMENSION_NAMES, Dimension, Unit, dimension_named};
 
 /// Whether a test is a rule's limit or part of a condition.
 #[derive(Clone, Copy, PartialEq, Eq)]
@@ -25,6 +30,14 @@ fn number(dimension: Dimension, per_cylinder: bool) -> Type {
         kind: ValueKind::Number(dimension),
         per_cylinder,
     }
+}
+
+/// A typed expression: its type and its resolved tree.
+pub(super) type Typed = (Type, Term);
+
+/// A resolved numeric expression of type `ty`.
+fn numeric(ty: Type, kind: R, span: Span) -> Typed {
+    (ty, Term::Number(resolved::Expr { kind, span }))
 }
 
 impl<'a> Checker<'a> {
@@ -164,31 +177,106 @@ impl<'a> Checker<'a> {
             return None;
         }
         self.typing.push(name);
-        let ty = self.type_of(&define.expr);
+        let typed = self.resolve(&define.expr);
         self.typing.pop();
-        self.define_types.entry(name).or_insert(ty);
+        if let Some((_, term)) = &typed
+            && !self.define_terms.contains_key(name)
+        {
+            self.define_terms.insert(name, term.clone());
+        }
+        self.define_types
+            .entry(name)
+            .or_insert(typed.map(|(t, _)| t));
         self.define_types.get(name).copied().flatten()
     }
 
     /// The type of an expression, or `None` after reporting why it has none.
     pub(super) fn type_of(&mut self, expr: &Expr) -> Option<Type> {
+        self.resolve(expr).map(|(t, _)| t)
+    }
+
+    /// The type and resolved tree of an expression, or `None` after reporting why it has none.
+    pub(super) fn resolve(&mut self, expr: &Expr) -> Option<Typed> {
         match &expr.kind {
-            ExprKind::Quantity(q) => self.quantity_type(q, expr.span).map(|d| number(d, false)),
-            ExprKind::Text(_) => Some(Type {
-                kind: ValueKind::Text,
-                per_cylinder: false,
-            }),
+            ExprKind::Quantity(q) => {
+                let d = self.quantity_type(q, expr.span)?;
+                let literal = self.literal(q, expr)?;
+                Some(numeric(number(d, false), R::Literal(literal), expr.span))
+            }
+            ExprKind::Text(t) => Some((
+                Type {
+                    kind: ValueKind::Text,
+                    per_cylinder: false,
+                },
+                Term::Text(TextExpr {
+                    kind: TextKind::Literal(t.value.clone()),
+                    span: expr.span,
+                }),
+            )),
             ExprKind::Name(n) => self.name_type(&n.text, n.span),
             ExprKind::Call { function, args } => {
                 self.call_type(&function.text, function.span, args, expr.span)
             }
             ExprKind::Negate(inner) => {
-                let t = self.type_of(inner)?;
-                self.expect_number(t, inner.span, "`-`")?;
-                Some(t)
+                let (t, term) = self.resolve(inner)?;
+                let e = self.expect_number(t, term, inner.span, "`-`")?.1;
+                Some(numeric(t, R::Negate(Box::new(e)), expr.span))
             }
-            ExprKind::Binary { op, left, right } => self.binary_type(*op, left, right),
+            ExprKind::Binary { op, left, right } => self.binary_type(*op, left, right, expr.span),
         }
+    }
+
+    /// A quantity literal resolved: its digits, unit and SI value, and, with a stated
+    /// uncertainty, its literal id (one per written literal, however often it is resolved).
+    fn literal(&mut self, q: &Quantity, expr: &Expr) -> Option<Literal> {
+        let si = super::quantity_si(q)?;
+        let unit = q
+            .unit
+            .as_ref()
+            .or(q.uncertainty.as_ref().and_then(|u| u.unit.as_ref()))
+            .and_then(|u| units::lookup(&u.symbol));
+        let uncertain = match &q.uncertainty {
+            None => None,
+            Some(u) => Some(self.uncertain_literal(q, u, expr, si)?),
+        };
+        Some(Literal {
+            written: q.value.text.clone(),
+            unit,
+            si,
+            uncertain,
+        })
+    }
+
+    fn uncertain_literal(
+        &mut self,
+        q: &Quantity,
+        u: &crate::parse::ast::Uncertainty,
+        expr: &Expr,
+        si: f64,
+    ) -> Option<LiteralId> {
+        let at = (expr.span.file, expr.span.start);
+        if let Some(id) = self.literal_ids.get(&at) {
+            return Some(*id);
+        }
+        let unit = u
+            .unit
+            .as_ref()
+            .or(q.unit.as_ref())
+            .map(|s| units::lookup(&s.symbol));
+        let unit: Option<&'static Unit> = match unit {
+            Some(found) => Some(found?),
+            None => None,
+        };
+        let k = u.coverage.as_ref().map_or(2.0, |k| k.value);
+        let id = LiteralId::new(self.literals.len());
+        self.literals.push(UncertainLiteral {
+            text: crate::parse::print::expr_text(expr),
+            value: si,
+            standard_uncertainty: u.value.value * unit.map_or(1.0, |u| u.to_si) / k,
+            unit,
+        });
+        self.literal_ids.insert(at, id);
+        Some(id)
     }
 
     fn quantity_type(&mut self, q: &Quantity, span: Span) -> Option<Dimension> {
@@ -263,15 +351,20 @@ impl<'a> Checker<'a> {
         None
     }
 
-    fn name_type(&mut self, name: &str, span: Span) -> Option<Type> {
+    fn name_type(&mut self, name: &str, span: Span) -> Option<Typed> {
         if name == "pi" {
-            return Some(number(Dimension::NONE, false));
+            return Some(numeric(number(Dimension::NONE, false), R::Pi, span));
         }
         if let Some(m) = self.measurements.get(name) {
             self.used.insert(name.to_string());
-            return Some(Type {
+            let ty = Type {
                 kind: m.kind,
                 per_cylinder: m.per_cylinder,
+            };
+            let id = MeasurementId::new(self.measure_order.iter().position(|n| *n == name)?);
+            return Some(match ty.kind {
+                ValueKind::Number(_) => numeric(ty, R::Measurement(id), span),
+                ValueKind::Text => (ty, text_term(TextKind::Measurement(id), span)),
             });
         }
         if self.measures.contains_key(name) {
@@ -281,7 +374,12 @@ impl<'a> Checker<'a> {
         if let Some((key, _)) = self.defines.get_key_value(name) {
             self.used.insert(name.to_string());
             let key = *key;
-            return self.define_type(key, span);
+            let ty = self.define_type(key, span)?;
+            let id = DerivedId::new(self.define_order.iter().position(|n| *n == key)?);
+            return Some(match ty.kind {
+                ValueKind::Number(_) => numeric(ty, R::Derived(id), span),
+                ValueKind::Text => (ty, text_term(TextKind::Derived(id), span)),
+            });
         }
         let candidates: Vec<&str> = self
             .measures
@@ -305,9 +403,15 @@ impl<'a> Checker<'a> {
         None
     }
 
-    fn binary_type(&mut self, op: BinaryOp, left: &Expr, right: &Expr) -> Option<Type> {
-        let (lt, rt) = (self.type_of(left), self.type_of(right));
-        let (lt, rt) = (lt?, rt?);
+    fn binary_type(
+        &mut self,
+        op: BinaryOp,
+        left: &Expr,
+        right: &Expr,
+        span: Span,
+    ) -> Option<Typed> {
+        let (l, r) = (self.resolve(left), self.resolve(right));
+        let ((lt, lterm), (rt, rterm)) = (l?, r?);
         let what = match op {
             BinaryOp::Add => "`+`",
             BinaryOp::Subtract => "`-`",
@@ -315,8 +419,8 @@ impl<'a> Checker<'a> {
             BinaryOp::Divide => "`/`",
             BinaryOp::Power => "`^`",
         };
-        let ld = self.expect_number(lt, left.span, what)?;
-        let rd = self.expect_number(rt, right.span, what)?;
+        let (ld, le) = self.expect_number(lt, lterm, left.span, what)?;
+        let (rd, re) = self.expect_number(rt, rterm, right.span, what)?;
         let per_cylinder = lt.per_cylinder || rt.per_cylinder;
         let dim = match op {
             BinaryOp::Add | BinaryOp::Subtract => {
@@ -342,7 +446,12 @@ impl<'a> Checker<'a> {
             BinaryOp::Divide => ld.divided_by(rd),
             BinaryOp::Power => self.power_dimension(ld, right, rd)?,
         };
-        Some(number(dim, per_cylinder))
+        let kind = R::Binary {
+            op,
+            left: Box::new(le),
+            right: Box::new(re),
+        };
+        Some(numeric(number(dim, per_cylinder), kind, span))
     }
 
     fn power_dimension(
@@ -373,7 +482,7 @@ impl<'a> Checker<'a> {
         }
     }
 
-    fn call_type(&mut self, name: &str, span: Span, args: &[Arg], whole: Span) -> Option<Type> {
+    fn call_type(&mut self, name: &str, span: Span, args: &[Arg], whole: Span) -> Option<Typed> {
         let Some(function) = builtins::function(name) else {
             let help = match closest(name, builtins::function_names()) {
                 Some(near) => format!("did you mean `{near}`?"),
@@ -399,19 +508,26 @@ impl<'a> Checker<'a> {
         }
     }
 
-    fn formula_type(&mut self, formula: &Formula, args: &[Arg], whole: Span) -> Option<Type> {
+    fn formula_type(
+        &mut self,
+        formula: &'static Formula,
+        args: &[Arg],
+        whole: Span,
+    ) -> Option<Typed> {
         let slots = self.bind_arguments(formula, args, whole)?;
         let mut per_cylinder = false;
         let mut ok = true;
+        let mut bound = Vec::with_capacity(slots.len());
         for (param, arg) in formula.params.iter().zip(slots) {
-            let Some(t) = self.type_of(&arg.value) else {
+            let Some((t, term)) = self.resolve(&arg.value) else {
                 ok = false;
                 continue;
             };
-            let Some(d) = self.expect_number(t, arg.value.span, formula.name) else {
+            let Some((d, e)) = self.expect_number(t, term, arg.value.span, formula.name) else {
                 ok = false;
                 continue;
             };
+            bound.push(e);
             if d != param.dimension {
                 self.error(
                     Problem::error(
@@ -444,7 +560,31 @@ impl<'a> Checker<'a> {
             }
             per_cylinder |= t.per_cylinder;
         }
-        ok.then(|| number(formula.result, per_cylinder))
+        if !ok {
+            return None;
+        }
+        let Some(call) = Call::bind(formula, bound) else {
+            self.error(
+                Problem::error(
+                    "gonogo::check::internal",
+                    format!(
+                        "the built-in `{}` has {} parameters, but its implementation takes {}",
+                        formula.name,
+                        formula.params.len(),
+                        formula.apply.arity()
+                    ),
+                    whole,
+                    "this call",
+                )
+                .with_help("this is a mistake in gonogo's formula table, not in the rulebook; please report it"),
+            );
+            return None;
+        };
+        Some(numeric(
+            number(formula.result, per_cylinder),
+            R::Formula(call),
+            whole,
+        ))
     }
 
     /// Puts each argument in its parameter's slot: positional first, then by label.
@@ -554,7 +694,7 @@ impl<'a> Checker<'a> {
         Some(slots.into_iter().flatten().collect())
     }
 
-    fn generic_type(&mut self, name: &str, g: Generic, args: &[Arg], whole: Span) -> Option<Type> {
+    fn generic_type(&mut self, name: &str, g: Generic, args: &[Arg], whole: Span) -> Option<Typed> {
         if let Some(label) = args.iter().find_map(|a| a.label.as_ref()) {
             self.error(
                 Problem::error(
@@ -567,17 +707,30 @@ impl<'a> Checker<'a> {
             );
             return None;
         }
-        let types: Vec<Option<Type>> = args.iter().map(|a| self.type_of(&a.value)).collect();
-        let types: Vec<Type> = types.into_iter().collect::<Option<_>>()?;
+        let typed: Vec<Option<Typed>> = args.iter().map(|a| self.resolve(&a.value)).collect();
+        let typed: Vec<Typed> = typed.into_iter().collect::<Option<_>>()?;
+        let types: Vec<Type> = typed.iter().map(|(t, _)| *t).collect();
         let mut dims = Vec::new();
-        for (t, a) in types.iter().zip(args) {
-            dims.push(self.expect_number(*t, a.value.span, name)?);
+        let mut exprs = Vec::new();
+        for ((t, term), a) in typed.into_iter().zip(args) {
+            let (d, e) = self.expect_number(t, term, a.value.span, name)?;
+            dims.push(d);
+            exprs.push(e);
         }
-        let aggregate = matches!(g, Generic::Max | Generic::Min | Generic::Mean);
-        match (g, types.as_slice()) {
-            (_, [one]) if aggregate && one.per_cylinder => Some(number(dims[0], false)),
-            (Generic::Max | Generic::Min, [_, _, ..]) => {
-                if dims.iter().any(|d| *d != dims[0]) {
+        let reduce = match g {
+            Generic::Max => Some(Reduce::Max),
+            Generic::Min => Some(Reduce::Min),
+            Generic::Mean => Some(Reduce::Mean),
+            Generic::Abs | Generic::Sqrt => None,
+        };
+        let one = |exprs: Vec<resolved::Expr>| exprs.into_iter().next().map(Box::new);
+        match (g, types.as_slice(), dims.first().copied()) {
+            (_, [t], Some(d)) if g.reduces() && t.per_cylinder => {
+                let kind = R::Reduce(reduce?, one(exprs)?);
+                Some(numeric(number(d, false), kind, whole))
+            }
+            (Generic::Max | Generic::Min, [_, _, ..], Some(first)) => {
+                if dims.iter().any(|d| *d != first) {
                     self.error(
                         Problem::error(
                             "gonogo::check::dimension-mismatch",
@@ -589,19 +742,25 @@ impl<'a> Checker<'a> {
                     );
                     return None;
                 }
-                Some(number(dims[0], types.iter().any(|t| t.per_cylinder)))
+                let kind = R::Extreme {
+                    greater: g == Generic::Max,
+                    args: exprs,
+                };
+                let per_cylinder = types.iter().any(|t| t.per_cylinder);
+                Some(numeric(number(first, per_cylinder), kind, whole))
             }
-            (Generic::Abs, [one]) => Some(*one),
-            (Generic::Sqrt, [one]) => match dims[0].square_root() {
-                Some(root) => Some(number(root, one.per_cylinder)),
+            (Generic::Abs, [t], Some(_)) => Some(numeric(*t, R::Abs(one(exprs)?), whole)),
+            (Generic::Sqrt, [t], Some(d)) => match g.result(d) {
+                Some(root) => Some(numeric(
+                    number(root, t.per_cylinder),
+                    R::Sqrt(one(exprs)?),
+                    whole,
+                )),
                 None => {
                     self.error(
                         Problem::error(
                             "gonogo::check::bad-root",
-                            format!(
-                                "the square root of a {} has no dimension gonogo can name",
-                                dims[0]
-                            ),
+                            format!("the square root of a {d} has no dimension gonogo can name"),
                             whole,
                             "square root",
                         )
@@ -611,7 +770,7 @@ impl<'a> Checker<'a> {
                 }
             },
             _ => {
-                let expects = if aggregate {
+                let expects = if g.reduces() {
                     "one value measured per cylinder (or, for max and min, two or more values)"
                 } else {
                     "exactly one value"
@@ -632,30 +791,44 @@ impl<'a> Checker<'a> {
         }
     }
 
-    /// The dimension of a numeric type, or an error that text cannot take part in `what`.
-    pub(super) fn expect_number(&mut self, t: Type, span: Span, what: &str) -> Option<Dimension> {
-        match t.kind {
-            ValueKind::Number(d) => Some(d),
-            ValueKind::Text => {
-                self.error(
-                    Problem::error(
-                        "gonogo::check::text-in-arithmetic",
-                        format!("text cannot be used in {what}"),
-                        span,
-                        "text",
-                    )
-                    .with_help("only numbers take part in arithmetic; compare text with `==`, `in` or `matches`"),
-                );
+    /// The dimension and resolved tree of a numeric expression, or an error that text cannot
+    /// take part in `what`.
+    pub(super) fn expect_number(
+        &mut self,
+        t: Type,
+        term: Term,
+        span: Span,
+        what: &str,
+    ) -> Option<(Dimension, resolved::Expr)> {
+        match (t.kind, term) {
+            (ValueKind::Number(d), Term::Number(e)) => Some((d, e)),
+            _ => {
+                self.text_in_arithmetic(span, what);
                 None
             }
         }
     }
 
-    fn expect_dimension(&mut self, t: Type, want: Dimension, span: Span, what: &str) {
+    fn text_in_arithmetic(&mut self, span: Span, what: &str) {
+        self.error(
+            Problem::error(
+                "gonogo::check::text-in-arithmetic",
+                format!("text cannot be used in {what}"),
+                span,
+                "text",
+            )
+            .with_help(
+                "only numbers take part in arithmetic; compare text with `==`, `in` or `matches`",
+            ),
+        );
+    }
+
+    /// Reports a value of the wrong dimension; true when it has the one wanted.
+    fn expect_dimension(&mut self, t: Type, want: Dimension, span: Span, what: &str) -> bool {
         if let ValueKind::Number(d) = t.kind
             && d == want
         {
-            return;
+            return true;
         }
         self.error(
             Problem::error(
@@ -666,6 +839,7 @@ impl<'a> Checker<'a> {
             )
             .with_help(unit_hint(want)),
         );
+        false
     }
 
     fn mismatch(
@@ -703,12 +877,12 @@ impl<'a> Checker<'a> {
             match item {
                 ClassItem::Rule(rule) => {
                     if let Some(c) = &rule.condition {
-                        self.check_condition(c);
+                        self.resolve_condition(c);
                     }
-                    self.check_test(&rule.require, Place::Require);
+                    self.resolve_test(&rule.require, Place::Require);
                 }
                 ClassItem::When(group) => {
-                    self.check_condition(&group.condition);
+                    self.resolve_condition(&group.condition);
                     self.check_body(&group.body);
                 }
                 ClassItem::Drop(_) => {}
@@ -716,100 +890,198 @@ impl<'a> Checker<'a> {
         }
     }
 
-    fn check_condition(&mut self, cond: &Condition) {
+    /// Checks and resolves a condition; both sides of `and` and `or` are checked either way.
+    pub(super) fn resolve_condition(&mut self, cond: &Condition) -> Option<resolved::Condition> {
+        use resolved::Condition as C;
         match cond {
-            Condition::Test(t) => self.check_test(t, Place::Condition),
-            Condition::And(a, b) | Condition::Or(a, b) => {
-                self.check_condition(a);
-                self.check_condition(b);
+            Condition::Test(t) => self.resolve_test(t, Place::Condition).map(C::Test),
+            Condition::And(a, b) => {
+                let (a, b) = (self.resolve_condition(a), self.resolve_condition(b));
+                Some(C::And(Box::new(a?), Box::new(b?)))
             }
-            Condition::Not(inner, _) => self.check_condition(inner),
+            Condition::Or(a, b) => {
+                let (a, b) = (self.resolve_condition(a), self.resolve_condition(b));
+                Some(C::Or(Box::new(a?), Box::new(b?)))
+            }
+            Condition::Not(inner, _) => Some(C::Not(Box::new(self.resolve_condition(inner)?))),
         }
     }
 
-    /// Checks one test: both sides typed and of one dimension, the list known, the pattern sound.
-    pub(super) fn check_test(&mut self, test: &Test, place: Place) {
-        match &test.kind {
+    /// Checks one test and resolves it: both sides typed and of one dimension, the list
+    /// known, the pattern sound.
+    pub(super) fn resolve_test(&mut self, test: &Test, place: Place) -> Option<resolved::Test> {
+        let kind = match &test.kind {
             TestKind::Compare {
                 left,
                 op,
                 right,
                 allowance,
-            } => {
-                let types = (self.type_of(left), self.type_of(right));
-                if let (Some(lt), Some(rt)) = types {
-                    self.check_comparison(left, *op, right, lt, rt, place);
-                    if let Some(a) = allowance {
-                        self.check_allowance(a, lt, Some(*op));
-                    }
-                }
-            }
+            } => self.resolve_compare(left, *op, right, allowance.as_ref(), place)?,
             TestKind::Between {
                 subject,
                 low,
                 high,
                 allowance,
+            } => self.resolve_between(subject, low, high, allowance.as_ref(), place)?,
+            TestKind::Member {
+                subject,
+                negated,
+                list,
             } => {
-                let types = [self.type_of(subject), self.type_of(low), self.type_of(high)];
-                if let [Some(st), Some(lt), Some(ht)] = types {
-                    self.check_comparison(subject, CompareOp::AtLeast, low, st, lt, place);
-                    self.check_comparison(subject, CompareOp::AtMost, high, st, ht, place);
-                    if let Some(a) = allowance {
-                        self.check_allowance(a, st, None);
-                    }
-                }
-            }
-            TestKind::Member { subject, list, .. } => {
-                self.expect_text(subject, place);
-                if !self.lists.contains_key(list.text.as_str()) {
-                    let help = match closest(&list.text, self.lists.keys().copied()) {
-                        Some(near) => format!("did you mean `{near}`?"),
-                        None => format!("define it with `approved list {} ... end`", list.text),
-                    };
-                    self.error(
-                        Problem::error(
-                            "gonogo::check::unknown-list",
-                            format!("`{}` is not a parts list of this rulebook", list.text),
-                            list.span,
-                            "unknown list",
-                        )
-                        .with_help(help),
-                    );
+                let subject = self.expect_text(subject, place);
+                let id = self.list_id(list);
+                resolved::TestKind::Member {
+                    subject: subject?,
+                    negated: *negated,
+                    list: id?,
                 }
             }
             TestKind::Matches {
-                subject, pattern, ..
+                subject,
+                negated,
+                pattern,
             } => {
-                self.expect_text(subject, place);
-                if let Some(re) = self.compile_pattern(pattern) {
-                    self.test_patterns
-                        .insert((pattern.span.file, pattern.span.start), re);
+                let subject = self.expect_text(subject, place);
+                let pattern = self.test_pattern(pattern);
+                resolved::TestKind::Matches {
+                    subject: subject?,
+                    negated: *negated,
+                    pattern: pattern?,
                 }
             }
+        };
+        Some(resolved::Test {
+            kind,
+            span: test.span,
+        })
+    }
+
+    fn resolve_compare(
+        &mut self,
+        left: &Expr,
+        op: CompareOp,
+        right: &Expr,
+        allowance: Option<&Expr>,
+        place: Place,
+    ) -> Option<resolved::TestKind> {
+        let (l, r) = (self.resolve(left), self.resolve(right));
+        let ((lt, lterm), (rt, rterm)) = (l?, r?);
+        let ok = self.check_comparison(left, op, right, lt, rt, place);
+        let allowance = allowance.map(|a| self.check_allowance(a, lt, Some(op)));
+        if !ok {
+            return None;
+        }
+        let allowance = allowance.map_or(Some(None), |a| a.map(Some))?;
+        match (lterm, rterm) {
+            (Term::Number(l), Term::Number(r)) => Some(resolved::TestKind::Compare {
+                left: l,
+                op,
+                right: r,
+                allowance,
+                unit: self.limit_unit(left, right),
+            }),
+            (Term::Text(l), Term::Text(r)) => Some(resolved::TestKind::TextEqual {
+                left: l,
+                equal: op == CompareOp::Equal,
+                right: r,
+            }),
+            _ => None, // reported by `check_comparison`
         }
     }
 
-    fn expect_text(&mut self, subject: &Expr, place: Place) {
-        let Some(t) = self.type_of(subject) else {
-            return;
+    fn resolve_between(
+        &mut self,
+        subject: &Expr,
+        low: &Expr,
+        high: &Expr,
+        allowance: Option<&Expr>,
+        place: Place,
+    ) -> Option<resolved::TestKind> {
+        let typed = [self.resolve(subject), self.resolve(low), self.resolve(high)];
+        let [Some((st, s)), Some((lt, l)), Some((ht, h))] = typed else {
+            return None;
         };
-        if t.kind != ValueKind::Text {
+        let low_ok = self.check_comparison(subject, CompareOp::AtLeast, low, st, lt, place);
+        let high_ok = self.check_comparison(subject, CompareOp::AtMost, high, st, ht, place);
+        let allowance = allowance.map(|a| self.check_allowance(a, st, None));
+        if !(low_ok && high_ok) {
+            return None;
+        }
+        let allowance = allowance.map_or(Some(None), |a| a.map(Some))?;
+        let (Term::Number(s), Term::Number(l), Term::Number(h)) = (s, l, h) else {
+            return None; // text between text: reported by `check_comparison`
+        };
+        Some(resolved::TestKind::Between {
+            subject: s,
+            low: l,
+            high: h,
+            allowance,
+            unit: self.limit_unit(low, high),
+        })
+    }
+
+    /// The id of a parts list, or an error that the rulebook has none of that name.
+    fn list_id(&mut self, list: &crate::parse::ast::Name) -> Option<resolved::ListId> {
+        if !self.lists.contains_key(list.text.as_str()) {
+            let help = match closest(&list.text, self.lists.keys().copied()) {
+                Some(near) => format!("did you mean `{near}`?"),
+                None => format!("define it with `approved list {} ... end`", list.text),
+            };
             self.error(
                 Problem::error(
-                    "gonogo::check::not-text",
-                    format!(
-                        "a {} cannot be looked up in a parts list or matched by a pattern",
-                        t.kind
-                    ),
-                    subject.span,
-                    &format!("a {}", t.kind),
+                    "gonogo::check::unknown-list",
+                    format!("`{}` is not a parts list of this rulebook", list.text),
+                    list.span,
+                    "unknown list",
                 )
-                .with_help("test a part or casting number, a measurement declared as `text`"),
+                .with_help(help),
             );
+            return None;
         }
-        self.check_shape(t, subject.span, place);
+        // a list whose own patterns do not compile is reported where it is compiled
+        let at = self
+            .compiled_lists
+            .keys()
+            .position(|n| *n == list.text.as_str())?;
+        Some(resolved::ListId::new(at))
     }
 
+    /// The compiled pattern of a `matches` test, compiled once however often it is resolved.
+    fn test_pattern(&mut self, pattern: &crate::parse::ast::Pattern) -> Option<regex::Regex> {
+        let at = (pattern.span.file, pattern.span.start);
+        if let Some(re) = self.test_patterns.get(&at) {
+            return Some(re.clone());
+        }
+        let re = self.compile_pattern(pattern)?;
+        self.test_patterns.insert(at, re.clone());
+        Some(re)
+    }
+
+    fn expect_text(&mut self, subject: &Expr, place: Place) -> Option<TextExpr> {
+        let (t, term) = self.resolve(subject)?;
+        let text = match term {
+            Term::Text(text) => Some(text),
+            Term::Number(_) => {
+                self.error(
+                    Problem::error(
+                        "gonogo::check::not-text",
+                        format!(
+                            "a {} cannot be looked up in a parts list or matched by a pattern",
+                            t.kind
+                        ),
+                        subject.span,
+                        &format!("a {}", t.kind),
+                    )
+                    .with_help("test a part or casting number, a measurement declared as `text`"),
+                );
+                None
+            }
+        };
+        let shape_ok = self.check_shape(t, subject.span, place);
+        text.filter(|_| shape_ok)
+    }
+
+    /// Reports a comparison of unlike things or of text by order; true when it is sound.
     fn check_comparison(
         &mut self,
         left: &Expr,
@@ -818,10 +1090,13 @@ impl<'a> Checker<'a> {
         lt: Type,
         rt: Type,
         place: Place,
-    ) {
+    ) -> bool {
+        let mut ok = false;
         match (lt.kind, rt.kind) {
             (ValueKind::Text, ValueKind::Text) => {
-                if !matches!(op, CompareOp::Equal | CompareOp::NotEqual) {
+                if matches!(op, CompareOp::Equal | CompareOp::NotEqual) {
+                    ok = true;
+                } else {
                     self.error(
                         Problem::error(
                             "gonogo::check::text-order",
@@ -836,7 +1111,9 @@ impl<'a> Checker<'a> {
                 }
             }
             (ValueKind::Number(ld), ValueKind::Number(rd)) => {
-                if ld != rd {
+                if ld == rd {
+                    ok = true;
+                } else {
                     self.mismatch(
                         "gonogo::check::dimension-mismatch",
                         format!("cannot compare a {ld} with a {rd}"),
@@ -858,11 +1135,13 @@ impl<'a> Checker<'a> {
                 );
             }
         }
-        self.check_shape(lt, left.span, place);
-        self.check_shape(rt, right.span, place);
+        let left_ok = self.check_shape(lt, left.span, place);
+        let right_ok = self.check_shape(rt, right.span, place);
+        ok && left_ok && right_ok
     }
 
-    fn check_shape(&mut self, t: Type, span: Span, place: Place) {
+    /// Reports a per-cylinder value in a condition; true when the shape is sound.
+    fn check_shape(&mut self, t: Type, span: Span, place: Place) -> bool {
         if place == Place::Condition && t.per_cylinder {
             self.error(
                 Problem::error(
@@ -873,10 +1152,18 @@ impl<'a> Checker<'a> {
                 )
                 .with_help("reduce it with `max(...)`, `min(...)` or `mean(...)`"),
             );
+            return false;
         }
+        true
     }
 
-    fn check_allowance(&mut self, allowance: &Expr, limit: Type, op: Option<CompareOp>) {
+    /// Checks an allowance and resolves it, `None` after reporting what is wrong with it.
+    fn check_allowance(
+        &mut self,
+        allowance: &Expr,
+        limit: Type,
+        op: Option<CompareOp>,
+    ) -> Option<resolved::Expr> {
         if matches!(op, Some(CompareOp::Equal | CompareOp::NotEqual)) {
             self.error(
                 Problem::error(
@@ -887,37 +1174,95 @@ impl<'a> Checker<'a> {
                 )
                 .with_help("use `<=`, `>=` or `between` with the allowance, or drop it"),
             );
-            return;
+            return None;
         }
-        let Some(t) = self.type_of(allowance) else {
-            return;
+        let (t, term) = self.resolve(allowance)?;
+        let dimension_ok = match limit.kind {
+            ValueKind::Number(d) => self.expect_dimension(t, d, allowance.span, "the allowance"),
+            ValueKind::Text => true, // the comparison itself is reported
         };
-        if let ValueKind::Number(d) = limit.kind {
-            self.expect_dimension(t, d, allowance.span, "the allowance");
-        }
         match self.constant(allowance) {
             Some(v) if v >= 0.0 => {}
-            Some(_) => self.error(
-                Problem::error(
-                    "gonogo::check::negative-allowance",
-                    "an allowance cannot be negative",
-                    allowance.span,
-                    "negative",
-                )
-                .with_help(
-                    "an allowance loosens the limit; to tighten it, change the limit itself",
-                ),
-            ),
-            None => self.error(
-                Problem::error(
-                    "gonogo::check::allowance-not-constant",
-                    "an allowance must be a fixed amount, not a measured one",
-                    allowance.span,
-                    "not a fixed amount",
-                )
-                .with_help("write the allowance as a number with a unit, like `allowing 0.005 in`"),
-            ),
+            Some(_) => {
+                self.error(
+                    Problem::error(
+                        "gonogo::check::negative-allowance",
+                        "an allowance cannot be negative",
+                        allowance.span,
+                        "negative",
+                    )
+                    .with_help(
+                        "an allowance loosens the limit; to tighten it, change the limit itself",
+                    ),
+                );
+                return None;
+            }
+            None => {
+                self.error(
+                    Problem::error(
+                        "gonogo::check::allowance-not-constant",
+                        "an allowance must be a fixed amount, not a measured one",
+                        allowance.span,
+                        "not a fixed amount",
+                    )
+                    .with_help(
+                        "write the allowance as a number with a unit, like `allowing 0.005 in`",
+                    ),
+                );
+                return None;
+            }
         }
+        match term {
+            Term::Number(e) if dimension_ok => Some(e),
+            _ => None,
+        }
+    }
+
+    /// The unit to show a limit in: the first unit written on the limit side, else on the
+    /// other side, else the unit gonogo shows the dimension of the first name read in.
+    fn limit_unit(&self, a: &Expr, b: &Expr) -> Option<&'static Unit> {
+        let written = first_unit(b).or_else(|| first_unit(a));
+        written.or_else(|| {
+            let mut names = Vec::new();
+            a.names(&mut names);
+            b.names(&mut names);
+            names
+                .into_iter()
+                .filter_map(|n| self.dimension_of(n))
+                .find_map(units::display_unit)
+        })
+    }
+
+    /// The dimension of a numeric measurement or derived value.
+    fn dimension_of(&self, name: &str) -> Option<Dimension> {
+        let kind = match self.measurements.get(name) {
+            Some(m) => m.kind,
+            None => self.define_types.get(name).copied().flatten()?.kind,
+        };
+        match kind {
+            ValueKind::Number(d) => Some(d),
+            ValueKind::Text => None,
+        }
+    }
+}
+
+/// A text expression as a typed term.
+fn text_term(kind: TextKind, span: Span) -> Term {
+    Term::Text(TextExpr { kind, span })
+}
+
+/// The first unit written in an expression, in the order written.
+fn first_unit(e: &Expr) -> Option<&'static Unit> {
+    match &e.kind {
+        ExprKind::Quantity(q) => q
+            .unit
+            .as_ref()
+            .or(q.uncertainty.as_ref().and_then(|u| u.unit.as_ref()))
+            .and_then(|u| units::lookup(&u.symbol)),
+        ExprKind::Negate(inner) => first_unit(inner),
+        ExprKind::Binary { left, right, .. } => first_unit(left).or_else(|| first_unit(right)),
+        ExprKind::Call { args, .. } => args.iter().find_map(|a| first_unit(&a.value)),
+        ExprKind::Text(_) | ExprKind::Name(_) => None,
     }
 }
 

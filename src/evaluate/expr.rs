@@ -1,17 +1,19 @@
-//! Evaluating expressions over a declaration: names looked up, units converted to SI, built-in
-//! formulas applied, every number carrying its exact sensitivities to the measured inputs.
+//! Evaluating resolved expressions over a declaration: a fold over the checker's tree, each
+//! number carrying its exact sensitivities to the measured inputs. Names are ids, calls are
+//! bound, so nothing is looked up by name or by where it is written.
 
-use std::collections::HashMap;
+use std::f64::consts::PI;
 
 use super::dual::{Dual, InputId};
-use super::formulas;
-use super::value::{Evaluated, Missing, Value, all, both};
-use crate::check::builtins::{self, Function, Generic};
-use crate::check::model::{CheckedRulebook, Named};
+use super::value::{Evaluated, Unevaluated, Value, all, both};
+use crate::check::builtins::extreme;
+use crate::check::model::CheckedRulebook;
+use crate::check::resolved::{
+    Args, Bound, Call, DerivedId, Expr, ExprKind, Literal, LiteralId, MeasurementId, Term,
+    TextExpr, TextKind,
+};
 use crate::load::{Declaration, Input, InputName, Supplied, UncertaintySource};
-use crate::parse::ast::{Arg, BinaryOp, Expr, ExprKind, Quantity};
-use crate::source::Span;
-use crate::units;
+use crate::parse::ast::BinaryOp;
 
 /// Evaluates expressions for one declaration, caching derived values.
 pub struct Evaluator<'a> {
@@ -19,11 +21,14 @@ pub struct Evaluator<'a> {
     pub rulebook: &'a CheckedRulebook,
     /// The declaration.
     pub declaration: &'a Declaration,
-    /// Rulebook literals with a stated uncertainty, numbered after the declaration's inputs.
+    /// Rulebook literals with a stated uncertainty, numbered after the declaration's inputs
+    /// in the order first evaluated.
     pub rulebook_inputs: Vec<Input>,
-    /// Derived values computed so far, by position in the rulebook's `derived`.
+    /// Numeric derived values computed so far, by [`DerivedId`].
     derived: Vec<Option<Evaluated<Value>>>,
-    literal_inputs: HashMap<(u32, usize), InputId>,
+    /// The input id of each literal with a stated uncertainty evaluated so far, by
+    /// [`LiteralId`].
+    literal_inputs: Vec<Option<InputId>>,
 }
 
 impl<'a> Evaluator<'a> {
@@ -34,7 +39,7 @@ impl<'a> Evaluator<'a> {
             declaration,
             rulebook_inputs: Vec::new(),
             derived: vec![None; rulebook.derived.len()],
-            literal_inputs: HashMap::new(),
+            literal_inputs: vec![None; rulebook.literals.len()],
         }
     }
 
@@ -59,152 +64,196 @@ impl<'a> Evaluator<'a> {
         d.combined_uncertainty(|id| self.uncertainty(id))
     }
 
-    /// The value of a derived value, computed once.
-    pub fn derived(&mut self, name: &str) -> Option<Evaluated<Value>> {
-        self.computed(name).cloned()
-    }
-
-    /// The value of a derived value, computed once and kept; borrowed from the cache.
-    pub fn computed(&mut self, name: &str) -> Option<&Evaluated<Value>> {
-        let Some(Named::Derived(at)) = self.rulebook.index.get(name).copied() else {
+    /// The value of a numeric derived value, computed once and kept; borrowed from the cache.
+    /// `None` for a derived value that is text.
+    pub fn computed(&mut self, id: DerivedId) -> Option<&Evaluated<Value>> {
+        let rulebook = self.rulebook;
+        let Term::Number(body) = &rulebook.derived.get(id.index())?.body else {
             return None;
         };
-        if self.derived.get(at)?.is_none() {
-            let rulebook = self.rulebook;
-            let value = self.eval(&rulebook.derived.get(at)?.expr);
-            self.derived[at] = Some(value);
+        if self.derived.get(id.index())?.is_none() {
+            let value = self.number(body);
+            *self.derived.get_mut(id.index())? = Some(value);
         }
-        self.derived.get(at)?.as_ref()
+        self.derived.get(id.index())?.as_ref()
     }
 
-    /// A derived value already computed, if it has been.
-    pub fn derived_cache(&self, name: &str) -> Option<&Evaluated<Value>> {
-        match self.rulebook.index.get(name) {
-            Some(Named::Derived(at)) => self.derived.get(*at)?.as_ref(),
-            _ => None,
-        }
-    }
-
-    /// Evaluates an expression.
-    pub fn eval(&mut self, expr: &Expr) -> Evaluated<Value> {
+    /// Evaluates a numeric expression.
+    pub fn number(&mut self, expr: &Expr) -> Evaluated<Value> {
         match &expr.kind {
-            ExprKind::Quantity(q) => Ok(Value::Single(self.literal(q, expr.span))),
-            ExprKind::Text(t) => Ok(Value::Text(t.value.clone())),
-            ExprKind::Name(n) => self.name(&n.text),
-            ExprKind::Negate(inner) => Ok(self.eval(inner)?.map(Dual::neg)),
+            ExprKind::Literal(l) => Ok(Value::Single(self.literal(l)?)),
+            ExprKind::Pi => Ok(Value::Single(Dual::constant(PI))),
+            ExprKind::Measurement(id) => self.measured(*id),
+            ExprKind::Derived(id) => match self.computed(*id) {
+                Some(value) => value.clone(),
+                None => Err(Unevaluated::internal(
+                    "a text derived value used as a number",
+                )),
+            },
+            ExprKind::Negate(inner) => Ok(self.number(inner)?.map(Dual::neg)),
             ExprKind::Binary { op, left, right } => {
-                let (l, r) = both(self.eval(left), self.eval(right))?;
+                let (l, r) = both(self.number(left), self.number(right))?;
                 Ok(binary(*op, &l, &r))
             }
-            ExprKind::Call { function, args } => self.call(&function.text, args),
+            ExprKind::Formula(call) => self.formula(call),
+            ExprKind::Reduce(how, arg) => {
+                let value = self.number(arg)?;
+                let reduced = how.apply(value.numbers()).ok_or_else(|| {
+                    Unevaluated::internal("`max`, `min` or `mean` of no cylinders")
+                })?;
+                Ok(Value::Single(reduced))
+            }
+            ExprKind::Extreme { greater, args } => {
+                let values = all(args.iter().map(|a| self.number(a)).collect::<Vec<_>>())?;
+                let (first, rest) = values
+                    .split_first()
+                    .ok_or_else(|| Unevaluated::internal("`max` or `min` of no values"))?;
+                Ok(rest.iter().fold(first.clone(), |acc, v| {
+                    acc.zip(v, |a, b| extreme(*greater, a.clone(), b))
+                }))
+            }
+            ExprKind::Abs(inner) => Ok(self.number(inner)?.map(Dual::abs)),
+            ExprKind::Sqrt(inner) => Ok(self.number(inner)?.map(Dual::sqrt)),
         }
     }
 
-    /// A literal in SI units; one with a stated uncertainty is an input of its own.
-    fn literal(&mut self, q: &Quantity, span: Span) -> Dual {
-        let value = crate::check::quantity_si(q).unwrap_or(f64::NAN);
-        let Some(u) = &q.uncertainty else {
-            return Dual::constant(value);
-        };
-        let key = (span.file, span.start);
-        if let Some(id) = self.literal_inputs.get(&key) {
-            return Dual::input(*id, value);
+    /// Evaluates a text expression.
+    pub fn text(&mut self, expr: &TextExpr) -> Evaluated<String> {
+        match &expr.kind {
+            TextKind::Literal(t) => Ok(t.clone()),
+            TextKind::Measurement(id) => {
+                let name = self.measurement_name(*id)?;
+                match self.declaration.supplied(id.index()) {
+                    Some(Supplied::Text(t, _)) => Ok(t.clone()),
+                    Some(_) => Err(Unevaluated::internal(format!(
+                        "`{name}` is text in the rulebook but a number in the declaration"
+                    ))),
+                    None => Err(Unevaluated::missing(name)),
+                }
+            }
+            TextKind::Derived(id) => {
+                let rulebook = self.rulebook;
+                match rulebook.derived.get(id.index()).map(|d| &d.body) {
+                    Some(Term::Text(body)) => self.text(body),
+                    _ => Err(Unevaluated::internal(
+                        "a numeric derived value used as text",
+                    )),
+                }
+            }
         }
-        let unit = u
-            .unit
-            .as_ref()
-            .or(q.unit.as_ref())
-            .and_then(|s| units::lookup(&s.symbol));
-        let k = u.coverage.as_ref().map_or(2.0, |k| k.value);
-        let count = self.declaration.inputs.len() + self.rulebook_inputs.len();
-        let id = InputId::try_from(count).unwrap_or(InputId::MAX);
+    }
+
+    fn measurement_name(&self, id: MeasurementId) -> Evaluated<&'a str> {
+        let rulebook = self.rulebook;
+        rulebook
+            .measurements
+            .get(id.index())
+            .map(|m| m.name.as_str())
+            .ok_or_else(|| Unevaluated::internal("a measurement id outside the schema"))
+    }
+
+    fn measured(&self, id: MeasurementId) -> Evaluated<Value> {
+        let name = self.measurement_name(id)?;
+        match self.declaration.supplied(id.index()) {
+            Some(Supplied::Single(input)) => Ok(Value::Single(self.input(*input)?)),
+            Some(Supplied::PerCylinder(inputs)) => Ok(Value::PerCylinder(
+                inputs
+                    .iter()
+                    .map(|i| self.input(*i))
+                    .collect::<Evaluated<_>>()?,
+            )),
+            Some(Supplied::Text(..)) => Err(Unevaluated::internal(format!(
+                "`{name}` is a number in the rulebook but text in the declaration"
+            ))),
+            None => Err(Unevaluated::missing(name)),
+        }
+    }
+
+    fn input(&self, id: InputId) -> Evaluated<Dual> {
+        let input = self.declaration.inputs.get(id as usize).ok_or_else(|| {
+            Unevaluated::internal(format!("input {id} is not in the declaration"))
+        })?;
+        Ok(Dual::input(id, input.value))
+    }
+
+    /// A literal in SI units; one with a stated uncertainty is an input of its own, numbered
+    /// the first time it is evaluated.
+    fn literal(&mut self, l: &Literal) -> Evaluated<Dual> {
+        let Some(literal) = l.uncertain else {
+            return Ok(Dual::constant(l.si));
+        };
+        Ok(Dual::input(self.literal_input(literal)?, l.si))
+    }
+
+    fn literal_input(&mut self, literal: LiteralId) -> Evaluated<InputId> {
+        let unknown = || Unevaluated::internal("a literal id outside the rulebook");
+        if let Some(id) = self
+            .literal_inputs
+            .get(literal.index())
+            .ok_or_else(unknown)?
+        {
+            return Ok(*id);
+        }
+        let rulebook = self.rulebook;
+        let written = rulebook.literals.get(literal.index()).ok_or_else(unknown)?;
+        let id = input_id(self.declaration.inputs.len() + self.rulebook_inputs.len())?;
         self.rulebook_inputs.push(Input {
-            name: InputName::Literal(crate::parse::print::expr_text(&Expr {
-                kind: ExprKind::Quantity(q.clone()),
-                span,
-            })),
-            value,
-            standard_uncertainty: u.value.value * unit.map_or(1.0, |u| u.to_si) / k,
-            unit: unit.map(|u| u.symbol),
+            name: InputName::Literal(written.text.clone()),
+            value: written.value,
+            standard_uncertainty: written.standard_uncertainty,
+            unit: written.unit.map(|u| u.symbol),
             written: None,
             source: UncertaintySource::Rulebook,
         });
-        self.literal_inputs.insert(key, id);
-        Dual::input(id, value)
+        if let Some(slot) = self.literal_inputs.get_mut(literal.index()) {
+            *slot = Some(id);
+        }
+        Ok(id)
     }
 
-    /// The inputs of the literals with a stated uncertainty in `e` that have been evaluated.
-    pub fn literal_ids(&self, e: &Expr, out: &mut Vec<InputId>) {
-        match &e.kind {
-            ExprKind::Quantity(_) => {
-                out.extend(self.literal_inputs.get(&(e.span.file, e.span.start)))
-            }
-            ExprKind::Negate(inner) => self.literal_ids(inner, out),
-            ExprKind::Binary { left, right, .. } => {
-                self.literal_ids(left, out);
-                self.literal_ids(right, out);
-            }
-            ExprKind::Call { args, .. } => {
-                args.iter().for_each(|a| self.literal_ids(&a.value, out))
-            }
-            ExprKind::Text(_) | ExprKind::Name(_) => {}
+    /// The inputs of the literals with a stated uncertainty in `term` that have been
+    /// evaluated.
+    pub fn literal_ids(&self, term: &Term, out: &mut Vec<InputId>) {
+        let mut literals = Vec::new();
+        term.literals(&mut literals);
+        out.extend(
+            literals
+                .into_iter()
+                .filter_map(|l| self.literal_inputs.get(l.index()).copied().flatten()),
+        );
+    }
+
+    fn formula(&mut self, call: &Call) -> Evaluated<Value> {
+        match &call.args {
+            Args::Two(bound) => self.apply(bound),
+            Args::Three(bound) => self.apply(bound),
+            Args::Seven(bound) => self.apply(bound),
         }
     }
 
-    fn name(&mut self, name: &str) -> Evaluated<Value> {
-        if name == "pi" {
-            return Ok(Value::Single(Dual::constant(std::f64::consts::PI)));
-        }
-        if let Some(v) = self.derived(name) {
-            return v;
-        }
-        let supplied = self
-            .rulebook
-            .measurement_index(name)
-            .and_then(|i| self.declaration.supplied(i));
-        match supplied {
-            Some(Supplied::Single(id)) => Ok(Value::Single(self.input(*id))),
-            Some(Supplied::PerCylinder(ids)) => Ok(Value::PerCylinder(
-                ids.iter().map(|id| self.input(*id)).collect(),
-            )),
-            Some(Supplied::Text(t, _)) => Ok(Value::Text(t.clone())),
-            None => Err(Missing::one(name)),
-        }
-    }
-
-    fn input(&self, id: InputId) -> Dual {
-        Dual::input(id, self.declaration.input(id).value)
-    }
-
-    fn call(&mut self, name: &str, args: &[Arg]) -> Evaluated<Value> {
-        let Some(function) = builtins::function(name) else {
-            return Ok(Value::Single(Dual::constant(f64::NAN)));
+    /// Applies a formula cylinder by cylinder where its arguments are per cylinder.
+    fn apply<const N: usize>(&mut self, bound: &Bound<N>) -> Evaluated<Value> {
+        let values = all(bound
+            .args
+            .iter()
+            .map(|a| self.number(a))
+            .collect::<Vec<_>>())?;
+        let one = |i: usize| -> Evaluated<Dual> {
+            let x: Vec<&Dual> = values.iter().map(|v| v.at(i)).collect::<Evaluated<_>>()?;
+            let x: [&Dual; N] = x
+                .try_into()
+                .map_err(|_| Unevaluated::internal("a formula given the wrong number of values"))?;
+            Ok((bound.apply)(x))
         };
-        match function {
-            Function::Generic(g) => {
-                let values = all(args.iter().map(|a| self.eval(&a.value)).collect())?;
-                Ok(generic(g, &values))
-            }
-            Function::Formula(f) => {
-                let mut slots: Vec<Option<&Expr>> = vec![None; f.params.len()];
-                for (i, arg) in args.iter().enumerate() {
-                    let at = match &arg.label {
-                        Some(label) => f.params.iter().position(|p| p.name == label.text),
-                        None => Some(i),
-                    };
-                    if let Some(slot) = at.and_then(|at| slots.get_mut(at)) {
-                        *slot = Some(&arg.value);
-                    }
-                }
-                let values = all(slots
-                    .into_iter()
-                    .map(|e| match e {
-                        Some(e) => self.eval(e),
-                        None => Ok(Value::Single(Dual::constant(f64::NAN))),
-                    })
-                    .collect())?;
-                Ok(formula(f.name, &values))
-            }
+        let cylinders = values.iter().find_map(|v| match v {
+            Value::PerCylinder(ds) => Some(ds.len()),
+            Value::Single(_) => None,
+        });
+        match cylinders {
+            Some(n) => Ok(Value::PerCylinder(
+                (0..n).map(one).collect::<Evaluated<_>>()?,
+            )),
+            None => Ok(Value::Single(one(0)?)),
         }
     }
 }
@@ -220,67 +269,26 @@ fn binary(op: BinaryOp, l: &Value, r: &Value) -> Value {
     }
 }
 
-fn generic(g: Generic, values: &[Value]) -> Value {
-    let pick = |greater: bool, items: &[Dual]| -> Dual {
-        let mut best = items
-            .first()
-            .cloned()
-            .unwrap_or_else(|| Dual::constant(f64::NAN));
-        for d in items.iter().skip(1) {
-            if (d.value > best.value) == greater && d.value != best.value {
-                best = d.clone();
-            }
-        }
-        best
-    };
-    match (g, values) {
-        (Generic::Max | Generic::Min, [Value::PerCylinder(ds)]) => {
-            Value::Single(pick(g == Generic::Max, ds))
-        }
-        (Generic::Mean, [Value::PerCylinder(ds)]) => {
-            let n = ds.len() as f64;
-            let sum = ds.iter().skip(1).fold(ds[0].clone(), |acc, d| acc.add(d));
-            Value::Single(sum.scale(1.0 / n))
-        }
-        (Generic::Max | Generic::Min, [first, rest @ ..]) => {
-            rest.iter().fold(first.clone(), |acc, v| {
-                acc.zip(v, |a, b| {
-                    if (b.value > a.value) == (g == Generic::Max) && b.value != a.value {
-                        b.clone()
-                    } else {
-                        a.clone()
-                    }
-                })
-            })
-        }
-        (Generic::Abs, [v]) => v.map(Dual::abs),
-        (Generic::Sqrt, [v]) => v.map(Dual::sqrt),
-        _ => Value::Single(Dual::constant(f64::NAN)),
-    }
+/// The id of the input numbered `count`, or an error when ids run out (never a reused id).
+fn input_id(count: usize) -> Evaluated<InputId> {
+    InputId::try_from(count).map_err(|_| {
+        Unevaluated::internal(format!(
+            "input {count} is beyond the {} inputs gonogo can number",
+            InputId::MAX
+        ))
+    })
 }
 
-/// Argument `a` for cylinder `i`: a single value serves every cylinder.
-fn argument_at<'v>(a: &'v Value, i: usize, undefined: &'v Dual) -> &'v Dual {
-    match a {
-        Value::Single(d) => d,
-        Value::PerCylinder(ds) => ds.get(i).unwrap_or(undefined),
-        Value::Text(_) => undefined,
-    }
-}
+#[cfg(test)]
+mod tests {
+    use super::*;
 
-/// Applies a formula cylinder by cylinder where its arguments are per cylinder.
-fn formula(name: &str, args: &[Value]) -> Value {
-    let cylinders = args.iter().find_map(|a| match a {
-        Value::PerCylinder(ds) => Some(ds.len()),
-        _ => None,
-    });
-    let undefined = Dual::constant(f64::NAN);
-    let one = |i: usize| -> Dual {
-        let x: Vec<&Dual> = args.iter().map(|a| argument_at(a, i, &undefined)).collect();
-        formulas::apply(name, &x).unwrap_or_else(|| Dual::constant(f64::NAN))
-    };
-    match cylinders {
-        Some(n) => Value::PerCylinder((0..n).map(one).collect()),
-        None => Value::Single(one(0)),
+    #[test]
+    fn input_ids_that_run_out_are_an_error_not_a_shared_id() {
+        // issue 8: the input after the last id fell back to `u32::MAX`, an id it could share
+        assert_eq!(input_id(7), Ok(7));
+        let last = InputId::MAX as usize;
+        assert_eq!(input_id(last), Ok(InputId::MAX));
+        assert!(matches!(input_id(last + 1), Err(Unevaluated::Internal(_))));
     }
 }

@@ -110,9 +110,7 @@ fn margin_after(
 ) -> Option<(f64, f64, f64)> {
     let mut moved = declaration.clone();
     moved.inputs.get_mut(id as usize)?.value += delta;
-    let checked = Evaluator::new(rulebook, &moved)
-        .test(&rule.rule.require)
-        .ok()?;
+    let checked = Evaluator::new(rulebook, &moved).test(&rule.test).ok()?;
     checked.numeric.map(|n| (n.margin, n.value, n.limit))
 }
 

@@ -1,11 +1,11 @@
-//! Evaluation: a checked rulebook's class applied to a loaded declaration, rule by rule, with
-//! exact sensitivities ([`dual`]), the built-in [`formulas`], findings and verdicts
-//! ([`finding`]), and the data a report renders ([`outcome`]).
+//! Evaluation: a checked rulebook's class applied to a loaded declaration, rule by rule, as a
+//! fold over the resolved tree the checker made ([`expr`]), with exact sensitivities
+//! ([`dual`]), findings and verdicts ([`finding`]), and the data a report renders
+//! ([`outcome`]). The built-in formulas are in the checker's one table, `check::builtins`.
 
 pub mod dual;
 pub mod expr;
 pub mod finding;
-pub mod formulas;
 pub mod headroom;
 pub mod outcome;
 mod rule;

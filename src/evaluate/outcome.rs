@@ -117,6 +117,9 @@ pub struct Outcome<'a> {
     pub missing: Vec<String>,
     /// True when the value it tests could not be computed as a finite number.
     pub not_finite: bool,
+    /// Why it could not be evaluated, when that is not a missing measurement: an internal
+    /// error of gonogo, never a finding.
+    pub error: Option<String>,
     /// Every input and derived value it reads.
     pub trace: Vec<Trace<'a>>,
 }

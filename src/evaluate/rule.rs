@@ -1,15 +1,19 @@
 //! One rule evaluated: its conditions in three-valued logic, its test as a finding with margin
-//! and probability of conformance, the verdict under the decision rule, and the trace.
+//! and probability of conformance, the verdict under the decision rule, and the trace. Each
+//! kind of test has its own function: [`Evaluator::compare`] for a limit on one side,
+//! [`Evaluator::equality`] for `==` and `!=` of numbers, [`Evaluator::between`] for a range,
+//! and membership, patterns and text equality as pass or fail.
 
 use super::dual::Dual;
 use super::expr::Evaluator;
 use super::finding::{Finding, Verdict, finding, probability, probability_between, verdict};
 use super::outcome::{Applies, Checked, Numeric, Outcome, Trace};
-use super::value::{Evaluated, Missing, Value};
-use crate::check::model::{ClassRule, ValueKind};
+use super::value::{Evaluated, Unevaluated, Value, both};
+use crate::check::model::ClassRule;
+use crate::check::resolved::{Condition, Expr, Read, Term, Test, TestKind};
 use crate::load::Supplied;
-use crate::parse::ast::{CompareOp, Condition, DecisionRule, Expr, ExprKind, Test, TestKind};
-use crate::units::{self, Unit};
+use crate::parse::ast::{CompareOp, DecisionRule};
+use crate::units::Unit;
 
 /// Coverage factor for the expanded uncertainty a finding is judged against (about 95 %).
 pub const COVERAGE: f64 = 2.0;
@@ -32,12 +36,13 @@ impl<'a> Evaluator<'a> {
             checked: None,
             missing: Vec::new(),
             not_finite: false,
+            error: None,
             trace: Vec::new(),
         };
         outcome.trace = self.trace(r);
-        match self.conditions(&r.conditions, decision) {
-            Err(missing) => {
-                outcome.missing = missing.0.into_iter().collect();
+        match self.conditions(&r.when, decision) {
+            Err(why) => {
+                outcome.record(why);
                 return outcome;
             }
             Ok(Truth::False) => {
@@ -49,8 +54,8 @@ impl<'a> Evaluator<'a> {
             Ok(Truth::True) if !r.conditions.is_empty() => outcome.applies = Applies::Holds,
             Ok(Truth::True) => {}
         }
-        match self.test(&r.rule.require) {
-            Err(missing) => outcome.missing = missing.0.into_iter().collect(),
+        match self.test(&r.test) {
+            Err(why) => outcome.record(why),
             Ok(checked) if !checked.is_finite() => {
                 // bad input must not turn into a verdict: a value that is not a number decides nothing
                 outcome.not_finite = true;
@@ -74,7 +79,7 @@ impl<'a> Evaluator<'a> {
 
     fn conditions(&mut self, conditions: &[Condition], decision: DecisionRule) -> Evaluated<Truth> {
         let mut truth = Truth::True;
-        let mut missing: Option<Missing> = None;
+        let mut missing: Option<Unevaluated> = None;
         for c in conditions {
             match self.condition(c, decision) {
                 Ok(Truth::False) => return Ok(Truth::False),
@@ -101,7 +106,7 @@ impl<'a> Evaluator<'a> {
                 }
                 Ok(truth_of(checked.finding, decision))
             }
-            Condition::Not(inner, _) => Ok(match self.condition(inner, decision)? {
+            Condition::Not(inner) => Ok(match self.condition(inner, decision)? {
                 Truth::True => Truth::False,
                 Truth::False => Truth::True,
                 Truth::Uncertain => Truth::Uncertain,
@@ -134,22 +139,33 @@ impl<'a> Evaluator<'a> {
                 op,
                 right,
                 allowance,
+                unit,
             } => {
-                let (l, r) = super::value::both(self.eval(left), self.eval(right))?;
-                let slack = self.allowance(allowance.as_ref());
-                Ok(self.compare(&l, *op, &r, slack, limit_unit(left, right, self)))
+                let (l, r) = both(self.number(left), self.number(right))?;
+                let slack = self.allowance(allowance.as_ref())?;
+                match op {
+                    CompareOp::Equal | CompareOp::NotEqual => {
+                        self.equality(&l, *op == CompareOp::Equal, &r, *unit)
+                    }
+                    _ => self.compare(&l, *op, &r, slack, *unit),
+                }
+            }
+            TestKind::TextEqual { left, equal, right } => {
+                let (a, b) = both(self.text(left), self.text(right))?;
+                Ok(binary_finding((a == b) == *equal, a))
             }
             TestKind::Between {
                 subject,
                 low,
                 high,
                 allowance,
+                unit,
             } => {
-                let s = self.eval(subject);
-                let (lo, hi) = super::value::both(self.eval(low), self.eval(high))?;
+                let s = self.number(subject);
+                let (lo, hi) = both(self.number(low), self.number(high))?;
                 let s = s?;
-                let slack = self.allowance(allowance.as_ref());
-                Ok(self.between(&s, &lo, &hi, slack, limit_unit(low, high, self)))
+                let slack = self.allowance(allowance.as_ref())?;
+                self.between(&s, &lo, &hi, slack, *unit)
             }
             TestKind::Member {
                 subject,
@@ -157,13 +173,12 @@ impl<'a> Evaluator<'a> {
                 list,
             } => {
                 let text = self.text(subject)?;
-                let on_list = self
+                let list = self
                     .rulebook
                     .lists
-                    .iter()
-                    .find(|l| l.name == list.text)
-                    .is_some_and(|l| l.contains(&text));
-                Ok(binary_finding(on_list != *negated, text))
+                    .get(list.index())
+                    .ok_or_else(|| Unevaluated::internal("a list id outside the rulebook"))?;
+                Ok(binary_finding(list.contains(&text) != *negated, text))
             }
             TestKind::Matches {
                 subject,
@@ -171,33 +186,52 @@ impl<'a> Evaluator<'a> {
                 pattern,
             } => {
                 let text = self.text(subject)?;
-                let compiled = self
-                    .rulebook
-                    .patterns
-                    .get(&(pattern.span.file, pattern.span.start));
-                let matched = compiled.is_some_and(|re| re.is_match(&text));
-                Ok(binary_finding(matched != *negated, text))
+                Ok(binary_finding(pattern.is_match(&text) != *negated, text))
             }
         }
     }
 
-    fn text(&mut self, e: &Expr) -> Evaluated<String> {
-        Ok(match self.eval(e)? {
-            Value::Text(t) => t,
-            other => other
-                .numbers()
-                .first()
-                .map(|d| d.value.to_string())
-                .unwrap_or_default(),
-        })
+    /// A written allowance in SI units (0 without one); the checker made it a constant.
+    fn allowance(&mut self, e: Option<&Expr>) -> Evaluated<f64> {
+        let Some(e) = e else { return Ok(0.0) };
+        match self.number(e)? {
+            Value::Single(d) => Ok(d.value),
+            Value::PerCylinder(_) => Err(Unevaluated::internal("an allowance per cylinder")),
+        }
     }
 
-    fn allowance(&mut self, e: Option<&Expr>) -> f64 {
-        e.and_then(|e| self.eval(e).ok())
-            .and_then(|v| v.numbers().first().map(|d| d.value))
-            .unwrap_or(0.0)
+    /// `==` or `!=` of numbers, on every cylinder: the first cylinder that breaks it decides
+    /// (cylinder 1 when none does), and is named beside the value found.
+    fn equality(
+        &self,
+        l: &Value,
+        equal: bool,
+        r: &Value,
+        unit: Option<&'static Unit>,
+    ) -> Evaluated<Checked> {
+        let cylinders = l.numbers().len().max(r.numbers().len());
+        if cylinders == 0 {
+            return Err(no_value());
+        }
+        let mut deciding = (0, true);
+        for i in 0..cylinders {
+            let (a, b) = (l.at(i)?.value, r.at(i)?.value);
+            let same = (a - b).abs() <= 1e-9 * a.abs().max(b.abs()).max(1e-300);
+            if same != equal {
+                deciding = (i, false);
+                break;
+            }
+        }
+        let (i, holds) = deciding;
+        let value = l.at(i)?.value / unit.map_or(1.0, |u| u.to_si);
+        let mut shown = crate::report::format::number(value);
+        if l.is_per_cylinder() || r.is_per_cylinder() {
+            shown = format!("{shown} (cylinder {})", i + 1);
+        }
+        Ok(binary_finding(holds, shown))
     }
 
+    /// A limit on one side (`<=`, `<`, `>=`, `>`), on every cylinder: the worst decides.
     fn compare(
         &self,
         l: &Value,
@@ -205,17 +239,7 @@ impl<'a> Evaluator<'a> {
         r: &Value,
         slack: f64,
         unit: Option<&'static Unit>,
-    ) -> Checked {
-        if let (Value::Text(a), Value::Text(b)) = (l, r) {
-            let equal = a == b;
-            return binary_finding(equal == (op == CompareOp::Equal), a.clone());
-        }
-        if matches!(op, CompareOp::Equal | CompareOp::NotEqual) {
-            let (a, b) = (first(l), first(r));
-            let equal = (a - b).abs() <= 1e-9 * a.abs().max(b.abs()).max(1e-300);
-            let shown = crate::report::format::number(a / unit.map_or(1.0, |u| u.to_si));
-            return binary_finding(equal == (op == CompareOp::Equal), shown);
-        }
+    ) -> Evaluated<Checked> {
         let (subject, limit, op) = if is_constant(r) || !is_constant(l) {
             (l, r, op)
         } else {
@@ -225,17 +249,10 @@ impl<'a> Evaluator<'a> {
         let upper = matches!(op, CompareOp::AtMost | CompareOp::Below);
         // margin, positive inside: (limit + allowance) − value, or value − (limit − allowance)
         let margins = subject.zip(limit, |s, t| if upper { t.sub(s) } else { s.sub(t) });
-        let (i, m) = self.worst(margins.numbers(), slack, strict);
-        // a single value stands for every cylinder
-        let at = |v: &Value| {
-            v.numbers()
-                .get(i)
-                .or(v.numbers().first())
-                .map_or(f64::NAN, |d| d.value)
-        };
-        let lim = at(limit) + if upper { slack } else { -slack };
+        let (i, m) = self.worst(margins.numbers(), slack, strict)?;
+        let lim = limit.at(i)?.value + if upper { slack } else { -slack };
         let numeric = self.numeric(
-            at(subject),
+            subject.at(i)?.value,
             lim,
             &m,
             slack,
@@ -244,13 +261,14 @@ impl<'a> Evaluator<'a> {
             cylinder(&margins, i),
             None,
         );
-        Checked {
+        Ok(Checked {
             finding: numeric.1,
             numeric: Some(numeric.0),
             observed: None,
-        }
+        })
     }
 
+    /// A range (`between`), on every cylinder: the worst decides.
     fn between(
         &self,
         s: &Value,
@@ -258,12 +276,16 @@ impl<'a> Evaluator<'a> {
         hi: &Value,
         slack: f64,
         unit: Option<&'static Unit>,
-    ) -> Checked {
+    ) -> Evaluated<Checked> {
         let low_margins = s.zip(lo, |s, l| s.sub(l));
         let high_margins = s.zip(hi, |s, h| h.sub(s));
-        let mut worst: Option<(usize, Checked, (f64, f64))> = None;
-        for i in 0..low_margins.numbers().len() {
-            let (ml, mh) = (&low_margins.numbers()[i], &high_margins.numbers()[i]);
+        let mut worst: Option<Checked> = None;
+        for (i, (ml, mh)) in low_margins
+            .numbers()
+            .iter()
+            .zip(high_margins.numbers())
+            .enumerate()
+        {
             let (ul, uh) = (self.combined(ml), self.combined(mh));
             let (low_value, high_value) = (ml.value + slack, mh.value + slack);
             let f = finding(low_value, COVERAGE * ul, false).min(finding(
@@ -272,17 +294,12 @@ impl<'a> Evaluator<'a> {
                 false,
             ));
             let p = probability_between((low_value, ul), (high_value, uh));
-            let value = s
-                .numbers()
-                .get(i)
-                .or(s.numbers().first())
-                .map_or(f64::NAN, |d| d.value);
+            let value = s.at(i)?.value;
             let (limit, margin, u, near) = if low_value < high_value {
                 (value - low_value, low_value, ul, ml)
             } else {
                 (value + high_value, high_value, uh, mh)
             };
-            let range = (value - low_value, value + high_value);
             let numeric = Numeric {
                 value,
                 sensitivities: near.partials.clone(),
@@ -293,29 +310,22 @@ impl<'a> Evaluator<'a> {
                 probability: p,
                 unit,
                 cylinder: cylinder(&low_margins, i),
-                range: Some(range),
+                range: Some((value - low_value, value + high_value)),
             };
             let candidate = Checked {
                 finding: f,
                 numeric: Some(numeric),
                 observed: None,
             };
-            let better = worst
-                .as_ref()
-                .is_none_or(|(_, w, _)| rank(&candidate) < rank(w));
-            if better {
-                worst = Some((i, candidate, range));
+            if worst.as_ref().is_none_or(|w| rank(&candidate) < rank(w)) {
+                worst = Some(candidate);
             }
         }
-        worst.map(|(_, c, _)| c).unwrap_or(Checked {
-            finding: Finding::Fail,
-            numeric: None,
-            observed: None,
-        })
+        worst.ok_or_else(no_value)
     }
 
     /// The cylinder whose margin is worst: lowest probability of conformance, then least margin.
-    fn worst(&self, margins: &[Dual], slack: f64, strict: bool) -> (usize, Dual) {
+    fn worst(&self, margins: &[Dual], slack: f64, strict: bool) -> Evaluated<(usize, Dual)> {
         let mut best = (0, f64::INFINITY, f64::INFINITY);
         for (i, m) in margins.iter().enumerate() {
             let p = probability(m.value + slack, self.combined(m), strict);
@@ -323,13 +333,8 @@ impl<'a> Evaluator<'a> {
                 best = (i, p, m.value);
             }
         }
-        (
-            best.0,
-            margins
-                .get(best.0)
-                .cloned()
-                .unwrap_or_else(|| Dual::constant(f64::NAN)),
-        )
+        let m = margins.get(best.0).ok_or_else(no_value)?;
+        Ok((best.0, m.clone()))
     }
 
     #[allow(
@@ -368,58 +373,66 @@ impl<'a> Evaluator<'a> {
     /// Every input and derived value a rule reads, in the order first read.
     fn trace(&mut self, r: &'a ClassRule) -> Vec<Trace<'a>> {
         let mut lines = Vec::new();
-        let mut seen: Vec<&'a str> = Vec::new();
-        for name in &r.reads {
-            self.trace_name(name, &mut lines, &mut seen);
+        let mut seen: Vec<Read> = Vec::new();
+        for read in &r.read_ids {
+            self.trace_read(*read, &mut lines, &mut seen);
         }
         lines
     }
 
-    fn trace_name(&mut self, name: &'a str, lines: &mut Vec<Trace<'a>>, seen: &mut Vec<&'a str>) {
-        if seen.contains(&name) || name == "pi" {
+    fn trace_read(&mut self, read: Read, lines: &mut Vec<Trace<'a>>, seen: &mut Vec<Read>) {
+        if seen.contains(&read) {
             return;
         }
-        seen.push(name);
+        seen.push(read);
         let rulebook = self.rulebook;
         let declaration = self.declaration;
-        if let Some(d) = rulebook.derived_value(name) {
-            for inner in &d.reads {
-                self.trace_name(inner, lines, seen);
+        match read {
+            Read::Derived(id) => {
+                let Some(d) = rulebook.derived.get(id.index()) else {
+                    return;
+                };
+                for inner in &d.read_ids {
+                    self.trace_read(*inner, lines, seen);
+                }
+                let (values, uncertainties) = match self.computed(id) {
+                    Some(Ok(v)) => {
+                        let numbers = v.numbers().to_vec();
+                        let values = numbers.iter().map(|n| n.value).collect();
+                        (values, numbers.iter().map(|n| self.combined(n)).collect())
+                    }
+                    _ => (Vec::new(), Vec::new()),
+                };
+                self.trace_literals(&d.body, lines);
+                lines.push(Trace::Derived {
+                    derived: d,
+                    values,
+                    uncertainties,
+                });
             }
-            self.computed(name);
-            let numbers = match self.derived_cache(name) {
-                Some(Ok(v)) => v.numbers(),
-                _ => &[],
-            };
-            let values = numbers.iter().map(|n| n.value).collect();
-            let uncertainties = numbers.iter().map(|n| self.combined(n)).collect();
-            self.trace_literals(&d.expr, lines);
-            lines.push(Trace::Derived {
-                derived: d,
-                values,
-                uncertainties,
-            });
-            return;
-        }
-        match rulebook
-            .measurement_index(name)
-            .and_then(|i| declaration.supplied(i))
-        {
-            None => lines.push(Trace::Missing { name }),
-            Some(Supplied::Text(value, place)) => lines.push(Trace::Text {
-                name,
-                value,
-                place: *place,
-            }),
-            Some(Supplied::Single(id)) => lines.push(Trace::Input(*id)),
-            Some(Supplied::PerCylinder(ids)) => {
-                lines.extend(ids.iter().map(|id| Trace::Input(*id)))
+            Read::Measurement(id) => {
+                let Some(m) = rulebook.measurements.get(id.index()) else {
+                    return;
+                };
+                let name = m.name.as_str();
+                match declaration.supplied(id.index()) {
+                    None => lines.push(Trace::Missing { name }),
+                    Some(Supplied::Text(value, place)) => lines.push(Trace::Text {
+                        name,
+                        value,
+                        place: *place,
+                    }),
+                    Some(Supplied::Single(id)) => lines.push(Trace::Input(*id)),
+                    Some(Supplied::PerCylinder(ids)) => {
+                        lines.extend(ids.iter().map(|id| Trace::Input(*id)))
+                    }
+                }
             }
         }
     }
 
     /// Rulebook literals with a stated uncertainty that an expression reads.
-    fn trace_literals(&self, e: &Expr, lines: &mut Vec<Trace<'a>>) {
+    fn trace_literals(&self, e: &Term, lines: &mut Vec<Trace<'a>>) {
         let mut ids = Vec::new();
         self.literal_ids(e, &mut ids);
         for id in ids {
@@ -429,6 +442,16 @@ impl<'a> Evaluator<'a> {
             {
                 lines.push(Trace::Input(id));
             }
+        }
+    }
+}
+
+impl Outcome<'_> {
+    /// Records why the rule could not be evaluated.
+    fn record(&mut self, why: Unevaluated) {
+        match why {
+            Unevaluated::Missing(missing) => self.missing = missing.0.into_iter().collect(),
+            Unevaluated::Internal(error) => self.error = Some(error),
         }
     }
 }
@@ -446,8 +469,10 @@ fn cylinder(v: &Value, i: usize) -> Option<usize> {
     matches!(v, Value::PerCylinder(_)).then_some(i + 1)
 }
 
-fn first(v: &Value) -> f64 {
-    v.numbers().first().map_or(f64::NAN, |d| d.value)
+/// The error for a test whose value has no number (a per-cylinder value of no cylinders,
+/// which the loader refuses): such a test decides nothing.
+fn no_value() -> Unevaluated {
+    Unevaluated::internal("the value tested has no number to compare")
 }
 
 fn is_constant(v: &Value) -> bool {
@@ -469,46 +494,5 @@ fn binary_finding(holds: bool, observed: String) -> Checked {
         finding: if holds { Finding::Pass } else { Finding::Fail },
         numeric: None,
         observed: Some(observed),
-    }
-}
-
-/// The unit to show a limit in: the first unit written on the limit side, else the unit
-/// gonogo shows that dimension in.
-fn limit_unit(a: &Expr, b: &Expr, ev: &Evaluator) -> Option<&'static Unit> {
-    let written = first_unit(b).or_else(|| first_unit(a));
-    written.or_else(|| {
-        let mut names = Vec::new();
-        a.names(&mut names);
-        b.names(&mut names);
-        names
-            .into_iter()
-            .filter_map(|n| dimension_of(n, ev))
-            .find_map(units::display_unit)
-    })
-}
-
-fn dimension_of(name: &str, ev: &Evaluator) -> Option<crate::units::Dimension> {
-    let kind = ev
-        .rulebook
-        .measurement(name)
-        .map(|m| m.kind)
-        .or_else(|| ev.rulebook.derived_value(name).map(|d| d.ty.kind))?;
-    match kind {
-        ValueKind::Number(d) => Some(d),
-        ValueKind::Text => None,
-    }
-}
-
-fn first_unit(e: &Expr) -> Option<&'static Unit> {
-    match &e.kind {
-        ExprKind::Quantity(q) => q
-            .unit
-            .as_ref()
-            .or(q.uncertainty.as_ref().and_then(|u| u.unit.as_ref()))
-            .and_then(|u| units::lookup(&u.symbol)),
-        ExprKind::Negate(inner) => first_unit(inner),
-        ExprKind::Binary { left, right, .. } => first_unit(left).or_else(|| first_unit(right)),
-        ExprKind::Call { args, .. } => args.iter().find_map(|a| first_unit(&a.value)),
-        ExprKind::Text(_) | ExprKind::Name(_) => None,
     }
 }

@@ -1,27 +1,35 @@
-//! Values during evaluation: a number (one, or one per cylinder) with its sensitivities, or
-//! text; and the set of measurements found missing on the way.
+//! Values during evaluation: a number (one, or one per cylinder) with its sensitivities; the
+//! measurements found missing on the way; and the one other reason a value may not come out,
+//! an internal error, which is reported with its message and never turned into a number.
 
 use std::collections::BTreeSet;
 
 use super::dual::Dual;
 
-/// An evaluated expression.
+/// An evaluated numeric expression.
 #[derive(Clone, Debug, PartialEq)]
 pub enum Value {
     /// One number for the engine.
     Single(Dual),
     /// One number per cylinder, cylinder 1 first.
     PerCylinder(Vec<Dual>),
-    /// Text.
-    Text(String),
 }
 
 /// The measurements an expression needed and the declaration did not give.
 #[derive(Clone, Debug, Default, PartialEq)]
 pub struct Missing(pub BTreeSet<String>);
 
+/// Why something could not be evaluated.
+#[derive(Clone, Debug, PartialEq)]
+pub enum Unevaluated {
+    /// Measurements the declaration does not give.
+    Missing(Missing),
+    /// A state the checker and the loader rule out (a mistake in gonogo), with what went wrong.
+    Internal(String),
+}
+
 /// The result of evaluating something that may need a missing measurement.
-pub type Evaluated<T> = Result<T, Missing>;
+pub type Evaluated<T> = Result<T, Unevaluated>;
 
 impl Missing {
     /// One missing measurement.
@@ -36,7 +44,29 @@ impl Missing {
     }
 }
 
-/// Both results, or every measurement either was missing.
+impl Unevaluated {
+    /// One missing measurement.
+    pub fn missing(name: &str) -> Unevaluated {
+        Unevaluated::Missing(Missing::one(name))
+    }
+
+    /// An internal error with its message.
+    pub fn internal(what: impl Into<String>) -> Unevaluated {
+        Unevaluated::Internal(what.into())
+    }
+
+    /// Both reasons together: every missing measurement, or the first internal error.
+    pub fn join(self, other: Unevaluated) -> Unevaluated {
+        match (self, other) {
+            (Unevaluated::Missing(a), Unevaluated::Missing(b)) => Unevaluated::Missing(a.join(b)),
+            (Unevaluated::Internal(e), _) | (_, Unevaluated::Internal(e)) => {
+                Unevaluated::Internal(e)
+            }
+        }
+    }
+}
+
+/// Both results, or every reason either failed.
 pub fn both<A, B>(a: Evaluated<A>, b: Evaluated<B>) -> Evaluated<(A, B)> {
     match (a, b) {
         (Ok(a), Ok(b)) => Ok((a, b)),
@@ -45,18 +75,18 @@ pub fn both<A, B>(a: Evaluated<A>, b: Evaluated<B>) -> Evaluated<(A, B)> {
     }
 }
 
-/// All results, or every measurement any was missing.
-pub fn all<T>(items: Vec<Evaluated<T>>) -> Evaluated<Vec<T>> {
-    let mut values = Vec::with_capacity(items.len());
-    let mut missing: Option<Missing> = None;
+/// All results, or every reason any failed.
+pub fn all<T>(items: impl IntoIterator<Item = Evaluated<T>>) -> Evaluated<Vec<T>> {
+    let mut values = Vec::new();
+    let mut failed: Option<Unevaluated> = None;
     for item in items {
         match item {
             Ok(v) => values.push(v),
-            Err(m) => missing = Some(missing.map_or(m.clone(), |acc| acc.join(m))),
+            Err(e) => failed = Some(failed.map_or(e.clone(), |acc| acc.join(e))),
         }
     }
-    match missing {
-        Some(m) => Err(m),
+    match failed {
+        Some(e) => Err(e),
         None => Ok(values),
     }
 }
@@ -67,8 +97,26 @@ impl Value {
         match self {
             Value::Single(d) => std::slice::from_ref(d),
             Value::PerCylinder(ds) => ds,
-            Value::Text(_) => &[],
         }
+    }
+
+    /// The number for cylinder `i` (0-based): a single value stands for every cylinder.
+    pub fn at(&self, i: usize) -> Evaluated<&Dual> {
+        match self {
+            Value::Single(d) => Ok(d),
+            Value::PerCylinder(ds) => ds.get(i).ok_or_else(|| {
+                Unevaluated::internal(format!(
+                    "a per-cylinder value has {} cylinders, and cylinder {} was asked for",
+                    ds.len(),
+                    i + 1
+                ))
+            }),
+        }
+    }
+
+    /// Whether it has one value per cylinder.
+    pub fn is_per_cylinder(&self) -> bool {
+        matches!(self, Value::PerCylinder(_))
     }
 
     /// Applies `f` to each number, pairing per-cylinder values cylinder by cylinder and a
@@ -85,7 +133,6 @@ impl Value {
             (Value::PerCylinder(a), Value::PerCylinder(b)) => {
                 Value::PerCylinder(a.iter().zip(b).map(|(x, y)| f(x, y)).collect())
             }
-            _ => Value::Single(Dual::constant(f64::NAN)),
         }
     }
 
@@ -94,7 +141,6 @@ impl Value {
         match self {
             Value::Single(a) => Value::Single(f(a)),
             Value::PerCylinder(a) => Value::PerCylinder(a.iter().map(f).collect()),
-            Value::Text(t) => Value::Text(t.clone()),
         }
     }
 }

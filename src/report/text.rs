@@ -114,6 +114,12 @@ fn rule(out: &mut String, o: &Outcome, r: &EngineReport) {
             "    not computed  the value tested is not a finite number (a division by zero or the root of a negative number); check the inputs in the trace"
         );
     }
+    if let Some(error) = &o.error {
+        let _ = writeln!(
+            out,
+            "    not computed  {error} (a mistake in gonogo; please report it)"
+        );
+    }
     if let Some(c) = o.checked.as_ref().filter(|c| c.is_finite()) {
         checked_lines(out, c);
         if o.applies == Applies::Uncertain {
