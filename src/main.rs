@@ -7,7 +7,7 @@ use std::process::ExitCode;
 use clap::{CommandFactory, Parser, Subcommand};
 use gonogo::commands::check::{self, CheckFormat, CheckRequest, Role};
 use gonogo::commands::sheet::{self, SheetFormat};
-use gonogo::commands::{diff, explain, fmt, headroom, impact, lint};
+use gonogo::commands::{Failure, diff, explain, fmt, headroom, impact, lint};
 use gonogo::diagnostic::RenderStyle;
 use gonogo::exit::Exit;
 use gonogo::report::diff::DiffFormat;
@@ -193,6 +193,9 @@ fn style_for(stream_is_terminal: bool) -> RenderStyle {
 
 fn run(cli: Cli) -> Exit {
     let output = cli.output;
+    let output = output.as_deref();
+    let done =
+        |result: Result<String, Failure>| finish(result.map(|text| (text, Exit::Clean)), output);
     match cli.command {
         Command::Check {
             rules,
@@ -210,134 +213,78 @@ fn run(cli: Cli) -> Exit {
                 declarations: &declarations,
                 jobs,
             };
-            match check::run(&request, style_for(std::io::stderr().is_terminal())) {
-                Ok((out, exit)) => write_out(&out, output.as_deref(), exit),
-                Err(diagnostics) => {
-                    eprint!("{diagnostics}");
-                    Exit::BadInput
-                }
-            }
+            finish(check::run(&request), output)
         }
         Command::Lint { files, format } => {
-            let (out, exit) = lint::run(&files, format, style_for(std::io::stdout().is_terminal()));
-            write_out(&out, output.as_deref(), exit)
+            let linted = lint::run(&files);
+            let text = linted.render(format, style_for(std::io::stdout().is_terminal()));
+            write_out(&text, output, linted.exit())
         }
         Command::Diff {
             old,
             new,
             class,
             format,
-        } => finish(
-            diff::run(
-                &old,
-                &new,
-                class.as_deref(),
-                format,
-                style_for(std::io::stderr().is_terminal()),
-            ),
-            output.as_deref(),
-        ),
+        } => done(diff::run(&old, &new, class.as_deref(), format)),
         Command::Impact {
             old,
             new,
             declarations,
             role,
             format,
-        } => finish(
-            impact::run(
-                &old,
-                &new,
-                &declarations,
-                role,
-                format,
-                style_for(std::io::stderr().is_terminal()),
-            ),
-            output.as_deref(),
-        ),
+        } => done(impact::run(&old, &new, &declarations, role, format)),
         Command::Headroom {
             rules,
             class,
             role,
             format,
             declarations,
-        } => finish(
-            headroom::run(
-                &rules,
-                class.as_deref(),
-                role,
-                &declarations,
-                format,
-                style_for(std::io::stderr().is_terminal()),
-            ),
-            output.as_deref(),
-        ),
+        } => done(headroom::run(
+            &rules,
+            class.as_deref(),
+            role,
+            &declarations,
+            format,
+        )),
         Command::Explain {
             rules,
             class,
             section,
-        } => finish(
-            explain::run(
-                &rules,
-                class.as_deref(),
-                &section,
-                style_for(std::io::stderr().is_terminal()),
-            ),
-            output.as_deref(),
-        ),
+        } => done(explain::run(&rules, class.as_deref(), &section)),
         Command::Sheet {
             rules,
             class,
             format,
-        } => finish(
-            sheet::run(
-                &rules,
-                &class,
-                format,
-                style_for(std::io::stderr().is_terminal()),
-            ),
-            output.as_deref(),
-        ),
+        } => done(sheet::run(&rules, &class, format)),
         Command::Completions { shell } => {
             let mut script = Vec::new();
             clap_complete::generate(shell, &mut Cli::command(), "gonogo", &mut script);
-            write_out(
-                &String::from_utf8_lossy(&script),
-                output.as_deref(),
-                Exit::Clean,
-            )
+            write_out(&String::from_utf8_lossy(&script), output, Exit::Clean)
         }
         Command::Man => {
             let mut page = Vec::new();
             match clap_mangen::Man::new(Cli::command()).render(&mut page) {
-                Ok(()) => write_out(
-                    &String::from_utf8_lossy(&page),
-                    output.as_deref(),
-                    Exit::Clean,
-                ),
+                Ok(()) => write_out(&String::from_utf8_lossy(&page), output, Exit::Clean),
                 Err(e) => {
                     eprintln!("gonogo: cannot make the manual page: {e}");
                     Exit::BadInput
                 }
             }
         }
-        Command::Fmt { file } => {
-            match fmt::run(&file, style_for(std::io::stderr().is_terminal())) {
-                Ok(text) => write_out(&text, output.as_deref(), Exit::Clean),
-                Err((diagnostics, exit)) => {
-                    eprint!("{diagnostics}");
-                    exit
-                }
-            }
-        }
+        Command::Fmt { file } => done(fmt::run(&file)),
     }
 }
 
-/// Writes a command's text, or prints its diagnostics and gives exit 2.
-fn finish(result: Result<String, String>, output: Option<&std::path::Path>) -> Exit {
+/// Writes a command's document with its exit status, or renders its problems on standard
+/// error (the one place diagnostics are rendered) and gives exit 2.
+fn finish(result: Result<(String, Exit), Failure>, output: Option<&std::path::Path>) -> Exit {
     match result {
-        Ok(text) => write_out(&text, output, Exit::Clean),
-        Err(diagnostics) => {
-            eprint!("{diagnostics}");
+        Ok((text, exit)) => write_out(&text, output, exit),
+        Err(failure) => {
+            eprint!(
+                "{}",
+                failure.render(style_for(std::io::stderr().is_terminal()))
+            );
             Exit::BadInput
         }
     }

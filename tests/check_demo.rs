@@ -31,7 +31,7 @@ fn run(
         declarations: &declarations,
         jobs: None,
     };
-    check::run(&request, RenderStyle::PLAIN)
+    check::run(&request).map_err(|failure| failure.render(RenderStyle::PLAIN))
 }
 
 #[test]

@@ -487,3 +487,81 @@ fn two_threads_give_the_same_report_as_one() {
         "the reports differ between one and two threads"
     );
 }
+
+#[test]
+fn every_mistake_of_a_declaration_is_reported_in_one_run_at_its_line_and_column() {
+    let run = gonogo(&[
+        "check",
+        "--rules",
+        RULES,
+        "tests/bad-declarations/several-mistakes.yaml",
+    ]);
+    assert_eq!(run.code, 2, "{}", run.stderr);
+    let file = "tests/bad-declarations/several-mistakes.yaml";
+    for (code, place) in [
+        ("gonogo::load::wrong-dimension", "15:40"),
+        ("gonogo::load::unknown-key", "17:3"),
+        ("gonogo::load::unknown-unit", "29:16"),
+        ("gonogo::load::unknown-instrument", "33:17"),
+    ] {
+        assert!(run.stderr.contains(code), "no {code}:\n{}", run.stderr);
+        assert!(
+            run.stderr.contains(&format!("{file}:{place}]")),
+            "{code} is not at {place}:\n{}",
+            run.stderr
+        );
+    }
+    assert!(
+        run.stderr.contains("measurements.bore[3]:"),
+        "the third cylinder is called 3, as in the reports:\n{}",
+        run.stderr
+    );
+}
+
+#[test]
+fn a_misspelt_class_gets_the_same_did_you_mean_from_every_command() {
+    let runs = [
+        gonogo(&[
+            "check",
+            "--rules",
+            RULES,
+            "--class",
+            "limited3",
+            "engines-demo/limited2-legal.yaml",
+        ]),
+        gonogo(&["sheet", "--rules", RULES, "--class", "limited3"]),
+        gonogo(&["explain", "--rules", RULES, "--class", "limited3", "3.1"]),
+        gonogo(&[
+            "headroom",
+            "--rules",
+            RULES,
+            "--class",
+            "limited3",
+            "engines-demo/limited2-legal.yaml",
+        ]),
+        gonogo(&[
+            "check",
+            "--rules",
+            RULES,
+            "tests/bad-declarations/unknown-class.yaml",
+        ]),
+    ];
+    for run in runs {
+        assert_eq!(run.code, 2, "{}", run.stderr);
+        assert!(
+            run.stderr.contains("gonogo::load::unknown-class"),
+            "{}",
+            run.stderr
+        );
+        assert!(
+            run.stderr.contains("the rulebook has no class `limited3`"),
+            "{}",
+            run.stderr
+        );
+        assert!(
+            run.stderr.contains("help: did you mean `limited2`?"),
+            "{}",
+            run.stderr
+        );
+    }
+}

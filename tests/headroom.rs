@@ -7,7 +7,6 @@ use std::path::Path;
 
 use gonogo::commands::headroom;
 use gonogo::commands::load_rulebook;
-use gonogo::diagnostic::RenderStyle;
 use gonogo::evaluate::headroom::headroom as compute;
 use gonogo::load::load_declaration;
 use gonogo::report::headroom::HeadroomFormat;
@@ -104,7 +103,6 @@ fn reports_of_two_engines() {
             None,
             &[file.into()],
             HeadroomFormat::Text,
-            RenderStyle::PLAIN,
         )
         .unwrap_or_else(|e| panic!("{e}"));
         insta::assert_snapshot!(name, text);
@@ -115,7 +113,6 @@ fn reports_of_two_engines() {
         None,
         &["engines-demo/open4-stroker.yaml".into()],
         HeadroomFormat::Json,
-        RenderStyle::PLAIN,
     )
     .unwrap_or_else(|e| panic!("{e}"));
     let doc: serde_json::Value = serde_json::from_str(&json).unwrap_or_else(|e| panic!("{e}"));
@@ -147,7 +144,6 @@ fn a_limit_written_first_has_the_same_headroom() {
             None,
             &["engines-demo/limited2-close-bore.yaml".into()],
             HeadroomFormat::Text,
-            RenderStyle::PLAIN,
         )
     };
     let limit_first = run(&path);

@@ -7,7 +7,6 @@ use std::path::{Path, PathBuf};
 use std::process::Command;
 
 use gonogo::commands::check::{self, CheckFormat, CheckRequest};
-use gonogo::diagnostic::RenderStyle;
 
 mod common;
 
@@ -26,7 +25,7 @@ fn sheet(declaration: &Path) -> String {
         declarations: &declarations,
         jobs: None,
     };
-    check::run(&request, RenderStyle::PLAIN)
+    check::run(&request)
         .map(|(html, _)| html)
         .unwrap_or_else(|e| panic!("{e}"))
 }
@@ -75,7 +74,7 @@ fn the_close_bore_markdown_report() {
         declarations: &declarations,
         jobs: None,
     };
-    let (markdown, _) = check::run(&request, RenderStyle::PLAIN).unwrap_or_else(|e| panic!("{e}"));
+    let (markdown, _) = check::run(&request).unwrap_or_else(|e| panic!("{e}"));
     assert!(
         markdown.contains("## ~ 3.2 Bore, every cylinder — LEGAL · conditional pass"),
         "{markdown}"

@@ -27,7 +27,11 @@ fn malformed_rulebooks_give_their_diagnostics() {
     insta::glob!("malformed/*.rules", |path| {
         count += 1;
         let relative = path.strip_prefix(root).unwrap_or(path).to_path_buf();
-        let (report, exit) = lint::run(&[relative], LintFormat::Text, RenderStyle::PLAIN);
+        let linted = lint::run(&[relative]);
+        let (report, exit) = (
+            linted.render(LintFormat::Text, RenderStyle::PLAIN),
+            linted.exit(),
+        );
         let name = path
             .file_name()
             .and_then(|n| n.to_str())

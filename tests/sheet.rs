@@ -5,15 +5,13 @@ use std::path::Path;
 
 use gonogo::commands::check::{self, CheckFormat, CheckRequest};
 use gonogo::commands::sheet::{self, SheetFormat};
-use gonogo::diagnostic::RenderStyle;
 use gonogo::exit::Exit;
 
 const RULES: &str = "rulebooks-demo/tamsin-2027.rules";
 const CLASSES: &[&str] = &["street_stock", "limited2", "open4"];
 
 fn sheet_of(class: &str, format: SheetFormat) -> String {
-    sheet::run(Path::new(RULES), class, format, RenderStyle::PLAIN)
-        .unwrap_or_else(|e| panic!("{e}"))
+    sheet::run(Path::new(RULES), class, format).unwrap_or_else(|e| panic!("{e}"))
 }
 
 #[test]
@@ -50,7 +48,7 @@ fn an_unfilled_template_checks_to_not_checked() {
             declarations: &declarations,
             jobs: None,
         };
-        let result = check::run(&request, RenderStyle::PLAIN);
+        let result = check::run(&request);
         let _ = std::fs::remove_file(&path);
         let (json, exit) =
             result.unwrap_or_else(|e| panic!("{class}: the template was refused:\n{e}"));

@@ -4,17 +4,18 @@
 
 use std::path::{Path, PathBuf};
 
-use super::{load_rulebook, render_all};
+use super::{Failure, checked_rulebook};
 use crate::check::model::CheckedRulebook;
-use crate::diagnostic::{Problem, RenderStyle};
+use crate::diagnostic::Problem;
 use crate::evaluate::check_engine;
 use crate::evaluate::outcome::EngineReport;
 use crate::exit::Exit;
-use crate::load::{Declaration, load_declaration};
+use crate::load::{Declaration, LoadError, LoadProblem, load_declaration};
 use crate::parallel;
 use crate::parse::ast::DecisionRule;
 use crate::report::{json, text};
 use crate::source::SourceMap;
+use crate::suggest::find_class;
 
 /// Who is asking, which sets the decision rule.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, clap::ValueEnum)]
@@ -67,32 +68,28 @@ pub struct CheckRequest<'a> {
     pub jobs: Option<usize>,
 }
 
-/// Runs `check`: the report on success, or diagnostics; with the exit status.
-pub fn run(request: &CheckRequest, style: RenderStyle) -> Result<(String, Exit), String> {
-    let loaded = load_rulebook(request.rules);
-    let Some(rulebook) = loaded.checked else {
-        return Err(render_all(&loaded.problems, &loaded.sources, style));
-    };
-    let paths = declaration_files(request.declarations)
-        .map_err(|p| render_all(&[p], &SourceMap::default(), style))?;
+/// Runs `check`: the report and the exit status, or every problem of every declaration.
+pub fn run(request: &CheckRequest) -> Result<(String, Exit), Failure> {
+    let rulebook = checked_rulebook(request.rules)?;
+    let paths = declaration_files(request.declarations).map_err(Failure::one)?;
     let threads = parallel::threads(request.jobs);
     let progress = Progress::new(paths.len());
-    let loaded: Vec<Result<(Declaration, usize), String>> =
+    let loaded: Vec<Result<(Declaration, usize), Failure>> =
         parallel::map(&paths, threads, |path| {
             let mut sources = SourceMap::default();
             let engine = load_with_class(path, &rulebook, request.class, &mut sources)
-                .map_err(|p| render_all(&[p], &sources, style));
+                .map_err(|problems| Failure::new(problems, sources));
             progress.advance();
             engine
         });
     progress.finish();
-    let errors: Vec<&String> = loaded.iter().filter_map(|r| r.as_ref().err()).collect();
-    if !errors.is_empty() {
-        return Err(errors
-            .iter()
-            .map(|e| e.as_str())
-            .collect::<Vec<_>>()
-            .join("\n"));
+    if loaded.iter().any(Result::is_err) {
+        let sets = loaded
+            .into_iter()
+            .filter_map(Result::err)
+            .flat_map(|f| f.0)
+            .collect();
+        return Err(Failure(sets));
     }
     let engines: Vec<(Declaration, usize)> = loaded.into_iter().filter_map(Result::ok).collect();
     let decision = request.role.map(Role::decision);
@@ -197,43 +194,36 @@ fn load_with_class(
     rulebook: &CheckedRulebook,
     class: Option<&str>,
     sources: &mut SourceMap,
-) -> Result<(Declaration, usize), Problem> {
+) -> Result<(Declaration, usize), Vec<Problem>> {
     let declaration = load_declaration(path, rulebook, sources)?;
+    let refuse = |error: LoadError| vec![LoadProblem::unlocated(error).problem()];
     if let Some(date) = declaration.identity.date
         && date < rulebook.effective
     {
-        return Err(Problem::unlocated(
-            "gonogo::check::before-edition",
-            format!(
-                "`{}` is dated {date}, before edition {} took effect on {}",
-                path.display(),
-                rulebook.edition,
-                rulebook.effective
-            ),
-        )
-        .with_help(
-            "check the date, or check the engine against the rulebook in force on that date",
-        ));
+        return Err(refuse(LoadError::BeforeEdition {
+            file: path.to_path_buf(),
+            date,
+            edition: rulebook.edition.clone(),
+            effective: rulebook.effective,
+        }));
     }
-    let class_name = class
-        .map(str::to_string)
-        .or_else(|| declaration.identity.class.clone())
-        .ok_or_else(|| {
-            Problem::unlocated(
-                "gonogo::check::no-class",
-                format!("`{}` names no class", path.display()),
-            )
-            .with_help("add `class: NAME` to the declaration, or pass `--class NAME`")
-        })?;
-    let Some(at) = rulebook.classes.iter().position(|c| c.name == class_name) else {
-        let names: Vec<&str> = rulebook.classes.iter().map(|c| c.name.as_str()).collect();
-        return Err(Problem::unlocated(
-            "gonogo::check::unknown-class",
-            format!("the rulebook has no class `{class_name}`"),
-        )
-        .with_help(format!("the classes are {}", names.join(", "))));
-    };
+    let (at, _) = class_of(path, &declaration, rulebook, class).map_err(refuse)?;
     Ok((declaration, at))
+}
+
+/// The class a declaration is checked against: `--class`, else the one it names.
+pub(super) fn class_of<'r>(
+    path: &Path,
+    declaration: &Declaration,
+    rulebook: &'r CheckedRulebook,
+    class: Option<&str>,
+) -> Result<(usize, &'r crate::check::model::Class), LoadError> {
+    let name = class
+        .or(declaration.identity.class.as_deref())
+        .ok_or_else(|| LoadError::NoClass {
+            file: path.to_path_buf(),
+        })?;
+    find_class(rulebook, name).map_err(LoadError::UnknownClass)
 }
 
 /// The more serious of two exit statuses: illegal, then uncertain, then clean.

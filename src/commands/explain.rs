@@ -2,32 +2,20 @@
 
 use std::path::Path;
 
-use super::{load_rulebook, render_all};
-use crate::diagnostic::{Problem, RenderStyle};
+use super::{Failure, load_rulebook};
+use crate::diagnostic::Problem;
 use crate::report::explain;
+use crate::suggest::find_class;
 
 /// The explanation of every version of `section` (in `class`, or in every class that has it),
-/// or the diagnostics that prevent it.
-pub fn run(
-    rules: &Path,
-    class: Option<&str>,
-    section: &str,
-    style: RenderStyle,
-) -> Result<String, String> {
-    let loaded = load_rulebook(rules);
-    let Some(rulebook) = loaded.checked else {
-        return Err(render_all(&loaded.problems, &loaded.sources, style));
+/// or the problems that prevent it.
+pub fn run(rules: &Path, class: Option<&str>, section: &str) -> Result<String, Failure> {
+    let mut loaded = load_rulebook(rules);
+    let Some(rulebook) = loaded.checked.take() else {
+        return Err(loaded.into());
     };
-    if let Some(name) = class
-        && rulebook.class(name).is_none()
-    {
-        let names: Vec<&str> = rulebook.classes.iter().map(|c| c.name.as_str()).collect();
-        let problem = Problem::unlocated(
-            "gonogo::check::unknown-class",
-            format!("the rulebook has no class `{name}`"),
-        )
-        .with_help(format!("the classes are {}", names.join(", ")));
-        return Err(render_all(&[problem], &loaded.sources, style));
+    if let Some(name) = class {
+        find_class(&rulebook, name).map_err(|e| Failure::one(e.problem(None)))?;
     }
     let found = explain::find(&rulebook, class, section);
     if found.is_empty() {
@@ -41,7 +29,7 @@ pub fn run(
         .with_help(
             "check the section number; `gonogo sheet` lists the rules each measurement feeds",
         );
-        return Err(render_all(&[problem], &loaded.sources, style));
+        return Err(Failure::one(problem));
     }
     Ok(found
         .iter()

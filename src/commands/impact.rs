@@ -3,27 +3,25 @@
 use std::path::PathBuf;
 
 use super::check::{Role, declaration_files};
-use super::{load_editions, render_all};
+use super::{Failure, load_editions};
 use crate::check::model::CheckedRulebook;
-use crate::diagnostic::{Problem, RenderStyle};
+use crate::diagnostic::Problem;
 use crate::impact::{Engine, impact};
 use crate::load::{Declaration, load_declaration};
 use crate::report::impact::{Heading, ImpactFormat, render};
 use crate::source::SourceMap;
 
-/// The impact report, or the diagnostics when nothing could be compared (exit 2).
+/// The impact report, or the problems when nothing could be compared (exit 2).
 pub fn run(
     old: &std::path::Path,
     new: &std::path::Path,
     named: &[PathBuf],
     role: Option<Role>,
     format: ImpactFormat,
-    style: RenderStyle,
-) -> Result<String, String> {
-    let (old_book, new_book) = load_editions(old, new, style)?;
+) -> Result<String, Failure> {
+    let (old_book, new_book) = load_editions(old, new)?;
     let (old_book, new_book) = (&old_book, &new_book);
-    let none = SourceMap::default();
-    let files = declaration_files(named).map_err(|p| render_all(&[p], &none, style))?;
+    let files = declaration_files(named).map_err(Failure::one)?;
     let mut loaded: Vec<(Declaration, Declaration, String)> = Vec::new();
     let mut unreadable: Vec<(String, String)> = Vec::new();
     for path in &files {
@@ -46,7 +44,7 @@ pub fn run(
         } else {
             list.join("\n")
         });
-        return Err(render_all(&[problem], &none, style));
+        return Err(Failure::one(problem));
     }
     let engines: Vec<Engine> = loaded
         .iter()
@@ -74,7 +72,16 @@ fn load_both(
     new: &CheckedRulebook,
 ) -> Result<(Declaration, Declaration, String), String> {
     let mut sources = SourceMap::default();
-    let first_line = |p: Problem| format!("{} ({})", p.message, p.code);
+    let first_line = |problems: Vec<Problem>| match problems.first() {
+        Some(p) if problems.len() > 1 => format!(
+            "{} ({}), and {} more",
+            p.message,
+            p.code,
+            problems.len() - 1
+        ),
+        Some(p) => format!("{} ({})", p.message, p.code),
+        None => "the declaration could not be read".to_string(),
+    };
     let o = load_declaration(path, old, &mut sources).map_err(first_line)?;
     let n = load_declaration(path, new, &mut sources).map_err(first_line)?;
     let class = n

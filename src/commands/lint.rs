@@ -4,7 +4,7 @@ use std::path::PathBuf;
 
 use serde::Serialize;
 
-use super::{load_rulebook, render_all};
+use super::{ProblemSet, load_rulebook, render_all};
 use crate::diagnostic::{Level, Problem, RenderStyle, summary};
 use crate::exit::Exit;
 use crate::source::SourceMap;
@@ -18,49 +18,89 @@ pub enum LintFormat {
     Json,
 }
 
-/// Lints every file and returns the report and the exit status: 0 when no file has an error
-/// (warnings allowed), 2 otherwise.
-pub fn run(paths: &[PathBuf], format: LintFormat, style: RenderStyle) -> (String, Exit) {
-    let mut text = String::new();
-    let mut report = LintReport {
-        schema: "gonogo.lint/1",
-        files: Vec::new(),
-    };
-    let mut failed = false;
-    for path in paths {
-        let loaded = load_rulebook(path);
-        let errors = loaded
+/// One rulebook linted: its path and what was found in it.
+pub struct LintedFile {
+    /// The path as named.
+    pub path: PathBuf,
+    /// Every problem, with the files read.
+    pub found: ProblemSet,
+}
+
+impl LintedFile {
+    fn errors(&self) -> usize {
+        self.found
             .problems
             .iter()
             .filter(|p| p.level == Level::Error)
-            .count();
-        failed |= errors > 0;
-        if !loaded.problems.is_empty() {
-            text.push_str(&render_all(&loaded.problems, &loaded.sources, style));
-            text.push('\n');
-        }
-        let verdict = if errors > 0 { "has errors" } else { "ok" };
-        text.push_str(&format!(
-            "{}: {verdict} ({})\n",
-            path.display(),
-            summary(&loaded.problems)
-        ));
-        report.files.push(FileReport {
-            path: path.display().to_string(),
-            errors,
-            warnings: loaded.problems.len() - errors,
-            problems: loaded
-                .problems
-                .iter()
-                .map(|p| JsonProblem::new(p, &loaded.sources))
-                .collect(),
-        });
+            .count()
     }
-    let out = match format {
-        LintFormat::Text => text,
-        LintFormat::Json => serde_json::to_string_pretty(&report).unwrap_or_default() + "\n",
+}
+
+/// Every rulebook linted, in the order named.
+pub struct Linted(pub Vec<LintedFile>);
+
+/// Lints every file.
+pub fn run(paths: &[PathBuf]) -> Linted {
+    Linted(
+        paths
+            .iter()
+            .map(|path| {
+                let loaded = load_rulebook(path);
+                LintedFile {
+                    path: path.clone(),
+                    found: ProblemSet {
+                        problems: loaded.problems,
+                        sources: loaded.sources,
+                    },
+                }
+            })
+            .collect(),
+    )
+}
+
+impl Linted {
+    /// 0 when no file has an error (warnings allowed), 2 otherwise.
+    pub fn exit(&self) -> Exit {
+        if self.0.iter().any(|f| f.errors() > 0) {
+            Exit::BadInput
+        } else {
+            Exit::Clean
+        }
+    }
+
+    /// The report: each file's rendered problems and a closing line, or the JSON document.
+    pub fn render(&self, format: LintFormat, style: RenderStyle) -> String {
+        match format {
+            LintFormat::Text => self.0.iter().map(|f| text(f, style)).collect(),
+            LintFormat::Json => {
+                let report = LintReport {
+                    schema: "gonogo.lint/1",
+                    files: self.0.iter().map(FileReport::new).collect(),
+                };
+                serde_json::to_string_pretty(&report).unwrap_or_default() + "\n"
+            }
+        }
+    }
+}
+
+fn text(file: &LintedFile, style: RenderStyle) -> String {
+    let found = &file.found;
+    let mut out = String::new();
+    if !found.problems.is_empty() {
+        out.push_str(&render_all(&found.problems, &found.sources, style));
+        out.push('\n');
+    }
+    let verdict = if file.errors() > 0 {
+        "has errors"
+    } else {
+        "ok"
     };
-    (out, if failed { Exit::BadInput } else { Exit::Clean })
+    out.push_str(&format!(
+        "{}: {verdict} ({})\n",
+        file.path.display(),
+        summary(&found.problems)
+    ));
+    out
 }
 
 /// The JSON document `lint --format json` writes.
@@ -78,6 +118,23 @@ struct FileReport {
     errors: usize,
     warnings: usize,
     problems: Vec<JsonProblem>,
+}
+
+impl FileReport {
+    fn new(file: &LintedFile) -> FileReport {
+        let found = &file.found;
+        let errors = file.errors();
+        FileReport {
+            path: file.path.display().to_string(),
+            errors,
+            warnings: found.problems.len() - errors,
+            problems: found
+                .problems
+                .iter()
+                .map(|p| JsonProblem::new(p, &found.sources))
+                .collect(),
+        }
+    }
 }
 
 #[derive(Serialize)]

@@ -1,5 +1,7 @@
-//! The subcommands. Each takes its parsed arguments and writes its report to the given
-//! output, returning the exit status; none of them prints half a report on bad input.
+//! The subcommands. Each takes its parsed arguments and returns its document, or a
+//! [`Failure`]: every problem found, as data, with the files they point into. Nothing here
+//! renders a diagnostic or prints; `main` does both, once. None of them gives half a report
+//! on bad input.
 
 pub mod check;
 pub mod diff;
@@ -56,25 +58,89 @@ pub fn render_all(problems: &[Problem], sources: &SourceMap, style: RenderStyle)
         .join("\n")
 }
 
+/// Problems found together, and the files they point into.
+#[derive(Debug, Default)]
+pub struct ProblemSet {
+    /// Every problem, errors and warnings.
+    pub problems: Vec<Problem>,
+    /// The files read.
+    pub sources: SourceMap,
+}
+
+/// Why a command gives no document: its problems, in one or more sets (each declaration and
+/// each rulebook is read with its own source map).
+#[derive(Debug, Default)]
+pub struct Failure(pub Vec<ProblemSet>);
+
+impl Failure {
+    /// A failure of these problems, found in `sources`.
+    pub fn new(problems: Vec<Problem>, sources: SourceMap) -> Failure {
+        Failure(vec![ProblemSet { problems, sources }])
+    }
+
+    /// A failure of one problem that points into no file.
+    pub fn one(problem: Problem) -> Failure {
+        Failure::new(vec![problem], SourceMap::default())
+    }
+
+    /// Every problem, in order.
+    pub fn problems(&self) -> impl Iterator<Item = &Problem> {
+        self.0.iter().flat_map(|set| set.problems.iter())
+    }
+
+    /// The problems rendered as miette's reports, errors first in each set.
+    pub fn render(&self, style: RenderStyle) -> String {
+        self.0
+            .iter()
+            .filter(|set| !set.problems.is_empty())
+            .map(|set| render_all(&set.problems, &set.sources, style))
+            .collect::<Vec<_>>()
+            .join("\n")
+    }
+}
+
+impl std::fmt::Display for Failure {
+    /// The problems rendered without colour.
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        f.write_str(&self.render(RenderStyle::PLAIN))
+    }
+}
+
+impl From<LoadedRulebook> for Failure {
+    fn from(loaded: LoadedRulebook) -> Failure {
+        Failure::new(loaded.problems, loaded.sources)
+    }
+}
+
+/// The checked rulebook at `path`, or every problem that prevents it.
+pub fn checked_rulebook(path: &std::path::Path) -> Result<CheckedRulebook, Failure> {
+    let mut loaded = load_rulebook(path);
+    match loaded.checked.take() {
+        Some(rulebook) => Ok(rulebook),
+        None => Err(loaded.into()),
+    }
+}
+
 /// Two editions of one series, both checked; or every problem of either, and a refusal when
 /// they belong to different series (nothing can then be compared).
 pub fn load_editions(
     old: &std::path::Path,
     new: &std::path::Path,
-    style: RenderStyle,
-) -> Result<(CheckedRulebook, CheckedRulebook), String> {
+) -> Result<(CheckedRulebook, CheckedRulebook), Failure> {
     let (a, b) = (load_rulebook(old), load_rulebook(new));
     let (Some(old_book), Some(new_book)) = (a.checked, b.checked) else {
-        let mut out = render_all(&a.problems, &a.sources, style);
-        out.push_str(&render_all(&b.problems, &b.sources, style));
-        return Err(out);
+        let mut failure = Failure::new(a.problems, a.sources);
+        failure.0.push(ProblemSet {
+            problems: b.problems,
+            sources: b.sources,
+        });
+        return Err(failure);
     };
     if old_book.series != new_book.series {
-        return Err(render_all(
-            &[different_series(&old_book.series, &new_book.series)],
-            &SourceMap::default(),
-            style,
-        ));
+        return Err(Failure::one(different_series(
+            &old_book.series,
+            &new_book.series,
+        )));
     }
     Ok((old_book, new_book))
 }

@@ -2,9 +2,9 @@
 
 use std::path::Path;
 
-use super::{load_rulebook, render_all};
-use crate::diagnostic::{Problem, RenderStyle};
+use super::{Failure, checked_rulebook};
 use crate::report::sheet;
+use crate::suggest::find_class;
 
 /// Formats of `sheet`.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, clap::ValueEnum)]
@@ -17,26 +17,10 @@ pub enum SheetFormat {
     Html,
 }
 
-/// The sheet, or the diagnostics that prevent it.
-pub fn run(
-    rules: &Path,
-    class: &str,
-    format: SheetFormat,
-    style: RenderStyle,
-) -> Result<String, String> {
-    let loaded = load_rulebook(rules);
-    let Some(rulebook) = loaded.checked else {
-        return Err(render_all(&loaded.problems, &loaded.sources, style));
-    };
-    let Some(found) = rulebook.class(class) else {
-        let names: Vec<&str> = rulebook.classes.iter().map(|c| c.name.as_str()).collect();
-        let problem = Problem::unlocated(
-            "gonogo::check::unknown-class",
-            format!("the rulebook has no class `{class}`"),
-        )
-        .with_help(format!("the classes are {}", names.join(", ")));
-        return Err(render_all(&[problem], &loaded.sources, style));
-    };
+/// The sheet, or the problems that prevent it.
+pub fn run(rules: &Path, class: &str, format: SheetFormat) -> Result<String, Failure> {
+    let rulebook = checked_rulebook(rules)?;
+    let (_, found) = find_class(&rulebook, class).map_err(|e| Failure::one(e.problem(None)))?;
     Ok(match format {
         SheetFormat::Markdown => sheet::markdown(&rulebook, found),
         SheetFormat::Yaml => sheet::yaml(&rulebook, found),

@@ -1,34 +1,47 @@
 //! Loading engine declarations: a YAML file read against the rulebook's measurement schema,
-//! every value converted to SI with its standard uncertainty and origin. Bad input is a
-//! problem pointing at the YAML line and column; nothing is guessed.
+//! every value converted to SI with its standard uncertainty and origin. Every problem of a
+//! file is reported, each at its YAML line and column; nothing is guessed, and a file with a
+//! problem never gives a declaration.
 
+mod collect;
 pub mod declaration;
+pub mod error;
+pub mod path;
 mod reading;
 mod seed;
 
 use std::cell::RefCell;
 use std::path::Path;
 
-use serde::de::DeserializeSeed;
+use serde::Deserialize;
+use serde::de::{DeserializeSeed, IgnoredAny};
 
 pub use declaration::{
     Declaration, Identity, Input, InputName, Place, Supplied, UncertaintySource,
 };
+pub use error::{LoadError, LoadProblem};
+pub use path::DeclPath;
 pub use reading::{Reading, read_text};
 
 use crate::check::model::CheckedRulebook;
 use crate::diagnostic::Problem;
 use crate::parse::includes::read_problem;
 use crate::source::{FileId, SourceMap, Span};
-use seed::{DeclarationSeed, SEPARATOR, State};
+use collect::{Collector, Pending};
+use seed::{Context, DeclarationSeed, State, instrument_problem};
+
+/// Reading a file stops after this many problems (each costs one more reading of the file).
+const MOST_PROBLEMS: usize = 50;
 
 /// Reads one declaration. The file is added to `sources` so problems can show it.
 pub fn load_declaration(
     path: &Path,
     rulebook: &CheckedRulebook,
     sources: &mut SourceMap,
-) -> Result<Declaration, Problem> {
-    let id = sources.read(path).map_err(|f| read_problem(path, f))?;
+) -> Result<Declaration, Vec<Problem>> {
+    let id = sources
+        .read(path)
+        .map_err(|f| vec![read_problem(path, f)])?;
     read_declaration(id, path, rulebook, sources)
 }
 
@@ -38,7 +51,7 @@ pub fn declaration_from_text(
     text: String,
     rulebook: &CheckedRulebook,
     sources: &mut SourceMap,
-) -> Result<Declaration, Problem> {
+) -> Result<Declaration, Vec<Problem>> {
     let id = sources.add(path.to_path_buf(), text);
     read_declaration(id, path, rulebook, sources)
 }
@@ -48,127 +61,189 @@ fn read_declaration(
     path: &Path,
     rulebook: &CheckedRulebook,
     sources: &SourceMap,
-) -> Result<Declaration, Problem> {
-    let text = sources.file(id).text.clone();
-    let state = RefCell::new(State::default());
-    let seed = DeclarationSeed {
-        rulebook,
-        state: &state,
-    };
-    seed.deserialize(serde_yaml::Deserializer::from_str(&text))
-        .map_err(|e| yaml_problem(&e, id, &text))?;
-    let mut state = state.into_inner();
-    resolve_instruments(&mut state).map_err(|p| locate_at_start(p, id))?;
-    state.declaration.path = path.to_path_buf();
-    Ok(state.declaration)
+) -> Result<Declaration, Vec<Problem>> {
+    let text: &str = &sources.file(id).text;
+    match read_all(text, id, rulebook) {
+        Ok(mut declaration) => {
+            declaration.path = path.to_path_buf();
+            Ok(declaration)
+        }
+        Err(mut found) => {
+            found.sort_by_key(|p| p.span.map_or(usize::MAX, |s| s.start));
+            Err(found.iter().map(LoadProblem::problem).collect())
+        }
+    }
 }
 
-/// Gives each input that names an instrument the instrument's standard uncertainty.
-fn resolve_instruments(state: &mut State) -> Result<(), Problem> {
-    for usage in &state.uses {
-        let Some(instrument) = state.instruments.get(&usage.instrument) else {
-            let e: serde_yaml::Error =
-                seed::unknown_instrument(&usage.instrument, &state.instruments);
-            let (code, message, help) = split_refusal(&e.to_string());
-            return Err(
-                Problem::unlocated(code, format!("{}: {message}", usage.path)).with_help(help),
-            );
+/// Reads the file again and again, each time skipping what was already reported, until it
+/// reads clean or only a YAML syntax error is left.
+fn read_all(
+    text: &str,
+    file: FileId,
+    rulebook: &CheckedRulebook,
+) -> Result<Declaration, Vec<LoadProblem>> {
+    let mut collector = Collector::default();
+    let mut found: Vec<LoadProblem> = Vec::new();
+    let mut syntax: Option<Option<String>> = None;
+    while found.len() < MOST_PROBLEMS {
+        collector.begin();
+        let state = RefCell::new(State::default());
+        let seed = DeclarationSeed {
+            cx: Context {
+                rulebook,
+                state: &state,
+                collector: &collector,
+            },
         };
-        if instrument.dimension != usage.dimension {
-            return Err(Problem::unlocated(
-                "gonogo::load::wrong-dimension",
-                format!(
-                    "{}: instrument `{}` measures a {}, but this is a {}",
-                    usage.path, usage.instrument, instrument.dimension, usage.dimension
-                ),
-            )
-            .with_help("name an instrument that measures this kind of quantity"));
+        match seed.deserialize(serde_yaml::Deserializer::from_str(text)) {
+            Ok(()) => {
+                let mut state = state.into_inner();
+                let late = resolve_instruments(&mut state);
+                if late.is_empty() {
+                    return if found.is_empty() {
+                        Ok(state.declaration)
+                    } else {
+                        Err(found)
+                    };
+                }
+                if late.iter().all(|(path, _)| collector.is_deferred(path)) {
+                    // raised nowhere on the last reading: report them without a place
+                    found.extend(late.into_iter().map(|(path, error)| LoadProblem {
+                        error,
+                        path,
+                        span: None,
+                    }));
+                    return Err(found);
+                }
+                for (path, error) in late {
+                    collector.defer(path, error);
+                }
+            }
+            Err(e) => {
+                let span = location(&e, file, text);
+                let syntax = syntax.get_or_insert_with(|| syntax_error(text));
+                let pending = collector.take_pending();
+                let (error, path) = match pending {
+                    Some(Pending { path, error }) if syntax.as_ref() != Some(&e.to_string()) => {
+                        let error = error.unwrap_or_else(|| LoadError::Yaml {
+                            message: yaml_message(&e),
+                        });
+                        (error, path)
+                    }
+                    _ => {
+                        let message = yaml_message(&e);
+                        found.push(LoadProblem {
+                            error: LoadError::Yaml { message },
+                            path: DeclPath::root(),
+                            span,
+                        });
+                        return Err(found);
+                    }
+                };
+                found.push(LoadProblem {
+                    error,
+                    path: path.clone(),
+                    span,
+                });
+                if !collector.skip(path) {
+                    return Err(found);
+                }
+            }
         }
+    }
+    found.push(LoadProblem::unlocated(LoadError::TooMany {
+        shown: found.len(),
+    }));
+    Err(found)
+}
+
+/// Gives each input that names an instrument the instrument's standard uncertainty; the
+/// uses that name no instrument of the file, or one of another dimension, are returned.
+fn resolve_instruments(state: &mut State) -> Vec<(DeclPath, LoadError)> {
+    let mut late = Vec::new();
+    if state.instruments_unusable {
+        return late;
+    }
+    for usage in &state.uses {
+        if state.broken_instruments.contains(&usage.instrument) {
+            continue;
+        }
+        let problem = instrument_problem(
+            &state.instruments,
+            &usage.instrument,
+            &usage.measurement,
+            usage.dimension,
+        );
+        if let Some(error) = problem {
+            late.push((usage.path.clone(), error));
+            continue;
+        }
+        let Some(instrument) = state.instruments.get(&usage.instrument) else {
+            continue;
+        };
         for id in &usage.inputs {
             if let Some(input) = state.declaration.inputs.get_mut(*id as usize) {
                 input.standard_uncertainty = instrument.standard_uncertainty;
             }
         }
     }
-    Ok(())
+    late
 }
 
-fn locate_at_start(mut p: Problem, file: FileId) -> Problem {
-    p.labels.push((Span::new(file, 0, 0), String::new()));
-    p
+/// The YAML syntax error of the file, if it has one, as serde_yaml words it.
+fn syntax_error(text: &str) -> Option<String> {
+    IgnoredAny::deserialize(serde_yaml::Deserializer::from_str(text))
+        .err()
+        .map(|e| e.to_string())
 }
 
-/// Turns a serde_yaml error into a problem at its line and column.
-fn yaml_problem(e: &serde_yaml::Error, file: FileId, text: &str) -> Problem {
-    let full = e.to_string();
-    let location = regex::Regex::new(r" at line \d+ column \d+")
-        .map(|re| re.replace_all(&full, "").into_owned());
-    let without_location = location.unwrap_or(full);
-    let (code, message, help) = split_refusal(&without_location);
-    let span = e
-        .location()
-        .map(|l| token_span(file, text, l.line(), l.column()))
-        .unwrap_or_else(|| Span::new(file, 0, 0));
-    Problem::error(code, message, span, "here").with_help(help)
-}
-
-/// Code, message and help from a refusal's text (`path: code␟message␟help`), or a plain
-/// serde_yaml message.
-fn split_refusal(text: &str) -> (&'static str, String, String) {
-    let mut parts = text.split(SEPARATOR);
-    let head = parts.next().unwrap_or_default();
-    match (parts.next(), parts.next()) {
-        (Some(message), Some(help)) => {
-            let (path, code) = match head.rsplit_once(": ") {
-                Some((path, code)) => (Some(path), code),
-                None => (None, head),
-            };
-            let message = match path {
-                Some(p) => format!("{p}: {message}"),
-                None => message.to_string(),
-            };
-            (intern_code(code), message, help.to_string())
-        }
-        _ => (
-            "gonogo::load::yaml",
-            head.to_string(),
-            "the README's \"Engine declarations\" section shows the layout of a declaration"
-                .to_string(),
-        ),
+/// serde_yaml's message without its location (`at line 3 column 7`) and without its own
+/// path (`measurements.bore[0]: `, which counts from 0).
+fn yaml_message(e: &serde_yaml::Error) -> String {
+    let text = without_positions(&e.to_string());
+    match text.split_once(": ") {
+        Some((head, rest)) if !head.is_empty() && !head.contains(' ') => rest.to_string(),
+        _ => text,
     }
 }
 
-/// Refusal codes are written as literals in `seed.rs` and `reading.rs`; map them back to
-/// static strings (an unknown one, which would be a bug, keeps a generic code).
-fn intern_code(code: &str) -> &'static str {
-    const CODES: &[&str] = &[
-        "gonogo::load::unknown-key",
-        "gonogo::load::duplicate-key",
-        "gonogo::load::unknown-class",
-        "gonogo::load::bad-date",
-        "gonogo::load::bad-quantity",
-        "gonogo::load::bad-coverage",
-        "gonogo::load::missing-unit",
-        "gonogo::load::wrong-dimension",
-        "gonogo::load::unknown-unit",
-        "gonogo::load::not-finite",
-        "gonogo::load::negative",
-        "gonogo::load::out-of-range",
-        "gonogo::load::not-positive",
-        "gonogo::load::instrument-empty",
-        "gonogo::load::needs-list",
-        "gonogo::load::not-a-list",
-        "gonogo::load::empty-list",
-        "gonogo::load::cylinder-count",
-        "gonogo::load::two-uncertainties",
-        "gonogo::load::value-and-values",
-        "gonogo::load::unknown-instrument",
-    ];
-    CODES
-        .iter()
-        .find(|c| **c == code)
-        .copied()
-        .unwrap_or("gonogo::load::invalid")
+/// `text` with every ` at line N column M` and ` at position N` taken out.
+fn without_positions(text: &str) -> String {
+    let mut out = String::new();
+    let mut rest = text;
+    while let Some(at) = rest.find(" at ") {
+        out.push_str(&rest[..at]);
+        let after = &rest[at + 4..];
+        match position_length(after) {
+            Some(len) => rest = &after[len..],
+            None => {
+                out.push_str(" at ");
+                rest = after;
+            }
+        }
+    }
+    out.push_str(rest);
+    out
+}
+
+/// The length of `line N column M` or `position N` at the start of `text`.
+fn position_length(text: &str) -> Option<usize> {
+    let digits = |s: &str| s.len() - s.trim_start_matches(|c: char| c.is_ascii_digit()).len();
+    if let Some(after) = text.strip_prefix("line ") {
+        let line = digits(after);
+        let column = after[line..].strip_prefix(" column ")?;
+        let n = digits(column);
+        return (line > 0 && n > 0).then_some("line ".len() + line + " column ".len() + n);
+    }
+    let after = text.strip_prefix("position ")?;
+    let n = digits(after);
+    (n > 0).then_some("position ".len() + n)
+}
+
+/// The span of the token serde_yaml's error points at.
+fn location(e: &serde_yaml::Error, file: FileId, text: &str) -> Option<Span> {
+    e.location()
+        .map(|l| token_span(file, text, l.line(), l.column()))
 }
 
 /// The span of the token at a one-based line and column.
@@ -198,4 +273,21 @@ fn token_span(file: FileId, text: &str, line: usize, column: usize) -> Span {
     };
     let len = rest[..len.min(rest.len())].trim_end().len().max(1);
     Span::new(file, start, (start + len).min(text.len()))
+}
+
+#[cfg(test)]
+mod tests {
+    use super::without_positions;
+
+    #[test]
+    fn positions_are_taken_out_of_serde_yaml_words() {
+        assert_eq!(
+            without_positions(
+                "did not find expected key at line 36 column 4, while parsing a block mapping at line 34 column 3"
+            ),
+            "did not find expected key, while parsing a block mapping"
+        );
+        assert_eq!(without_positions("look at this"), "look at this");
+        assert_eq!(without_positions("stop at position 12"), "stop");
+    }
 }

@@ -1,6 +1,7 @@
 //! One measured number from a declaration: the literal parsed with the rulebook's own
 //! grammar, converted to SI, checked against the measurement's dimension and range.
 
+use super::error::{CoverageAt, LoadError};
 use crate::check::model::Measurement;
 use crate::check::model::ValueKind;
 use crate::parse::quantity_literal;
@@ -19,17 +20,12 @@ pub struct Reading {
     pub written: String,
 }
 
-/// Why a literal is not a valid reading: code, message, help.
-pub type Refusal = (&'static str, String, String);
-
-fn refuse(code: &'static str, message: impl Into<String>, help: impl Into<String>) -> Refusal {
-    (code, message.into(), help.into())
-}
-
 /// Reads a string such as `4.031 in` or `76.2 cc ± 0.2 cc (k = 2)` for `m`.
-pub fn read_text(text: &str, m: &Measurement) -> Result<Reading, Refusal> {
-    let (negative, q) =
-        quantity_literal(text).map_err(|e| refuse("gonogo::load::bad-quantity", e, example(m)))?;
+pub fn read_text(text: &str, m: &Measurement) -> Result<Reading, LoadError> {
+    let (negative, q) = quantity_literal(text).map_err(|reason| LoadError::BadQuantity {
+        reason,
+        example: example(m),
+    })?;
     let value_unit = q
         .unit
         .or(q.uncertainty.and_then(|u| u.unit))
@@ -44,11 +40,7 @@ pub fn read_text(text: &str, m: &Measurement) -> Result<Reading, Refusal> {
             };
             let k = u.coverage.map_or(2.0, |(k, _)| k);
             if k <= 0.0 {
-                return Err(refuse(
-                    "gonogo::load::bad-coverage",
-                    "the coverage factor must be above zero",
-                    "write `(k = 2)` for about 95 % coverage",
-                ));
+                return Err(LoadError::BadCoverage(CoverageAt::Literal));
             }
             Some((u.value.0 * u_factor, k))
         }
@@ -65,17 +57,14 @@ pub fn read_text(text: &str, m: &Measurement) -> Result<Reading, Refusal> {
 }
 
 /// Reads a bare YAML number for `m`; only plain numbers (counts, ratios) may be written so.
-pub fn read_number(value: f64, m: &Measurement) -> Result<Reading, Refusal> {
+pub fn read_number(value: f64, m: &Measurement) -> Result<Reading, LoadError> {
     if dimension(m) != Dimension::NONE {
-        return Err(refuse(
-            "gonogo::load::missing-unit",
-            format!(
-                "`{}` is a {}, and this number has no unit",
-                m.name,
-                dimension(m)
-            ),
-            format!("write it as a string with its unit, like {}", example(m)),
-        ));
+        return Err(LoadError::MissingUnit {
+            measurement: m.name.clone(),
+            dimension: dimension(m),
+            example: example(m),
+            bare: true,
+        });
     }
     check_value(value, m)?;
     Ok(Reading {
@@ -87,13 +76,10 @@ pub fn read_number(value: f64, m: &Measurement) -> Result<Reading, Refusal> {
 }
 
 /// Reads an instrument's resolution or uncertainty (any dimension; matched to its use later).
-pub fn read_instrument_quantity(text: &str) -> Result<(f64, Dimension, f64), Refusal> {
-    let (negative, q) = quantity_literal(text).map_err(|e| {
-        refuse(
-            "gonogo::load::bad-quantity",
-            e,
-            "write it with its unit, like `0.0001 in`",
-        )
+pub fn read_instrument_quantity(text: &str) -> Result<(f64, Dimension, f64), LoadError> {
+    let (negative, q) = quantity_literal(text).map_err(|reason| LoadError::BadQuantity {
+        reason,
+        example: "`\"0.0001 in\"`".to_string(),
     })?;
     let (dimension, factor) = match q.unit {
         Some(u) => match units::lookup(u.text) {
@@ -104,11 +90,7 @@ pub fn read_instrument_quantity(text: &str) -> Result<(f64, Dimension, f64), Ref
     };
     let value = q.value.0 * factor;
     if negative || value <= 0.0 {
-        return Err(refuse(
-            "gonogo::load::not-positive",
-            "a resolution or uncertainty must be above zero",
-            "write the instrument's resolution, like `0.0001 in`",
-        ));
+        return Err(LoadError::NotPositive);
     }
     let k = q
         .uncertainty
@@ -127,76 +109,58 @@ fn dimension(m: &Measurement) -> Dimension {
 fn resolve_unit(
     unit: Option<&str>,
     m: &Measurement,
-) -> Result<(Option<&'static str>, f64), Refusal> {
+) -> Result<(Option<&'static str>, f64), LoadError> {
     let want = dimension(m);
     let Some(symbol) = unit else {
         if want == Dimension::NONE {
             return Ok((None, 1.0));
         }
-        return Err(refuse(
-            "gonogo::load::missing-unit",
-            format!("`{}` is a {want}, and this value has no unit", m.name),
-            format!("write the unit after the number, like {}", example(m)),
-        ));
+        return Err(LoadError::MissingUnit {
+            measurement: m.name.clone(),
+            dimension: want,
+            example: example(m),
+            bare: false,
+        });
     };
     let Some(found) = units::lookup(symbol) else {
         return Err(unknown_unit(symbol));
     };
     if found.dimension != want {
-        return Err(refuse(
-            "gonogo::load::wrong-dimension",
-            format!(
-                "`{}` is a {want}, but `{symbol}` is a unit of {}",
-                m.name, found.dimension
-            ),
-            format!("write it in a unit of {want}, like {}", example(m)),
-        ));
+        return Err(LoadError::WrongUnit {
+            measurement: m.name.clone(),
+            wants: want,
+            unit: symbol.to_string(),
+            found: found.dimension,
+            example: example(m),
+        });
     }
     Ok((Some(found.symbol), found.to_si))
 }
 
-fn unknown_unit(symbol: &str) -> Refusal {
-    let help = match units::closest_unit(symbol) {
-        Some(near) => format!("did you mean `{near}`?"),
-        None => "the units gonogo knows are listed in README.md".to_string(),
-    };
-    refuse(
-        "gonogo::load::unknown-unit",
-        format!("`{symbol}` is not a unit gonogo knows"),
-        help,
-    )
+fn unknown_unit(symbol: &str) -> LoadError {
+    LoadError::UnknownUnit {
+        symbol: symbol.to_string(),
+        suggestion: units::closest_unit(symbol),
+    }
 }
 
-fn check_value(value: f64, m: &Measurement) -> Result<(), Refusal> {
+fn check_value(value: f64, m: &Measurement) -> Result<(), LoadError> {
     if !value.is_finite() {
-        return Err(refuse(
-            "gonogo::load::not-finite",
-            "this value is not a finite number",
-            "write the measured value",
-        ));
+        return Err(LoadError::NotFinite);
     }
     let negatives_allowed = m.range.is_some_and(|(low, _)| low < 0.0);
     if value < 0.0 && !negatives_allowed {
-        return Err(refuse(
-            "gonogo::load::negative",
-            format!("`{}` cannot be negative", m.name),
-            "check the sign; the rulebook allows negative values only where its `range` does",
-        ));
+        return Err(LoadError::Negative {
+            measurement: m.name.clone(),
+        });
     }
     if let Some((low, high)) = m.range
         && (value < low || value > high)
     {
-        return Err(refuse(
-            "gonogo::load::out-of-range",
-            format!(
-                "this value is outside the range the rulebook declares for `{}`",
-                m.name
-            ),
-            format!(
-                "the rulebook expects {}; check the value and its unit",
-                range_text(m, low, high)
-            ),
-        ));
+        return Err(LoadError::OutOfRange {
+            measurement: m.name.clone(),
+            expected: range_text(m, low, high),
+        });
     }
     Ok(())
 }
@@ -263,19 +227,19 @@ mod tests {
 
     #[test]
     fn the_wrong_dimension_is_refused() {
-        let e = read_text("76 cc", &bore()).err().map(|e| e.0);
+        let e = read_text("76 cc", &bore()).err().map(|e| e.code());
         assert_eq!(e, Some("gonogo::load::wrong-dimension"));
     }
 
     #[test]
     fn negative_and_out_of_range_values_are_refused() {
         assert_eq!(
-            read_text("-4.0 in", &bore()).err().map(|e| e.0),
+            read_text("-4.0 in", &bore()).err().map(|e| e.code()),
             Some("gonogo::load::negative")
         );
-        assert_eq!(read_text("103 mm", &bore()).err().map(|e| e.0), None);
+        assert_eq!(read_text("103 mm", &bore()).err().map(|e| e.code()), None);
         assert_eq!(
-            read_text("4.03 mm", &bore()).err().map(|e| e.0),
+            read_text("4.03 mm", &bore()).err().map(|e| e.code()),
             Some("gonogo::load::out-of-range")
         );
     }
@@ -283,7 +247,7 @@ mod tests {
     #[test]
     fn a_bare_number_needs_a_unit_unless_the_measurement_is_a_plain_number() {
         assert_eq!(
-            read_number(4.03, &bore()).err().map(|e| e.0),
+            read_number(4.03, &bore()).err().map(|e| e.code()),
             Some("gonogo::load::missing-unit")
         );
     }

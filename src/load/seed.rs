@@ -1,26 +1,28 @@
 //! Reading a declaration's YAML against the rulebook's measurement schema in one pass.
 //!
-//! Each piece is read by a `DeserializeSeed` that knows what the rulebook expects there, and
-//! refuses bad input while serde_yaml is still at that node, so the error carries the line
-//! and column of the offending key or value. Refusals travel as serde custom errors whose text
-//! is `code \u{1f} message \u{1f} help`; `load/mod.rs` turns them back into problems.
+//! Each piece is read by a `DeserializeSeed` that knows what the rulebook expects there and
+//! where in the declaration it is ([`DeclPath`]). A bad key or value is refused while
+//! serde_yaml is still at that node, so the error carries the line and column of the
+//! offending text; the refusal itself travels as data through the [`Collector`], never as
+//! text inside the serde error. A node the collector says to skip is read over, and the
+//! measurement or instrument that holds it is left out of this reading.
 
 use std::cell::RefCell;
 use std::collections::{BTreeMap, HashSet};
 use std::fmt;
 
-use serde::de::{self, DeserializeSeed, Deserializer, MapAccess, SeqAccess, Visitor};
+use serde::de::{self, DeserializeSeed, Deserializer, IgnoredAny, MapAccess, SeqAccess, Visitor};
 
+use super::collect::Collector;
 use super::declaration::{
     Declaration, Identity, Input, InputName, Place, Supplied, UncertaintySource,
 };
-use super::reading::{Reading, Refusal, read_instrument_quantity, read_number, read_text};
+use super::error::{CoverageAt, KeyKind, LoadError, Twice};
+use super::path::DeclPath;
+use super::reading::{Reading, read_instrument_quantity, read_number, read_text};
 use crate::check::model::{CheckedRulebook, Measurement, Named, ValueKind};
-use crate::suggest::closest;
+use crate::suggest::{closest, find_class};
 use crate::units::Dimension;
-
-/// Separates the parts of a refusal inside a serde error message.
-pub const SEPARATOR: char = '\u{1f}';
 
 /// The keys a declaration may have at its top level.
 pub const TOP_KEYS: &[&str] = &[
@@ -52,19 +54,27 @@ pub struct InstrumentUse {
     pub instrument: String,
     /// The inputs it applies to.
     pub inputs: Vec<u32>,
+    /// The measurement's name.
+    pub measurement: String,
     /// The measurement's dimension.
     pub dimension: Dimension,
-    /// Where the use is written.
-    pub path: String,
+    /// Where the instrument is named.
+    pub path: DeclPath,
 }
 
-/// Everything read so far.
+/// Everything read so far in one reading of the file.
 #[derive(Default)]
 pub struct State {
     /// The declaration being built.
     pub declaration: Declaration,
     /// Instruments by name.
     pub instruments: BTreeMap<String, Instrument>,
+    /// Instruments left out of this reading because part of them was skipped.
+    pub broken_instruments: HashSet<String>,
+    /// Whether `instruments:` has been read (later uses are checked at once).
+    pub instruments_read: bool,
+    /// Whether `instruments:` was skipped as a whole, so no use can be checked.
+    pub instruments_unusable: bool,
     /// Instrument uses to resolve at the end.
     pub uses: Vec<InstrumentUse>,
     /// The number of cylinders, from `cylinders` or the first per-cylinder list, and where.
@@ -73,27 +83,37 @@ pub struct State {
     pub declared: Vec<bool>,
 }
 
-/// Reads a whole declaration.
-pub struct DeclarationSeed<'a> {
+/// What every seed shares: the schema, the declaration being built, the collector.
+#[derive(Clone, Copy)]
+pub struct Context<'a> {
     /// The rulebook whose schema the declaration follows.
     pub rulebook: &'a CheckedRulebook,
     /// What has been read.
     pub state: &'a RefCell<State>,
+    /// Where refusals are recorded.
+    pub collector: &'a Collector,
 }
 
-fn refuse<E: de::Error>(code: &str, message: impl fmt::Display, help: impl fmt::Display) -> E {
-    E::custom(format!("{code}{SEPARATOR}{message}{SEPARATOR}{help}"))
+impl Context<'_> {
+    fn refuse<E: de::Error>(&self, path: &DeclPath, error: LoadError) -> E {
+        self.collector.refuse(path, error)
+    }
 }
 
-fn refusal<E: de::Error>((code, message, help): Refusal) -> E {
-    refuse(code, message, help)
+/// Reads a whole declaration.
+pub struct DeclarationSeed<'a> {
+    /// What the seeds share.
+    pub cx: Context<'a>,
 }
 
 impl<'de> DeserializeSeed<'de> for DeclarationSeed<'_> {
     type Value = ();
 
     fn deserialize<D: Deserializer<'de>>(self, d: D) -> Result<(), D::Error> {
-        d.deserialize_map(self)
+        let collector = self.cx.collector;
+        collector
+            .guard(&DeclPath::root(), d, |d| d.deserialize_map(self))
+            .map(|_| ())
     }
 }
 
@@ -106,43 +126,51 @@ impl<'de> Visitor<'de> for DeclarationSeed<'_> {
         )
     }
 
+    fn visit_unit<E: de::Error>(self) -> Result<(), E> {
+        Ok(())
+    }
+
     fn visit_map<A: MapAccess<'de>>(self, mut map: A) -> Result<(), A::Error> {
+        let cx = self.cx;
+        let root = DeclPath::root();
         let mut seen = Vec::new();
         while let Some(key) = map.next_key_seed(KeySeed {
+            cx,
+            parent: &root,
             keys: &Fixed(TOP_KEYS),
             seen: &mut seen,
-            what: "declaration key",
+            kind: KeyKind::Declaration,
         })? {
-            match TOP_KEYS[key] {
+            let Some(at) = key else {
+                map.next_value::<IgnoredAny>()?;
+                continue;
+            };
+            let path = root.key(TOP_KEYS[at]);
+            match TOP_KEYS[at] {
                 "class" => {
-                    let class = map.next_value_seed(ClassSeed {
-                        rulebook: self.rulebook,
-                    })?;
-                    self.state.borrow_mut().declaration.identity.class = Some(class);
+                    let class = map.next_value_seed(ClassSeed { cx, path })?;
+                    cx.state.borrow_mut().declaration.identity.class = class;
                 }
                 "date" => {
-                    let date = map.next_value_seed(DateSeed)?;
-                    self.state.borrow_mut().declaration.identity.date = date;
+                    let date = map.next_value_seed(DateSeed { cx, path })?;
+                    cx.state.borrow_mut().declaration.identity.date = date.flatten();
                 }
-                "instruments" => map.next_value_seed(InstrumentsSeed { state: self.state })?,
+                "instruments" => map.next_value_seed(InstrumentsSeed { cx, path })?,
                 "measurements" => map.next_value_seed(MeasurementsSeed {
-                    rulebook: self.rulebook,
-                    state: self.state,
+                    cx,
+                    path,
                     component: None,
                 })?,
-                "components" => map.next_value_seed(ComponentsSeed {
-                    rulebook: self.rulebook,
-                    state: self.state,
-                })?,
+                "components" => map.next_value_seed(ComponentsSeed { cx, path })?,
                 "notes" => {
-                    map.next_value::<serde::de::IgnoredAny>()?;
+                    map.next_value::<IgnoredAny>()?;
                 }
                 field => {
-                    let text = map.next_value_seed(TextSeed)?;
+                    let text = map.next_value_seed(TextSeed { cx, path })?;
                     set_identity(
-                        &mut self.state.borrow_mut().declaration.identity,
+                        &mut cx.state.borrow_mut().declaration.identity,
                         field,
-                        text,
+                        text.flatten(),
                     );
                 }
             }
@@ -168,9 +196,9 @@ trait Keys {
     /// Every key, in order.
     fn all(&self) -> Vec<String>;
 
-    /// How a key given twice is named, and the help for it.
-    fn given_twice(&self, key: &str) -> (String, &'static str) {
-        (key.to_string(), "keep one of the two entries")
+    /// A key given twice: its full name and what it is.
+    fn given_twice(&self, key: &str) -> (String, Twice) {
+        (key.to_string(), Twice::Key)
     }
 }
 
@@ -239,86 +267,90 @@ impl Keys for MeasurementKeys<'_> {
             .collect()
     }
 
-    fn given_twice(&self, key: &str) -> (String, &'static str) {
+    fn given_twice(&self, key: &str) -> (String, Twice) {
         let full = match self.component {
             Some(c) => format!("{c}.{key}"),
             None => key.to_string(),
         };
-        (
-            full,
-            "give it once, under `measurements` or under its component",
-        )
+        (full, Twice::Measurement)
     }
 }
 
-/// A mapping key that must be one of `keys` and appear once; gives its position.
-struct KeySeed<'s> {
+/// A mapping key that must be one of `keys` and appear once; gives its position, or `None`
+/// for a key to skip.
+struct KeySeed<'s, 'a> {
+    cx: Context<'a>,
+    parent: &'s DeclPath,
     keys: &'s dyn Keys,
     seen: &'s mut Vec<bool>,
-    what: &'static str,
+    kind: KeyKind,
 }
 
-impl<'de> DeserializeSeed<'de> for KeySeed<'_> {
-    type Value = usize;
+impl<'de> DeserializeSeed<'de> for KeySeed<'_, '_> {
+    type Value = Option<usize>;
 
-    fn deserialize<D: Deserializer<'de>>(self, d: D) -> Result<usize, D::Error> {
+    fn deserialize<D: Deserializer<'de>>(self, d: D) -> Result<Option<usize>, D::Error> {
+        let (collector, parent) = (self.cx.collector, self.parent);
         d.deserialize_str(self)
+            .map_err(|e| collector.foreign(parent, e))
     }
 }
 
-impl<'de> Visitor<'de> for KeySeed<'_> {
-    type Value = usize;
+impl<'de> Visitor<'de> for KeySeed<'_, '_> {
+    type Value = Option<usize>;
 
     fn expecting(&self, f: &mut fmt::Formatter) -> fmt::Result {
-        write!(f, "a {}", self.what)
+        write!(f, "a {}", self.kind.words())
     }
 
-    fn visit_str<E: de::Error>(self, key: &str) -> Result<usize, E> {
+    fn visit_str<E: de::Error>(self, key: &str) -> Result<Option<usize>, E> {
+        let path = self.parent.key(key);
+        if self.cx.collector.skips(&path) {
+            self.cx.collector.note_skipped();
+            return Ok(None);
+        }
         let Some(at) = self.keys.find(key) else {
-            let all = self.keys.all();
-            let help = match closest(key, all.iter().map(String::as_str)) {
-                Some(near) => format!("did you mean `{near}`?"),
-                None => format!("the keys allowed here are {}", backticked(&all)),
+            let allowed = self.keys.all();
+            let suggestion = closest(key, allowed.iter().map(String::as_str)).map(str::to_string);
+            let error = LoadError::UnknownKey {
+                key: key.to_string(),
+                kind: self.kind,
+                suggestion,
+                allowed,
             };
-            return Err(refuse(
-                "gonogo::load::unknown-key",
-                format_args!("`{key}` is not a {} gonogo knows here", self.what),
-                help,
-            ));
+            return Err(self.cx.refuse(&path, error));
         };
         if at >= self.seen.len() {
             self.seen.resize(at + 1, false);
         }
         if std::mem::replace(&mut self.seen[at], true) {
-            let (name, help) = self.keys.given_twice(key);
-            return Err(refuse(
-                "gonogo::load::duplicate-key",
-                format_args!("`{name}` is given twice"),
-                help,
-            ));
+            let (name, what) = self.keys.given_twice(key);
+            return Err(self
+                .cx
+                .refuse(&path, LoadError::DuplicateKey { name, what }));
         }
-        Ok(at)
+        Ok(Some(at))
     }
-}
-
-fn backticked(items: &[String]) -> String {
-    let shown: Vec<String> = items.iter().take(12).map(|i| format!("`{i}`")).collect();
-    let more = if items.len() > 12 { ", ..." } else { "" };
-    format!("{}{more}", shown.join(", "))
 }
 
 /// A scalar read as text (strings and numbers alike); empty gives `None`.
-struct TextSeed;
+struct TextSeed<'a> {
+    cx: Context<'a>,
+    path: DeclPath,
+}
 
-impl<'de> DeserializeSeed<'de> for TextSeed {
-    type Value = Option<String>;
+impl<'de> DeserializeSeed<'de> for TextSeed<'_> {
+    type Value = Option<Option<String>>;
 
-    fn deserialize<D: Deserializer<'de>>(self, d: D) -> Result<Option<String>, D::Error> {
-        d.deserialize_any(self)
+    fn deserialize<D: Deserializer<'de>>(self, d: D) -> Result<Self::Value, D::Error> {
+        let path = self.path.clone();
+        self.cx
+            .collector
+            .guard(&path, d, |d| d.deserialize_any(self))
     }
 }
 
-impl Visitor<'_> for TextSeed {
+impl Visitor<'_> for TextSeed<'_> {
     type Value = Option<String>;
 
     fn expecting(&self, f: &mut fmt::Formatter) -> fmt::Result {
@@ -348,14 +380,18 @@ impl Visitor<'_> for TextSeed {
 
 /// The class, which the rulebook must have.
 struct ClassSeed<'a> {
-    rulebook: &'a CheckedRulebook,
+    cx: Context<'a>,
+    path: DeclPath,
 }
 
 impl<'de> DeserializeSeed<'de> for ClassSeed<'_> {
-    type Value = String;
+    type Value = Option<String>;
 
-    fn deserialize<D: Deserializer<'de>>(self, d: D) -> Result<String, D::Error> {
-        d.deserialize_str(self)
+    fn deserialize<D: Deserializer<'de>>(self, d: D) -> Result<Option<String>, D::Error> {
+        let path = self.path.clone();
+        self.cx
+            .collector
+            .guard(&path, d, |d| d.deserialize_str(self))
     }
 }
 
@@ -367,42 +403,31 @@ impl Visitor<'_> for ClassSeed<'_> {
     }
 
     fn visit_str<E: de::Error>(self, v: &str) -> Result<String, E> {
-        if self.rulebook.class(v).is_some() {
-            return Ok(v.to_string());
+        match find_class(self.cx.rulebook, v) {
+            Ok(_) => Ok(v.to_string()),
+            Err(e) => Err(self.cx.refuse(&self.path, LoadError::UnknownClass(e))),
         }
-        let names = self.rulebook.classes.iter().map(|c| c.name.as_str());
-        let help = match closest(v, names) {
-            Some(near) => format!("did you mean `{near}`?"),
-            None => {
-                let all: Vec<String> = self
-                    .rulebook
-                    .classes
-                    .iter()
-                    .map(|c| c.name.clone())
-                    .collect();
-                format!("the rulebook's classes are {}", backticked(&all))
-            }
-        };
-        Err(refuse(
-            "gonogo::load::unknown-class",
-            format_args!("the rulebook has no class `{v}`"),
-            help,
-        ))
     }
 }
 
 /// A date written `YYYY-MM-DD`.
-struct DateSeed;
+struct DateSeed<'a> {
+    cx: Context<'a>,
+    path: DeclPath,
+}
 
-impl<'de> DeserializeSeed<'de> for DateSeed {
-    type Value = Option<crate::parse::ast::Date>;
+impl<'de> DeserializeSeed<'de> for DateSeed<'_> {
+    type Value = Option<Option<crate::parse::ast::Date>>;
 
     fn deserialize<D: Deserializer<'de>>(self, d: D) -> Result<Self::Value, D::Error> {
-        d.deserialize_any(self)
+        let path = self.path.clone();
+        self.cx
+            .collector
+            .guard(&path, d, |d| d.deserialize_any(self))
     }
 }
 
-impl Visitor<'_> for DateSeed {
+impl Visitor<'_> for DateSeed<'_> {
     type Value = Option<crate::parse::ast::Date>;
 
     fn expecting(&self, f: &mut fmt::Formatter) -> fmt::Result {
@@ -417,26 +442,35 @@ impl Visitor<'_> for DateSeed {
         if v.trim().is_empty() {
             return Ok(None);
         }
-        crate::parse::date_literal(v).map(Some).ok_or_else(|| {
-            refuse(
-                "gonogo::load::bad-date",
-                format_args!("`{v}` is not a calendar date"),
-                "write the date as year-month-day, like `2027-07-19`",
-            )
-        })
+        match crate::parse::date_literal(v) {
+            Some(date) => Ok(Some(date)),
+            None => Err(self.cx.refuse(
+                &self.path,
+                LoadError::BadDate {
+                    written: v.to_string(),
+                },
+            )),
+        }
     }
 }
 
 /// `instruments:` — each a mapping with `resolution`, `uncertainty` and `k`.
 struct InstrumentsSeed<'a> {
-    state: &'a RefCell<State>,
+    cx: Context<'a>,
+    path: DeclPath,
 }
 
 impl<'de> DeserializeSeed<'de> for InstrumentsSeed<'_> {
     type Value = ();
 
     fn deserialize<D: Deserializer<'de>>(self, d: D) -> Result<(), D::Error> {
-        d.deserialize_map(self)
+        let (path, cx) = (self.path.clone(), self.cx);
+        let read = cx.collector.guard(&path, d, |d| d.deserialize_map(self))?;
+        let mut state = cx.state.borrow_mut();
+        state.instruments_read = true;
+        // skipped as a whole: already reported, and no use of an instrument can be checked
+        state.instruments_unusable |= read.is_none();
+        Ok(())
     }
 }
 
@@ -447,85 +481,155 @@ impl<'de> Visitor<'de> for InstrumentsSeed<'_> {
         f.write_str("a mapping from instrument names to their resolution or uncertainty")
     }
 
+    fn visit_unit<E: de::Error>(self) -> Result<(), E> {
+        Ok(())
+    }
+
     fn visit_map<A: MapAccess<'de>>(self, mut map: A) -> Result<(), A::Error> {
+        let cx = self.cx;
         let mut seen = HashSet::new();
-        while let Some(name) = map.next_key::<String>()? {
-            if !seen.insert(name.clone()) {
-                return Err(refuse(
-                    "gonogo::load::duplicate-key",
-                    format_args!("instrument `{name}` is given twice"),
-                    "keep one of the two entries",
-                ));
+        while let Some(key) = map.next_key_seed(InstrumentNameKey {
+            cx,
+            parent: &self.path,
+            seen: &mut seen,
+        })? {
+            let (name, skipped) = key;
+            let before = cx.collector.skipped();
+            let instrument = if skipped {
+                map.next_value::<IgnoredAny>()?;
+                None
+            } else {
+                let path = self.path.key(&name);
+                map.next_value_seed(InstrumentSeed { cx, path })?.flatten()
+            };
+            let mut state = cx.state.borrow_mut();
+            match instrument {
+                Some(i) if cx.collector.skipped() == before => {
+                    state.instruments.insert(name, i);
+                }
+                _ => {
+                    state.broken_instruments.insert(name);
+                }
             }
-            let instrument = map.next_value_seed(InstrumentSeed)?;
-            self.state.borrow_mut().instruments.insert(name, instrument);
         }
         Ok(())
     }
 }
 
-struct InstrumentSeed;
+/// An instrument's name as a key of `instruments:`, given once; and whether to skip it.
+struct InstrumentNameKey<'s, 'a> {
+    cx: Context<'a>,
+    parent: &'s DeclPath,
+    seen: &'s mut HashSet<String>,
+}
 
-impl<'de> DeserializeSeed<'de> for InstrumentSeed {
-    type Value = Instrument;
+impl<'de> DeserializeSeed<'de> for InstrumentNameKey<'_, '_> {
+    type Value = (String, bool);
 
-    fn deserialize<D: Deserializer<'de>>(self, d: D) -> Result<Instrument, D::Error> {
-        d.deserialize_map(self)
+    fn deserialize<D: Deserializer<'de>>(self, d: D) -> Result<(String, bool), D::Error> {
+        let (collector, parent) = (self.cx.collector, self.parent);
+        d.deserialize_str(self)
+            .map_err(|e| collector.foreign(parent, e))
     }
 }
 
-impl<'de> Visitor<'de> for InstrumentSeed {
-    type Value = Instrument;
+impl Visitor<'_> for InstrumentNameKey<'_, '_> {
+    type Value = (String, bool);
+
+    fn expecting(&self, f: &mut fmt::Formatter) -> fmt::Result {
+        f.write_str("an instrument's name")
+    }
+
+    fn visit_str<E: de::Error>(self, name: &str) -> Result<(String, bool), E> {
+        let path = self.parent.key(name);
+        if self.cx.collector.skips(&path) {
+            self.cx.collector.note_skipped();
+            return Ok((name.to_string(), true));
+        }
+        if !self.seen.insert(name.to_string()) {
+            let error = LoadError::DuplicateKey {
+                name: name.to_string(),
+                what: Twice::Instrument,
+            };
+            return Err(self.cx.refuse(&path, error));
+        }
+        Ok((name.to_string(), false))
+    }
+}
+
+/// One instrument.
+struct InstrumentSeed<'a> {
+    cx: Context<'a>,
+    path: DeclPath,
+}
+
+impl<'de> DeserializeSeed<'de> for InstrumentSeed<'_> {
+    type Value = Option<Option<Instrument>>;
+
+    fn deserialize<D: Deserializer<'de>>(self, d: D) -> Result<Self::Value, D::Error> {
+        let path = self.path.clone();
+        self.cx
+            .collector
+            .guard(&path, d, |d| d.deserialize_map(self))
+    }
+}
+
+impl<'de> Visitor<'de> for InstrumentSeed<'_> {
+    type Value = Option<Instrument>;
 
     fn expecting(&self, f: &mut fmt::Formatter) -> fmt::Result {
         f.write_str("`resolution`, or `uncertainty` with an optional `k`")
     }
 
-    fn visit_map<A: MapAccess<'de>>(self, mut map: A) -> Result<Instrument, A::Error> {
+    fn visit_map<A: MapAccess<'de>>(self, mut map: A) -> Result<Option<Instrument>, A::Error> {
         const KEYS: &[&str] = &["resolution", "uncertainty", "k"];
+        let cx = self.cx;
+        let before = cx.collector.skipped();
         let mut seen = Vec::new();
         let (mut resolution, mut expanded, mut k) = (None, None, None);
         while let Some(key) = map.next_key_seed(KeySeed {
+            cx,
+            parent: &self.path,
             keys: &Fixed(KEYS),
             seen: &mut seen,
-            what: "instrument key",
+            kind: KeyKind::Instrument,
         })? {
-            match KEYS[key] {
-                "k" => k = Some(map.next_value_seed(CoverageSeed)?),
-                "resolution" => resolution = Some(map.next_value_seed(InstrumentQuantitySeed)?),
-                _ => expanded = Some(map.next_value_seed(InstrumentQuantitySeed)?),
+            let Some(at) = key else {
+                map.next_value::<IgnoredAny>()?;
+                continue;
+            };
+            let path = self.path.key(KEYS[at]);
+            match KEYS[at] {
+                "k" => k = map.next_value_seed(CoverageSeed { cx, path })?,
+                "resolution" => {
+                    resolution = map.next_value_seed(InstrumentQuantitySeed { cx, path })?
+                }
+                _ => expanded = map.next_value_seed(InstrumentQuantitySeed { cx, path })?,
             }
         }
+        if cx.collector.skipped() > before {
+            return Ok(None);
+        }
         instrument_from(resolution, expanded, k.unwrap_or(2.0))
+            .map(Some)
+            .map_err(|e| cx.refuse(&self.path, e))
     }
 }
 
 /// The standard uncertainty of an instrument: a digital resolution δ is a rectangular
 /// distribution of half-width δ/2, so u = δ/(2√3) (GUM JCGM 100:2008, F.2.2.1); an expanded
 /// uncertainty U at coverage factor k gives u = U/k; both together add in quadrature.
-fn instrument_from<E: de::Error>(
+fn instrument_from(
     resolution: Option<(f64, Dimension)>,
     expanded: Option<(f64, Dimension)>,
     k: f64,
-) -> Result<Instrument, E> {
+) -> Result<Instrument, LoadError> {
     let from_resolution = resolution.map(|(r, d)| (r / (2.0 * 3f64.sqrt()), d));
     let from_expanded = expanded.map(|(u, d)| (u / k, d));
     let dimension = match (from_resolution, from_expanded) {
-        (Some((_, a)), Some((_, b))) if a != b => {
-            return Err(refuse(
-                "gonogo::load::wrong-dimension",
-                "the resolution and the uncertainty are of different dimensions",
-                "write both in units of what the instrument measures",
-            ));
-        }
+        (Some((_, a)), Some((_, b))) if a != b => return Err(LoadError::InstrumentMixed),
         (Some((_, d)), _) | (None, Some((_, d))) => d,
-        (None, None) => {
-            return Err(refuse(
-                "gonogo::load::instrument-empty",
-                "this instrument has neither a resolution nor an uncertainty",
-                "add `resolution: \"0.0001 in\"` or `uncertainty: \"0.0002 in\"`",
-            ));
-        }
+        (None, None) => return Err(LoadError::InstrumentEmpty),
     };
     let u = from_resolution
         .map_or(0.0, |(u, _)| u)
@@ -536,17 +640,24 @@ fn instrument_from<E: de::Error>(
     })
 }
 
-struct InstrumentQuantitySeed;
+/// An instrument's `resolution` or `uncertainty`: a quantity of any dimension.
+struct InstrumentQuantitySeed<'a> {
+    cx: Context<'a>,
+    path: DeclPath,
+}
 
-impl<'de> DeserializeSeed<'de> for InstrumentQuantitySeed {
-    type Value = (f64, Dimension);
+impl<'de> DeserializeSeed<'de> for InstrumentQuantitySeed<'_> {
+    type Value = Option<(f64, Dimension)>;
 
     fn deserialize<D: Deserializer<'de>>(self, d: D) -> Result<Self::Value, D::Error> {
-        d.deserialize_any(self)
+        let path = self.path.clone();
+        self.cx
+            .collector
+            .guard(&path, d, |d| d.deserialize_any(self))
     }
 }
 
-impl Visitor<'_> for InstrumentQuantitySeed {
+impl Visitor<'_> for InstrumentQuantitySeed<'_> {
     type Value = (f64, Dimension);
 
     fn expecting(&self, f: &mut fmt::Formatter) -> fmt::Result {
@@ -556,22 +667,28 @@ impl Visitor<'_> for InstrumentQuantitySeed {
     fn visit_str<E: de::Error>(self, v: &str) -> Result<Self::Value, E> {
         read_instrument_quantity(v)
             .map(|(value, d, _)| (value, d))
-            .map_err(refusal)
+            .map_err(|e| self.cx.refuse(&self.path, e))
     }
 }
 
 /// A coverage factor, a plain number above zero.
-struct CoverageSeed;
+struct CoverageSeed<'a> {
+    cx: Context<'a>,
+    path: DeclPath,
+}
 
-impl<'de> DeserializeSeed<'de> for CoverageSeed {
-    type Value = f64;
+impl<'de> DeserializeSeed<'de> for CoverageSeed<'_> {
+    type Value = Option<f64>;
 
-    fn deserialize<D: Deserializer<'de>>(self, d: D) -> Result<f64, D::Error> {
-        d.deserialize_any(self)
+    fn deserialize<D: Deserializer<'de>>(self, d: D) -> Result<Option<f64>, D::Error> {
+        let path = self.path.clone();
+        self.cx
+            .collector
+            .guard(&path, d, |d| d.deserialize_any(self))
     }
 }
 
-impl Visitor<'_> for CoverageSeed {
+impl Visitor<'_> for CoverageSeed<'_> {
     type Value = f64;
 
     fn expecting(&self, f: &mut fmt::Formatter) -> fmt::Result {
@@ -582,11 +699,9 @@ impl Visitor<'_> for CoverageSeed {
         if v.is_finite() && v > 0.0 {
             Ok(v)
         } else {
-            Err(refuse(
-                "gonogo::load::bad-coverage",
-                "the coverage factor must be above zero",
-                "write `k: 2` for about 95 % coverage",
-            ))
+            Err(self
+                .cx
+                .refuse(&self.path, LoadError::BadCoverage(CoverageAt::Key)))
         }
     }
 
@@ -601,15 +716,19 @@ impl Visitor<'_> for CoverageSeed {
 
 /// `components:` — a mapping from component names (`carburetor`) to their measurements.
 struct ComponentsSeed<'a> {
-    rulebook: &'a CheckedRulebook,
-    state: &'a RefCell<State>,
+    cx: Context<'a>,
+    path: DeclPath,
 }
 
 impl<'de> DeserializeSeed<'de> for ComponentsSeed<'_> {
     type Value = ();
 
     fn deserialize<D: Deserializer<'de>>(self, d: D) -> Result<(), D::Error> {
-        d.deserialize_map(self)
+        let path = self.path.clone();
+        self.cx
+            .collector
+            .guard(&path, d, |d| d.deserialize_map(self))
+            .map(|_| ())
     }
 }
 
@@ -620,8 +739,13 @@ impl<'de> Visitor<'de> for ComponentsSeed<'_> {
         f.write_str("a mapping from component names to their measurements")
     }
 
+    fn visit_unit<E: de::Error>(self) -> Result<(), E> {
+        Ok(())
+    }
+
     fn visit_map<A: MapAccess<'de>>(self, mut map: A) -> Result<(), A::Error> {
-        let mut names: Vec<&str> = self
+        let cx = self.cx;
+        let mut names: Vec<&str> = cx
             .rulebook
             .measurements
             .iter()
@@ -630,26 +754,32 @@ impl<'de> Visitor<'de> for ComponentsSeed<'_> {
         names.dedup();
         let components = Components(names);
         let mut seen = Vec::new();
-        while let Some(at) = map.next_key_seed(KeySeed {
+        while let Some(key) = map.next_key_seed(KeySeed {
+            cx,
+            parent: &self.path,
             keys: &components,
             seen: &mut seen,
-            what: "component",
+            kind: KeyKind::Component,
         })? {
-            let component = Some(components.0[at]);
+            let Some(at) = key else {
+                map.next_value::<IgnoredAny>()?;
+                continue;
+            };
+            let component = components.0[at];
             map.next_value_seed(MeasurementsSeed {
-                rulebook: self.rulebook,
-                state: self.state,
-                component,
+                cx,
+                path: self.path.key(component),
+                component: Some(component),
             })?;
         }
         Ok(())
     }
 }
 
-/// A mapping from measurement names (after `prefix`) to their values.
+/// A mapping from measurement names (after the component's prefix) to their values.
 struct MeasurementsSeed<'a> {
-    rulebook: &'a CheckedRulebook,
-    state: &'a RefCell<State>,
+    cx: Context<'a>,
+    path: DeclPath,
     component: Option<&'a str>,
 }
 
@@ -657,7 +787,11 @@ impl<'de> DeserializeSeed<'de> for MeasurementsSeed<'_> {
     type Value = ();
 
     fn deserialize<D: Deserializer<'de>>(self, d: D) -> Result<(), D::Error> {
-        d.deserialize_map(self)
+        let path = self.path.clone();
+        self.cx
+            .collector
+            .guard(&path, d, |d| d.deserialize_map(self))
+            .map(|_| ())
     }
 }
 
@@ -668,9 +802,14 @@ impl<'de> Visitor<'de> for MeasurementsSeed<'_> {
         f.write_str("a mapping from measurement names to values")
     }
 
+    fn visit_unit<E: de::Error>(self) -> Result<(), E> {
+        Ok(())
+    }
+
     fn visit_map<A: MapAccess<'de>>(self, mut map: A) -> Result<(), A::Error> {
+        let cx = self.cx;
         let keys = MeasurementKeys {
-            rulebook: self.rulebook,
+            rulebook: cx.rulebook,
             component: self.component,
         };
         let place = if self.component.is_none() {
@@ -679,23 +818,28 @@ impl<'de> Visitor<'de> for MeasurementsSeed<'_> {
             Place::Components
         };
         loop {
-            let key = {
-                let mut state = self.state.borrow_mut();
-                map.next_key_seed(KeySeed {
-                    keys: &keys,
-                    seen: &mut state.declared,
-                    what: "measurement",
-                })?
-            };
-            let Some(index) = key else { break };
-            let Some(measurement) = self.rulebook.measurements.get(index) else {
+            let mut declared = std::mem::take(&mut cx.state.borrow_mut().declared);
+            let key = map.next_key_seed(KeySeed {
+                cx,
+                parent: &self.path,
+                keys: &keys,
+                seen: &mut declared,
+                kind: KeyKind::Measurement,
+            });
+            cx.state.borrow_mut().declared = declared;
+            let Some(key) = key? else { break };
+            let found = key.and_then(|i| cx.rulebook.measurements.get(i).map(|m| (i, m)));
+            let Some((index, measurement)) = found else {
+                map.next_value::<IgnoredAny>()?;
                 continue;
             };
+            let short = keys.short(&measurement.name).unwrap_or(&measurement.name);
             map.next_value_seed(ValueSeed {
+                cx,
+                path: self.path.key(short),
                 measurement,
                 index,
                 place,
-                state: self.state,
             })?;
         }
         Ok(())
@@ -704,17 +848,22 @@ impl<'de> Visitor<'de> for MeasurementsSeed<'_> {
 
 /// One measurement's value, in any of the forms a declaration may write it.
 struct ValueSeed<'a> {
+    cx: Context<'a>,
+    path: DeclPath,
     measurement: &'a Measurement,
     index: usize,
     place: Place,
-    state: &'a RefCell<State>,
 }
 
 impl<'de> DeserializeSeed<'de> for ValueSeed<'_> {
     type Value = ();
 
     fn deserialize<D: Deserializer<'de>>(self, d: D) -> Result<(), D::Error> {
-        d.deserialize_any(self)
+        let path = self.path.clone();
+        self.cx
+            .collector
+            .guard(&path, d, |d| d.deserialize_any(self))
+            .map(|_| ())
     }
 }
 
@@ -723,9 +872,15 @@ impl ValueSeed<'_> {
         self.measurement.kind == ValueKind::Text
     }
 
-    /// Where this value is written, for messages: `components.carburetor.airflow`.
-    fn path(&self) -> String {
-        format!("{}.{}", self.place.key(), self.measurement.name)
+    fn dimension(&self) -> Dimension {
+        match self.measurement.kind {
+            ValueKind::Number(d) => d,
+            ValueKind::Text => Dimension::NONE,
+        }
+    }
+
+    fn refuse<E: de::Error>(&self, error: LoadError) -> E {
+        self.cx.refuse(&self.path, error)
     }
 
     fn supply(&self, state: &mut State, supplied: Supplied) {
@@ -748,44 +903,39 @@ impl ValueSeed<'_> {
         &self,
         reading: Reading,
         source: Option<UncertaintySource>,
-    ) -> Result<(), E> {
+    ) -> Result<Vec<u32>, E> {
         if self.measurement.per_cylinder {
-            return Err(refuse(
-                "gonogo::load::needs-list",
-                format_args!(
-                    "`{}` is measured on every cylinder: give a list, cylinder 1 first",
-                    self.measurement.name
-                ),
-                "write the values as a list, like `[\"4.031 in\", \"4.030 in\", ...]`",
-            ));
+            return Err(self.refuse(LoadError::NeedsList {
+                measurement: self.measurement.name.clone(),
+            }));
         }
         if self.measurement.name == "cylinders" {
             self.note_cylinders::<E>(reading.value.round() as usize)?;
         }
-        let mut state = self.state.borrow_mut();
+        let mut state = self.cx.state.borrow_mut();
         let id = push_input(&mut state.declaration, self.name(None), reading, source);
         self.supply(&mut state, Supplied::Single(id));
-        Ok(())
+        Ok(vec![id])
     }
 
     fn text<E: de::Error>(&self, text: String) -> Result<(), E> {
-        let mut state = self.state.borrow_mut();
+        let mut state = self.cx.state.borrow_mut();
         self.supply(&mut state, Supplied::Text(text, self.place));
         Ok(())
     }
 
     /// Checks a cylinder count against what other per-cylinder lists said.
     fn note_cylinders<E: de::Error>(&self, count: usize) -> Result<(), E> {
-        let mut state = self.state.borrow_mut();
+        let mut state = self.cx.state.borrow_mut();
         match &state.cylinders {
-            Some((n, from)) if *n != count => Err(refuse(
-                "gonogo::load::cylinder-count",
-                format_args!("this gives {count} cylinders, but `{from}` gives {n}"),
-                "every per-cylinder list has one value per cylinder, and `cylinders` counts them",
-            )),
+            Some((n, from)) if *n != count => Err(self.refuse(LoadError::CylinderCount {
+                count,
+                earlier: *n,
+                from: from.clone(),
+            })),
             Some(_) => Ok(()),
             None => {
-                state.cylinders = Some((count, self.path()));
+                state.cylinders = Some((count, self.path.to_string()));
                 Ok(())
             }
         }
@@ -797,24 +947,16 @@ impl ValueSeed<'_> {
         source: Option<UncertaintySource>,
     ) -> Result<Vec<u32>, E> {
         if !self.measurement.per_cylinder {
-            return Err(refuse(
-                "gonogo::load::not-a-list",
-                format_args!(
-                    "`{}` is one value for the engine, not a list",
-                    self.measurement.name
-                ),
-                "write a single value",
-            ));
+            return Err(self.refuse(LoadError::NotAList {
+                measurement: self.measurement.name.clone(),
+                text: false,
+            }));
         }
         if readings.is_empty() {
-            return Err(refuse(
-                "gonogo::load::empty-list",
-                "this list has no values",
-                "give one value per cylinder, or leave the measurement out",
-            ));
+            return Err(self.refuse(LoadError::EmptyList));
         }
         self.note_cylinders::<E>(readings.len())?;
-        let mut state = self.state.borrow_mut();
+        let mut state = self.cx.state.borrow_mut();
         let ids: Vec<u32> = readings
             .into_iter()
             .enumerate()
@@ -829,6 +971,14 @@ impl ValueSeed<'_> {
             .collect();
         self.supply(&mut state, Supplied::PerCylinder(ids.clone()));
         Ok(ids)
+    }
+
+    fn element(&self, path: DeclPath) -> ElementSeed<'_> {
+        ElementSeed {
+            cx: self.cx,
+            path,
+            measurement: self.measurement,
+        }
     }
 }
 
@@ -878,16 +1028,16 @@ impl<'de> Visitor<'de> for ValueSeed<'_> {
         if self.is_text() {
             return self.text(v.to_string());
         }
-        let reading = read_text(v, self.measurement).map_err(refusal)?;
-        self.single(reading, None)
+        let reading = read_text(v, self.measurement).map_err(|e| self.refuse(e))?;
+        self.single::<E>(reading, None).map(|_| ())
     }
 
     fn visit_f64<E: de::Error>(self, v: f64) -> Result<(), E> {
         if self.is_text() {
             return self.text(v.to_string());
         }
-        let reading = read_number(v, self.measurement).map_err(refusal)?;
-        self.single(reading, None)
+        let reading = read_number(v, self.measurement).map_err(|e| self.refuse(e))?;
+        self.single::<E>(reading, None).map(|_| ())
     }
 
     fn visit_i64<E: de::Error>(self, v: i64) -> Result<(), E> {
@@ -906,101 +1056,108 @@ impl<'de> Visitor<'de> for ValueSeed<'_> {
 
     fn visit_seq<A: SeqAccess<'de>>(self, mut seq: A) -> Result<(), A::Error> {
         if self.is_text() {
-            return Err(refuse(
-                "gonogo::load::not-a-list",
-                format_args!("`{}` is text, not a list", self.measurement.name),
-                "write a single value",
-            ));
+            return Err(self.refuse(LoadError::NotAList {
+                measurement: self.measurement.name.clone(),
+                text: true,
+            }));
         }
+        let before = self.cx.collector.skipped();
         let mut readings = Vec::new();
-        while let Some(r) = seq.next_element_seed(ElementSeed {
-            measurement: self.measurement,
-        })? {
+        while let Some(r) =
+            seq.next_element_seed(self.element(self.path.element(readings.len())))?
+        {
             readings.push(r);
         }
-        self.per_cylinder(readings, None).map(|_| ())
+        if self.cx.collector.skipped() > before {
+            return Ok(());
+        }
+        let readings: Vec<Reading> = readings.into_iter().flatten().collect();
+        self.per_cylinder::<A::Error>(readings, None).map(|_| ())
     }
 
     fn visit_map<A: MapAccess<'de>>(self, mut map: A) -> Result<(), A::Error> {
         const KEYS: &[&str] = &["value", "values", "instrument"];
+        let cx = self.cx;
+        let before = cx.collector.skipped();
         let mut seen = Vec::new();
-        let (mut single, mut list, mut instrument) = (None, None, None);
+        let mut given = Given::default();
         while let Some(key) = map.next_key_seed(KeySeed {
+            cx,
+            parent: &self.path,
             keys: &Fixed(KEYS),
             seen: &mut seen,
-            what: "value key",
+            kind: KeyKind::Value,
         })? {
-            match KEYS[key] {
+            let Some(at) = key else {
+                map.next_value::<IgnoredAny>()?;
+                continue;
+            };
+            match KEYS[at] {
                 "value" => {
-                    single = Some(map.next_value_seed(ElementSeed {
-                        measurement: self.measurement,
-                    })?)
+                    let path = self.path.wrapper("value");
+                    given.single = map.next_value_seed(self.element(path))?;
                 }
                 "values" => {
-                    list = Some(map.next_value_seed(ListSeed {
+                    given.list = map.next_value_seed(ListSeed {
+                        cx,
+                        path: self.path.wrapper("values"),
                         measurement: self.measurement,
-                    })?)
+                    })?;
                 }
                 _ => {
-                    instrument = Some(map.next_value_seed(InstrumentNameSeed {
-                        state: self.state,
-                        measurement: self.measurement,
-                    })?)
+                    let path = self.path.key("instrument");
+                    given.instrument = map
+                        .next_value_seed(InstrumentNameSeed {
+                            cx,
+                            path: path.clone(),
+                            measurement: self.measurement,
+                        })?
+                        .map(|name| (name, path));
                 }
             }
         }
-        self.finish_map(single, list, instrument)
+        if cx.collector.skipped() > before {
+            return Ok(());
+        }
+        self.finish_map(given)
     }
 }
 
+/// What a measurement's mapping gave.
+#[derive(Default)]
+struct Given {
+    single: Option<Reading>,
+    list: Option<Vec<Reading>>,
+    instrument: Option<(String, DeclPath)>,
+}
+
 impl ValueSeed<'_> {
-    fn finish_map<E: de::Error>(
-        self,
-        single: Option<Reading>,
-        list: Option<Vec<Reading>>,
-        instrument: Option<String>,
-    ) -> Result<(), E> {
-        let stated = single
+    fn finish_map<E: de::Error>(self, given: Given) -> Result<(), E> {
+        let stated = given
+            .single
             .iter()
-            .chain(list.iter().flatten())
+            .chain(given.list.iter().flatten())
             .any(|r| r.stated.is_some());
-        if stated && instrument.is_some() {
-            return Err(refuse(
-                "gonogo::load::two-uncertainties",
-                "this value has its own `±` and also names an instrument",
-                "give the uncertainty one way: remove the `±` or the `instrument`",
-            ));
+        if stated && given.instrument.is_some() {
+            return Err(self.refuse(LoadError::TwoUncertainties));
         }
-        let source = instrument.clone().map(UncertaintySource::Instrument);
-        let ids = match (single, list) {
-            (Some(_), Some(_)) => {
-                return Err(refuse(
-                    "gonogo::load::value-and-values",
-                    "give `value` or `values`, not both",
-                    "use `values` for a per-cylinder list",
-                ));
-            }
-            (Some(r), None) => {
-                self.single::<E>(r, source)?;
-                let state = self.state.borrow();
-                match state.declaration.supplied(self.index) {
-                    Some(Supplied::Single(id)) => vec![*id],
-                    _ => Vec::new(),
-                }
-            }
+        let source = given
+            .instrument
+            .as_ref()
+            .map(|(name, _)| UncertaintySource::Instrument(name.clone()));
+        let ids = match (given.single, given.list) {
+            (Some(_), Some(_)) => return Err(self.refuse(LoadError::ValueAndValues)),
+            (Some(r), None) => self.single::<E>(r, source)?,
             (None, Some(rs)) => self.per_cylinder::<E>(rs, source)?,
             (None, None) => return Ok(()),
         };
-        if let Some(name) = instrument {
-            let dimension = match self.measurement.kind {
-                ValueKind::Number(d) => d,
-                ValueKind::Text => Dimension::NONE,
-            };
-            self.state.borrow_mut().uses.push(InstrumentUse {
-                instrument: name,
+        if let Some((instrument, path)) = given.instrument {
+            self.cx.state.borrow_mut().uses.push(InstrumentUse {
+                instrument,
                 inputs: ids,
-                dimension,
-                path: self.path(),
+                measurement: self.measurement.name.clone(),
+                dimension: self.dimension(),
+                path,
             });
         }
         Ok(())
@@ -1009,14 +1166,19 @@ impl ValueSeed<'_> {
 
 /// One number of a measurement: a string literal or a plain YAML number.
 struct ElementSeed<'a> {
+    cx: Context<'a>,
+    path: DeclPath,
     measurement: &'a Measurement,
 }
 
 impl<'de> DeserializeSeed<'de> for ElementSeed<'_> {
-    type Value = Reading;
+    type Value = Option<Reading>;
 
-    fn deserialize<D: Deserializer<'de>>(self, d: D) -> Result<Reading, D::Error> {
-        d.deserialize_any(self)
+    fn deserialize<D: Deserializer<'de>>(self, d: D) -> Result<Option<Reading>, D::Error> {
+        let path = self.path.clone();
+        self.cx
+            .collector
+            .guard(&path, d, |d| d.deserialize_any(self))
     }
 }
 
@@ -1028,11 +1190,11 @@ impl Visitor<'_> for ElementSeed<'_> {
     }
 
     fn visit_str<E: de::Error>(self, v: &str) -> Result<Reading, E> {
-        read_text(v, self.measurement).map_err(refusal)
+        read_text(v, self.measurement).map_err(|e| self.cx.refuse(&self.path, e))
     }
 
     fn visit_f64<E: de::Error>(self, v: f64) -> Result<Reading, E> {
-        read_number(v, self.measurement).map_err(refusal)
+        read_number(v, self.measurement).map_err(|e| self.cx.refuse(&self.path, e))
     }
 
     fn visit_i64<E: de::Error>(self, v: i64) -> Result<Reading, E> {
@@ -1044,16 +1206,21 @@ impl Visitor<'_> for ElementSeed<'_> {
     }
 }
 
-/// `values:` — a list of numbers.
+/// `values:` — a list of numbers; elements skipped are left out (and counted as skipped).
 struct ListSeed<'a> {
+    cx: Context<'a>,
+    path: DeclPath,
     measurement: &'a Measurement,
 }
 
 impl<'de> DeserializeSeed<'de> for ListSeed<'_> {
-    type Value = Vec<Reading>;
+    type Value = Option<Vec<Reading>>;
 
-    fn deserialize<D: Deserializer<'de>>(self, d: D) -> Result<Vec<Reading>, D::Error> {
-        d.deserialize_seq(self)
+    fn deserialize<D: Deserializer<'de>>(self, d: D) -> Result<Self::Value, D::Error> {
+        let path = self.path.clone();
+        self.cx
+            .collector
+            .guard(&path, d, |d| d.deserialize_seq(self))
     }
 }
 
@@ -1066,26 +1233,35 @@ impl<'de> Visitor<'de> for ListSeed<'_> {
 
     fn visit_seq<A: SeqAccess<'de>>(self, mut seq: A) -> Result<Vec<Reading>, A::Error> {
         let mut readings = Vec::new();
+        let mut count = 0;
         while let Some(r) = seq.next_element_seed(ElementSeed {
+            cx: self.cx,
+            path: self.path.element(count),
             measurement: self.measurement,
         })? {
-            readings.push(r);
+            count += 1;
+            readings.extend(r);
         }
         Ok(readings)
     }
 }
 
-/// `instrument:` — the name of an instrument; checked now when the instruments came first.
+/// `instrument:` — the name of an instrument; checked now when the instruments came first,
+/// else once the whole file is read (and then raised here on the next reading).
 struct InstrumentNameSeed<'a> {
-    state: &'a RefCell<State>,
+    cx: Context<'a>,
+    path: DeclPath,
     measurement: &'a Measurement,
 }
 
 impl<'de> DeserializeSeed<'de> for InstrumentNameSeed<'_> {
-    type Value = String;
+    type Value = Option<String>;
 
-    fn deserialize<D: Deserializer<'de>>(self, d: D) -> Result<String, D::Error> {
-        d.deserialize_str(self)
+    fn deserialize<D: Deserializer<'de>>(self, d: D) -> Result<Option<String>, D::Error> {
+        let path = self.path.clone();
+        self.cx
+            .collector
+            .guard(&path, d, |d| d.deserialize_str(self))
     }
 }
 
@@ -1097,45 +1273,48 @@ impl Visitor<'_> for InstrumentNameSeed<'_> {
     }
 
     fn visit_str<E: de::Error>(self, v: &str) -> Result<String, E> {
-        let state = self.state.borrow();
-        if state.instruments.is_empty() {
+        let collector = self.cx.collector;
+        if let Some(error) = collector.deferred(&self.path) {
+            return Err(self.cx.refuse(&self.path, error));
+        }
+        let state = self.cx.state.borrow();
+        if state.instruments_unusable || state.broken_instruments.contains(v) {
+            collector.note_skipped(); // already reported; this measurement is left out
+            return Ok(v.to_string());
+        }
+        if !state.instruments_read {
             return Ok(v.to_string()); // instruments come later in the file; checked at the end
         }
-        match state.instruments.get(v) {
-            Some(i) => {
-                let want = match self.measurement.kind {
-                    ValueKind::Number(d) => d,
-                    ValueKind::Text => Dimension::NONE,
-                };
-                if i.dimension != want {
-                    return Err(refuse(
-                        "gonogo::load::wrong-dimension",
-                        format_args!(
-                            "instrument `{v}` measures a {}, but `{}` is a {want}",
-                            i.dimension, self.measurement.name
-                        ),
-                        "name an instrument that measures this kind of quantity",
-                    ));
-                }
-                Ok(v.to_string())
-            }
-            None => Err(unknown_instrument(v, &state.instruments)),
+        let want = match self.measurement.kind {
+            ValueKind::Number(d) => d,
+            ValueKind::Text => Dimension::NONE,
+        };
+        match instrument_problem(&state.instruments, v, &self.measurement.name, want) {
+            Some(error) => Err(self.cx.refuse(&self.path, error)),
+            None => Ok(v.to_string()),
         }
     }
 }
 
-/// The refusal for an instrument the declaration does not list.
-pub fn unknown_instrument<E: de::Error>(
-    name: &str,
+/// What is wrong with naming instrument `name` for a measurement of dimension `want`, if
+/// anything.
+pub fn instrument_problem(
     instruments: &BTreeMap<String, Instrument>,
-) -> E {
-    let help = match closest(name, instruments.keys().map(String::as_str)) {
-        Some(near) => format!("did you mean `{near}`?"),
-        None => "list it under `instruments:` with its resolution or uncertainty".to_string(),
-    };
-    refuse(
-        "gonogo::load::unknown-instrument",
-        format_args!("`{name}` is not an instrument of this declaration"),
-        help,
-    )
+    name: &str,
+    measurement: &str,
+    want: Dimension,
+) -> Option<LoadError> {
+    match instruments.get(name) {
+        Some(i) if i.dimension != want => Some(LoadError::InstrumentWrongDimension {
+            instrument: name.to_string(),
+            measures: i.dimension,
+            measurement: measurement.to_string(),
+            wants: want,
+        }),
+        Some(_) => None,
+        None => Some(LoadError::UnknownInstrument {
+            name: name.to_string(),
+            suggestion: closest(name, instruments.keys().map(String::as_str)).map(str::to_string),
+        }),
+    }
 }

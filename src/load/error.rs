@@ -1,0 +1,592 @@
+//! What can be wrong with a declaration, as data: each variant holds the facts (the key, the
+//! unit written, the dimension expected …), and its code, message, label and help are derived
+//! from them here and nowhere else. [`LoadProblem`] adds where it is and becomes a
+//! [`Problem`] for miette.
+
+use std::path::PathBuf;
+
+use super::path::DeclPath;
+use crate::diagnostic::Problem;
+use crate::parse::ast::Date;
+use crate::source::Span;
+use crate::suggest::UnknownClass;
+use crate::units::Dimension;
+
+/// What kind of mapping a key was found in.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum KeyKind {
+    /// The top of the declaration.
+    Declaration,
+    /// `measurements:` or a component's mapping.
+    Measurement,
+    /// `components:`.
+    Component,
+    /// A measurement's `value`, `values`, `instrument`.
+    Value,
+    /// An instrument's `resolution`, `uncertainty`, `k`.
+    Instrument,
+}
+
+impl KeyKind {
+    /// How a message names a key of this mapping.
+    pub fn words(self) -> &'static str {
+        match self {
+            KeyKind::Declaration => "declaration key",
+            KeyKind::Measurement => "measurement",
+            KeyKind::Component => "component",
+            KeyKind::Value => "value key",
+            KeyKind::Instrument => "instrument key",
+        }
+    }
+}
+
+/// What was given twice.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Twice {
+    /// A key of a fixed mapping.
+    Key,
+    /// A measurement, perhaps once under `measurements` and once under its component.
+    Measurement,
+    /// An instrument of `instruments:`.
+    Instrument,
+}
+
+/// Where a coverage factor was written.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum CoverageAt {
+    /// In a value, `(k = 2)`.
+    Literal,
+    /// As an instrument's `k:`.
+    Key,
+}
+
+/// One thing wrong with a declaration.
+#[derive(Clone, Debug, PartialEq)]
+pub enum LoadError {
+    /// A key that this mapping does not have.
+    UnknownKey {
+        /// The key as written.
+        key: String,
+        /// The mapping it is in.
+        kind: KeyKind,
+        /// The allowed key nearest to it.
+        suggestion: Option<String>,
+        /// Every allowed key.
+        allowed: Vec<String>,
+    },
+    /// A key given twice.
+    DuplicateKey {
+        /// The name, in full.
+        name: String,
+        /// What it is.
+        what: Twice,
+    },
+    /// A class the rulebook does not have.
+    UnknownClass(UnknownClass),
+    /// A declaration that names no class, with no `--class` either.
+    NoClass {
+        /// The declaration.
+        file: PathBuf,
+    },
+    /// A declaration dated before the edition took effect.
+    BeforeEdition {
+        /// The declaration.
+        file: PathBuf,
+        /// Its date.
+        date: Date,
+        /// The edition's name.
+        edition: String,
+        /// The edition's effective date.
+        effective: Date,
+    },
+    /// A date that is not a calendar date.
+    BadDate {
+        /// As written.
+        written: String,
+    },
+    /// Text that is not a quantity.
+    BadQuantity {
+        /// What the literal parser expected.
+        reason: String,
+        /// An example of a good one, in backticks.
+        example: String,
+    },
+    /// A coverage factor of zero or less.
+    BadCoverage(CoverageAt),
+    /// A number without its unit for a measurement that has a dimension.
+    MissingUnit {
+        /// The measurement.
+        measurement: String,
+        /// Its dimension.
+        dimension: Dimension,
+        /// An example in its display unit.
+        example: String,
+        /// A bare YAML number rather than a string.
+        bare: bool,
+    },
+    /// A unit of another dimension than the measurement's.
+    WrongUnit {
+        /// The measurement.
+        measurement: String,
+        /// Its dimension.
+        wants: Dimension,
+        /// The unit written.
+        unit: String,
+        /// That unit's dimension.
+        found: Dimension,
+        /// An example in the measurement's display unit.
+        example: String,
+    },
+    /// A unit gonogo does not know.
+    UnknownUnit {
+        /// The symbol written.
+        symbol: String,
+        /// The known unit nearest to it.
+        suggestion: Option<&'static str>,
+    },
+    /// An infinite or not-a-number value.
+    NotFinite,
+    /// A negative value where the rulebook allows none.
+    Negative {
+        /// The measurement.
+        measurement: String,
+    },
+    /// A value outside the range the rulebook declares.
+    OutOfRange {
+        /// The measurement.
+        measurement: String,
+        /// The range, in display units.
+        expected: String,
+    },
+    /// An instrument's resolution or uncertainty of zero or less.
+    NotPositive,
+    /// An instrument with neither resolution nor uncertainty.
+    InstrumentEmpty,
+    /// An instrument whose resolution and uncertainty are of different dimensions.
+    InstrumentMixed,
+    /// An instrument used for a measurement of another dimension.
+    InstrumentWrongDimension {
+        /// The instrument.
+        instrument: String,
+        /// What it measures.
+        measures: Dimension,
+        /// The measurement.
+        measurement: String,
+        /// What that is.
+        wants: Dimension,
+    },
+    /// An instrument the declaration does not list.
+    UnknownInstrument {
+        /// The name as written.
+        name: String,
+        /// The listed instrument nearest to it.
+        suggestion: Option<String>,
+    },
+    /// One value for a per-cylinder measurement.
+    NeedsList {
+        /// The measurement.
+        measurement: String,
+    },
+    /// A list for a measurement that has one value.
+    NotAList {
+        /// The measurement.
+        measurement: String,
+        /// The measurement is text.
+        text: bool,
+    },
+    /// An empty per-cylinder list.
+    EmptyList,
+    /// A per-cylinder list whose length disagrees with the cylinder count.
+    CylinderCount {
+        /// How many this list gives.
+        count: usize,
+        /// How many the earlier one gives.
+        earlier: usize,
+        /// Where the earlier count was given.
+        from: String,
+    },
+    /// A `±` and an instrument for the same value.
+    TwoUncertainties,
+    /// Both `value` and `values`.
+    ValueAndValues,
+    /// Not YAML, or not the shape a declaration has there.
+    Yaml {
+        /// serde_yaml's words, without its location.
+        message: String,
+    },
+    /// Reading stopped after this many problems.
+    TooMany {
+        /// How many were reported.
+        shown: usize,
+    },
+}
+
+impl LoadError {
+    /// The stable code.
+    pub fn code(&self) -> &'static str {
+        match self {
+            LoadError::UnknownKey { .. } => "gonogo::load::unknown-key",
+            LoadError::DuplicateKey { .. } => "gonogo::load::duplicate-key",
+            LoadError::UnknownClass(e) => e.code(),
+            LoadError::NoClass { .. } => "gonogo::check::no-class",
+            LoadError::BeforeEdition { .. } => "gonogo::check::before-edition",
+            LoadError::BadDate { .. } => "gonogo::load::bad-date",
+            LoadError::BadQuantity { .. } => "gonogo::load::bad-quantity",
+            LoadError::BadCoverage(_) => "gonogo::load::bad-coverage",
+            LoadError::MissingUnit { .. } => "gonogo::load::missing-unit",
+            LoadError::WrongUnit { .. }
+            | LoadError::InstrumentMixed
+            | LoadError::InstrumentWrongDimension { .. } => "gonogo::load::wrong-dimension",
+            LoadError::UnknownUnit { .. } => "gonogo::load::unknown-unit",
+            LoadError::NotFinite => "gonogo::load::not-finite",
+            LoadError::Negative { .. } => "gonogo::load::negative",
+            LoadError::OutOfRange { .. } => "gonogo::load::out-of-range",
+            LoadError::NotPositive => "gonogo::load::not-positive",
+            LoadError::InstrumentEmpty => "gonogo::load::instrument-empty",
+            LoadError::UnknownInstrument { .. } => "gonogo::load::unknown-instrument",
+            LoadError::NeedsList { .. } => "gonogo::load::needs-list",
+            LoadError::NotAList { .. } => "gonogo::load::not-a-list",
+            LoadError::EmptyList => "gonogo::load::empty-list",
+            LoadError::CylinderCount { .. } => "gonogo::load::cylinder-count",
+            LoadError::TwoUncertainties => "gonogo::load::two-uncertainties",
+            LoadError::ValueAndValues => "gonogo::load::value-and-values",
+            LoadError::Yaml { .. } => "gonogo::load::yaml",
+            LoadError::TooMany { .. } => "gonogo::load::too-many",
+        }
+    }
+
+    /// What is wrong, without where.
+    pub fn message(&self) -> String {
+        match self {
+            LoadError::UnknownKey { key, kind, .. } => {
+                format!("`{key}` is not a {} gonogo knows here", kind.words())
+            }
+            LoadError::DuplicateKey { name, what } => match what {
+                Twice::Instrument => format!("instrument `{name}` is given twice"),
+                Twice::Key | Twice::Measurement => format!("`{name}` is given twice"),
+            },
+            LoadError::UnknownClass(e) => e.message(),
+            LoadError::NoClass { file } => format!("`{}` names no class", file.display()),
+            LoadError::BeforeEdition {
+                file,
+                date,
+                edition,
+                effective,
+            } => format!(
+                "`{}` is dated {date}, before edition {edition} took effect on {effective}",
+                file.display()
+            ),
+            LoadError::BadDate { written } => format!("`{written}` is not a calendar date"),
+            LoadError::BadQuantity { reason, .. } => reason.clone(),
+            LoadError::BadCoverage(_) => "the coverage factor must be above zero".to_string(),
+            LoadError::MissingUnit {
+                measurement,
+                dimension,
+                bare,
+                ..
+            } => {
+                let what = if *bare { "number" } else { "value" };
+                format!("`{measurement}` is a {dimension}, and this {what} has no unit")
+            }
+            LoadError::WrongUnit {
+                measurement,
+                wants,
+                unit,
+                found,
+                ..
+            } => format!("`{measurement}` is a {wants}, but `{unit}` is a unit of {found}"),
+            LoadError::UnknownUnit { symbol, .. } => {
+                format!("`{symbol}` is not a unit gonogo knows")
+            }
+            LoadError::NotFinite => "this value is not a finite number".to_string(),
+            LoadError::Negative { measurement } => format!("`{measurement}` cannot be negative"),
+            LoadError::OutOfRange { measurement, .. } => {
+                format!("this value is outside the range the rulebook declares for `{measurement}`")
+            }
+            LoadError::NotPositive => "a resolution or uncertainty must be above zero".to_string(),
+            LoadError::InstrumentEmpty => {
+                "this instrument has neither a resolution nor an uncertainty".to_string()
+            }
+            LoadError::InstrumentMixed => {
+                "the resolution and the uncertainty are of different dimensions".to_string()
+            }
+            LoadError::InstrumentWrongDimension {
+                instrument,
+                measures,
+                measurement,
+                wants,
+            } => format!(
+                "instrument `{instrument}` measures a {measures}, but `{measurement}` is a {wants}"
+            ),
+            LoadError::UnknownInstrument { name, .. } => {
+                format!("`{name}` is not an instrument of this declaration")
+            }
+            LoadError::NeedsList { measurement } => format!(
+                "`{measurement}` is measured on every cylinder: give a list, cylinder 1 first"
+            ),
+            LoadError::NotAList { measurement, text } => {
+                if *text {
+                    format!("`{measurement}` is text, not a list")
+                } else {
+                    format!("`{measurement}` is one value for the engine, not a list")
+                }
+            }
+            LoadError::EmptyList => "this list has no values".to_string(),
+            LoadError::CylinderCount {
+                count,
+                earlier,
+                from,
+            } => format!("this gives {count} cylinders, but `{from}` gives {earlier}"),
+            LoadError::TwoUncertainties => {
+                "this value has its own `±` and also names an instrument".to_string()
+            }
+            LoadError::ValueAndValues => "give `value` or `values`, not both".to_string(),
+            LoadError::Yaml { message } => message.clone(),
+            LoadError::TooMany { shown } => {
+                format!("reading stopped after {shown} problems")
+            }
+        }
+    }
+
+    /// The short label under the offending text.
+    pub fn label(&self) -> String {
+        match self {
+            LoadError::UnknownKey { .. } => "unknown key".to_string(),
+            LoadError::DuplicateKey { .. } => "given again here".to_string(),
+            LoadError::UnknownClass(_) => "unknown class".to_string(),
+            LoadError::BadDate { .. } => "not a date".to_string(),
+            LoadError::BadQuantity { .. } => "not a quantity".to_string(),
+            LoadError::BadCoverage(_) => "coverage factor".to_string(),
+            LoadError::MissingUnit { .. } => "no unit".to_string(),
+            LoadError::WrongUnit { found, .. } => format!("a {found}"),
+            LoadError::UnknownUnit { .. } => "unknown unit".to_string(),
+            LoadError::NotFinite => "not finite".to_string(),
+            LoadError::Negative { .. } => "negative".to_string(),
+            LoadError::OutOfRange { .. } => "out of range".to_string(),
+            LoadError::NotPositive => "not above zero".to_string(),
+            LoadError::InstrumentEmpty => "no resolution or uncertainty".to_string(),
+            LoadError::InstrumentMixed => "two dimensions".to_string(),
+            LoadError::InstrumentWrongDimension { measures, .. } => {
+                format!("measures a {measures}")
+            }
+            LoadError::UnknownInstrument { .. } => "unknown instrument".to_string(),
+            LoadError::NeedsList { .. } => "one value".to_string(),
+            LoadError::NotAList { .. } => "a list".to_string(),
+            LoadError::EmptyList => "empty".to_string(),
+            LoadError::CylinderCount { count, .. } => format!("{count} cylinders"),
+            LoadError::TwoUncertainties | LoadError::ValueAndValues => "here".to_string(),
+            LoadError::Yaml { .. }
+            | LoadError::NoClass { .. }
+            | LoadError::BeforeEdition { .. }
+            | LoadError::TooMany { .. } => "here".to_string(),
+        }
+    }
+
+    /// How to fix it.
+    pub fn help(&self) -> String {
+        match self {
+            LoadError::UnknownKey {
+                suggestion,
+                allowed,
+                ..
+            } => match suggestion {
+                Some(near) => format!("did you mean `{near}`?"),
+                None => format!("the keys allowed here are {}", backticked(allowed)),
+            },
+            LoadError::DuplicateKey { what, .. } => match what {
+                Twice::Measurement => {
+                    "give it once, under `measurements` or under its component".to_string()
+                }
+                Twice::Key | Twice::Instrument => "keep one of the two entries".to_string(),
+            },
+            LoadError::UnknownClass(e) => e.help(),
+            LoadError::NoClass { .. } => {
+                "add `class: NAME` to the declaration, or pass `--class NAME`".to_string()
+            }
+            LoadError::BeforeEdition { .. } => {
+                "check the date, or check the engine against the rulebook in force on that date"
+                    .to_string()
+            }
+            LoadError::BadDate { .. } => {
+                "write the date as year-month-day, like `2027-07-19`".to_string()
+            }
+            LoadError::BadQuantity { example, .. } => {
+                format!("write a number and its unit, like {example}")
+            }
+            LoadError::BadCoverage(CoverageAt::Literal) => {
+                "write `(k = 2)` for about 95 % coverage".to_string()
+            }
+            LoadError::BadCoverage(CoverageAt::Key) => {
+                "write `k: 2` for about 95 % coverage".to_string()
+            }
+            LoadError::MissingUnit { example, bare, .. } => {
+                if *bare {
+                    format!("write it as a string with its unit, like {example}")
+                } else {
+                    format!("write the unit after the number, like {example}")
+                }
+            }
+            LoadError::WrongUnit { wants, example, .. } => {
+                format!("write it in a unit of {wants}, like {example}")
+            }
+            LoadError::UnknownUnit { suggestion, .. } => match suggestion {
+                Some(near) => format!("did you mean `{near}`?"),
+                None => "the units gonogo knows are listed in README.md".to_string(),
+            },
+            LoadError::NotFinite => "write the measured value".to_string(),
+            LoadError::Negative { .. } => {
+                "check the sign; the rulebook allows negative values only where its `range` does"
+                    .to_string()
+            }
+            LoadError::OutOfRange { expected, .. } => {
+                format!("the rulebook expects {expected}; check the value and its unit")
+            }
+            LoadError::NotPositive => {
+                "write the instrument's resolution, like `0.0001 in`".to_string()
+            }
+            LoadError::InstrumentEmpty => {
+                "add `resolution: \"0.0001 in\"` or `uncertainty: \"0.0002 in\"`".to_string()
+            }
+            LoadError::InstrumentMixed => {
+                "write both in units of what the instrument measures".to_string()
+            }
+            LoadError::InstrumentWrongDimension { .. } => {
+                "name an instrument that measures this kind of quantity".to_string()
+            }
+            LoadError::UnknownInstrument { suggestion, .. } => match suggestion {
+                Some(near) => format!("did you mean `{near}`?"),
+                None => {
+                    "list it under `instruments:` with its resolution or uncertainty".to_string()
+                }
+            },
+            LoadError::NeedsList { .. } => {
+                "write the values as a list, like `[\"4.031 in\", \"4.030 in\", ...]`".to_string()
+            }
+            LoadError::NotAList { .. } => "write a single value".to_string(),
+            LoadError::EmptyList => {
+                "give one value per cylinder, or leave the measurement out".to_string()
+            }
+            LoadError::CylinderCount { .. } => {
+                "every per-cylinder list has one value per cylinder, and `cylinders` counts them"
+                    .to_string()
+            }
+            LoadError::TwoUncertainties => {
+                "give the uncertainty one way: remove the `±` or the `instrument`".to_string()
+            }
+            LoadError::ValueAndValues => "use `values` for a per-cylinder list".to_string(),
+            LoadError::Yaml { .. } => {
+                "the README's \"Engine declarations\" section shows the layout of a declaration"
+                    .to_string()
+            }
+            LoadError::TooMany { .. } => "fix these and run again to see the rest".to_string(),
+        }
+    }
+
+    /// Whether the error is about a mapping key, so its place is the mapping that holds it.
+    fn is_about_a_key(&self) -> bool {
+        matches!(
+            self,
+            LoadError::UnknownKey { .. } | LoadError::DuplicateKey { .. }
+        )
+    }
+}
+
+fn backticked(items: &[String]) -> String {
+    let shown: Vec<String> = items.iter().take(12).map(|i| format!("`{i}`")).collect();
+    let more = if items.len() > 12 { ", ..." } else { "" };
+    format!("{}{more}", shown.join(", "))
+}
+
+/// A load error, where it is in the declaration, and where in the file.
+#[derive(Clone, Debug, PartialEq)]
+pub struct LoadProblem {
+    /// What is wrong.
+    pub error: LoadError,
+    /// The node it is about (the key's own node for a key).
+    pub path: DeclPath,
+    /// Its text in the file, when known.
+    pub span: Option<Span>,
+}
+
+impl LoadProblem {
+    /// A problem of the whole file, at no place in it.
+    pub fn unlocated(error: LoadError) -> LoadProblem {
+        LoadProblem {
+            error,
+            path: DeclPath::root(),
+            span: None,
+        }
+    }
+
+    /// The problem miette renders: `path: message`, labelled at its text, with its help.
+    pub fn problem(&self) -> Problem {
+        let place = if self.error.is_about_a_key() {
+            self.path.parent()
+        } else {
+            self.path.clone()
+        };
+        let message = if place.is_root() {
+            self.error.message()
+        } else {
+            format!("{place}: {}", self.error.message())
+        };
+        let code = self.error.code();
+        let problem = match self.span {
+            Some(span) => Problem::error(code, message, span, &self.error.label()),
+            None => Problem::unlocated(code, message),
+        };
+        problem.with_help(self.error.help())
+    }
+}
+
+impl From<LoadProblem> for Problem {
+    fn from(p: LoadProblem) -> Problem {
+        p.problem()
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn a_key_problem_is_placed_at_the_mapping_that_holds_the_key() {
+        let path = DeclPath::root().key("measurements").key("strok");
+        let p = LoadProblem {
+            error: LoadError::UnknownKey {
+                key: "strok".into(),
+                kind: KeyKind::Measurement,
+                suggestion: Some("stroke".into()),
+                allowed: vec!["stroke".into()],
+            },
+            path,
+            span: None,
+        }
+        .problem();
+        assert_eq!(
+            p.message,
+            "measurements: `strok` is not a measurement gonogo knows here"
+        );
+        assert_eq!(p.help.as_deref(), Some("did you mean `stroke`?"));
+        assert_eq!(p.code, "gonogo::load::unknown-key");
+    }
+
+    #[test]
+    fn a_value_problem_names_the_cylinder_from_one() {
+        let path = DeclPath::root()
+            .key("measurements")
+            .key("bore")
+            .wrapper("values")
+            .element(0);
+        let p = LoadProblem {
+            error: LoadError::NotFinite,
+            path,
+            span: None,
+        }
+        .problem();
+        assert_eq!(
+            p.message,
+            "measurements.bore[1]: this value is not a finite number"
+        );
+    }
+}
