@@ -324,3 +324,220 @@ fn a_declaration_dated_before_the_edition_is_refused() {
         "{message}"
     );
 }
+
+/// The report of one engine in each format, split into its header and one block per rule.
+struct Blocks {
+    format: &'static str,
+    header: String,
+    rules: Vec<String>,
+}
+
+fn unescape_html(text: &str) -> String {
+    text.replace("&lt;", "<")
+        .replace("&gt;", ">")
+        .replace("&quot;", "\"")
+        .replace("&#39;", "'")
+        .replace("&amp;", "&")
+}
+
+/// Every string in a JSON value, one a line.
+fn strings_of(value: &serde_json::Value, out: &mut String) {
+    match value {
+        serde_json::Value::String(s) => {
+            out.push_str(s);
+            out.push('\n');
+        }
+        serde_json::Value::Array(items) => items.iter().for_each(|v| strings_of(v, out)),
+        serde_json::Value::Object(map) => map.values().for_each(|v| strings_of(v, out)),
+        _ => {}
+    }
+}
+
+/// The JSON report's blocks: each rule with the inputs and derived values its trace names.
+fn json_blocks(json: &str) -> Blocks {
+    let doc: serde_json::Value = serde_json::from_str(json).unwrap_or_else(|e| panic!("{e}"));
+    let engine = &doc["engines"][0];
+    let mut header = String::new();
+    for key in ["heading", "class", "file"] {
+        strings_of(&engine[key], &mut header);
+    }
+    let rules = engine["rules"]
+        .as_array()
+        .into_iter()
+        .flatten()
+        .map(|rule| {
+            let mut block = String::new();
+            strings_of(rule, &mut block);
+            let source = &rule["source"];
+            block.push_str(&format!(
+                "{} {}\n",
+                source["kind"].as_str().unwrap_or("?"),
+                source["name"].as_str().unwrap_or("?")
+            ));
+            for entry in rule["trace"].as_array().into_iter().flatten() {
+                let target = match (entry["input"].as_u64(), entry["derived"].as_u64()) {
+                    (Some(id), _) => &engine["inputs"][id as usize],
+                    (_, Some(id)) => &engine["derived"][id as usize],
+                    _ => entry,
+                };
+                strings_of(target, &mut block);
+            }
+            block
+        })
+        .collect();
+    Blocks {
+        format: "json",
+        header,
+        rules,
+    }
+}
+
+fn split_blocks(
+    format: &'static str,
+    report: &str,
+    separator: &str,
+    header_blocks: usize,
+) -> Blocks {
+    let parts: Vec<String> = report.split(separator).map(unescape_html).collect();
+    let (header, rules) = parts.split_at(header_blocks.min(parts.len()));
+    Blocks {
+        format,
+        header: header.join("\n"),
+        rules: rules.to_vec(),
+    }
+}
+
+/// The facts a rule's report must state in every format, from the rulebook and the
+/// declaration themselves: its note, penalty and source, and each trace value as written.
+fn facts_of(
+    o: &gonogo::evaluate::outcome::Outcome,
+    r: &gonogo::evaluate::outcome::EngineReport,
+) -> Vec<String> {
+    use gonogo::check::model::Origin;
+    use gonogo::evaluate::outcome::Trace;
+    use gonogo::load::{InputName, UncertaintySource};
+    let mut facts: Vec<String> = o
+        .note()
+        .into_iter()
+        .chain(o.penalty())
+        .map(str::to_string)
+        .collect();
+    if let Origin::Bulletin(b) = &o.rule.origin {
+        facts.push(format!("bulletin {b}"));
+    }
+    for t in &o.trace {
+        match t {
+            Trace::Input(id) => {
+                let input = r.input(*id);
+                match (&input.name, input.written.as_deref()) {
+                    (InputName::Literal(text), _) => facts.push(text.clone()),
+                    (_, Some(written)) => {
+                        let value = written.split(['±']).next().unwrap_or(written).trim();
+                        let bare = value.split_whitespace().next().unwrap_or(value);
+                        facts.push(bare.to_string());
+                    }
+                    (_, None) => panic!("a declared input without its text"),
+                }
+                facts.push(
+                    input
+                        .label(r.rulebook)
+                        .split('[')
+                        .next()
+                        .unwrap_or_default()
+                        .to_string(),
+                );
+                match &input.source {
+                    UncertaintySource::None => facts.push("no uncertainty stated".to_string()),
+                    UncertaintySource::Instrument(i) => facts.push(i.clone()),
+                    UncertaintySource::Stated { .. } | UncertaintySource::Rulebook => {}
+                }
+            }
+            Trace::Text { value, .. } => facts.push(value.to_string()),
+            Trace::Derived { derived, .. } => facts.push(derived.formula.clone()),
+            Trace::Missing { name } => facts.push(name.to_string()),
+        }
+    }
+    facts
+}
+
+#[test]
+fn every_format_states_the_same_facts_of_every_demo_engine() {
+    use gonogo::check::model::Origin;
+    let loaded = gonogo::commands::load_rulebook(Path::new(RULES));
+    let rulebook = loaded.checked.unwrap_or_else(|| panic!("demo rulebook"));
+    let mut checked = 0;
+    for path in common::files_under("engines-demo", ".yaml") {
+        let path = relative(&path);
+        let mut sources = gonogo::source::SourceMap::default();
+        let d = gonogo::load::load_declaration(&path, &rulebook, &mut sources)
+            .unwrap_or_else(|p| panic!("{p:?}"));
+        let class = d
+            .identity
+            .class
+            .as_deref()
+            .and_then(|c| rulebook.class(c))
+            .unwrap_or_else(|| panic!("{}: no class", path.display()));
+        let report = gonogo::evaluate::check_engine(&rulebook, class, &d, None);
+        let reports = [report];
+        let formats = [
+            split_blocks(
+                "text",
+                &gonogo::report::text::engine(&reports[0]),
+                "\n\n",
+                2,
+            ),
+            split_blocks(
+                "markdown",
+                &gonogo::report::markdown::document(&reports),
+                "\n## ",
+                1,
+            ),
+            split_blocks(
+                "html",
+                &gonogo::report::html::page(&reports),
+                "<section class=\"rule",
+                1,
+            ),
+            json_blocks(&gonogo::report::json::document(&reports)),
+        ];
+        let report = &reports[0];
+        for blocks in &formats {
+            let at = format!("{} ({})", path.display(), blocks.format);
+            assert_eq!(
+                blocks.rules.len(),
+                report.outcomes.len(),
+                "{at}: rule count"
+            );
+            for (o, block) in report.outcomes.iter().zip(&blocks.rules) {
+                assert!(
+                    block.contains(o.section()),
+                    "{at}: rule {} out of place",
+                    o.section()
+                );
+                for fact in facts_of(o, report) {
+                    assert!(
+                        block.contains(&fact),
+                        "{at}: rule {} does not state `{fact}`:\n{block}",
+                        o.section()
+                    );
+                    checked += 1;
+                }
+                if let Origin::Class(c) = &o.rule.origin {
+                    let named = format!("class {c}");
+                    let shown = if *c == class.name {
+                        &blocks.header
+                    } else {
+                        block
+                    };
+                    assert!(
+                        shown.contains(&named)
+                            || (blocks.format == "json" && block.contains(c.as_str())),
+                        "{at}: rule {} does not say it comes from {named}",
+                        o.section()
+                    );
+                }
+            }
+        }
+    }
+    assert!(checked > 1000, "only {checked} facts checked");
+}
