@@ -7,7 +7,7 @@
 
 use std::fmt::Write;
 
-use super::view::{EngineView, Fact, Line, NumberView, RuleView};
+use super::view::{EngineView, Fact, Line, NumberView, RuleView, TraceLine};
 use crate::evaluate::finding::Verdict;
 use crate::evaluate::outcome::EngineReport;
 
@@ -127,36 +127,63 @@ fn rule_section(out: &mut String, rule: &RuleView, v: &EngineView) {
         escape(&rule.title),
         escape(&rule.verdict_words())
     );
+    let mut numbers: Vec<String> = Vec::new();
     for line in rule.lines(v) {
-        match line {
-            Line::Fact(f) => fact(out, &f),
-            Line::Scale(n) => out.push_str(&scale(n)),
-            Line::Trace(trace) => {
-                out.push_str("<ul class=\"trace\">\n");
-                for t in trace {
-                    let result = t
-                        .result()
-                        .map(|r| format!("<br>{}", escape(&r)))
-                        .unwrap_or_default();
-                    let _ = writeln!(out, "<li>{}{result}</li>", escape(&t.words()));
-                }
-                out.push_str("</ul>\n");
-            }
+        if let Line::Fact(f) = &line
+            && NUMBERS.contains(&f.label)
+        {
+            numbers.push(fact_html(f));
+            continue;
         }
+        if !numbers.is_empty() {
+            let _ = writeln!(out, "<p class=\"numbers\">{}</p>", numbers.join(" · "));
+            numbers.clear();
+        }
+        match line {
+            Line::Fact(f) => {
+                let _ = writeln!(out, "<p>{}</p>", fact_html(&f));
+            }
+            Line::Scale(n) => out.push_str(&scale(n)),
+            Line::Trace(trace) => trace_list(out, &trace),
+        }
+    }
+    if !numbers.is_empty() {
+        let _ = writeln!(out, "<p class=\"numbers\">{}</p>", numbers.join(" · "));
     }
     out.push_str("</section>\n");
 }
 
-/// `<p><span class="label">requires</span> <code>bore &lt;= 4.030 in</code></p>`.
-fn fact(out: &mut String, f: &Fact) {
-    let _ = write!(out, "<p><span class=\"label\">{}</span>", escape(f.label));
+fn trace_list(out: &mut String, trace: &[TraceLine]) {
+    out.push_str("<ul class=\"trace\">\n");
+    for t in trace {
+        let result = t
+            .result()
+            .map(|r| format!("<br>{}", escape(&r)))
+            .unwrap_or_default();
+        let _ = writeln!(out, "<li>{}{result}</li>", escape(&t.words()));
+    }
+    out.push_str("</ul>\n");
+}
+
+/// The facts a sheet sets on one line, before the scale.
+const NUMBERS: [&str; 5] = [
+    "value",
+    "limit",
+    "limits",
+    "margin",
+    "conformance probability",
+];
+
+/// `<span class="label">requires</span> <code>bore &lt;= 4.030 in</code>`.
+fn fact_html(f: &Fact) -> String {
+    let mut html = format!("<span class=\"label\">{}</span>", escape(f.label));
     if let Some(code) = &f.code {
-        let _ = write!(out, " <code>{}</code>", escape(code));
+        let _ = write!(html, " <code>{}</code>", escape(code));
     }
     if !f.text.is_empty() {
-        let _ = write!(out, " {}", escape(&f.text));
+        let _ = write!(html, " {}", escape(&f.text));
     }
-    out.push_str("</p>\n");
+    html
 }
 
 /// The SVG scale: an axis around the limit(s) and the value, the guard band of ±U around each

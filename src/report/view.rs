@@ -984,3 +984,74 @@ pub fn closest_call(r: &EngineReport) -> Option<ClosestCall> {
             call(o, format!("{}, p {p}", c.finding.words()))
         })
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn input(written: Option<&str>, value: f64, source: UncertaintySource) -> Input {
+        Input {
+            name: InputName::Literal("x".to_string()),
+            value,
+            standard_uncertainty: 0.0,
+            unit: Some("in"),
+            written: written.map(str::to_string),
+            source,
+        }
+    }
+
+    #[test]
+    fn a_value_is_shown_with_its_digits_as_written_and_without_its_stated_uncertainty() {
+        let inch = units::lookup("in");
+        let as_written = |w: &str| written(&input(Some(w), 0.0, UncertaintySource::None), inch);
+        assert_eq!(as_written("4.100 in"), "4.100 in");
+        assert_eq!(as_written("3.480 in ± 0.001 in"), "3.480 in");
+        assert_eq!(as_written("3.480 in +/- 0.002 in (k = 2)"), "3.480 in");
+        // 0.0254 m is 1 in exactly (NIST SP 811, B.8)
+        assert_eq!(
+            written(&input(None, 0.0254, UncertaintySource::None), inch),
+            "1 in"
+        );
+    }
+
+    #[test]
+    fn an_input_without_an_uncertainty_says_so() {
+        let inch = units::lookup("in");
+        let exact = input(Some("4.100 in"), 0.104_14, UncertaintySource::None);
+        assert_eq!(uncertainty_words(&exact, inch), "no uncertainty stated");
+        let gauged = input(
+            Some("4.100 in"),
+            0.104_14,
+            UncertaintySource::Instrument("bore_gauge".to_string()),
+        );
+        assert_eq!(uncertainty_words(&gauged, inch), "u 0 in (bore_gauge)");
+    }
+
+    #[test]
+    fn trace_lines_read_as_the_text_report_prints_them() {
+        let number = TraceLine::Values {
+            label: "gasket.bore".to_string(),
+            values: "4.100 in".to_string(),
+            uncertainty: Some("no uncertainty stated".to_string()),
+            origin: "measurements.gasket.bore".to_string(),
+        };
+        assert_eq!(
+            number.words(),
+            "gasket.bore = 4.100 in  no uncertainty stated  [measurements.gasket.bore]"
+        );
+        let text = TraceLine::Values {
+            label: "head.casting".to_string(),
+            values: "\"TVH-2204\"".to_string(),
+            uncertainty: None,
+            origin: "components.head.casting".to_string(),
+        };
+        assert_eq!(
+            text.words(),
+            "head.casting = \"TVH-2204\"  [components.head.casting]"
+        );
+        assert_eq!(
+            TraceLine::Missing("deck_clearance").words(),
+            "deck_clearance: missing"
+        );
+    }
+}
