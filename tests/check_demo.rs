@@ -381,6 +381,10 @@ fn json_blocks(json: &str) -> Blocks {
                     _ => entry,
                 };
                 strings_of(target, &mut block);
+                // the JSON states an exact value as its source of uncertainty, `none`
+                if target["uncertainty_from"] == "none" {
+                    block.push_str("no uncertainty stated\n");
+                }
             }
             block
         })

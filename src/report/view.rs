@@ -171,7 +171,9 @@ pub enum InputValue {
         standard_uncertainty: f64,
         /// Where the uncertainty comes from.
         uncertainty_from: UncertaintyFrom,
-        /// The uncertainty in words: `u 0.000029 in (bore_gauge)`, `no uncertainty stated`.
+        /// The uncertainty in words: `u 0.000029 in (bore_gauge)`, `no uncertainty stated`
+        /// (the reports' words; not in the JSON, which has the number and its source).
+        #[serde(skip)]
         uncertainty_shown: String,
     },
     /// A text measurement.
@@ -214,7 +216,9 @@ pub struct DerivedView {
     pub values: Vec<f64>,
     /// The combined standard uncertainty of each.
     pub standard_uncertainties: Vec<f64>,
-    /// The values in words: `355.221 ci (u 0.03 ci)`, or `not computed`.
+    /// The values in words: `355.221 ci (u 0.03 ci)`, or `not computed` (the reports'
+    /// words; not in the JSON).
+    #[serde(skip)]
     pub shown: String,
 }
 
@@ -259,7 +263,8 @@ pub struct NumberView {
     pub probability_of_conformance: f64,
     /// The deciding cylinder (1-based), for per-cylinder values.
     pub cylinder: Option<usize>,
-    /// The same numbers with the digits to show.
+    /// The same numbers with the digits to show (the reports' words; not in the JSON).
+    #[serde(skip)]
     pub shown: NumberShown,
 }
 
