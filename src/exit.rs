@@ -1,4 +1,7 @@
-//! Exit statuses of the `gonogo` command, as one enum (DESIGN.md section 7).
+//! Exit statuses of the `gonogo` command, as one enum (DESIGN.md section 7); an engine's
+//! status is derived from its [`EngineResult`].
+
+use crate::evaluate::outcome::EngineResult;
 
 /// How a run ended.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
@@ -13,8 +16,32 @@ pub enum Exit {
     Uncertain = 3,
 }
 
+impl From<EngineResult> for Exit {
+    /// The status an engine's result calls for; every result has its own.
+    fn from(result: EngineResult) -> Exit {
+        match result {
+            EngineResult::Legal => Exit::Clean,
+            EngineResult::Illegal => Exit::Illegal,
+            EngineResult::NotAllClear => Exit::Uncertain,
+        }
+    }
+}
+
 impl From<Exit> for std::process::ExitCode {
     fn from(exit: Exit) -> std::process::ExitCode {
         std::process::ExitCode::from(exit as u8)
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn each_result_has_its_own_status() {
+        // README "Exit status": 0 legal, 1 illegal, 3 not all clear
+        assert_eq!(Exit::from(EngineResult::Legal) as u8, 0);
+        assert_eq!(Exit::from(EngineResult::Illegal) as u8, 1);
+        assert_eq!(Exit::from(EngineResult::NotAllClear) as u8, 3);
     }
 }

@@ -412,7 +412,7 @@ fn output_goes_to_the_file_whole_and_nothing_is_left_beside_it() {
     );
     let text = std::fs::read_to_string(&target).unwrap_or_default();
     let doc: serde_json::Value = serde_json::from_str(&text).unwrap_or_else(|e| panic!("{e}"));
-    assert_eq!(doc["schema"], "gonogo.check/1");
+    assert_eq!(doc["schema"], "gonogo.check/2");
     let left: Vec<_> = std::fs::read_dir(&dir)
         .map(|d| d.flatten().map(|e| e.file_name()).collect())
         .unwrap_or_default();

@@ -44,7 +44,7 @@ impl Role {
 pub enum CheckFormat {
     /// The text report.
     Text,
-    /// One JSON document (schema `gonogo.check/1`).
+    /// One JSON document (schema `gonogo.check/2`).
     Json,
     /// A self-contained, printable tech sheet.
     Html,

@@ -169,6 +169,48 @@ impl Outcome<'_> {
     }
 }
 
+/// The result for one engine, from its verdicts; every report and the exit status read it.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, serde::Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum EngineResult {
+    /// Every rule legal, no conditional finding or uncertain condition, nothing unchecked.
+    Legal,
+    /// At least one rule illegal under the decision rule in force.
+    Illegal,
+    /// Nothing illegal, but some call is not certain: a conditional finding, an uncertain
+    /// condition, or a rule not checked.
+    NotAllClear,
+}
+
+impl EngineResult {
+    /// The symbol beside the result, so it never rests on colour alone.
+    pub fn mark(self) -> &'static str {
+        match self {
+            EngineResult::Legal => "✓",
+            EngineResult::Illegal => "✗",
+            EngineResult::NotAllClear => "~",
+        }
+    }
+
+    /// The result in words, as an engine's report states it.
+    pub fn words(self) -> &'static str {
+        match self {
+            EngineResult::Legal => "LEGAL",
+            EngineResult::Illegal => "ILLEGAL",
+            EngineResult::NotAllClear => "NO PROVEN VIOLATION, BUT NOT ALL CLEAR",
+        }
+    }
+
+    /// The result in a field summary's column.
+    pub fn short_words(self) -> &'static str {
+        match self {
+            EngineResult::Legal => "legal",
+            EngineResult::Illegal => "ILLEGAL",
+            EngineResult::NotAllClear => "not all clear",
+        }
+    }
+}
+
 /// One engine checked against one class.
 #[derive(Clone, Debug)]
 pub struct EngineReport<'a> {
@@ -211,15 +253,21 @@ impl EngineReport<'_> {
         ]
     }
 
-    /// The exit status this report calls for.
-    pub fn exit(&self) -> crate::exit::Exit {
+    /// The engine's result: illegal when any rule is, else not all clear when any call is
+    /// uncertain, else legal. The exit status is derived from it.
+    pub fn result(&self) -> EngineResult {
         if self.outcomes.iter().any(|o| o.verdict == Verdict::Illegal) {
-            crate::exit::Exit::Illegal
+            EngineResult::Illegal
         } else if self.outcomes.iter().any(Outcome::is_uncertain) {
-            crate::exit::Exit::Uncertain
+            EngineResult::NotAllClear
         } else {
-            crate::exit::Exit::Clean
+            EngineResult::Legal
         }
+    }
+
+    /// The exit status this report calls for, from its [`result`](Self::result).
+    pub fn exit(&self) -> crate::exit::Exit {
+        self.result().into()
     }
 
     /// `Series — edition 2027 — class limited2 “Limited Two-Barrel”`: every report's heading.
@@ -234,15 +282,6 @@ impl EngineReport<'_> {
             "{} — edition {} — class {}{title}",
             self.rulebook.series, self.rulebook.edition, self.class.name
         )
-    }
-
-    /// The engine's result as a symbol and in words.
-    pub fn result(&self) -> (&'static str, &'static str) {
-        match self.exit() {
-            crate::exit::Exit::Illegal => ("✗", "ILLEGAL"),
-            crate::exit::Exit::Uncertain => ("~", "NO PROVEN VIOLATION, BUT NOT ALL CLEAR"),
-            _ => ("✓", "LEGAL"),
-        }
     }
 
     /// Conditional findings (any verdict).

@@ -2,13 +2,14 @@
 //! external file, no network), with a print stylesheet that fits A4 and US Letter. Each rule
 //! shows its verdict as a symbol and a word (never colour alone), its finding and numbers, an
 //! inline SVG scale with the limit, the guard band of ±U around it and the measured value with
-//! its uncertainty bar, and its trace; the sheet ends with signature lines.
+//! its uncertainty bar, and its trace; the sheet ends with signature lines. A layout of the
+//! [`EngineView`]; the words are the view's.
 
 use std::fmt::Write;
 
-use super::format::{probability, quantity, uncertainty_in};
+use super::view::{EngineView, Fact, Line, NumberView, RuleView, TraceLine};
 use crate::evaluate::finding::Verdict;
-use crate::evaluate::outcome::{EngineReport, Numeric, Outcome, Trace};
+use crate::evaluate::outcome::EngineReport;
 
 /// HTML-escapes text.
 pub fn escape(text: &str) -> String {
@@ -37,7 +38,8 @@ section.rule h2 { font-size: 11pt; margin: 0 0 .3em; }
 .legal .mark { color: #14632f; } .illegal .mark { color: #a11616; } .uncertain .mark { color: #8a5a00; }
 .verdict { float: right; font-weight: bold; }
 code { font-size: 9.5pt; }
-table.numbers td { padding: 0 1.2em 0 0; }
+section.rule p { margin: .1em 0; }
+.label { color: #444; }
 svg.scale { display: block; margin: .3em 0; }
 ul.trace { margin: .2em 0 .2em 1.2em; padding: 0; font-size: 9pt; }
 .signatures { margin-top: 2.5em; display: flex; gap: 3em; }
@@ -48,50 +50,45 @@ ul.trace { margin: .2em 0 .2em 1.2em; padding: 0; font-size: 9pt; }
 
 /// The whole page for one or more engines.
 pub fn page(reports: &[EngineReport]) -> String {
+    let views: Vec<EngineView> = reports.iter().map(EngineView::new).collect();
+    page_of(&views)
+}
+
+/// The whole page for one or more engines' views.
+pub fn page_of(views: &[EngineView]) -> String {
     let mut out =
         String::from("<!doctype html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n");
-    let title = reports
+    let title = views
         .first()
-        .map(|r| format!("Tech sheet — {} — {}", r.rulebook.series, r.class.name))
+        .map(|v| format!("Tech sheet — {} — {}", v.series, v.class))
         .unwrap_or_default();
     let _ = writeln!(
         out,
         "<title>{}</title>\n<style>{STYLE}</style>\n</head>\n<body>",
         escape(&title)
     );
-    for (i, r) in reports.iter().enumerate() {
+    for (i, v) in views.iter().enumerate() {
         if i > 0 {
             out.push_str("<div style=\"break-before: page; page-break-before: always\"></div>\n");
         }
-        engine(&mut out, r);
+        engine(&mut out, v);
     }
     out.push_str("</body>\n</html>\n");
     out
 }
 
-fn engine(out: &mut String, r: &EngineReport) {
-    let id = &r.declaration.identity;
-    let _ = writeln!(out, "<h1>{}</h1>", escape(&r.heading()));
+fn engine(out: &mut String, v: &EngineView) {
+    let _ = writeln!(out, "<h1>{}</h1>", escape(&v.heading));
     out.push_str("<table class=\"identity\">\n");
     let rows = [
-        ("Engine", id.engine.clone()),
-        ("Car", id.car.clone()),
-        ("Event", id.event.clone()),
-        ("Date", id.date.map(|d| d.to_string())),
-        ("Measured by", id.measured_by.clone()),
-        ("Decision rule", Some(r.decision.words().to_string())),
-        (
-            "Bulletins applied",
-            Some(if r.bulletins.is_empty() {
-                "none".to_string()
-            } else {
-                r.bulletins.join(", ")
-            }),
-        ),
-        (
-            "Declaration",
-            Some(r.declaration.path.display().to_string()),
-        ),
+        ("Engine", v.engine.clone()),
+        ("Car", v.car.clone()),
+        ("Event", v.event.clone()),
+        ("Date", v.date.clone()),
+        ("Measured by", v.measured_by.clone()),
+        ("Decision rule", Some(v.decision_words())),
+        ("Rules in force", Some(v.rules_in_force())),
+        ("Declaration", Some(v.file.clone())),
     ];
     for (label, value) in rows {
         let _ = writeln!(
@@ -101,111 +98,107 @@ fn engine(out: &mut String, r: &EngineReport) {
         );
     }
     out.push_str("</table>\n");
-    let [legal, illegal, unchecked, not_applicable] = r.counts();
-    let (mark, result) = r.result();
     let _ = writeln!(
         out,
-        "<p class=\"summary\">{mark} {result} — {legal} legal, {illegal} illegal, {unchecked} not checked, {not_applicable} not applicable; {} conditional</p>",
-        r.conditional_count()
+        "<p class=\"summary\">{} {}</p>",
+        v.result.mark(),
+        escape(&v.result_words())
     );
-    for o in &r.outcomes {
-        rule(out, o, r);
+    for rule in &v.rules {
+        rule_section(out, rule, v);
     }
     out.push_str("<div class=\"signatures\"><div>Inspector — name, signature, time</div><div>Competitor — name, signature, time</div></div>\n");
 }
 
-fn rule(out: &mut String, o: &Outcome, r: &EngineReport) {
-    let class = match o.verdict {
-        Verdict::Legal if o.is_uncertain() => "uncertain",
+fn rule_section(out: &mut String, rule: &RuleView, v: &EngineView) {
+    let class = match rule.verdict {
+        Verdict::Legal if rule.uncertain => "uncertain",
         Verdict::Legal => "legal",
         Verdict::Illegal => "illegal",
         Verdict::NotChecked => "uncertain",
         Verdict::NotApplicable => "na",
     };
-    let mark = o.mark();
-    let finding = o
-        .checked
-        .as_ref()
-        .map(|c| format!(" · {}", c.finding.words()))
-        .unwrap_or_default();
     let _ = writeln!(out, "<section class=\"rule {class}\">");
     let _ = writeln!(
         out,
-        "<h2><span class=\"mark\">{mark}</span>{} {} <span class=\"verdict\">{}{}</span></h2>",
-        escape(o.section()),
-        escape(o.title()),
-        o.verdict.words(),
-        escape(&finding)
+        "<h2><span class=\"mark\">{}</span>{} {} <span class=\"verdict\">{}</span></h2>",
+        rule.mark,
+        escape(&rule.section),
+        escape(&rule.title),
+        escape(&rule.verdict_words())
     );
-    let _ = writeln!(
-        out,
-        "<p>requires <code>{}</code></p>",
-        escape(&o.rule.requirement)
-    );
-    for c in &o.rule.condition_texts {
-        let _ = writeln!(
-            out,
-            "<p>when <code>{}</code> ({})</p>",
-            escape(c),
-            applies_words(o)
-        );
-    }
-    if !o.missing.is_empty() {
-        let _ = writeln!(out, "<p>missing: {}</p>", escape(&o.missing.join(", ")));
-    }
-    if let Some(c) = o.checked.as_ref().filter(|c| c.is_finite()) {
-        if let Some(observed) = &c.observed {
-            let _ = writeln!(out, "<p>found <code>{}</code></p>", escape(observed));
+    let mut numbers: Vec<String> = Vec::new();
+    for line in rule.lines(v) {
+        if let Line::Fact(f) = &line
+            && NUMBERS.contains(&f.label)
+        {
+            numbers.push(fact_html(f));
+            continue;
         }
-        if let Some(n) = &c.numeric {
-            numbers(out, n);
+        if !numbers.is_empty() {
+            let _ = writeln!(out, "<p class=\"numbers\">{}</p>", numbers.join(" · "));
+            numbers.clear();
+        }
+        match line {
+            Line::Fact(f) => {
+                let _ = writeln!(out, "<p>{}</p>", fact_html(&f));
+            }
+            Line::Scale(n) => out.push_str(&scale(n)),
+            Line::Trace(trace) => trace_list(out, &trace),
         }
     }
-    trace(out, o, r);
-    if let Some(p) = o.penalty() {
-        let _ = writeln!(out, "<p>penalty: {}</p>", escape(p));
+    if !numbers.is_empty() {
+        let _ = writeln!(out, "<p class=\"numbers\">{}</p>", numbers.join(" · "));
     }
     out.push_str("</section>\n");
 }
 
-fn applies_words(o: &Outcome) -> &'static str {
-    match o.applies {
-        crate::evaluate::outcome::Applies::DoesNotHold => "does not hold",
-        crate::evaluate::outcome::Applies::Uncertain => "uncertain: inside the uncertainty band",
-        _ => "holds",
+fn trace_list(out: &mut String, trace: &[TraceLine]) {
+    out.push_str("<ul class=\"trace\">\n");
+    for t in trace {
+        let result = t
+            .result()
+            .map(|r| format!("<br>{}", escape(&r)))
+            .unwrap_or_default();
+        let _ = writeln!(out, "<li>{}{result}</li>", escape(&t.words()));
     }
+    out.push_str("</ul>\n");
 }
 
-fn numbers(out: &mut String, n: &Numeric) {
-    let at = n
-        .cylinder
-        .map(|c| format!(" (cylinder {c})"))
-        .unwrap_or_default();
-    let side = if n.margin >= 0.0 { "inside" } else { "outside" };
-    let _ = writeln!(
-        out,
-        "<table class=\"numbers\"><tr><td>value {}{at}</td><td>limit {}</td><td>margin {} {side}</td><td>U = {} (k = {})</td><td>conformance probability {}</td></tr></table>",
-        escape(&quantity(n.value, n.unit)),
-        escape(&quantity(n.limit, n.unit)),
-        escape(&quantity(n.margin.abs(), n.unit)),
-        escape(&uncertainty_in(n.expanded, n.unit)),
-        n.k,
-        escape(&probability(n.probability, n.expanded > 0.0))
-    );
-    out.push_str(&scale(n));
+/// The facts a sheet sets on one line, before the scale.
+const NUMBERS: [&str; 5] = [
+    "value",
+    "limit",
+    "limits",
+    "margin",
+    "conformance probability",
+];
+
+/// `<span class="label">requires</span> <code>bore &lt;= 4.030 in</code>`.
+fn fact_html(f: &Fact) -> String {
+    let mut html = format!("<span class=\"label\">{}</span>", escape(f.label));
+    if let Some(code) = &f.code {
+        let _ = write!(html, " <code>{}</code>", escape(code));
+    }
+    if !f.text.is_empty() {
+        let _ = write!(html, " {}", escape(&f.text));
+    }
+    html
 }
 
 /// The SVG scale: an axis around the limit(s) and the value, the guard band of ±U around each
 /// limit, each limit as a tall tick, and the value as a dot with its ±U bar, all labelled.
-pub fn scale(n: &Numeric) -> String {
-    let limits: Vec<f64> = match n.range {
-        Some((low, high)) => vec![low, high],
-        None => vec![n.limit],
+pub fn scale(n: &NumberView) -> String {
+    let limits: Vec<(f64, &str)> = match (n.range, &n.shown.range) {
+        (Some([low, high]), Some([low_shown, high_shown])) => {
+            vec![(low, low_shown.as_str()), (high, high_shown.as_str())]
+        }
+        _ => vec![(n.limit, n.shown.limit.as_str())],
     };
-    let u = n.expanded;
+    let u = n.expanded_uncertainty;
     let points: Vec<f64> = limits
         .iter()
-        .flat_map(|l| [l - u, l + u])
+        .flat_map(|(l, _)| [l - u, l + u])
         .chain([n.value - u, n.value + u, n.value])
         .collect();
     let (mut lo, mut hi) = (
@@ -226,7 +219,7 @@ pub fn scale(n: &Numeric) -> String {
         svg,
         "<line x1=\"{left}\" y1=\"30\" x2=\"{right}\" y2=\"30\" stroke=\"#555\" stroke-width=\"1\"/>"
     );
-    for l in &limits {
+    for (l, shown) in &limits {
         let (a, b) = (x(l - u), x(l + u));
         let _ = write!(
             svg,
@@ -242,7 +235,7 @@ pub fn scale(n: &Numeric) -> String {
             svg,
             "<text x=\"{:.1}\" y=\"11\" font-size=\"10\" text-anchor=\"middle\">limit {}</text>",
             x(*l),
-            escape(&quantity(*l, n.unit))
+            escape(shown)
         );
     }
     let (a, b, v) = (x(n.value - u), x(n.value + u), x(n.value));
@@ -261,53 +254,8 @@ pub fn scale(n: &Numeric) -> String {
     let _ = write!(
         svg,
         "<text x=\"{v:.1}\" y=\"53\" font-size=\"10\" text-anchor=\"middle\">value {}</text>",
-        escape(&quantity(n.value, n.unit))
+        escape(&n.shown.value)
     );
     svg.push_str("</svg>\n");
     svg
-}
-
-fn trace(out: &mut String, o: &Outcome, r: &EngineReport) {
-    if o.trace.is_empty() {
-        return;
-    }
-    out.push_str("<ul class=\"trace\">\n");
-    for t in &o.trace {
-        let _ = writeln!(out, "<li>{}</li>", escape(&trace_line(t, r)));
-    }
-    out.push_str("</ul>\n");
-}
-
-/// One line of a trace in words: an input with its uncertainty and origin, a text value, a
-/// derived value with its formula and result, or a missing measurement.
-pub fn trace_line(t: &Trace, r: &EngineReport) -> String {
-    match t {
-        Trace::Input(id) => {
-            let i = r.input(*id);
-            let unit = i.unit.and_then(crate::units::lookup);
-            format!(
-                "{} = {} (u {}) — {}",
-                i.label(r.rulebook),
-                quantity(i.value, unit),
-                uncertainty_in(i.standard_uncertainty, unit),
-                i.origin(r.rulebook)
-            )
-        }
-        Trace::Text { name, value, place } => {
-            format!("{name} = “{value}” — {}.{name}", place.key())
-        }
-        Trace::Derived {
-            derived, values, ..
-        } => {
-            let unit = super::json::derived_unit(derived);
-            let shown: Vec<String> = values.iter().map(|v| quantity(*v, unit)).collect();
-            format!(
-                "{} = {} = {}",
-                derived.name,
-                derived.formula,
-                shown.join(", ")
-            )
-        }
-        Trace::Missing { name } => format!("{name}: missing"),
-    }
 }

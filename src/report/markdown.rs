@@ -1,116 +1,95 @@
 //! The Markdown report of `check --format markdown`: the tech sheet's content for a wiki, a
 //! bulletin or an email — identity, result, each rule with its verdict (word and symbol),
-//! numbers and trace, and the signature lines.
+//! facts and trace, and the signature lines. A layout of the [`EngineView`]; the words are
+//! the view's.
 
 use std::fmt::Write;
 
-use super::format::{probability, quantity, uncertainty_in};
-use super::html::trace_line;
-use crate::evaluate::outcome::{EngineReport, Outcome};
+use super::view::{EngineView, Fact, Line, RuleView};
+use crate::evaluate::outcome::EngineReport;
 
 /// The report for one or more engines.
 pub fn document(reports: &[EngineReport]) -> String {
-    reports
+    let views: Vec<EngineView> = reports.iter().map(EngineView::new).collect();
+    document_of(&views)
+}
+
+/// The report for one or more engines' views.
+pub fn document_of(views: &[EngineView]) -> String {
+    views
         .iter()
         .map(engine)
         .collect::<Vec<_>>()
         .join("\n---\n\n")
 }
 
-fn engine(r: &EngineReport) -> String {
+fn engine(v: &EngineView) -> String {
     let mut out = String::new();
-    let id = &r.declaration.identity;
+    let _ = writeln!(out, "# {}\n", v.heading);
     let _ = writeln!(
         out,
-        "# {}
-",
-        r.heading()
+        "| engine | car | event | date | measured by | decision rule | rules in force | declaration |"
     );
+    let _ = writeln!(out, "|---|---|---|---|---|---|---|---|");
+    let dash = |v: &Option<String>| v.clone().unwrap_or_else(|| "—".to_string());
     let _ = writeln!(
         out,
-        "| engine | car | event | date | measured by | decision rule | bulletins |"
+        "| {} | {} | {} | {} | {} | {} | {} | {} |\n",
+        dash(&v.engine),
+        dash(&v.car),
+        dash(&v.event),
+        dash(&v.date),
+        dash(&v.measured_by),
+        v.decision_words(),
+        v.rules_in_force(),
+        v.file
     );
-    let _ = writeln!(out, "|---|---|---|---|---|---|---|");
-    let dash = |v: Option<String>| v.unwrap_or_else(|| "—".to_string());
-    let bulletins = if r.bulletins.is_empty() {
-        "none".to_string()
-    } else {
-        r.bulletins.join(", ")
-    };
-    let _ = writeln!(
-        out,
-        "| {} | {} | {} | {} | {} | {} | {bulletins} |\n",
-        dash(id.engine.clone()),
-        dash(id.car.clone()),
-        dash(id.event.clone()),
-        dash(id.date.map(|d| d.to_string())),
-        dash(id.measured_by.clone()),
-        r.decision.words()
-    );
-    let [legal, illegal, unchecked, not_applicable] = r.counts();
-    let (mark, words) = r.result();
-    let result = format!("{mark} {words}");
-    let _ = writeln!(
-        out,
-        "**{result}** — {legal} legal, {illegal} illegal, {unchecked} not checked, {not_applicable} not applicable; {} conditional\n",
-        r.conditional_count()
-    );
-    for o in &r.outcomes {
-        rule(&mut out, o, r);
+    let _ = writeln!(out, "**{} {}**\n", v.result.mark(), v.result_words());
+    for rule in &v.rules {
+        rule_lines(&mut out, rule, v);
     }
     out.push_str("Inspector: ____________________  signature ____________  time ______\n\n");
     out.push_str("Competitor: ____________________  signature ____________  time ______\n");
     out
 }
 
-fn rule(out: &mut String, o: &Outcome, r: &EngineReport) {
-    let mark = o.mark();
-    let finding = o
-        .checked
-        .as_ref()
-        .map(|c| format!(" · {}", c.finding.words()))
-        .unwrap_or_default();
+fn rule_lines(out: &mut String, rule: &RuleView, v: &EngineView) {
     let _ = writeln!(
         out,
-        "## {mark} {} {} — {}{finding}\n",
-        o.section(),
-        o.title(),
-        o.verdict.words()
+        "## {} {} {} — {}\n",
+        rule.mark,
+        rule.section,
+        rule.title,
+        rule.verdict_words()
     );
-    let _ = writeln!(out, "requires `{}`", o.rule.requirement);
-    for c in &o.rule.condition_texts {
-        let _ = writeln!(out, "\nwhen `{c}`");
-    }
-    if !o.missing.is_empty() {
-        let _ = writeln!(out, "\nmissing: {}", o.missing.join(", "));
-    }
-    if let Some(c) = o.checked.as_ref().filter(|c| c.is_finite()) {
-        if let Some(observed) = &c.observed {
-            let _ = writeln!(out, "\nfound `{observed}`");
-        }
-        if let Some(n) = &c.numeric {
-            let at = n
-                .cylinder
-                .map(|c| format!(" (cylinder {c})"))
-                .unwrap_or_default();
-            let side = if n.margin >= 0.0 { "inside" } else { "outside" };
-            let _ = writeln!(
-                out,
-                "\nvalue {}{at} · limit {} · margin {} {side} · U = {} (k = {}) · conformance probability {}",
-                quantity(n.value, n.unit),
-                quantity(n.limit, n.unit),
-                quantity(n.margin.abs(), n.unit),
-                uncertainty_in(n.expanded, n.unit),
-                n.k,
-                probability(n.probability, n.expanded > 0.0)
-            );
-        }
-    }
-    if !o.trace.is_empty() {
-        out.push('\n');
-        for t in &o.trace {
-            let _ = writeln!(out, "- {}", trace_line(t, r));
+    for line in rule.lines(v) {
+        match line {
+            Line::Fact(f) => {
+                let _ = writeln!(out, "- {}", fact(&f));
+            }
+            Line::Scale(_) => {}
+            Line::Trace(trace) => {
+                out.push_str("- trace\n");
+                for t in trace {
+                    let _ = writeln!(out, "  - {}", t.words());
+                    if let Some(result) = t.result() {
+                        let _ = writeln!(out, "    {result}");
+                    }
+                }
+            }
         }
     }
     out.push('\n');
+}
+
+/// `requires `bore <= 4.030 in``, `value 4.0306 in (cylinder 4, ...)`.
+fn fact(f: &Fact) -> String {
+    let mut text = f.label.to_string();
+    if let Some(code) = &f.code {
+        let _ = write!(text, " `{code}`");
+    }
+    if !f.text.is_empty() {
+        let _ = write!(text, " {}", f.text);
+    }
+    text
 }

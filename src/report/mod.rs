@@ -1,4 +1,5 @@
-//! Reports: the same evaluated data rendered as text for people and as JSON for programs.
+//! Reports: the evaluated engine as one [`view::EngineView`], laid out as text, Markdown and
+//! HTML for people and serialised as JSON for programs; and the reports of the other commands.
 
 pub mod diff;
 pub mod explain;
@@ -10,3 +11,4 @@ pub mod json;
 pub mod markdown;
 pub mod sheet;
 pub mod text;
+pub mod view;

@@ -1,0 +1,1070 @@
+//! One view of an evaluated engine, in display units: everything a report says about it —
+//! identity, heading, the rules in force, each rule's verdict, finding, numbers converted to
+//! the unit shown with the digits to show, note, penalty, source and trace, the closest call,
+//! the result and the counts — built once from an [`EngineReport`]. Text, Markdown and HTML
+//! lay the view out ([`RuleView::lines`] gives every rule's facts in order and in words);
+//! JSON serialises it. The wording of every fact lives in this file.
+//!
+//! Each engine lists the inputs its rules read once ([`EngineView::inputs`], with ids), and
+//! each derived value once ([`EngineView::derived`]); a rule's trace refers to them by id.
+
+use std::collections::HashMap;
+
+use serde::Serialize;
+
+use super::format::{probability, quantity, uncertainty_in};
+use crate::check::model::{Derived, Origin, ValueKind};
+use crate::evaluate::dual::InputId;
+use crate::evaluate::finding::{Finding, Verdict};
+use crate::evaluate::outcome::{Applies, EngineReport, EngineResult, Numeric, Outcome, Trace};
+use crate::load::{Input, InputName, UncertaintySource};
+use crate::units::{self, Unit};
+
+/// One engine checked against one class, as every report shows it.
+#[derive(Clone, Debug, Serialize)]
+pub struct EngineView {
+    /// The declaration file.
+    pub file: String,
+    /// Engine or seal number.
+    pub engine: Option<String>,
+    /// Car number.
+    pub car: Option<String>,
+    /// The event.
+    pub event: Option<String>,
+    /// The date of the inspection.
+    pub date: Option<String>,
+    /// Who measured.
+    pub measured_by: Option<String>,
+    /// The series.
+    pub series: String,
+    /// The edition.
+    pub edition: String,
+    /// The edition's effective date.
+    pub effective: String,
+    /// The class checked against.
+    pub class: String,
+    /// Its title.
+    pub class_title: Option<String>,
+    /// `Series — edition 2027 — class limited2 “Limited Two-Barrel”`.
+    pub heading: String,
+    /// The bulletins in force on the declaration's date, by id.
+    pub bulletins: Vec<String>,
+    /// The decision rule applied, in the rulebook's words.
+    pub decision: &'static str,
+    /// Where the decision rule came from.
+    pub decision_from: DecisionFrom,
+    /// The engine's result.
+    pub result: EngineResult,
+    /// The exit status its result calls for.
+    pub exit_status: u8,
+    /// How many rules got each verdict, and how many calls are conditional.
+    pub counts: Counts,
+    /// The rule that decided the result, or the closest to its limit.
+    pub closest_call: Option<ClosestCall>,
+    /// Every input a rule reads, once.
+    pub inputs: Vec<InputView>,
+    /// Every derived value a rule reads, once.
+    pub derived: Vec<DerivedView>,
+    /// Each rule, in rulebook order.
+    pub rules: Vec<RuleView>,
+}
+
+/// Where the decision rule came from.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
+pub enum DecisionFrom {
+    /// The rulebook's `decision`.
+    #[serde(rename = "rulebook")]
+    Rulebook,
+    /// `--as` on the command line.
+    #[serde(rename = "command line")]
+    CommandLine,
+}
+
+impl DecisionFrom {
+    /// `the rulebook's`, `from the command line`.
+    pub fn words(self) -> &'static str {
+        match self {
+            DecisionFrom::Rulebook => "the rulebook's",
+            DecisionFrom::CommandLine => "from the command line",
+        }
+    }
+}
+
+/// How many rules got each verdict, and how many calls are conditional.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
+pub struct Counts {
+    /// Legal.
+    pub legal: usize,
+    /// Illegal.
+    pub illegal: usize,
+    /// Not checked.
+    pub not_checked: usize,
+    /// Not applicable.
+    pub not_applicable: usize,
+    /// Conditional findings or uncertain conditions, any verdict.
+    pub conditional: usize,
+}
+
+impl Counts {
+    /// `18 legal, 0 illegal, 0 not checked, 2 not applicable; 0 conditional`.
+    pub fn words(&self) -> String {
+        format!(
+            "{} legal, {} illegal, {} not checked, {} not applicable; {} conditional",
+            self.legal, self.illegal, self.not_checked, self.not_applicable, self.conditional
+        )
+    }
+}
+
+/// The rule that decided an engine's result: the first illegal one, else the first not
+/// checked, else the one with the least probability of conformance.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct ClosestCall {
+    /// The rule's section.
+    pub section: String,
+    /// Its title.
+    pub title: String,
+    /// Its call in words: `fail`, `not checked`, `conditional pass, p 84.13 %`.
+    pub call: String,
+}
+
+impl ClosestCall {
+    /// `3.2 Bore, every cylinder (conditional pass, p 84.13 %)`.
+    pub fn words(&self) -> String {
+        format!("{} {} ({})", self.section, self.title, self.call)
+    }
+}
+
+/// One input of an engine: a measured value (each cylinder its own), a text measurement, or a
+/// rulebook literal with a stated uncertainty.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct InputView {
+    /// Its id within the engine: its position in [`EngineView::inputs`].
+    pub id: usize,
+    /// `bore[3]`, `stroke`, `carburetor.part`, or the literal as written.
+    pub label: String,
+    /// Where it was written: `measurements.bore[3]`, `components.carburetor.part`, `rulebook`.
+    pub origin: String,
+    /// The cylinder, counting from 1, for per-cylinder values (named in the label).
+    #[serde(skip)]
+    pub cylinder: Option<usize>,
+    /// The measurement's position in the schema (cylinders of one measurement share it).
+    #[serde(skip)]
+    pub measurement: Option<usize>,
+    /// The value.
+    #[serde(flatten)]
+    pub value: InputValue,
+}
+
+/// An input's value.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+#[serde(tag = "kind", rename_all = "snake_case")]
+pub enum InputValue {
+    /// A number, in the unit it was written in.
+    Number {
+        /// The value as written, unit included (`4.100 in`), without a stated `± U`.
+        written: String,
+        /// The unit it was written in.
+        unit: Option<&'static str>,
+        /// The value in that unit.
+        value: f64,
+        /// Its standard uncertainty in that unit.
+        standard_uncertainty: f64,
+        /// Where the uncertainty comes from.
+        uncertainty_from: UncertaintyFrom,
+        /// The uncertainty in words: `u 0.000029 in (bore_gauge)`, `no uncertainty stated`
+        /// (the reports' words; not in the JSON, which has the number and its source).
+        #[serde(skip)]
+        uncertainty_shown: String,
+    },
+    /// A text measurement.
+    Text {
+        /// The text.
+        value: String,
+    },
+}
+
+/// Where an input's uncertainty comes from: `"none"`, `"rulebook"`, `{"instrument": NAME}`
+/// or `{"stated": {"k": K}}`.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum UncertaintyFrom {
+    /// None stated: the value is taken as exact.
+    None,
+    /// Written with the value, at coverage factor `k`.
+    Stated {
+        /// The coverage factor.
+        k: f64,
+    },
+    /// A named instrument of the declaration.
+    Instrument(String),
+    /// A literal in the rulebook.
+    Rulebook,
+}
+
+/// A derived value of the rulebook, with its value(s) for this engine.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct DerivedView {
+    /// Its id within the engine: its position in [`EngineView::derived`].
+    pub id: usize,
+    /// Its name.
+    pub name: String,
+    /// Its expression in the rulebook's canonical words.
+    pub formula: String,
+    /// The unit its values are given in.
+    pub unit: Option<&'static str>,
+    /// Its value(s) in that unit, one per cylinder where per cylinder.
+    pub values: Vec<f64>,
+    /// The combined standard uncertainty of each.
+    pub standard_uncertainties: Vec<f64>,
+    /// The values in words: `355.221 ci (u 0.03 ci)`, or `not computed` (the reports'
+    /// words; not in the JSON).
+    #[serde(skip)]
+    pub shown: String,
+}
+
+/// Where a rule comes from.
+#[derive(Clone, Debug, PartialEq, Eq, Serialize)]
+#[serde(tag = "kind", content = "name", rename_all = "snake_case")]
+pub enum Source {
+    /// Written in this class or one it extends (the class named).
+    Class(String),
+    /// Added or replaced by a bulletin (its id).
+    Bulletin(String),
+}
+
+impl Source {
+    /// `class limited2`, `bulletin TVB-27-04`.
+    pub fn words(&self) -> String {
+        match self {
+            Source::Class(c) => format!("class {c}"),
+            Source::Bulletin(b) => format!("bulletin {b}"),
+        }
+    }
+}
+
+/// A numeric limit checked, in the unit the rulebook wrote the limit in.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct NumberView {
+    /// The unit (`None`: a plain number).
+    pub unit: Option<&'static str>,
+    /// The value tested (at the deciding cylinder).
+    pub value: f64,
+    /// The limit in force, allowance included; for `between`, the nearer limit.
+    pub limit: f64,
+    /// Both limits of a `between`, allowance included.
+    pub range: Option<[f64; 2]>,
+    /// Distance inside the limit (negative outside).
+    pub margin: f64,
+    /// Expanded uncertainty of the margin, U = k·u.
+    pub expanded_uncertainty: f64,
+    /// The coverage factor k.
+    pub coverage_factor: f64,
+    /// Probability of conformance, 0 to 1.
+    pub probability_of_conformance: f64,
+    /// The deciding cylinder (1-based), for per-cylinder values.
+    pub cylinder: Option<usize>,
+    /// The same numbers with the digits to show (the reports' words; not in the JSON).
+    #[serde(skip)]
+    pub shown: NumberShown,
+}
+
+/// A numeric limit's numbers in words, with the digits to show.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct NumberShown {
+    /// `4.0306 in`.
+    pub value: String,
+    /// `4.035 in`.
+    pub limit: String,
+    /// `3.47 in`, `3.49 in` for a `between`.
+    pub range: Option<[String; 2]>,
+    /// `0.0044 in inside`.
+    pub margin: String,
+    /// `0.000058 in`.
+    pub expanded_uncertainty: String,
+    /// `≥ 99.99 %`.
+    pub probability_of_conformance: String,
+}
+
+/// One rule's outcome. `section`, `verdict`, `finding`, `applies`, `numeric` and `missing`
+/// keep their names and places of schema `gonogo.check/1`.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct RuleView {
+    /// The section number.
+    pub section: String,
+    /// The title.
+    pub title: String,
+    /// The verdict under the decision rule in force.
+    pub verdict: Verdict,
+    /// The finding, when the rule was checked.
+    pub finding: Option<Finding>,
+    /// Whether its conditions hold.
+    pub applies: Applies,
+    /// True when the call is not certain: a conditional finding, an uncertain condition, or a
+    /// rule not checked.
+    pub uncertain: bool,
+    /// The verdict's symbol.
+    #[serde(skip)]
+    pub mark: &'static str,
+    /// The requirement in the rulebook's words.
+    pub requirement: String,
+    /// Each condition in the rulebook's words.
+    pub conditions: Vec<String>,
+    /// Where the rule comes from.
+    pub source: Source,
+    /// Its penalty class.
+    pub penalty: Option<String>,
+    /// Its note.
+    pub note: Option<String>,
+    /// For numeric limits, the numbers behind the finding.
+    pub numeric: Option<NumberView>,
+    /// For text, membership and equality tests, the value seen.
+    pub observed: Option<String>,
+    /// Measurements it needs that are missing.
+    pub missing: Vec<String>,
+    /// True when the value it tests could not be computed as a finite number.
+    pub not_finite: bool,
+    /// Why the rule could not be evaluated when that is gonogo's own mistake, not the input's.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub internal_error: Option<String>,
+    /// True when it was checked and every number behind the finding is finite, so the
+    /// finding's numbers are shown.
+    #[serde(skip)]
+    pub shows_finding: bool,
+    /// Every input and derived value it reads, by id.
+    pub trace: Vec<TraceRef>,
+}
+
+/// One line of a rule's trace: `{"input": ID}`, `{"derived": ID}` or `{"missing": NAME}`.
+#[derive(Clone, Debug, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum TraceRef {
+    /// [`EngineView::inputs`]`[id]`.
+    Input(usize),
+    /// [`EngineView::derived`]`[id]`.
+    Derived(usize),
+    /// A measurement the declaration does not give.
+    Missing(String),
+}
+
+/// One fact of a rule as a report states it: a label, what it is about in the rulebook's or
+/// declaration's own words (set as code where a format can), and words.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Fact {
+    /// `requires`, `when`, `value`, `note`...
+    pub label: &'static str,
+    /// Text written in the rulebook or declaration.
+    pub code: Option<String>,
+    /// Words.
+    pub text: String,
+}
+
+/// One entry of a rule's report, in order.
+#[derive(Clone, Debug, PartialEq)]
+pub enum Line<'v> {
+    /// A labelled fact.
+    Fact(Fact),
+    /// Where a graphic format draws the scale of value against limit.
+    Scale(&'v NumberView),
+    /// The trace.
+    Trace(Vec<TraceLine<'v>>),
+}
+
+/// One line of a trace in words.
+#[derive(Clone, Debug, PartialEq)]
+pub enum TraceLine<'v> {
+    /// An input, or the cylinders of one measurement that share a unit and uncertainty.
+    Values {
+        /// `bore`, `bore[3]`, `carburetor.part`.
+        label: String,
+        /// The values as written: `4.0302, 4.0305 in`, `"TVC-350-2"`.
+        values: String,
+        /// The uncertainty in words, for numbers.
+        uncertainty: Option<String>,
+        /// Where it was written.
+        origin: String,
+    },
+    /// A derived value.
+    Derived(&'v DerivedView),
+    /// A measurement the declaration does not give.
+    Missing(&'v str),
+}
+
+impl TraceLine<'_> {
+    /// The line in words: `bore = 4.0302, 4.0305 in  u 0.000029 in (bore_gauge)
+    /// [measurements.bore]`; for a derived value, its name and formula (its values are
+    /// [`TraceLine::result`]).
+    pub fn words(&self) -> String {
+        match self {
+            TraceLine::Values {
+                label,
+                values,
+                uncertainty: Some(u),
+                origin,
+            } => format!("{label} = {values}  {u}  [{origin}]"),
+            TraceLine::Values {
+                label,
+                values,
+                uncertainty: None,
+                origin,
+            } => format!("{label} = {values}  [{origin}]"),
+            TraceLine::Derived(d) => format!("{} = {}", d.name, d.formula),
+            TraceLine::Missing(name) => format!("{name}: missing"),
+        }
+    }
+
+    /// A derived value's values: `= 355.221 ci (u 0.03 ci)`.
+    pub fn result(&self) -> Option<String> {
+        match self {
+            TraceLine::Derived(d) => Some(format!("= {}", d.shown)),
+            _ => None,
+        }
+    }
+}
+
+impl EngineView {
+    /// The view of one evaluated engine.
+    pub fn new(r: &EngineReport) -> EngineView {
+        let mut book = Book::default();
+        let rules = r
+            .outcomes
+            .iter()
+            .map(|o| RuleView::new(o, r, &mut book))
+            .collect();
+        let [legal, illegal, not_checked, not_applicable] = r.counts();
+        let id = &r.declaration.identity;
+        let result = r.result();
+        EngineView {
+            file: r.declaration.path.display().to_string(),
+            engine: id.engine.clone(),
+            car: id.car.clone(),
+            event: id.event.clone(),
+            date: id.date.map(|d| d.to_string()),
+            measured_by: id.measured_by.clone(),
+            series: r.rulebook.series.clone(),
+            edition: r.rulebook.edition.clone(),
+            effective: r.rulebook.effective.to_string(),
+            class: r.class.name.clone(),
+            class_title: r.class.title.clone(),
+            heading: r.heading(),
+            bulletins: r.bulletins.to_vec(),
+            decision: r.decision.words(),
+            decision_from: if r.decision_overridden {
+                DecisionFrom::CommandLine
+            } else {
+                DecisionFrom::Rulebook
+            },
+            result,
+            exit_status: crate::exit::Exit::from(result) as u8,
+            counts: Counts {
+                legal,
+                illegal,
+                not_checked,
+                not_applicable,
+                conditional: r.conditional_count(),
+            },
+            closest_call: closest_call(r),
+            inputs: book.inputs,
+            derived: book.derived,
+            rules,
+        }
+    }
+
+    /// `edition 2027 (from 2027-03-06) with bulletin TVB-27-04`, and a word when the
+    /// declaration has no date.
+    pub fn rules_in_force(&self) -> String {
+        let edition = format!("edition {} (from {})", self.edition, self.effective);
+        let bulletins = match self.bulletins.as_slice() {
+            [] => String::new(),
+            [one] => format!(" with bulletin {one}"),
+            many => format!(" with bulletins {}", many.join(", ")),
+        };
+        let undated = if self.date.is_none() {
+            "; the declaration has no date, so no bulletin is applied"
+        } else {
+            ""
+        };
+        format!("{edition}{bulletins}{undated}")
+    }
+
+    /// `guarded rejection (the rulebook's)`.
+    pub fn decision_words(&self) -> String {
+        format!("{} ({})", self.decision, self.decision_from.words())
+    }
+
+    /// `LEGAL — 18 legal, 0 illegal, ...; 0 conditional`.
+    pub fn result_words(&self) -> String {
+        format!("{} — {}", self.result.words(), self.counts.words())
+    }
+
+    /// The engine or seal number, else the declaration file.
+    pub fn name(&self) -> &str {
+        self.engine.as_deref().unwrap_or(&self.file)
+    }
+
+    /// Where a rule comes from, when the report names it: a bulletin, or a class other than
+    /// the one checked (the heading names that one).
+    pub fn shown_source<'v>(&self, rule: &'v RuleView) -> Option<&'v Source> {
+        match &rule.source {
+            Source::Class(c) if *c == self.class => None,
+            source => Some(source),
+        }
+    }
+
+    /// A rule's trace in words, the cylinders of one measurement sharing a line where their
+    /// unit and uncertainty agree.
+    pub fn trace_lines<'v>(&'v self, rule: &'v RuleView) -> Vec<TraceLine<'v>> {
+        let mut lines = Vec::new();
+        let mut rest = rule.trace.as_slice();
+        while let Some(first) = rest.first() {
+            let run = self.cylinder_run(rest);
+            if run > 1 {
+                lines.extend(self.cylinder_line(&rest[..run]));
+            } else {
+                lines.extend(self.trace_line(first));
+            }
+            rest = &rest[run.max(1)..];
+        }
+        lines
+    }
+
+    fn input(&self, t: &TraceRef) -> Option<&InputView> {
+        match t {
+            TraceRef::Input(id) => self.inputs.get(*id),
+            _ => None,
+        }
+    }
+
+    /// How many trace lines from the start are cylinders of one measurement, all with the
+    /// same unit and uncertainty.
+    fn cylinder_run(&self, trace: &[TraceRef]) -> usize {
+        let key = |t: &TraceRef| {
+            let i = self.input(t)?;
+            i.cylinder?;
+            match &i.value {
+                InputValue::Number {
+                    unit,
+                    standard_uncertainty,
+                    uncertainty_from,
+                    ..
+                } => Some((
+                    i.measurement,
+                    *unit,
+                    standard_uncertainty.to_bits(),
+                    uncertainty_from.clone(),
+                )),
+                InputValue::Text { .. } => None,
+            }
+        };
+        let Some(first) = trace.first().and_then(key) else {
+            return 0;
+        };
+        trace
+            .iter()
+            .take_while(|t| key(t).as_ref() == Some(&first))
+            .count()
+    }
+
+    /// `bore = 4.0302, 4.0305, ... in  u 0.000029 in (bore_gauge)  [measurements.bore]`
+    fn cylinder_line(&self, run: &[TraceRef]) -> Option<TraceLine<'_>> {
+        let inputs: Vec<&InputView> = run.iter().filter_map(|t| self.input(t)).collect();
+        let first = inputs.first()?;
+        let InputValue::Number {
+            unit,
+            uncertainty_shown,
+            ..
+        } = &first.value
+        else {
+            return None;
+        };
+        let values: Vec<&str> = inputs.iter().map(|i| i.bare_written()).collect();
+        let symbol = unit.map(|u| format!(" {u}")).unwrap_or_default();
+        let before_index = |s: &str| s.split_once('[').map_or(s, |(b, _)| b).to_string();
+        Some(TraceLine::Values {
+            label: before_index(&first.label),
+            values: format!("{}{symbol}", values.join(", ")),
+            uncertainty: Some(uncertainty_shown.clone()),
+            origin: before_index(&first.origin),
+        })
+    }
+
+    fn trace_line<'v>(&'v self, t: &'v TraceRef) -> Option<TraceLine<'v>> {
+        match t {
+            TraceRef::Input(id) => {
+                let input = self.inputs.get(*id)?;
+                let (values, uncertainty) = match &input.value {
+                    InputValue::Number {
+                        written,
+                        uncertainty_shown,
+                        ..
+                    } => (written.clone(), Some(uncertainty_shown.clone())),
+                    InputValue::Text { value } => (format!("\"{value}\""), None),
+                };
+                Some(TraceLine::Values {
+                    label: input.label.clone(),
+                    values,
+                    uncertainty,
+                    origin: input.origin.clone(),
+                })
+            }
+            TraceRef::Derived(id) => self.derived.get(*id).map(TraceLine::Derived),
+            TraceRef::Missing(name) => Some(TraceLine::Missing(name)),
+        }
+    }
+}
+
+impl InputView {
+    /// The value as written without its unit (`4.0302`), for a line of cylinders.
+    fn bare_written(&self) -> &str {
+        match &self.value {
+            InputValue::Number {
+                written,
+                unit: Some(u),
+                ..
+            } => written
+                .strip_suffix(u)
+                .map_or(written.as_str(), str::trim_end),
+            InputValue::Number { written, .. } => written,
+            InputValue::Text { value } => value,
+        }
+    }
+}
+
+impl RuleView {
+    fn new(o: &Outcome, r: &EngineReport, book: &mut Book) -> RuleView {
+        let checked = o.checked.as_ref();
+        RuleView {
+            section: o.section().to_string(),
+            title: o.title().to_string(),
+            verdict: o.verdict,
+            finding: checked.map(|c| c.finding),
+            applies: o.applies,
+            uncertain: o.is_uncertain(),
+            mark: o.mark(),
+            requirement: o.rule.requirement.clone(),
+            conditions: o.rule.condition_texts.clone(),
+            source: match &o.rule.origin {
+                Origin::Class(c) => Source::Class(c.clone()),
+                Origin::Bulletin(b) => Source::Bulletin(b.clone()),
+            },
+            penalty: o.penalty().map(str::to_string),
+            note: o.note().map(str::to_string),
+            numeric: checked.and_then(|c| c.numeric.as_ref()).map(number_view),
+            observed: checked.and_then(|c| c.observed.clone()),
+            missing: o.missing.clone(),
+            not_finite: o.not_finite,
+            internal_error: o.error.clone(),
+            shows_finding: checked.is_some_and(|c| c.is_finite()),
+            trace: o.trace.iter().map(|t| book.trace(t, r)).collect(),
+        }
+    }
+
+    /// `✓ 3.1  Displacement — LEGAL · pass` without the mark and layout: the title, the
+    /// verdict and the finding in words.
+    pub fn verdict_words(&self) -> String {
+        let finding = self
+            .finding
+            .map(|f| format!(" · {}", f.words()))
+            .unwrap_or_default();
+        format!("{}{finding}", self.verdict.words())
+    }
+
+    /// The state of the rule's conditions: `holds`, `does not hold`, or uncertain.
+    pub fn condition_state(&self) -> &'static str {
+        match self.applies {
+            Applies::DoesNotHold => "does not hold",
+            Applies::Uncertain => "uncertain: inside the uncertainty band",
+            Applies::Always | Applies::Holds => "holds",
+        }
+    }
+
+    /// What an uncertain condition means for the verdict, when it matters.
+    pub fn doubt(&self) -> Option<&'static str> {
+        if self.applies != Applies::Uncertain || !self.shows_finding {
+            return None;
+        }
+        Some(
+            if self.verdict == Verdict::Legal && self.finding != Some(Finding::Pass) {
+                "the rule is not met if its condition holds; an uncertain condition cannot prove a violation"
+            } else {
+                "judged as if the condition holds"
+            },
+        )
+    }
+
+    /// Every fact of the rule in order and in words; the formats lay them out.
+    pub fn lines<'v>(&'v self, engine: &'v EngineView) -> Vec<Line<'v>> {
+        let fact = |label, code: Option<&str>, text: String| {
+            Line::Fact(Fact {
+                label,
+                code: code.map(str::to_string),
+                text,
+            })
+        };
+        let mut lines = vec![fact("requires", Some(&self.requirement), String::new())];
+        for c in &self.conditions {
+            let state = format!("({})", self.condition_state());
+            lines.push(fact("when", Some(c), state));
+        }
+        if let Some(source) = engine.shown_source(self) {
+            lines.push(fact("from", None, source.words()));
+        }
+        if !self.missing.is_empty() {
+            let text = format!("{} (not in the declaration)", self.missing.join(", "));
+            lines.push(fact("missing", None, text));
+        }
+        if self.not_finite {
+            lines.push(fact("not computed", None, "the value tested is not a finite number (a division by zero or the root of a negative number); check the inputs in the trace".to_string()));
+        }
+        if let Some(error) = &self.internal_error {
+            let text = format!("{error} (a mistake in gonogo; please report it)");
+            lines.push(fact("not computed", None, text));
+        }
+        if self.shows_finding {
+            self.finding_lines(&mut lines);
+        }
+        if let Some(doubt) = self.doubt() {
+            lines.push(fact("doubt", None, doubt.to_string()));
+        }
+        let trace = engine.trace_lines(self);
+        if !trace.is_empty() {
+            lines.push(Line::Trace(trace));
+        }
+        if let Some(p) = &self.penalty {
+            lines.push(fact("penalty", None, p.clone()));
+        }
+        if let Some(n) = &self.note {
+            lines.push(fact("note", None, n.clone()));
+        }
+        lines
+    }
+
+    fn finding_lines<'v>(&'v self, lines: &mut Vec<Line<'v>>) {
+        let fact = |label, text: String| {
+            Line::Fact(Fact {
+                label,
+                code: None,
+                text,
+            })
+        };
+        if let Some(observed) = &self.observed {
+            lines.push(Line::Fact(Fact {
+                label: "found",
+                code: Some(observed.clone()),
+                text: String::new(),
+            }));
+        }
+        let Some(n) = &self.numeric else { return };
+        let s = &n.shown;
+        let at = n
+            .cylinder
+            .map(|i| format!(" (cylinder {i}, the closest to its limit)"))
+            .unwrap_or_default();
+        lines.push(fact("value", format!("{}{at}", s.value)));
+        lines.push(match &s.range {
+            Some([low, high]) => fact("limits", format!("{low} to {high}")),
+            None => fact("limit", s.limit.clone()),
+        });
+        lines.push(fact(
+            "margin",
+            format!(
+                "{}, expanded uncertainty U = {} (k = {})",
+                s.margin, s.expanded_uncertainty, n.coverage_factor
+            ),
+        ));
+        lines.push(fact(
+            "conformance probability",
+            s.probability_of_conformance.clone(),
+        ));
+        lines.push(Line::Scale(n));
+    }
+}
+
+fn number_view(n: &Numeric) -> NumberView {
+    let s = n.unit.map_or(1.0, |u| u.to_si);
+    let side = if n.margin >= 0.0 { "inside" } else { "outside" };
+    NumberView {
+        unit: n.unit.map(|u| u.symbol),
+        value: n.value / s,
+        limit: n.limit / s,
+        range: n.range.map(|(a, b)| [a / s, b / s]),
+        margin: n.margin / s,
+        expanded_uncertainty: n.expanded / s,
+        coverage_factor: n.k,
+        probability_of_conformance: n.probability,
+        cylinder: n.cylinder,
+        shown: NumberShown {
+            value: quantity(n.value, n.unit),
+            limit: quantity(n.limit, n.unit),
+            range: n
+                .range
+                .map(|(a, b)| [quantity(a, n.unit), quantity(b, n.unit)]),
+            margin: format!("{} {side}", quantity(n.margin.abs(), n.unit)),
+            expanded_uncertainty: uncertainty_in(n.expanded, n.unit),
+            probability_of_conformance: probability(n.probability, n.expanded > 0.0),
+        },
+    }
+}
+
+/// The engine's inputs and derived values, each entered once as the rules are viewed.
+#[derive(Default)]
+struct Book {
+    inputs: Vec<InputView>,
+    numbers: HashMap<InputId, usize>,
+    texts: HashMap<String, usize>,
+    derived: Vec<DerivedView>,
+}
+
+impl Book {
+    fn trace(&mut self, t: &Trace, r: &EngineReport) -> TraceRef {
+        match t {
+            Trace::Input(id) => TraceRef::Input(self.number(*id, r)),
+            Trace::Text { name, value, place } => {
+                let origin = format!("{}.{name}", place.key());
+                let next = self.inputs.len();
+                let id = *self.texts.entry(origin.clone()).or_insert(next);
+                if id == next {
+                    self.inputs.push(InputView {
+                        id,
+                        label: name.to_string(),
+                        origin,
+                        cylinder: None,
+                        measurement: None,
+                        value: InputValue::Text {
+                            value: value.to_string(),
+                        },
+                    });
+                }
+                TraceRef::Input(id)
+            }
+            Trace::Derived {
+                derived,
+                values,
+                uncertainties,
+            } => TraceRef::Derived(self.derived(derived, values, uncertainties)),
+            Trace::Missing { name } => TraceRef::Missing(name.to_string()),
+        }
+    }
+
+    fn number(&mut self, input_id: InputId, r: &EngineReport) -> usize {
+        if let Some(id) = self.numbers.get(&input_id) {
+            return *id;
+        }
+        let id = self.inputs.len();
+        self.inputs.push(input_view(id, r.input(input_id), r));
+        self.numbers.insert(input_id, id);
+        id
+    }
+
+    /// A derived value's id; one computed with other values elsewhere gets its own.
+    fn derived(&mut self, d: &Derived, values: &[f64], uncertainties: &[f64]) -> usize {
+        let unit = derived_unit(d);
+        let scale = unit.map_or(1.0, |u| u.to_si);
+        let view = DerivedView {
+            id: self.derived.len(),
+            name: d.name.clone(),
+            formula: d.formula.clone(),
+            unit: unit.map(|u| u.symbol),
+            values: values.iter().map(|v| v / scale).collect(),
+            standard_uncertainties: uncertainties.iter().map(|u| u / scale).collect(),
+            shown: derived_shown(values, uncertainties, unit),
+        };
+        let same = |e: &&DerivedView| {
+            e.name == view.name
+                && e.values == view.values
+                && e.standard_uncertainties == view.standard_uncertainties
+        };
+        if let Some(e) = self.derived.iter().find(same) {
+            return e.id;
+        }
+        self.derived.push(view);
+        self.derived.len() - 1
+    }
+}
+
+fn input_view(id: usize, input: &Input, r: &EngineReport) -> InputView {
+    let unit = input.unit.and_then(units::lookup);
+    let scale = unit.map_or(1.0, |u| u.to_si);
+    let (measurement, cylinder) = match input.name {
+        InputName::Measured {
+            measurement,
+            cylinder,
+            ..
+        } => (Some(measurement), cylinder),
+        InputName::Literal(_) => (None, None),
+    };
+    InputView {
+        id,
+        label: input.label(r.rulebook),
+        origin: input.origin(r.rulebook),
+        cylinder,
+        measurement,
+        value: InputValue::Number {
+            written: written(input, unit),
+            unit: unit.map(|u| u.symbol),
+            value: input.value / scale,
+            standard_uncertainty: input.standard_uncertainty / scale,
+            uncertainty_from: match &input.source {
+                UncertaintySource::None => UncertaintyFrom::None,
+                UncertaintySource::Stated { k } => UncertaintyFrom::Stated { k: *k },
+                UncertaintySource::Instrument(i) => UncertaintyFrom::Instrument(i.clone()),
+                UncertaintySource::Rulebook => UncertaintyFrom::Rulebook,
+            },
+            uncertainty_shown: uncertainty_words(input, unit),
+        },
+    }
+}
+
+/// The value as written, without a stated `± U`; formatted when it was not written as text.
+fn written(input: &Input, unit: Option<&Unit>) -> String {
+    let value = input.written.as_deref().map(|w| {
+        let end = w.find('±').or_else(|| w.find("+/-")).unwrap_or(w.len());
+        w[..end].trim()
+    });
+    match value {
+        Some(v) if !v.is_empty() => v.to_string(),
+        _ => quantity(input.value, unit),
+    }
+}
+
+fn uncertainty_words(input: &Input, unit: Option<&Unit>) -> String {
+    let u = uncertainty_in(input.standard_uncertainty, unit);
+    match &input.source {
+        UncertaintySource::None => "no uncertainty stated".to_string(),
+        UncertaintySource::Instrument(i) => format!("u {u} ({i})"),
+        UncertaintySource::Stated { k } => format!("u {u} (stated, k = {k})"),
+        UncertaintySource::Rulebook => format!("u {u} (rulebook)"),
+    }
+}
+
+fn derived_shown(values: &[f64], uncertainties: &[f64], unit: Option<&Unit>) -> String {
+    if values.is_empty() {
+        return "not computed".to_string();
+    }
+    values
+        .iter()
+        .zip(uncertainties)
+        .map(|(v, u)| format!("{} (u {})", quantity(*v, unit), uncertainty_in(*u, unit)))
+        .collect::<Vec<_>>()
+        .join(", ")
+}
+
+/// The unit a derived value is shown in.
+fn derived_unit(d: &Derived) -> Option<&'static Unit> {
+    match d.ty.kind {
+        ValueKind::Number(dim) => units::display_unit(dim),
+        ValueKind::Text => None,
+    }
+}
+
+/// The rule that decided an engine's result: the first illegal one, else the first not
+/// checked, else the one with the least probability of conformance (among certain passes,
+/// the least margin for its limit).
+pub fn closest_call(r: &EngineReport) -> Option<ClosestCall> {
+    let call = |o: &Outcome, call: String| ClosestCall {
+        section: o.section().to_string(),
+        title: o.title().to_string(),
+        call,
+    };
+    if let Some(o) = r.outcomes.iter().find(|o| o.verdict == Verdict::Illegal) {
+        let words = o
+            .checked
+            .as_ref()
+            .map_or(o.verdict.words(), |c| c.finding.words());
+        return Some(call(o, words.to_string()));
+    }
+    if let Some(o) = r.outcomes.iter().find(|o| o.verdict == Verdict::NotChecked) {
+        return Some(call(o, "not checked".to_string()));
+    }
+    let closeness = |n: &Numeric| {
+        (
+            n.probability,
+            n.margin / n.limit.abs().max(f64::MIN_POSITIVE),
+        )
+    };
+    r.outcomes
+        .iter()
+        .filter_map(|o| {
+            let c = o.checked.as_ref()?;
+            Some((o, c, c.numeric.as_ref()?))
+        })
+        .min_by(|a, b| {
+            closeness(a.2)
+                .partial_cmp(&closeness(b.2))
+                .unwrap_or(std::cmp::Ordering::Equal)
+        })
+        .map(|(o, c, n)| {
+            let p = probability(n.probability, n.expanded > 0.0);
+            call(o, format!("{}, p {p}", c.finding.words()))
+        })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn input(written: Option<&str>, value: f64, source: UncertaintySource) -> Input {
+        Input {
+            name: InputName::Literal("x".to_string()),
+            value,
+            standard_uncertainty: 0.0,
+            unit: Some("in"),
+            written: written.map(str::to_string),
+            source,
+        }
+    }
+
+    #[test]
+    fn a_value_is_shown_with_its_digits_as_written_and_without_its_stated_uncertainty() {
+        let inch = units::lookup("in");
+        let as_written = |w: &str| written(&input(Some(w), 0.0, UncertaintySource::None), inch);
+        assert_eq!(as_written("4.100 in"), "4.100 in");
+        assert_eq!(as_written("3.480 in ± 0.001 in"), "3.480 in");
+        assert_eq!(as_written("3.480 in +/- 0.002 in (k = 2)"), "3.480 in");
+        // 0.0254 m is 1 in exactly (NIST SP 811, B.8)
+        assert_eq!(
+            written(&input(None, 0.0254, UncertaintySource::None), inch),
+            "1 in"
+        );
+    }
+
+    #[test]
+    fn an_input_without_an_uncertainty_says_so() {
+        let inch = units::lookup("in");
+        let exact = input(Some("4.100 in"), 0.104_14, UncertaintySource::None);
+        assert_eq!(uncertainty_words(&exact, inch), "no uncertainty stated");
+        let gauged = input(
+            Some("4.100 in"),
+            0.104_14,
+            UncertaintySource::Instrument("bore_gauge".to_string()),
+        );
+        assert_eq!(uncertainty_words(&gauged, inch), "u 0 in (bore_gauge)");
+    }
+
+    #[test]
+    fn trace_lines_read_as_the_text_report_prints_them() {
+        let number = TraceLine::Values {
+            label: "gasket.bore".to_string(),
+            values: "4.100 in".to_string(),
+            uncertainty: Some("no uncertainty stated".to_string()),
+            origin: "measurements.gasket.bore".to_string(),
+        };
+        assert_eq!(
+            number.words(),
+            "gasket.bore = 4.100 in  no uncertainty stated  [measurements.gasket.bore]"
+        );
+        let text = TraceLine::Values {
+            label: "head.casting".to_string(),
+            values: "\"TVH-2204\"".to_string(),
+            uncertainty: None,
+            origin: "components.head.casting".to_string(),
+        };
+        assert_eq!(
+            text.words(),
+            "head.casting = \"TVH-2204\"  [components.head.casting]"
+        );
+        assert_eq!(
+            TraceLine::Missing("deck_clearance").words(),
+            "deck_clearance: missing"
+        );
+    }
+}
