@@ -49,6 +49,8 @@ class hobby "Hobby"
   rule 11 "Bore window" require bore between 3.990 in and 4.040 in end
   rule 12 "Head not banned" require head.casting not in banned_heads end
   rule 13 "Stroke of the engine" require displacement(4.000 in, stroke, 8) <= 360 ci end
+  rule 14 "Bore, limit first" require 4.030 in >= bore end
+  rule 15 "Weight, limit first" require 3000 lb < car.weight end
 end
 "#;
 
@@ -455,4 +457,28 @@ fn rename_calls(test: &mut gonogo::parse::ast::Test) {
     {
         function.text = "nonesuch".to_string();
     }
+}
+
+#[test]
+fn a_limit_written_first_is_decided_exactly_as_the_same_limit_written_last() {
+    // rule 14 is rule 1 and rule 15 is rule 3 with the sides swapped: one normal form, one
+    // decision (issue 8: the evaluator reads the same limit as diff, lint and headroom)
+    let rows = Case::new().run(
+        &declaration(
+            "\"4.0290 in ± 0.0006 in\", \"4.0280 in ± 0.0006 in\", \"4.0296 in ± 0.0006 in\"",
+            "3000 lb",
+            "",
+        ),
+        DecisionRule::GuardedRejection,
+    );
+    for (written_last, written_first) in [(0, 13), (2, 14)] {
+        let (a, b) = (&rows[written_last], &rows[written_first]);
+        assert_eq!(a.finding, b.finding, "{a:?} {b:?}");
+        assert_eq!(a.verdict, b.verdict);
+        assert_eq!(a.margin, b.margin);
+        assert_eq!(a.probability, b.probability);
+        assert_eq!(a.cylinder, b.cylinder);
+    }
+    assert_eq!(rows[13].cylinder, Some(3));
+    assert_eq!(rows[14].finding, Some(Finding::Fail)); // 3000 lb is not above 3000 lb
 }

@@ -8,8 +8,9 @@
 use regex::Regex;
 
 use super::builtins::{Formula, Reduce};
+use super::limit::{Limit, Operand};
 use crate::evaluate::dual::Dual;
-use crate::parse::ast::{BinaryOp, CompareOp};
+use crate::parse::ast::BinaryOp;
 use crate::source::Span;
 use crate::units::Unit;
 
@@ -228,16 +229,11 @@ pub struct Test {
 /// The kinds of resolved test.
 #[derive(Clone, Debug)]
 pub enum TestKind {
-    /// `A <= B [allowing C]`, and `==`, `!=` of numbers.
-    Compare {
-        /// Left side.
-        left: Expr,
-        /// Operator.
-        op: CompareOp,
-        /// Right side.
-        right: Expr,
-        /// Written allowance added to the limit.
-        allowance: Option<Expr>,
+    /// A limit on a number, in its one normal form: `<=`, `<`, `>=`, `>`, `==`, `!=` (written
+    /// either way round) and `between`, each with its allowance.
+    Limit {
+        /// Subject, side, limit(s), allowance and strictness.
+        limit: Limit<Expr>,
         /// The unit to show the numbers in.
         unit: Option<&'static Unit>,
     },
@@ -249,19 +245,6 @@ pub enum TestKind {
         equal: bool,
         /// Right side.
         right: TextExpr,
-    },
-    /// `A between LOW and HIGH [allowing C]`
-    Between {
-        /// What is tested.
-        subject: Expr,
-        /// Lower limit.
-        low: Expr,
-        /// Upper limit.
-        high: Expr,
-        /// Written allowance widening both limits.
-        allowance: Option<Expr>,
-        /// The unit to show the numbers in.
-        unit: Option<&'static Unit>,
     },
     /// `A in LIST` or `A not in LIST`
     Member {
@@ -385,31 +368,10 @@ impl Test {
     /// The measurements and derived values it reads, in the order written.
     pub fn reads(&self, out: &mut Vec<Read>) {
         match &self.kind {
-            TestKind::Compare {
-                left,
-                right,
-                allowance,
-                ..
-            } => {
-                left.reads(out);
-                right.reads(out);
-                allowance.iter().for_each(|a| a.reads(out));
-            }
+            TestKind::Limit { limit, .. } => limit_reads(limit, out),
             TestKind::TextEqual { left, right, .. } => {
                 left.reads(out);
                 right.reads(out);
-            }
-            TestKind::Between {
-                subject,
-                low,
-                high,
-                allowance,
-                ..
-            } => {
-                subject.reads(out);
-                low.reads(out);
-                high.reads(out);
-                allowance.iter().for_each(|a| a.reads(out));
             }
             TestKind::Member { subject, .. } | TestKind::Matches { subject, .. } => {
                 subject.reads(out)
@@ -429,5 +391,33 @@ impl Condition {
                 b.reads(out);
             }
         }
+    }
+}
+
+/// What a limit reads, in the order written: the limit side first when it was written first.
+fn limit_reads(limit: &Limit<Expr>, out: &mut Vec<Read>) {
+    let (first, second) = limit.limits();
+    let limits = |out: &mut Vec<Read>| {
+        first.reads(out);
+        second.iter().for_each(|e| e.reads(out));
+    };
+    if limit.reversed {
+        limits(out);
+        limit.subject.reads(out);
+    } else {
+        limit.subject.reads(out);
+        limits(out);
+    }
+    limit.allowance.iter().for_each(|a| a.reads(out));
+}
+
+impl Operand for Expr {
+    /// A side is fixed when it reads no measurement and no derived value: the same rule as
+    /// over the syntax tree, so the evaluator and the static passes agree on which side is
+    /// the limit.
+    fn is_fixed(&self) -> bool {
+        let mut reads = Vec::new();
+        self.reads(&mut reads);
+        reads.is_empty()
     }
 }

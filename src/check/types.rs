@@ -4,6 +4,7 @@
 
 use super::Checker;
 use super::builtins::{self, Formula, Function, Generic, Reduce, Shape};
+use super::limit::Limit;
 use super::model::{Measurement, Type, ValueKind};
 use super::resolved::{
     self, Call, DerivedId, ExprKind as R, Literal, LiteralId, MeasurementId, Term, TextExpr,
@@ -973,11 +974,8 @@ impl<'a> Checker<'a> {
         }
         let allowance = allowance.map_or(Some(None), |a| a.map(Some))?;
         match (lterm, rterm) {
-            (Term::Number(l), Term::Number(r)) => Some(resolved::TestKind::Compare {
-                left: l,
-                op,
-                right: r,
-                allowance,
+            (Term::Number(l), Term::Number(r)) => Some(resolved::TestKind::Limit {
+                limit: Limit::compare(l, op, r, allowance),
                 unit: self.limit_unit(left, right),
             }),
             (Term::Text(l), Term::Text(r)) => Some(resolved::TestKind::TextEqual {
@@ -1011,11 +1009,8 @@ impl<'a> Checker<'a> {
         let (Term::Number(s), Term::Number(l), Term::Number(h)) = (s, l, h) else {
             return None; // text between text: reported by `check_comparison`
         };
-        Some(resolved::TestKind::Between {
-            subject: s,
-            low: l,
-            high: h,
-            allowance,
+        Some(resolved::TestKind::Limit {
+            limit: Limit::between(s, l, h, allowance),
             unit: self.limit_unit(low, high),
         })
     }

@@ -9,10 +9,11 @@ use super::expr::Evaluator;
 use super::finding::{Finding, Verdict, finding, probability, probability_between, verdict};
 use super::outcome::{Applies, Checked, Numeric, Outcome, Trace};
 use super::value::{Evaluated, Unevaluated, Value, both};
+use crate::check::limit::{Limit, Side};
 use crate::check::model::ClassRule;
 use crate::check::resolved::{Condition, Expr, Read, Term, Test, TestKind};
 use crate::load::Supplied;
-use crate::parse::ast::{CompareOp, DecisionRule};
+use crate::parse::ast::DecisionRule;
 use crate::units::Unit;
 
 /// Coverage factor for the expanded uncertainty a finding is judged against (about 95 %).
@@ -134,38 +135,10 @@ impl<'a> Evaluator<'a> {
     /// The finding of one test.
     pub fn test(&mut self, t: &Test) -> Evaluated<Checked> {
         match &t.kind {
-            TestKind::Compare {
-                left,
-                op,
-                right,
-                allowance,
-                unit,
-            } => {
-                let (l, r) = both(self.number(left), self.number(right))?;
-                let slack = self.allowance(allowance.as_ref())?;
-                match op {
-                    CompareOp::Equal | CompareOp::NotEqual => {
-                        self.equality(&l, *op == CompareOp::Equal, &r, *unit)
-                    }
-                    _ => self.compare(&l, *op, &r, slack, *unit),
-                }
-            }
+            TestKind::Limit { limit, unit } => self.limit(limit, *unit),
             TestKind::TextEqual { left, equal, right } => {
                 let (a, b) = both(self.text(left), self.text(right))?;
                 Ok(binary_finding((a == b) == *equal, a))
-            }
-            TestKind::Between {
-                subject,
-                low,
-                high,
-                allowance,
-                unit,
-            } => {
-                let s = self.number(subject);
-                let (lo, hi) = both(self.number(low), self.number(high))?;
-                let s = s?;
-                let slack = self.allowance(allowance.as_ref())?;
-                self.between(&s, &lo, &hi, slack, *unit)
             }
             TestKind::Member {
                 subject,
@@ -187,6 +160,32 @@ impl<'a> Evaluator<'a> {
             } => {
                 let text = self.text(subject)?;
                 Ok(binary_finding(pattern.is_match(&text) != *negated, text))
+            }
+        }
+    }
+
+    /// A limit in normal form, on every cylinder: each side has its own way of deciding.
+    fn limit(&mut self, limit: &Limit<Expr>, unit: Option<&'static Unit>) -> Evaluated<Checked> {
+        let subject = self.number(&limit.subject);
+        let (first, second) = limit.limits();
+        let first = self.number(first);
+        let second = second.map(|e| self.number(e)).transpose();
+        let (subject, (first, second)) = both(subject, both(first, second))?;
+        let slack = self.allowance(limit.allowance.as_ref())?;
+        match (&limit.side, second) {
+            (Side::Upper { strict, .. }, _) => {
+                self.one_sided(&subject, &first, true, *strict, slack, unit)
+            }
+            (Side::Lower { strict, .. }, _) => {
+                self.one_sided(&subject, &first, false, *strict, slack, unit)
+            }
+            (Side::Equal { .. }, _) => self.equality(&subject, true, &first, unit),
+            (Side::NotEqual { .. }, _) => self.equality(&subject, false, &first, unit),
+            (Side::Between { .. }, Some(high)) => {
+                self.between(&subject, &first, &high, slack, unit)
+            }
+            (Side::Between { .. }, None) => {
+                Err(Unevaluated::internal("a range without its upper limit"))
             }
         }
     }
@@ -231,22 +230,17 @@ impl<'a> Evaluator<'a> {
         Ok(binary_finding(holds, shown))
     }
 
-    /// A limit on one side (`<=`, `<`, `>=`, `>`), on every cylinder: the worst decides.
-    fn compare(
+    /// A limit on one side (`<=`, `<` when `upper`; `>=`, `>` otherwise), on every
+    /// cylinder: the worst decides.
+    fn one_sided(
         &self,
-        l: &Value,
-        op: CompareOp,
-        r: &Value,
+        subject: &Value,
+        limit: &Value,
+        upper: bool,
+        strict: bool,
         slack: f64,
         unit: Option<&'static Unit>,
     ) -> Evaluated<Checked> {
-        let (subject, limit, op) = if is_constant(r) || !is_constant(l) {
-            (l, r, op)
-        } else {
-            (r, l, op.flipped())
-        };
-        let strict = matches!(op, CompareOp::Below | CompareOp::Above);
-        let upper = matches!(op, CompareOp::AtMost | CompareOp::Below);
         // margin, positive inside: (limit + allowance) − value, or value − (limit − allowance)
         let margins = subject.zip(limit, |s, t| if upper { t.sub(s) } else { s.sub(t) });
         let (i, m) = self.worst(margins.numbers(), slack, strict)?;
@@ -473,10 +467,6 @@ fn cylinder(v: &Value, i: usize) -> Option<usize> {
 /// which the loader refuses): such a test decides nothing.
 fn no_value() -> Unevaluated {
     Unevaluated::internal("the value tested has no number to compare")
-}
-
-fn is_constant(v: &Value) -> bool {
-    matches!(v, Value::Single(d) if d.partials.is_empty())
 }
 
 fn truth_of(f: Finding, decision: DecisionRule) -> Truth {
