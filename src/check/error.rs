@@ -569,6 +569,26 @@ pub enum CheckError {
         /// The clashing parts, each with its label.
         parts: Vec<(Span, &'static str)>,
     },
+    /// A built-in whose parameter list and implementation disagree: a mistake in gonogo's
+    /// formula table, never in the rulebook.
+    FormulaTableMismatch {
+        /// The built-in.
+        function: String,
+        /// How many parameters its table entry lists.
+        params: usize,
+        /// How many values its implementation takes.
+        arity: usize,
+        /// The call.
+        at: Span,
+    },
+    /// The checks passed but the checked rulebook could not be built: a mistake in gonogo,
+    /// never in the rulebook.
+    Internal {
+        /// What could not be built, in words.
+        what: String,
+        /// Where, when there is a place to point at.
+        at: Span,
+    },
 }
 
 /// What joins two sides whose dimensions differ.
@@ -648,6 +668,9 @@ impl CheckError {
             CheckError::NeverMet { .. } => "gonogo::check::never-met",
             CheckError::ContradictoryLimits { .. } => "gonogo::check::contradictory-limits",
             CheckError::NeverHolds { .. } => "gonogo::check::never-holds",
+            CheckError::FormulaTableMismatch { .. } | CheckError::Internal { .. } => {
+                "gonogo::check::internal"
+            }
         }
     }
 
@@ -884,6 +907,17 @@ impl CheckError {
                 format!("the limits on `{subject}` in class `{class}` leave no legal value")
             }
             CheckError::NeverHolds { .. } => "this condition can never hold".to_string(),
+            CheckError::FormulaTableMismatch {
+                function,
+                params,
+                arity,
+                ..
+            } => format!(
+                "the built-in `{function}` has {params} parameters, but its implementation takes {arity}"
+            ),
+            CheckError::Internal { what, .. } => {
+                format!("the checked rulebook could not be built: {what}")
+            }
         }
     }
 
@@ -999,6 +1033,8 @@ impl CheckError {
             CheckError::NeverHolds { at, parts } => {
                 std::iter::once(*at).chain(parts.iter().copied()).collect()
             }
+            CheckError::FormulaTableMismatch { at, .. } => vec![(*at, "this call")],
+            CheckError::Internal { at, .. } => vec![(*at, "here")],
         };
         fixed
             .into_iter()
@@ -1224,6 +1260,12 @@ impl CheckError {
             CheckError::NeverHolds { .. } => {
                 "the rules under it would never apply; correct the condition or remove the rules"
             }
+            CheckError::FormulaTableMismatch { .. } => {
+                "this is a mistake in gonogo's formula table, not in the rulebook; please report it"
+            }
+            CheckError::Internal { .. } => {
+                "this is a mistake in gonogo, not in the rulebook; please report it"
+            }
         };
         fixed.to_string()
     }
@@ -1339,6 +1381,38 @@ mod tests {
             e.help(),
             "use a unit gonogo knows, such as `in`, `mm`, `ci`, `cc`, `lb`, `cfm` or `inHg` \
              (README.md lists them all)"
+        );
+    }
+
+    #[test]
+    fn a_formula_table_mismatch_blames_gonogo_not_the_rulebook() {
+        let at = Span::new(0, 20, 48);
+        let p: Problem = CheckError::FormulaTableMismatch {
+            function: "displacement".to_string(),
+            params: 3,
+            arity: 2,
+            at,
+        }
+        .into();
+        assert_eq!(p.level, Level::Error);
+        assert_eq!(
+            p.message,
+            "the built-in `displacement` has 3 parameters, but its implementation takes 2"
+        );
+        assert_eq!(p.labels, vec![(at, "this call".to_string())]);
+        assert_eq!(
+            p.help.as_deref(),
+            Some(
+                "this is a mistake in gonogo's formula table, not in the rulebook; please report it"
+            )
+        );
+        assert_eq!(
+            p.code,
+            CheckError::Internal {
+                what: String::new(),
+                at
+            }
+            .code()
         );
     }
 

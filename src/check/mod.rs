@@ -127,13 +127,11 @@ impl<'a> Checker<'a> {
 /// The problem raised when the checks passed but the model cannot be built: a mistake in
 /// gonogo, never in the rulebook.
 fn internal(what: &str, span: crate::source::Span) -> Problem {
-    Problem::error(
-        "gonogo::check::internal",
-        format!("the checked rulebook could not be built: {what}"),
-        span,
-        "here",
-    )
-    .with_help("this is a mistake in gonogo, not in the rulebook; please report it")
+    error::CheckError::Internal {
+        what: what.to_string(),
+        at: span,
+    }
+    .into()
 }
 
 impl<'a> Checker<'a> {

@@ -228,6 +228,10 @@ pub struct Test {
 
 /// The kinds of resolved test.
 #[derive(Clone, Debug)]
+#[allow(
+    clippy::large_enum_variant,
+    reason = "a rulebook's tests are few and built once; boxing would only add indirection"
+)]
 pub enum TestKind {
     /// A limit on a number, in its one normal form: `<=`, `<`, `>=`, `>`, `==`, `!=` (written
     /// either way round) and `between`, each with its allowance.

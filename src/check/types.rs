@@ -4,13 +4,13 @@
 
 use super::Checker;
 use super::builtins::{self, Formula, Function, Generic, Reduce, Shape};
+use super::error::{CheckError, Joined};
 use super::limit::Limit;
 use super::model::{Measurement, Type, ValueKind};
 use super::resolved::{
     self, Call, DerivedId, ExprKind as R, Literal, LiteralId, MeasurementId, Term, TextExpr,
     TextKind, UncertainLiteral,
 };
-use crate::diagnostic::Problem;
 use crate::parse::ast::{
     Arg, BinaryOp, ClassItem, CompareOp, Condition, Expr, ExprKind, Measure, Quantity, Test,
     TestKind, UnitRef,
@@ -74,16 +74,11 @@ impl<'a> Checker<'a> {
         if word == "text" {
             if m.per_cylinder {
                 self.error(
-                    Problem::error(
-                        "gonogo::check::per-cylinder-text",
-                        format!(
-                            "`{}` is text, and text is recorded once for the engine",
-                            m.name.text
-                        ),
-                        m.dimension.span,
-                        "text",
-                    )
-                    .with_help("remove `per cylinder`, or declare one text measurement per part"),
+                    CheckError::PerCylinderText {
+                        name: m.name.text.clone(),
+                        at: m.dimension.span,
+                    }
+                    .into(),
                 );
                 return None;
             }
@@ -93,22 +88,13 @@ impl<'a> Checker<'a> {
             return Some(ValueKind::Number(d));
         }
         let names = DIMENSION_NAMES.iter().map(|(n, _)| *n).chain(["text"]);
-        let help = match closest(word, names) {
-            Some(near) => format!("did you mean `{near}`?"),
-            None => {
-                "use one of length, area, volume, mass, time, force, pressure, airflow, angle, \
-                     speed, power, count, ratio, number or text"
-                    .to_string()
-            }
-        };
         self.error(
-            Problem::error(
-                "gonogo::check::unknown-dimension",
-                format!("`{word}` is not a dimension gonogo knows"),
-                m.dimension.span,
-                "unknown dimension",
-            )
-            .with_help(help),
+            CheckError::UnknownDimension {
+                word: word.to_string(),
+                suggestion: closest(word, names).map(str::to_string),
+                at: m.dimension.span,
+            }
+            .into(),
         );
         None
     }
@@ -117,13 +103,11 @@ impl<'a> Checker<'a> {
         let (low, high) = m.range.as_ref()?;
         let ValueKind::Number(dim) = kind else {
             self.error(
-                Problem::error(
-                    "gonogo::check::range-on-text",
-                    format!("`{}` is text and cannot have a range", m.name.text),
-                    low.span.to(high.span),
-                    "range",
-                )
-                .with_help("remove the range, or give the measurement a numeric dimension"),
+                CheckError::RangeOnText {
+                    name: m.name.text.clone(),
+                    at: low.span.to(high.span),
+                }
+                .into(),
             );
             return None;
         };
@@ -135,16 +119,11 @@ impl<'a> Checker<'a> {
         let (lo, hi) = (self.constant(low)?, self.constant(high)?);
         if lo >= hi {
             self.error(
-                Problem::error(
-                    "gonogo::check::empty-range",
-                    format!(
-                        "the range of `{}` is empty: its low end is not below its high end",
-                        m.name.text
-                    ),
-                    low.span.to(high.span),
-                    "low end first, then high end",
-                )
-                .with_help("write the range low to high, like `range 3.9 in to 4.2 in`"),
+                CheckError::EmptyRange {
+                    name: m.name.text.clone(),
+                    at: low.span.to(high.span),
+                }
+                .into(),
             );
             return None;
         }
@@ -165,14 +144,12 @@ impl<'a> Checker<'a> {
         let define = *self.defines.get(name)?;
         if self.typing.contains(&name) {
             self.error(
-                Problem::error(
-                    "gonogo::check::define-cycle",
-                    format!("`{name}` is defined in terms of itself"),
-                    used_at,
-                    "used here",
-                )
-                .with_label(define.name.span, "defined here")
-                .with_help("a derived value cannot depend on itself, directly or through others; break the loop"),
+                CheckError::DefineCycle {
+                    name: name.to_string(),
+                    at: used_at,
+                    defined_at: define.name.span,
+                }
+                .into(),
             );
             self.define_types.insert(name, None);
             return None;
@@ -296,28 +273,19 @@ impl<'a> Checker<'a> {
             && v != w
         {
             self.error(
-                Problem::error(
-                    "gonogo::check::uncertainty-dimension",
-                    format!("the uncertainty is a {w}, but the value is a {v}"),
-                    span,
-                    "uncertainty unit",
-                )
-                .with_help("write the uncertainty in a unit of the same dimension as the value"),
+                CheckError::UncertaintyDimension {
+                    uncertainty: w,
+                    value: v,
+                    at: span,
+                }
+                .into(),
             );
             return None;
         }
         if let Some(k) = &u.coverage
             && k.value <= 0.0
         {
-            self.error(
-                Problem::error(
-                    "gonogo::check::bad-coverage",
-                    "the coverage factor must be above zero",
-                    span,
-                    "coverage factor",
-                )
-                .with_help("write `(k = 2)` for about 95 % coverage"),
-            );
+            self.error(CheckError::BadCoverage { at: span }.into());
         }
         Some(
             value_unit
@@ -330,24 +298,13 @@ impl<'a> Checker<'a> {
         if let Some(u) = units::lookup(&unit.symbol) {
             return Some(u.dimension);
         }
-        let help = match units::closest_unit(&unit.symbol) {
-            Some(near) => {
-                format!("did you mean `{near}`? The units gonogo knows are listed in README.md")
-            }
-            None => {
-                "use a unit gonogo knows, such as `in`, `mm`, `ci`, `cc`, `lb`, `cfm` or `inHg` \
-                     (README.md lists them all)"
-                    .to_string()
-            }
-        };
         self.error(
-            Problem::error(
-                "gonogo::check::unknown-unit",
-                format!("`{}` is not a unit gonogo knows", unit.symbol),
-                unit.span,
-                "unknown unit",
-            )
-            .with_help(help),
+            CheckError::UnknownUnit {
+                symbol: unit.symbol.clone(),
+                suggestion: units::closest_unit(&unit.symbol).map(str::to_string),
+                at: unit.span,
+            }
+            .into(),
         );
         None
     }
@@ -388,18 +345,13 @@ impl<'a> Checker<'a> {
             .chain(self.defines.keys())
             .copied()
             .collect();
-        let help = match closest(name, candidates) {
-            Some(near) => format!("did you mean `{near}`?"),
-            None => format!("declare it with `measure {name}: ...` or `define {name} = ...`"),
-        };
         self.error(
-            Problem::error(
-                "gonogo::check::unknown-name",
-                format!("`{name}` is not a measurement or derived value of this rulebook"),
-                span,
-                "unknown name",
-            )
-            .with_help(help),
+            CheckError::UnknownName {
+                name: name.to_string(),
+                suggestion: closest(name, candidates).map(str::to_string),
+                at: span,
+            }
+            .into(),
         );
         None
     }
@@ -426,19 +378,12 @@ impl<'a> Checker<'a> {
         let dim = match op {
             BinaryOp::Add | BinaryOp::Subtract => {
                 if ld != rd {
-                    self.mismatch(
-                        "gonogo::check::dimension-mismatch",
-                        format!(
-                            "cannot {} a {rd} and a {ld}",
-                            if op == BinaryOp::Add {
-                                "add"
-                            } else {
-                                "subtract"
-                            }
-                        ),
-                        (left, ld),
-                        (right, rd),
-                    );
+                    let joined_by = if op == BinaryOp::Add {
+                        Joined::Add
+                    } else {
+                        Joined::Subtract
+                    };
+                    self.mismatch(joined_by, (left, ld), (right, rd));
                     return None;
                 }
                 ld
@@ -470,13 +415,11 @@ impl<'a> Checker<'a> {
             }
             _ => {
                 self.error(
-                    Problem::error(
-                        "gonogo::check::bad-exponent",
-                        format!("a {base} can only be raised to a whole number from -6 to 6"),
-                        exponent.span,
-                        "exponent",
-                    )
-                    .with_help("write the exponent as a plain whole number, like `bore^2`; use `sqrt(...)` for roots"),
+                    CheckError::BadExponent {
+                        base,
+                        at: exponent.span,
+                    }
+                    .into(),
                 );
                 None
             }
@@ -485,18 +428,13 @@ impl<'a> Checker<'a> {
 
     fn call_type(&mut self, name: &str, span: Span, args: &[Arg], whole: Span) -> Option<Typed> {
         let Some(function) = builtins::function(name) else {
-            let help = match closest(name, builtins::function_names()) {
-                Some(near) => format!("did you mean `{near}`?"),
-                None => "the built-in functions are listed in grammar/rulebook.ebnf".to_string(),
-            };
             self.error(
-                Problem::error(
-                    "gonogo::check::unknown-function",
-                    format!("`{name}` is not a built-in function"),
-                    span,
-                    "unknown function",
-                )
-                .with_help(help),
+                CheckError::UnknownFunction {
+                    name: name.to_string(),
+                    suggestion: closest(name, builtins::function_names()).map(str::to_string),
+                    at: span,
+                }
+                .into(),
             );
             for arg in args {
                 self.type_of(&arg.value);
@@ -531,31 +469,25 @@ impl<'a> Checker<'a> {
             bound.push(e);
             if d != param.dimension {
                 self.error(
-                    Problem::error(
-                        "gonogo::check::argument-dimension",
-                        format!(
-                            "`{}` of `{}` must be a {}, but this is a {d}",
-                            param.name, formula.name, param.dimension
-                        ),
-                        arg.value.span,
-                        &format!("a {d}"),
-                    )
-                    .with_help(format!("pass a {} here", param.dimension)),
+                    CheckError::ArgumentDimension {
+                        function: formula.name.to_string(),
+                        param: param.name.to_string(),
+                        expected: param.dimension,
+                        found: d,
+                        at: arg.value.span,
+                    }
+                    .into(),
                 );
                 ok = false;
             }
             if t.per_cylinder && param.shape == Shape::Single {
                 self.error(
-                    Problem::error(
-                        "gonogo::check::needs-single-value",
-                        format!(
-                            "`{}` of `{}` takes one value for the engine, not one per cylinder",
-                            param.name, formula.name
-                        ),
-                        arg.value.span,
-                        "one value per cylinder",
-                    )
-                    .with_help("reduce it to one value with `max(...)`, `min(...)` or `mean(...)`"),
+                    CheckError::NeedsSingleValue {
+                        function: formula.name.to_string(),
+                        param: param.name.to_string(),
+                        at: arg.value.span,
+                    }
+                    .into(),
                 );
                 ok = false;
             }
@@ -566,18 +498,13 @@ impl<'a> Checker<'a> {
         }
         let Some(call) = Call::bind(formula, bound) else {
             self.error(
-                Problem::error(
-                    "gonogo::check::internal",
-                    format!(
-                        "the built-in `{}` has {} parameters, but its implementation takes {}",
-                        formula.name,
-                        formula.params.len(),
-                        formula.apply.arity()
-                    ),
-                    whole,
-                    "this call",
-                )
-                .with_help("this is a mistake in gonogo's formula table, not in the rulebook; please report it"),
+                CheckError::FormulaTableMismatch {
+                    function: formula.name.to_string(),
+                    params: formula.params.len(),
+                    arity: formula.apply.arity(),
+                    at: whole,
+                }
+                .into(),
             );
             return None;
         };
@@ -604,18 +531,15 @@ impl<'a> Checker<'a> {
                     Some(index) => index,
                     None => {
                         let names = formula.params.iter().map(|p| p.name);
-                        let help = match closest(&label.text, names) {
-                            Some(near) => format!("did you mean `{near}`?"),
-                            None => format!("`{}` takes {}", formula.name, param_list(formula)),
-                        };
                         self.error(
-                            Problem::error(
-                                "gonogo::check::unknown-argument",
-                                format!("`{}` has no parameter `{}`", formula.name, label.text),
-                                label.span,
-                                "unknown parameter",
-                            )
-                            .with_help(help),
+                            CheckError::UnknownArgument {
+                                function: formula.name.to_string(),
+                                signature: param_list(formula),
+                                label: label.text.clone(),
+                                suggestion: closest(&label.text, names).map(str::to_string),
+                                at: label.span,
+                            }
+                            .into(),
                         );
                         ok = false;
                         continue;
@@ -626,63 +550,47 @@ impl<'a> Checker<'a> {
                 Some(slot @ None) => *slot = Some(arg),
                 Some(Some(_)) => {
                     self.error(
-                        Problem::error(
-                            "gonogo::check::argument-twice",
-                            format!("`{}` is given twice", formula.params[index].name),
-                            arg.value.span,
-                            "second value",
-                        )
-                        .with_help(format!(
-                            "`{}` takes {}",
-                            formula.name,
-                            param_list(formula)
-                        )),
+                        CheckError::ArgumentTwice {
+                            function: formula.name.to_string(),
+                            signature: param_list(formula),
+                            param: formula.params[index].name.to_string(),
+                            at: arg.value.span,
+                        }
+                        .into(),
                     );
                     ok = false;
                 }
                 None => {
                     self.error(
-                        Problem::error(
-                            "gonogo::check::argument-count",
-                            format!(
-                                "`{}` takes {} arguments, not {}",
-                                formula.name,
-                                formula.params.len(),
-                                args.len()
-                            ),
-                            arg.value.span,
-                            "one too many",
-                        )
-                        .with_help(format!(
-                            "`{}` takes {}",
-                            formula.name,
-                            param_list(formula)
-                        )),
+                        CheckError::TooManyArguments {
+                            function: formula.name.to_string(),
+                            signature: param_list(formula),
+                            takes: formula.params.len(),
+                            given: args.len(),
+                            at: arg.value.span,
+                        }
+                        .into(),
                     );
                     ok = false;
                 }
             }
         }
-        let missing: Vec<&str> = formula
+        let missing: Vec<String> = formula
             .params
             .iter()
             .zip(&slots)
             .filter(|(_, s)| s.is_none())
-            .map(|(p, _)| p.name)
+            .map(|(p, _)| p.name.to_string())
             .collect();
         if ok && !missing.is_empty() {
             self.error(
-                Problem::error(
-                    "gonogo::check::argument-missing",
-                    format!("`{}` is missing {}", formula.name, backticked(&missing)),
-                    whole,
-                    "incomplete call",
-                )
-                .with_help(format!(
-                    "`{}` takes {}",
-                    formula.name,
-                    param_list(formula)
-                )),
+                CheckError::ArgumentMissing {
+                    function: formula.name.to_string(),
+                    signature: param_list(formula),
+                    missing,
+                    at: whole,
+                }
+                .into(),
             );
             return None;
         }
@@ -698,13 +606,11 @@ impl<'a> Checker<'a> {
     fn generic_type(&mut self, name: &str, g: Generic, args: &[Arg], whole: Span) -> Option<Typed> {
         if let Some(label) = args.iter().find_map(|a| a.label.as_ref()) {
             self.error(
-                Problem::error(
-                    "gonogo::check::unknown-argument",
-                    format!("`{name}` takes no labelled arguments"),
-                    label.span,
-                    "label",
-                )
-                .with_help(format!("write `{name}(value)` without a label")),
+                CheckError::LabelNotTaken {
+                    function: name.to_string(),
+                    at: label.span,
+                }
+                .into(),
             );
             return None;
         }
@@ -733,13 +639,11 @@ impl<'a> Checker<'a> {
             (Generic::Max | Generic::Min, [_, _, ..], Some(first)) => {
                 if dims.iter().any(|d| *d != first) {
                     self.error(
-                        Problem::error(
-                            "gonogo::check::dimension-mismatch",
-                            format!("the values of `{name}` must all have one dimension"),
-                            whole,
-                            "mixed dimensions",
-                        )
-                        .with_help("compare like with like, converting where needed"),
+                        CheckError::MixedDimensions {
+                            function: name.to_string(),
+                            at: whole,
+                        }
+                        .into(),
                     );
                     return None;
                 }
@@ -759,33 +663,23 @@ impl<'a> Checker<'a> {
                 )),
                 None => {
                     self.error(
-                        Problem::error(
-                            "gonogo::check::bad-root",
-                            format!("the square root of a {d} has no dimension gonogo can name"),
-                            whole,
-                            "square root",
-                        )
-                        .with_help("take the square root of an area or a dimensionless ratio"),
+                        CheckError::BadRoot {
+                            dimension: d,
+                            at: whole,
+                        }
+                        .into(),
                     );
                     None
                 }
             },
             _ => {
-                let expects = if g.reduces() {
-                    "one value measured per cylinder (or, for max and min, two or more values)"
-                } else {
-                    "exactly one value"
-                };
                 self.error(
-                    Problem::error(
-                        "gonogo::check::argument-count",
-                        format!("`{name}` takes {expects}"),
-                        whole,
-                        "here",
-                    )
-                    .with_help(format!(
-                        "write `{name}(bore)` with a per-cylinder measurement, for example"
-                    )),
+                    CheckError::GenericArgumentCount {
+                        function: name.to_string(),
+                        aggregate: g.reduces(),
+                        at: whole,
+                    }
+                    .into(),
                 );
                 None
             }
@@ -812,15 +706,11 @@ impl<'a> Checker<'a> {
 
     fn text_in_arithmetic(&mut self, span: Span, what: &str) {
         self.error(
-            Problem::error(
-                "gonogo::check::text-in-arithmetic",
-                format!("text cannot be used in {what}"),
-                span,
-                "text",
-            )
-            .with_help(
-                "only numbers take part in arithmetic; compare text with `==`, `in` or `matches`",
-            ),
+            CheckError::TextInArithmetic {
+                used_in: what.to_string(),
+                at: span,
+            }
+            .into(),
         );
     }
 
@@ -832,37 +722,36 @@ impl<'a> Checker<'a> {
             return true;
         }
         self.error(
-            Problem::error(
-                "gonogo::check::dimension-mismatch",
-                format!("{what} must be a {want}, but this is a {}", t.kind),
-                span,
-                &format!("a {}", t.kind),
-            )
-            .with_help(unit_hint(want)),
+            CheckError::WrongDimension {
+                what: what.to_string(),
+                expected: want,
+                found: t.kind,
+                at: span,
+            }
+            .into(),
         );
         false
     }
 
-    fn mismatch(
-        &mut self,
-        code: &'static str,
-        message: String,
-        left: (&Expr, Dimension),
-        right: (&Expr, Dimension),
-    ) {
-        let bare_number = |e: &Expr| matches!(&e.kind, ExprKind::Quantity(q) if q.unit.is_none() && q.uncertainty.as_ref().is_none_or(|u| u.unit.is_none()));
-        let help = if bare_number(right.0) && right.1.is_dimensionless() {
-            format!("the number has no unit: {}", unit_hint(left.1))
-        } else if bare_number(left.0) && left.1.is_dimensionless() {
-            format!("the number has no unit: {}", unit_hint(right.1))
+    /// Reports two sides of different dimensions joined by `joined_by`.
+    fn mismatch(&mut self, joined_by: Joined, left: (&Expr, Dimension), right: (&Expr, Dimension)) {
+        let bare_number_beside = if is_bare_number(right.0) && right.1.is_dimensionless() {
+            Some(left.1)
+        } else if is_bare_number(left.0) && left.1.is_dimensionless() {
+            Some(right.1)
         } else {
-            "both sides must have the same dimension; check the units and the quantities compared"
-                .to_string()
+            None
         };
         self.error(
-            Problem::error(code, message, right.0.span, &format!("a {}", right.1))
-                .with_label(left.0.span, format!("a {}", left.1))
-                .with_help(help),
+            CheckError::DimensionMismatch {
+                joined_by,
+                left: left.1,
+                right: right.1,
+                left_at: left.0.span,
+                right_at: right.0.span,
+                bare_number_beside,
+            }
+            .into(),
         );
     }
 
@@ -1018,18 +907,13 @@ impl<'a> Checker<'a> {
     /// The id of a parts list, or an error that the rulebook has none of that name.
     fn list_id(&mut self, list: &crate::parse::ast::Name) -> Option<resolved::ListId> {
         if !self.lists.contains_key(list.text.as_str()) {
-            let help = match closest(&list.text, self.lists.keys().copied()) {
-                Some(near) => format!("did you mean `{near}`?"),
-                None => format!("define it with `approved list {} ... end`", list.text),
-            };
             self.error(
-                Problem::error(
-                    "gonogo::check::unknown-list",
-                    format!("`{}` is not a parts list of this rulebook", list.text),
-                    list.span,
-                    "unknown list",
-                )
-                .with_help(help),
+                CheckError::UnknownList {
+                    name: list.text.clone(),
+                    suggestion: closest(&list.text, self.lists.keys().copied()).map(str::to_string),
+                    at: list.span,
+                }
+                .into(),
             );
             return None;
         }
@@ -1058,16 +942,11 @@ impl<'a> Checker<'a> {
             Term::Text(text) => Some(text),
             Term::Number(_) => {
                 self.error(
-                    Problem::error(
-                        "gonogo::check::not-text",
-                        format!(
-                            "a {} cannot be looked up in a parts list or matched by a pattern",
-                            t.kind
-                        ),
-                        subject.span,
-                        &format!("a {}", t.kind),
-                    )
-                    .with_help("test a part or casting number, a measurement declared as `text`"),
+                    CheckError::NotText {
+                        found: t.kind,
+                        at: subject.span,
+                    }
+                    .into(),
                 );
                 None
             }
@@ -1093,15 +972,11 @@ impl<'a> Checker<'a> {
                     ok = true;
                 } else {
                     self.error(
-                        Problem::error(
-                            "gonogo::check::text-order",
-                            format!("text cannot be compared with `{}`", op.symbol()),
-                            left.span.to(right.span),
-                            "text comparison",
-                        )
-                        .with_help(
-                            "compare text with `==` or `!=`, or test it with `in` or `matches`",
-                        ),
+                        CheckError::TextOrder {
+                            op,
+                            at: left.span.to(right.span),
+                        }
+                        .into(),
                     );
                 }
             }
@@ -1109,24 +984,18 @@ impl<'a> Checker<'a> {
                 if ld == rd {
                     ok = true;
                 } else {
-                    self.mismatch(
-                        "gonogo::check::dimension-mismatch",
-                        format!("cannot compare a {ld} with a {rd}"),
-                        (left, ld),
-                        (right, rd),
-                    );
+                    self.mismatch(Joined::Compare, (left, ld), (right, rd));
                 }
             }
             (l, r) => {
                 self.error(
-                    Problem::error(
-                        "gonogo::check::dimension-mismatch",
-                        format!("cannot compare {l} with {r}"),
-                        right.span,
-                        &format!("{r}"),
-                    )
-                    .with_label(left.span, format!("{l}"))
-                    .with_help("text is compared with text in quotes, numbers with numbers"),
+                    CheckError::KindMismatch {
+                        left: l,
+                        right: r,
+                        left_at: left.span,
+                        right_at: right.span,
+                    }
+                    .into(),
                 );
             }
         }
@@ -1138,15 +1007,7 @@ impl<'a> Checker<'a> {
     /// Reports a per-cylinder value in a condition; true when the shape is sound.
     fn check_shape(&mut self, t: Type, span: Span, place: Place) -> bool {
         if place == Place::Condition && t.per_cylinder {
-            self.error(
-                Problem::error(
-                    "gonogo::check::per-cylinder-condition",
-                    "a condition needs one value for the engine, not one per cylinder",
-                    span,
-                    "one value per cylinder",
-                )
-                .with_help("reduce it with `max(...)`, `min(...)` or `mean(...)`"),
-            );
+            self.error(CheckError::PerCylinderCondition { at: span }.into());
             return false;
         }
         true
@@ -1160,15 +1021,7 @@ impl<'a> Checker<'a> {
         op: Option<CompareOp>,
     ) -> Option<resolved::Expr> {
         if matches!(op, Some(CompareOp::Equal | CompareOp::NotEqual)) {
-            self.error(
-                Problem::error(
-                    "gonogo::check::allowance-on-equality",
-                    "an allowance widens a limit, and `==` or `!=` has none to widen",
-                    allowance.span,
-                    "allowance",
-                )
-                .with_help("use `<=`, `>=` or `between` with the allowance, or drop it"),
-            );
+            self.error(CheckError::AllowanceOnEquality { at: allowance.span }.into());
             return None;
         }
         let (t, term) = self.resolve(allowance)?;
@@ -1179,31 +1032,11 @@ impl<'a> Checker<'a> {
         match self.constant(allowance) {
             Some(v) if v >= 0.0 => {}
             Some(_) => {
-                self.error(
-                    Problem::error(
-                        "gonogo::check::negative-allowance",
-                        "an allowance cannot be negative",
-                        allowance.span,
-                        "negative",
-                    )
-                    .with_help(
-                        "an allowance loosens the limit; to tighten it, change the limit itself",
-                    ),
-                );
+                self.error(CheckError::NegativeAllowance { at: allowance.span }.into());
                 return None;
             }
             None => {
-                self.error(
-                    Problem::error(
-                        "gonogo::check::allowance-not-constant",
-                        "an allowance must be a fixed amount, not a measured one",
-                        allowance.span,
-                        "not a fixed amount",
-                    )
-                    .with_help(
-                        "write the allowance as a number with a unit, like `allowing 0.005 in`",
-                    ),
-                );
+                self.error(CheckError::AllowanceNotConstant { at: allowance.span }.into());
                 return None;
             }
         }
@@ -1274,19 +1107,14 @@ fn written_unit(e: &Expr) -> Option<&'static str> {
     }
 }
 
-fn unit_hint(d: Dimension) -> String {
-    match units::display_unit(d) {
-        Some(u) => format!("write a {d} with its unit, like `1 {}`", u.symbol),
-        None => format!("write a {d}"),
-    }
+/// Whether an expression is a number written with no unit, on its value or its uncertainty.
+fn is_bare_number(e: &Expr) -> bool {
+    matches!(&e.kind, ExprKind::Quantity(q)
+        if q.unit.is_none() && q.uncertainty.as_ref().is_none_or(|u| u.unit.is_none()))
 }
 
+/// A formula's parameters in order, as `(a, b, c)`.
 fn param_list(formula: &Formula) -> String {
     let names: Vec<&str> = formula.params.iter().map(|p| p.name).collect();
     format!("({})", names.join(", "))
-}
-
-fn backticked(names: &[&str]) -> String {
-    let quoted: Vec<String> = names.iter().map(|n| format!("`{n}`")).collect();
-    quoted.join(", ")
 }
