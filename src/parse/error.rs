@@ -169,8 +169,6 @@ pub enum ReadError {
     TooLarge {
         /// The file, as given.
         path: String,
-        /// Its size in bytes.
-        size: u64,
         /// The `include` that named it, if an include did.
         included_at: Option<Span>,
     },
@@ -204,6 +202,23 @@ pub enum ReadError {
         /// Where.
         at: Span,
     },
+    /// An include whose file is a link that leads round in a loop of links.
+    IncludeLinkLoop {
+        /// The path as written.
+        include: String,
+        /// Where.
+        at: Span,
+    },
+    /// An include that names a folder, a FIFO, a device or anything else that is not a
+    /// regular file (it is never opened, so it cannot block the run).
+    IncludeNotAFile {
+        /// The path as written.
+        include: String,
+        /// What it is instead, like `a FIFO (named pipe)`.
+        kind: &'static str,
+        /// Where.
+        at: Span,
+    },
     /// An include that leads back to a file being read.
     IncludeCycle {
         /// The path as written.
@@ -223,11 +238,7 @@ impl ReadError {
                 reason: e.to_string(),
                 included_at,
             },
-            ReadFailure::TooLarge(size) => ReadError::TooLarge {
-                path,
-                size,
-                included_at,
-            },
+            ReadFailure::TooLarge => ReadError::TooLarge { path, included_at },
             ReadFailure::NotUtf8(offset) => ReadError::NotUtf8 {
                 path,
                 offset,
@@ -247,6 +258,8 @@ impl ReadError {
             }
             ReadError::IncludeMissing { .. } => "gonogo::read::include-missing",
             ReadError::IncludeCycle { .. } => "gonogo::read::include-cycle",
+            ReadError::IncludeLinkLoop { .. } => "gonogo::read::include-link-loop",
+            ReadError::IncludeNotAFile { .. } => "gonogo::read::include-not-a-file",
         }
     }
 
@@ -254,8 +267,8 @@ impl ReadError {
     pub fn message(&self) -> String {
         match self {
             ReadError::Io { path, reason, .. } => format!("cannot read `{path}`: {reason}"),
-            ReadError::TooLarge { path, size, .. } => {
-                format!("`{path}` is {size} bytes, over the limit of {MAX_FILE_BYTES} bytes")
+            ReadError::TooLarge { path, .. } => {
+                format!("`{path}` is over the limit of {MAX_FILE_BYTES} bytes (8 MiB)")
             }
             ReadError::NotUtf8 { path, offset, .. } => {
                 format!("`{path}` is not UTF-8 text (first bad byte at offset {offset})")
@@ -272,6 +285,12 @@ impl ReadError {
             ReadError::IncludeCycle { include, .. } => {
                 format!("`{include}` includes itself, directly or through other files")
             }
+            ReadError::IncludeLinkLoop { include, .. } => {
+                format!("the included file `{include}` is a link that leads round in a loop")
+            }
+            ReadError::IncludeNotAFile { include, kind, .. } => {
+                format!("the included file `{include}` is {kind}, not a regular file")
+            }
         }
     }
 
@@ -285,6 +304,8 @@ impl ReadError {
             ReadError::IncludeLeadsOutside { at, .. } => Some((*at, "a link leads elsewhere")),
             ReadError::IncludeMissing { at, .. } => Some((*at, "not found")),
             ReadError::IncludeCycle { at, .. } => Some((*at, "cycle")),
+            ReadError::IncludeLinkLoop { at, .. } => Some((*at, "link loop")),
+            ReadError::IncludeNotAFile { at, .. } => Some((*at, "not a regular file")),
         }
     }
 
@@ -306,6 +327,12 @@ impl ReadError {
                 "check the file name; the path is relative to this file's folder"
             }
             ReadError::IncludeCycle { .. } => "remove one of the includes that close the loop",
+            ReadError::IncludeLinkLoop { .. } => {
+                "point the link at the rulebook file itself, or replace it with a copy of the file"
+            }
+            ReadError::IncludeNotAFile { .. } => {
+                "an include names one rulebook file saved on disk, like `parts/heads.rules`"
+            }
         }
     }
 }
@@ -558,20 +585,19 @@ mod tests {
     #[test]
     fn an_unreadable_file_points_at_the_include_that_named_it() {
         let at = Span::new(0, 8, 20);
-        let failure = ReadFailure::TooLarge(MAX_FILE_BYTES + 1);
+        let failure = ReadFailure::TooLarge;
         let p: Problem = ReadError::unreadable(Path::new("big.rules"), failure, Some(at)).into();
         assert_eq!(
             p.code,
             ReadError::TooLarge {
                 path: String::new(),
-                size: 0,
                 included_at: None
             }
             .code()
         );
         assert_eq!(
             p.message,
-            "`big.rules` is 8388609 bytes, over the limit of 8388608 bytes"
+            "`big.rules` is over the limit of 8388608 bytes (8 MiB)"
         );
         assert_eq!(p.primary_span(), Some(at));
         let unlocated: Problem =
