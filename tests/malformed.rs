@@ -18,6 +18,7 @@ const WARNINGS_ONLY: &[&str] = &[
     "empty-bulletin.rules",
     "duplicate-list-entry.rules",
     "unused-define.rules",
+    "byte-order-mark.rules",
 ];
 
 #[test]

@@ -31,6 +31,11 @@ pub enum ParseError {
     BadEscape,
     /// A string with no closing quote on its line.
     UnterminatedString,
+    /// A control character (other than a tab) in a string, written as it is or as `\u{...}`.
+    ControlCharacter {
+        /// Its code point.
+        code_point: u32,
+    },
     /// A fraction with a zero denominator.
     BadFraction,
     /// A number too large to be finite.
@@ -42,6 +47,8 @@ pub enum ParseError {
     },
     /// A pattern with no closing `/` on its line.
     UnterminatedPattern,
+    /// The empty pattern `//`, which every text matches.
+    EmptyPattern,
     /// `allowing` in a condition.
     AllowanceInCondition,
     /// `allowing` after a list or pattern test.
@@ -59,10 +66,12 @@ impl ParseError {
             ParseError::TooDeep => "gonogo::parse::too-deep",
             ParseError::BadEscape => "gonogo::parse::bad-escape",
             ParseError::UnterminatedString => "gonogo::parse::unterminated-string",
+            ParseError::ControlCharacter { .. } => "gonogo::parse::control-character",
             ParseError::BadFraction => "gonogo::parse::bad-fraction",
             ParseError::NumberTooLarge => "gonogo::parse::number-too-large",
             ParseError::BadDate { .. } => "gonogo::parse::bad-date",
             ParseError::UnterminatedPattern => "gonogo::parse::unterminated-pattern",
+            ParseError::EmptyPattern => "gonogo::parse::empty-pattern",
             ParseError::AllowanceInCondition => "gonogo::parse::allowance-in-condition",
             ParseError::AllowanceOnList => "gonogo::parse::allowance-on-list",
             ParseError::JoinedRequire => "gonogo::parse::joined-require",
@@ -76,7 +85,7 @@ impl ParseError {
                 let found = if found.is_empty() {
                     "the end of the file".to_string()
                 } else {
-                    format!("`{found}`")
+                    format!("`{}`", visible(found))
                 };
                 format!(
                     "expected {}, found {found}",
@@ -89,10 +98,17 @@ impl ParseError {
             ParseError::TooDeep => format!("nesting is deeper than {MAX_DEPTH} levels"),
             ParseError::BadEscape => "unknown escape in string".to_string(),
             ParseError::UnterminatedString => "this string has no closing quote".to_string(),
+            ParseError::ControlCharacter { code_point } => {
+                format!("this string holds the control character U+{code_point:04X}")
+            }
             ParseError::BadFraction => "this fraction divides by zero".to_string(),
             ParseError::NumberTooLarge => "this number is too large".to_string(),
             ParseError::BadDate { written } => format!("`{written}` is not a calendar date"),
             ParseError::UnterminatedPattern => "this pattern has no closing `/`".to_string(),
+            ParseError::EmptyPattern => {
+                "the empty pattern `//` matches every text, so a test with it can never fail"
+                    .to_string()
+            }
             ParseError::AllowanceInCondition => {
                 "an allowance belongs to a rule's `require`, not to a condition".to_string()
             }
@@ -124,12 +140,18 @@ impl ParseError {
             }
             ParseError::BadEscape => "the escapes are `\\\"`, `\\\\`, `\\n`, `\\t` and `\\u{...}`",
             ParseError::UnterminatedString => "end the string with `\"` on the same line",
+            ParseError::ControlCharacter { .. } => {
+                "remove it (it does not show when printed); write a line break as `\\n` and a tab as `\\t`"
+            }
             ParseError::BadFraction => {
                 "a fraction is written like `5/8` or `1-5/8`, with a denominator above zero"
             }
             ParseError::NumberTooLarge => "write a number below 1e300",
             ParseError::BadDate { .. } => {
                 "write the date as year-month-day, for example `2027-03-06`"
+            }
+            ParseError::EmptyPattern => {
+                "write what the text must look like between the slashes, like `/^TV-4[0-9]{2}$/`, or drop the test"
             }
             ParseError::UnterminatedPattern => {
                 "end the pattern with `/` on the same line; write `\\/` for a slash inside it"
@@ -483,6 +505,26 @@ fn found_token(text: &str, offset: usize) -> &str {
     &rest[..len]
 }
 
+/// The text with every character that does not show when printed (control and format
+/// characters such as a NUL or a byte-order mark) written as `\u{...}`.
+fn visible(text: &str) -> String {
+    text.chars()
+        .map(|c| {
+            if c.is_control() || is_format_character(c) {
+                format!("\\u{{{:x}}}", u32::from(c))
+            } else {
+                c.to_string()
+            }
+        })
+        .collect()
+}
+
+/// The invisible format characters a file is likely to hold by accident: the byte-order
+/// mark, zero-width spaces and joiners, and the direction marks and overrides.
+fn is_format_character(c: char) -> bool {
+    matches!(c, '\u{ad}' | '\u{200b}'..='\u{200f}' | '\u{202a}'..='\u{202e}' | '\u{2060}'..='\u{2064}' | '\u{2066}'..='\u{2069}' | '\u{feff}')
+}
+
 /// `a`, `a or b`, `a, b or c`, without repeats and in the order first seen.
 fn list_alternatives(items: &[&'static str]) -> String {
     let mut unique: Vec<&str> = Vec::new();
@@ -552,6 +594,8 @@ mod tests {
             ParseError::TooDeep,
             ParseError::BadEscape,
             ParseError::UnterminatedString,
+            ParseError::ControlCharacter { code_point: 0 },
+            ParseError::EmptyPattern,
             ParseError::BadFraction,
             ParseError::NumberTooLarge,
             ParseError::BadDate {
@@ -603,6 +647,16 @@ mod tests {
         let unlocated: Problem =
             ReadError::unreadable(Path::new("big.rules"), ReadFailure::NotUtf8(3), None).into();
         assert_eq!(unlocated.primary_span(), None);
+    }
+
+    #[test]
+    fn an_invisible_character_found_is_written_so_it_shows() {
+        let e = ParseError::Unexpected {
+            expected: Expected::one("a name"),
+            found: "\u{0}".to_string(),
+        };
+        assert_eq!(e.message(), "expected a name, found `\\u{0}`");
+        assert_eq!(visible("a\u{200b}b±"), "a\\u{200b}b±");
     }
 
     #[test]
