@@ -93,6 +93,8 @@ struct Checker<'a> {
     used: HashSet<String>,
     /// The compiled pattern of every `matches` test, by where the pattern is written.
     test_patterns: HashMap<(u32, usize), regex::Regex>,
+    /// Patterns compiled so far, across every file (see [`patterns::MAX_PATTERNS`]).
+    patterns_compiled: usize,
 }
 
 impl<'a> Checker<'a> {

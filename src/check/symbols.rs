@@ -1,8 +1,6 @@
 //! Collecting the declarations of every file: the header, the measurement schema, derived
 //! values, parts lists, classes and bulletins, with duplicates reported.
 
-use std::collections::BTreeMap;
-
 use super::Checker;
 use super::error::{CheckError, Definition, HeaderLine};
 use crate::diagnostic::Problem;
@@ -64,19 +62,14 @@ impl<'a> Checker<'a> {
                 }
             }
             Item::List(l) => {
-                let spans: BTreeMap<&str, Span> =
-                    self.lists.iter().map(|(k, v)| (*k, v.name.span)).collect();
-                if unique_in(&spans, &l.name, Definition::PartsList, &mut self.problems) {
+                let first = self.lists.get(l.name.text.as_str()).map(|o| o.name.span);
+                if unique_in(first, &l.name, Definition::PartsList, &mut self.problems) {
                     self.lists.insert(&l.name.text, l);
                 }
             }
             Item::Class(c) => {
-                let spans: BTreeMap<&str, Span> = self
-                    .classes
-                    .iter()
-                    .map(|(k, v)| (*k, v.name.span))
-                    .collect();
-                if unique_in(&spans, &c.name, Definition::Class, &mut self.problems) {
+                let first = self.classes.get(c.name.text.as_str()).map(|o| o.name.span);
+                if unique_in(first, &c.name, Definition::Class, &mut self.problems) {
                     self.classes.insert(&c.name.text, c);
                     self.class_order.push(&c.name.text);
                 }
@@ -160,13 +153,14 @@ fn once<'a, T>(
     }
 }
 
+/// Whether `name` is new; reports it defined twice when `first` is where it was already.
 fn unique_in(
-    existing: &BTreeMap<&str, Span>,
+    first: Option<Span>,
     name: &Name,
     kind: Definition,
     problems: &mut Vec<Problem>,
 ) -> bool {
-    let Some(first) = existing.get(name.text.as_str()) else {
+    let Some(first) = first else {
         return true;
     };
     problems.push(
@@ -174,7 +168,7 @@ fn unique_in(
             kind,
             name: name.text.clone(),
             at: name.span,
-            first: *first,
+            first,
         }
         .into(),
     );
