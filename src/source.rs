@@ -71,7 +71,8 @@ impl SourceFile {
     }
 }
 
-fn floor_char_boundary(text: &str, offset: usize) -> usize {
+/// The largest character boundary of `text` at or before `offset`.
+pub(crate) fn floor_char_boundary(text: &str, offset: usize) -> usize {
     let mut at = offset.min(text.len());
     while !text.is_char_boundary(at) {
         at -= 1;

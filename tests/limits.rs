@@ -203,3 +203,12 @@ fn patterns_past_the_cap_across_includes_are_refused_once() {
     // the first pattern past the limit is in the last included file
     assert!(report.contains("parts3.rules"), "{report}");
 }
+
+#[test]
+fn an_error_at_column_70000_of_a_100k_line_prints_a_few_lines() {
+    let (report, exit) = lint_text("long-line", &long_line(100_000, 70_000), &[]);
+    assert_eq!(exit, Exit::BadInput, "{report}");
+    assert!(report.contains("gonogo::check::unknown-unit"), "{report}");
+    assert!(report.contains("furlongs"), "{report}");
+    assert!(report.len() < 3_000, "{} bytes", report.len());
+}
