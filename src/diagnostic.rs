@@ -289,7 +289,10 @@ mod tests {
     fn far_along() -> (SourceMap, Problem) {
         let line = format!("{}furlongs{}", "x".repeat(69_999), "y".repeat(29_993));
         let mut sources = SourceMap::default();
-        let id = sources.add("long.rules".into(), format!("first line\n{line}\nlast line\n"));
+        let id = sources.add(
+            "long.rules".into(),
+            format!("first line\n{line}\nlast line\n"),
+        );
         let start = "first line\n".len() + 69_999;
         let at = Span::new(id, start, start + "furlongs".len());
         let problem = Problem::error("gonogo::check::unknown-unit", "unknown unit", at, "here")
@@ -302,7 +305,10 @@ mod tests {
         let (sources, problem) = far_along();
         let out = render(&problem, &sources, RenderStyle::PLAIN);
         assert!(out.contains("long.rules:2:70000"), "{out}");
-        assert!(out.contains("│ …xxxx") && out.contains("xxxxfurlongsyyyy"), "{out}");
+        assert!(
+            out.contains("│ …xxxx") && out.contains("xxxxfurlongsyyyy"),
+            "{out}"
+        );
         assert!(out.contains("here"), "{out}");
         assert!(out.len() < 2_000, "{} bytes:\n{out}", out.len());
         assert!(out.lines().all(|l| l.chars().count() < 200), "{out}");

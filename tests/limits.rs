@@ -111,7 +111,8 @@ fn lint_text(name: &str, text: &str, includes: &[(String, String)]) -> (String, 
 #[test]
 #[ignore = "writes large files for measuring; run by hand"]
 fn write_large_rulebooks() {
-    let dir = PathBuf::from(std::env::var("GONOGO_LARGE_DIR").unwrap_or_else(|_| "/tmp/large".into()));
+    let dir =
+        PathBuf::from(std::env::var("GONOGO_LARGE_DIR").unwrap_or_else(|_| "/tmp/large".into()));
     std::fs::create_dir_all(&dir).unwrap_or_else(|e| panic!("{e}"));
     for n in [1_000, 10_000] {
         write(&dir.join(format!("extends-{n}.rules")), &extends_chain(n));
@@ -155,7 +156,11 @@ fn a_chain_of_extends_within_the_cap_is_flattened_whole() {
 fn a_chain_of_extends_past_the_cap_is_refused_once() {
     let (report, exit) = lint_text("extends-past", &extends_chain(2_000), &[]);
     assert_eq!(exit, Exit::BadInput, "{report}");
-    assert_eq!(report.matches("gonogo::check::extends-too-long").count(), 1, "{report}");
+    assert_eq!(
+        report.matches("gonogo::check::extends-too-long").count(),
+        1,
+        "{report}"
+    );
     assert!(
         report.contains("`c65` stands more than 64 `extends` below its root class `c0`"),
         "{report}"
@@ -172,7 +177,10 @@ fn a_class_of_many_rules_keeps_every_rule_in_order() {
     let (files, problems) = gonogo::parse::includes::read_rulebook(&path, &mut sources);
     let (model, check_problems) = gonogo::check::check(&files);
     let _ = std::fs::remove_dir_all(&dir);
-    assert!(problems.is_empty() && check_problems.is_empty(), "{check_problems:?}");
+    assert!(
+        problems.is_empty() && check_problems.is_empty(),
+        "{check_problems:?}"
+    );
     let model = model.unwrap_or_else(|| panic!("no model"));
     let sections: Vec<String> = model.classes[0]
         .rules
@@ -199,7 +207,11 @@ fn patterns_past_the_cap_across_includes_are_refused_once() {
     let (root, includes) = many_patterns(4, MAX_PATTERNS / 4 + 1);
     let (report, exit) = lint_text("patterns-past", &root, &includes);
     assert_eq!(exit, Exit::BadInput, "{report}");
-    assert_eq!(report.matches("gonogo::check::too-many-patterns").count(), 1, "{report}");
+    assert_eq!(
+        report.matches("gonogo::check::too-many-patterns").count(),
+        1,
+        "{report}"
+    );
     // the first pattern past the limit is in the last included file
     assert!(report.contains("parts3.rules"), "{report}");
 }

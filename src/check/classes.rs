@@ -118,8 +118,17 @@ impl<'a> Checker<'a> {
                 let Some(parent) = self.classes.get(current).and_then(|c| c.extends.as_ref())
                 else {
                     path.pop();
-                    resolved.insert(current, Ancestry::Sound { depth: 0, root: current });
-                    break Ancestry::Sound { depth: 0, root: current };
+                    resolved.insert(
+                        current,
+                        Ancestry::Sound {
+                            depth: 0,
+                            root: current,
+                        },
+                    );
+                    break Ancestry::Sound {
+                        depth: 0,
+                        root: current,
+                    };
                 };
                 match self.classes.get_key_value(parent.text.as_str()) {
                     Some((key, _)) => current = key,

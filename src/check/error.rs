@@ -729,9 +729,9 @@ impl CheckError {
             CheckError::ExtendsTooLong { class, root, .. } => format!(
                 "`{class}` stands more than {MAX_EXTENDS} `extends` below its root class `{root}`"
             ),
-            CheckError::TooManyPatterns { .. } => format!(
-                "the rulebook and its includes hold more than {MAX_PATTERNS} patterns"
-            ),
+            CheckError::TooManyPatterns { .. } => {
+                format!("the rulebook and its includes hold more than {MAX_PATTERNS} patterns")
+            }
             CheckError::OverrideChangesNothing { section, .. } => {
                 format!("this override of rule {section} changes nothing")
             }

@@ -44,10 +44,7 @@ impl Window {
     /// The text of `name` cut around the labels (byte ranges of `original`), or `None` when
     /// no line is long and the text can be shown as it is.
     pub fn new(name: String, original: Arc<str>, labels: &[(usize, usize)]) -> Option<Window> {
-        if !original
-            .split('\n')
-            .any(|line| line.len() > MAX_LINE_BYTES)
-        {
+        if !original.split('\n').any(|line| line.len() > MAX_LINE_BYTES) {
             return None;
         }
         let keep = kept_ranges(&original, labels);
@@ -120,7 +117,9 @@ impl Window {
 
     /// Where a byte of the file stands in the copy (the next kept byte if it was left out).
     fn to_shown(&self, original: usize) -> usize {
-        let i = self.pieces.partition_point(|p| p.original + p.len < original);
+        let i = self
+            .pieces
+            .partition_point(|p| p.original + p.len < original);
         match self.pieces.get(i) {
             Some(p) if original >= p.original => p.shown + (original - p.original),
             Some(p) => p.shown,
@@ -146,11 +145,10 @@ impl SourceCode for Window {
         context_lines_before: usize,
         context_lines_after: usize,
     ) -> Result<Box<dyn SpanContents<'a> + 'a>, MietteError> {
-        let contents = self.shown.as_str().read_span(
-            span,
-            context_lines_before,
-            context_lines_after,
-        )?;
+        let contents =
+            self.shown
+                .as_str()
+                .read_span(span, context_lines_before, context_lines_after)?;
         // the header's line and column are those of the real file
         let start = self.to_original(contents.span().offset());
         let real = self
@@ -237,15 +235,18 @@ mod tests {
         assert!(window.shown.starts_with("first\n…x"));
         assert!(window.shown.ends_with("y…\nlast\n"));
         let span = window.span(start, start + 3);
-        assert_eq!(&window.shown[span.offset()..span.offset() + span.len()], "BAD");
+        assert_eq!(
+            &window.shown[span.offset()..span.offset() + span.len()],
+            "BAD"
+        );
         assert_eq!(window.to_original(span.offset()), start);
     }
 
     #[test]
     fn a_long_label_is_underlined_by_its_start() {
         let text: Arc<str> = format!("\"{}\"\n", "z".repeat(5_000)).into();
-        let window = Window::new("a.rules".into(), text, &[(0, 5_002)])
-            .unwrap_or_else(|| panic!("cut"));
+        let window =
+            Window::new("a.rules".into(), text, &[(0, 5_002)]).unwrap_or_else(|| panic!("cut"));
         let span = window.span(0, 5_002);
         assert_eq!(span.offset(), 0);
         assert_eq!(span.len(), MAX_LABEL_BYTES);
