@@ -1,6 +1,8 @@
 //! Collecting the declarations of every file: the header, the measurement schema, derived
 //! values, parts lists, classes and bulletins, with duplicates reported.
 
+use std::collections::HashMap;
+
 use super::Checker;
 use super::error::{CheckError, Definition, HeaderLine};
 use crate::diagnostic::Problem;
@@ -11,9 +13,10 @@ use crate::source::Span;
 impl<'a> Checker<'a> {
     /// Files every item of every file under its kind.
     pub(super) fn collect(&mut self, files: &'a RulebookFiles) {
+        let mut bulletin_ids = HashMap::new();
         for (index, (file, book)) in files.files.iter().enumerate() {
             for item in &book.items {
-                self.collect_item(item, index == 0);
+                self.collect_item(item, index == 0, &mut bulletin_ids);
             }
             if index == 0 {
                 self.require_header(*file);
@@ -21,7 +24,12 @@ impl<'a> Checker<'a> {
         }
     }
 
-    fn collect_item(&mut self, item: &'a Item, in_root: bool) {
+    fn collect_item(
+        &mut self,
+        item: &'a Item,
+        in_root: bool,
+        bulletin_ids: &mut HashMap<&'a str, Span>,
+    ) {
         match item {
             Item::Series(_) | Item::Edition(_) | Item::Decision(_) if !in_root => {
                 let at = header_span(item);
@@ -74,13 +82,17 @@ impl<'a> Checker<'a> {
                     self.class_order.push(&c.name.text);
                 }
             }
-            Item::Bulletin(b) => self.collect_bulletin(b),
+            Item::Bulletin(b) => self.collect_bulletin(b, bulletin_ids),
         }
     }
 
-    fn collect_bulletin(&mut self, b: &'a crate::parse::ast::Bulletin) {
-        if let Some(first) = self.bulletins.iter().find(|o| o.id.value == b.id.value) {
-            let first = first.id.span;
+    /// Files a bulletin, or reports its id taken; `ids` holds where each id was first used.
+    fn collect_bulletin(
+        &mut self,
+        b: &'a crate::parse::ast::Bulletin,
+        ids: &mut HashMap<&'a str, Span>,
+    ) {
+        if let Some(&first) = ids.get(b.id.value.as_str()) {
             self.error(
                 CheckError::DuplicateBulletin {
                     id: b.id.value.clone(),
@@ -91,6 +103,7 @@ impl<'a> Checker<'a> {
             );
             return;
         }
+        ids.insert(&b.id.value, b.id.span);
         self.bulletins.push(b);
     }
 
