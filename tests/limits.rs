@@ -53,12 +53,12 @@ fn many_rules(n: usize) -> String {
 fn many_patterns(files: usize, per_file: usize) -> (String, Vec<(String, String)>) {
     let mut root = HEADER.to_string();
     let mut included = Vec::new();
-    for k in 0..files {
-        let name = format!("parts{k}.rules");
+    for file in 0..files {
+        let name = format!("parts{file}.rules");
         let _ = writeln!(root, "include \"{name}\"");
-        let mut list = format!("approved list heads{k} \"Heads {k}\"\n");
+        let mut list = format!("approved list heads{file} \"Heads of file {file}\"\n");
         for i in 0..per_file {
-            let _ = writeln!(list, "  /^TV-{k}-{i}[A-Z]?$/,");
+            let _ = writeln!(list, "  /^TV-{file}-{i}[A-Z]?$/,");
         }
         list.push_str("  \"TV-1\"\nend\n");
         included.push((name, list));
