@@ -4,14 +4,18 @@
 //! message, labelled spans and a help line that says how to fix the input. A problem becomes a
 //! miette diagnostic only when it is rendered, together with the source it points into.
 
+mod window;
+
 use std::fmt;
 use std::sync::Arc;
 
 use miette::{
-    Diagnostic, GraphicalReportHandler, GraphicalTheme, LabeledSpan, NamedSource, Severity,
+    Diagnostic, GraphicalReportHandler, GraphicalTheme, LabeledSpan, MietteError, NamedSource,
+    Severity, SourceCode, SourceSpan, SpanContents,
 };
 
 use crate::source::{SourceMap, Span};
+use window::Window;
 
 /// How bad a problem is.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, PartialOrd, Ord)]
@@ -95,8 +99,39 @@ impl Problem {
 #[derive(Debug)]
 pub struct Located {
     problem: Problem,
-    source: Option<NamedSource<Arc<str>>>,
+    source: Option<Shown>,
     notes: Vec<String>,
+}
+
+/// The source a problem echoes: the file as it is, or cut around the labels when it has a
+/// long line (see [`window`]).
+#[derive(Debug)]
+enum Shown {
+    Whole(NamedSource<Arc<str>>),
+    Cut(Window),
+}
+
+impl Shown {
+    fn span(&self, span: Span) -> SourceSpan {
+        match self {
+            Shown::Whole(_) => span.source_span(),
+            Shown::Cut(window) => window.span(span.start, span.end),
+        }
+    }
+}
+
+impl SourceCode for Shown {
+    fn read_span<'a>(
+        &'a self,
+        span: &SourceSpan,
+        before: usize,
+        after: usize,
+    ) -> Result<Box<dyn SpanContents<'a> + 'a>, MietteError> {
+        match self {
+            Shown::Whole(source) => source.read_span(span, before, after),
+            Shown::Cut(window) => window.read_span(span, before, after),
+        }
+    }
 }
 
 impl Located {
@@ -121,9 +156,20 @@ impl Located {
                 format!("{label}: {}:{line}:{col}", other.path.display())
             })
             .collect();
+        let here: Vec<(usize, usize)> = problem
+            .labels
+            .iter()
+            .filter(|(s, _)| s.file == primary.file)
+            .map(|(s, _)| (s.start, s.end))
+            .collect();
+        let name = file.path.display().to_string();
+        let source = match Window::new(name, file.text.clone(), &here) {
+            Some(window) => Shown::Cut(window),
+            None => Shown::Whole(file.named_source()),
+        };
         Located {
             problem,
-            source: Some(file.named_source()),
+            source: Some(source),
             notes,
         }
     }
@@ -169,10 +215,14 @@ impl Diagnostic for Located {
             .filter(move |(_, (s, _))| s.file == primary.file)
             .map(|(i, (s, label))| {
                 let text = (!label.is_empty()).then(|| label.clone());
+                let at = self
+                    .source
+                    .as_ref()
+                    .map_or_else(|| s.source_span(), |shown| shown.span(*s));
                 if i == 0 {
-                    LabeledSpan::new_primary_with_span(text, s.source_span())
+                    LabeledSpan::new_primary_with_span(text, at)
                 } else {
-                    LabeledSpan::new_with_span(text, s.source_span())
+                    LabeledSpan::new_with_span(text, at)
                 }
             });
         Some(Box::new(labels))
@@ -228,5 +278,48 @@ fn plural(n: usize, word: &str) -> String {
         format!("1 {word}")
     } else {
         format!("{n} {word}s")
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// A problem on a line of 100,000 characters, labelled at column 70,000.
+    fn far_along() -> (SourceMap, Problem) {
+        let line = format!("{}furlongs{}", "x".repeat(69_999), "y".repeat(29_993));
+        let mut sources = SourceMap::default();
+        let id = sources.add(
+            "long.rules".into(),
+            format!("first line\n{line}\nlast line\n"),
+        );
+        let start = "first line\n".len() + 69_999;
+        let at = Span::new(id, start, start + "furlongs".len());
+        let problem = Problem::error("gonogo::check::unknown-unit", "unknown unit", at, "here")
+            .with_help("use a unit gonogo knows");
+        (sources, problem)
+    }
+
+    #[test]
+    fn a_label_far_along_a_long_line_renders_a_short_window() {
+        let (sources, problem) = far_along();
+        let out = render(&problem, &sources, RenderStyle::PLAIN);
+        assert!(out.contains("long.rules:2:70000"), "{out}");
+        assert!(
+            out.contains("│ …xxxx") && out.contains("xxxxfurlongsyyyy"),
+            "{out}"
+        );
+        assert!(out.contains("here"), "{out}");
+        assert!(out.len() < 2_000, "{} bytes:\n{out}", out.len());
+        assert!(out.lines().all(|l| l.chars().count() < 200), "{out}");
+    }
+
+    #[test]
+    fn short_lines_render_as_they_are() {
+        let mut sources = SourceMap::default();
+        let id = sources.add("a.rules".into(), "series \"S\"\nrule 1\n".into());
+        let problem = Problem::error("gonogo::x", "bad", Span::new(id, 12, 16), "here");
+        let out = render(&problem, &sources, RenderStyle::PLAIN);
+        assert!(out.contains("a.rules:2:2") && out.contains("rule 1") && !out.contains('…'));
     }
 }

@@ -1,6 +1,7 @@
 //! Source files and byte spans: reading a rulebook from disk with its size and encoding
 //! checked, and the one place where parser offsets become miette spans.
 
+use std::io::Read;
 use std::path::{Path, PathBuf};
 use std::sync::Arc;
 
@@ -70,7 +71,8 @@ impl SourceFile {
     }
 }
 
-fn floor_char_boundary(text: &str, offset: usize) -> usize {
+/// The largest character boundary of `text` at or before `offset`.
+pub(crate) fn floor_char_boundary(text: &str, offset: usize) -> usize {
     let mut at = offset.min(text.len());
     while !text.is_char_boundary(at) {
         at -= 1;
@@ -83,10 +85,24 @@ fn floor_char_boundary(text: &str, offset: usize) -> usize {
 pub enum ReadFailure {
     /// The operating system refused (missing file, permissions).
     Io(std::io::Error),
-    /// Larger than [`MAX_FILE_BYTES`].
-    TooLarge(u64),
+    /// Longer than [`MAX_FILE_BYTES`]: more bytes than that could be read from it.
+    TooLarge,
     /// Not UTF-8; the byte offset of the first bad byte.
     NotUtf8(usize),
+}
+
+/// Every byte of `reader`, or [`ReadFailure::TooLarge`] once more than [`MAX_FILE_BYTES`]
+/// bytes have come.
+pub fn read_capped(reader: impl Read) -> Result<Vec<u8>, ReadFailure> {
+    let mut bytes = Vec::new();
+    reader
+        .take(MAX_FILE_BYTES + 1)
+        .read_to_end(&mut bytes)
+        .map_err(ReadFailure::Io)?;
+    if bytes.len() as u64 > MAX_FILE_BYTES {
+        return Err(ReadFailure::TooLarge);
+    }
+    Ok(bytes)
 }
 
 /// All files of one run, so spans can be resolved back to text.
@@ -105,13 +121,11 @@ impl SourceMap {
         FileId::try_from(self.files.len() - 1).unwrap_or(FileId::MAX)
     }
 
-    /// Reads a file from disk, refusing files that are too large or not UTF-8.
+    /// Reads a file from disk, refusing files that are too large or not UTF-8. The cap holds
+    /// on the bytes actually read, so a pipe or a device (`/dev/zero`) that reports no size is
+    /// refused after [`MAX_FILE_BYTES`] bytes rather than read whole.
     pub fn read(&mut self, path: &Path) -> Result<FileId, ReadFailure> {
-        let size = std::fs::metadata(path).map_err(ReadFailure::Io)?.len();
-        if size > MAX_FILE_BYTES {
-            return Err(ReadFailure::TooLarge(size));
-        }
-        let bytes = std::fs::read(path).map_err(ReadFailure::Io)?;
+        let bytes = read_capped(std::fs::File::open(path).map_err(ReadFailure::Io)?)?;
         let text = String::from_utf8(bytes)
             .map_err(|e| ReadFailure::NotUtf8(e.utf8_error().valid_up_to()))?;
         Ok(self.add(path.to_path_buf(), text))
@@ -160,5 +174,23 @@ mod tests {
         assert_eq!(file.line_column(3), (2, 1));
         // "±" is two bytes; `c` is the second character of line 2
         assert_eq!(file.line_column(5), (2, 2));
+    }
+
+    #[test]
+    fn the_size_cap_holds_on_the_bytes_read() {
+        let limit = usize::try_from(MAX_FILE_BYTES).unwrap_or(usize::MAX);
+        // an endless reader, as `/dev/zero` or a pipe that reports no size would be
+        let endless = std::io::repeat(b'#');
+        assert!(matches!(read_capped(endless), Err(ReadFailure::TooLarge)));
+        let exactly = std::io::repeat(b'#').take(MAX_FILE_BYTES);
+        assert_eq!(read_capped(exactly).map(|b| b.len()).ok(), Some(limit));
+    }
+
+    #[cfg(unix)]
+    #[test]
+    fn a_device_that_never_ends_is_refused() {
+        let mut map = SourceMap::default();
+        let read = map.read(Path::new("/dev/zero"));
+        assert!(matches!(read, Err(ReadFailure::TooLarge)), "{read:?}");
     }
 }

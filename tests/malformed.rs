@@ -18,6 +18,7 @@ const WARNINGS_ONLY: &[&str] = &[
     "empty-bulletin.rules",
     "duplicate-list-entry.rules",
     "unused-define.rules",
+    "byte-order-mark.rules",
 ];
 
 #[test]
@@ -45,4 +46,69 @@ fn malformed_rulebooks_give_their_diagnostics() {
         insta::assert_snapshot!(report);
     });
     assert!(count >= 30, "only {count} malformed rulebooks");
+}
+
+/// A folder of its own for one test, holding `book.rules`: the include-missing rulebook
+/// with its include pointed at `include`.
+fn scratch_book(name: &str, include: &str) -> std::path::PathBuf {
+    let folder = std::env::temp_dir().join(format!("gonogo-{name}-{}", std::process::id()));
+    let _ = std::fs::remove_dir_all(&folder);
+    std::fs::create_dir_all(&folder).unwrap_or_else(|e| panic!("{e}"));
+    let root = Path::new(env!("CARGO_MANIFEST_DIR")).join("tests/malformed/include-missing.rules");
+    let text = std::fs::read_to_string(root)
+        .unwrap_or_else(|e| panic!("{e}"))
+        .replace("sub/missing.rules", include);
+    std::fs::write(folder.join("book.rules"), text).unwrap_or_else(|e| panic!("{e}"));
+    folder
+}
+
+/// An include that names a FIFO is refused without being opened: opening it for reading
+/// would wait for a writer for ever.
+#[cfg(unix)]
+#[test]
+fn an_include_that_is_a_fifo_is_refused_without_blocking() {
+    let folder = scratch_book("fifo-include", "pipe.rules");
+    let made = std::process::Command::new("mkfifo")
+        .arg(folder.join("pipe.rules"))
+        .status();
+    if !made.is_ok_and(|s| s.success()) {
+        eprintln!("skipped: `mkfifo` is not available");
+        return;
+    }
+    let (report, exit) = lint::run(
+        &[folder.join("book.rules")],
+        LintFormat::Text,
+        RenderStyle::PLAIN,
+    );
+    let _ = std::fs::remove_dir_all(&folder);
+    assert_eq!(exit, Exit::BadInput, "{report}");
+    assert!(
+        report.contains("gonogo::read::include-not-a-file")
+            && report.contains("is a FIFO (named pipe), not a regular file"),
+        "{report}"
+    );
+}
+
+/// An include that is a link in a loop of links says so, not "does not exist". (The loop is
+/// made here: one in `tests/malformed/` would trip every tool that walks the folder.)
+#[cfg(unix)]
+#[test]
+fn an_include_that_is_a_link_loop_says_so() {
+    let folder = scratch_book("loop-include", "loop-a.rules");
+    let (a, b) = (folder.join("loop-a.rules"), folder.join("loop-b.rules"));
+    std::os::unix::fs::symlink("loop-b.rules", &a).unwrap_or_else(|e| panic!("{e}"));
+    std::os::unix::fs::symlink("loop-a.rules", &b).unwrap_or_else(|e| panic!("{e}"));
+    let (report, exit) = lint::run(
+        &[folder.join("book.rules")],
+        LintFormat::Text,
+        RenderStyle::PLAIN,
+    );
+    let _ = std::fs::remove_dir_all(&folder);
+    assert_eq!(exit, Exit::BadInput, "{report}");
+    assert!(
+        report.contains("gonogo::read::include-link-loop")
+            && report.contains("`loop-a.rules` is a link that leads round in a loop")
+            && !report.contains("does not exist"),
+        "{report}"
+    );
 }

@@ -1,11 +1,32 @@
 //! Classes: `extends` resolved (unknown and cyclic parents reported), and each class's rules
 //! flattened through inheritance, `override`, `drop`, `when` groups and bulletins.
 
+use std::collections::HashMap;
+
 use super::Checker;
 use super::error::{CheckError, ClassReference};
 use super::model::{Origin, WrittenRule as ClassRule};
 use crate::parse::ast::{ClassItem, Condition, Date};
 use crate::suggest::closest;
+
+/// Most `extends` a class may stand below the root class of its chain. Flattening a class
+/// copies every rule of the classes above it, so a longer chain would make the work grow
+/// with the square of its length; real series nest classes two or three deep.
+pub const MAX_EXTENDS: usize = 64;
+
+/// What the walk up a class's `extends` found.
+#[derive(Clone, Copy, Debug)]
+enum Ancestry<'a> {
+    /// Every class above is known, and the chain is within [`MAX_EXTENDS`].
+    Sound {
+        /// How many `extends` below the root.
+        depth: usize,
+        /// The class at the top.
+        root: &'a str,
+    },
+    /// The chain reaches an unknown class, a loop or a class too deep.
+    Unsound,
+}
 
 /// A class's rules as they stand from one date on.
 pub(super) struct ClassState {
@@ -26,14 +47,16 @@ struct Source {
 }
 
 impl<'a> Checker<'a> {
-    /// Reports unknown and cyclic `extends`, and bulletins that amend no class or are dated
-    /// before the edition; remembers the classes whose ancestry is sound.
+    /// Reports unknown, cyclic and too long `extends`, and bulletins that amend no class or
+    /// are dated before the edition; remembers the classes whose ancestry is sound.
     pub(super) fn check_class_graph(&mut self) {
-        for name in self.class_order.clone() {
-            if self.ancestry_is_sound(name) {
-                self.sound_classes.insert(name);
-            }
-        }
+        let ancestry = self.resolve_ancestry();
+        self.sound_classes.extend(
+            ancestry
+                .into_iter()
+                .filter(|(_, a)| matches!(a, Ancestry::Sound { .. }))
+                .map(|(name, _)| name),
+        );
         for bulletin in self.bulletins.clone() {
             if !self.classes.contains_key(bulletin.amends.text.as_str()) {
                 self.error(
@@ -72,52 +95,126 @@ impl<'a> Checker<'a> {
         }
     }
 
-    fn ancestry_is_sound(&mut self, name: &'a str) -> bool {
-        let mut chain = vec![name];
-        let mut current = name;
-        while let Some(parent) = self.classes.get(current).and_then(|c| c.extends.as_ref()) {
-            if !self.classes.contains_key(parent.text.as_str()) {
-                if current == name {
-                    self.error(
-                        CheckError::UnknownClass {
-                            name: parent.text.clone(),
-                            from: ClassReference::Extends(current.to_string()),
-                            suggestion: self.near_class(&parent.text),
-                            at: parent.span,
-                        }
-                        .into(),
-                    );
+    /// The ancestry of every class, each class visited once: a walk up the `extends` links
+    /// stops at a root, at a class already resolved, at an unknown parent or where the walk
+    /// meets itself (a loop). Each unknown parent and each loop is reported once, and so is
+    /// each class that stands one step deeper than [`MAX_EXTENDS`].
+    fn resolve_ancestry(&mut self) -> HashMap<&'a str, Ancestry<'a>> {
+        let mut resolved: HashMap<&'a str, Ancestry<'a>> = HashMap::new();
+        for name in self.class_order.clone() {
+            let mut path: Vec<&'a str> = Vec::new();
+            let mut on_path: HashMap<&'a str, usize> = HashMap::new();
+            let mut current = name;
+            let end = loop {
+                if let Some(known) = resolved.get(current) {
+                    break *known;
                 }
-                return false;
-            }
-            if let Some(at) = chain.iter().position(|c| *c == parent.text.as_str()) {
-                let mut members: Vec<&str> = chain[at..].to_vec();
-                members.sort_unstable();
-                // report each loop once, from its first member in alphabetical order
-                if at == 0 && members.first() == Some(&name) {
-                    let chain = chain
-                        .iter()
-                        .chain([&parent.text.as_str()])
-                        .map(|c| c.to_string())
-                        .collect();
-                    self.error(
-                        CheckError::ExtendsCycle {
-                            chain,
-                            at: parent.span,
-                        }
-                        .into(),
-                    );
+                if let Some(&at) = on_path.get(current) {
+                    self.report_cycle(&path[at..]);
+                    break Ancestry::Unsound;
                 }
-                return false;
-            }
-            current = self
-                .classes
-                .get_key_value(parent.text.as_str())
-                .map(|(k, _)| *k)
-                .unwrap_or(current);
-            chain.push(current);
+                on_path.insert(current, path.len());
+                path.push(current);
+                let Some(parent) = self.classes.get(current).and_then(|c| c.extends.as_ref())
+                else {
+                    path.pop();
+                    resolved.insert(
+                        current,
+                        Ancestry::Sound {
+                            depth: 0,
+                            root: current,
+                        },
+                    );
+                    break Ancestry::Sound {
+                        depth: 0,
+                        root: current,
+                    };
+                };
+                match self.classes.get_key_value(parent.text.as_str()) {
+                    Some((key, _)) => current = key,
+                    None => {
+                        self.error(
+                            CheckError::UnknownClass {
+                                name: parent.text.clone(),
+                                from: ClassReference::Extends(current.to_string()),
+                                suggestion: self.near_class(&parent.text),
+                                at: parent.span,
+                            }
+                            .into(),
+                        );
+                        break Ancestry::Unsound;
+                    }
+                }
+            };
+            self.settle_path(&path, end, &mut resolved);
         }
-        true
+        resolved
+    }
+
+    /// Gives each class of a walked path, from the top down, its ancestry below `end`.
+    fn settle_path(
+        &mut self,
+        path: &[&'a str],
+        end: Ancestry<'a>,
+        resolved: &mut HashMap<&'a str, Ancestry<'a>>,
+    ) {
+        let mut above = end;
+        for &class in path.iter().rev() {
+            above = match above {
+                Ancestry::Sound { depth, root } if depth < MAX_EXTENDS => Ancestry::Sound {
+                    depth: depth + 1,
+                    root,
+                },
+                Ancestry::Sound { root, .. } => {
+                    if let Some(at) = self
+                        .classes
+                        .get(class)
+                        .and_then(|c| c.extends.as_ref())
+                        .map(|e| e.span)
+                    {
+                        self.error(
+                            CheckError::ExtendsTooLong {
+                                class: class.to_string(),
+                                root: root.to_string(),
+                                at,
+                            }
+                            .into(),
+                        );
+                    }
+                    Ancestry::Unsound
+                }
+                Ancestry::Unsound => Ancestry::Unsound,
+            };
+            resolved.insert(class, above);
+        }
+    }
+
+    /// Reports a loop of classes once, starting from its first member in alphabetical order.
+    fn report_cycle(&mut self, members: &[&'a str]) {
+        let Some(first) = members
+            .iter()
+            .enumerate()
+            .min_by_key(|(_, name)| **name)
+            .map(|(i, _)| i)
+        else {
+            return;
+        };
+        let mut chain: Vec<String> = members[first..]
+            .iter()
+            .chain(&members[..first])
+            .map(|c| c.to_string())
+            .collect();
+        let last = chain.last().cloned().unwrap_or_default();
+        let Some(at) = self
+            .classes
+            .get(last.as_str())
+            .and_then(|c| c.extends.as_ref())
+            .map(|e| e.span)
+        else {
+            return;
+        };
+        chain.push(chain[0].clone());
+        self.error(CheckError::ExtendsCycle { chain, at }.into());
     }
 
     /// The class name nearest to `name`, for a "did you mean".
@@ -194,7 +291,7 @@ impl<'a> Checker<'a> {
         let Some(class) = self.classes.get(name).copied() else {
             return Vec::new();
         };
-        let mut rules = match class.extends.as_ref() {
+        let inherited = match class.extends.as_ref() {
             Some(parent) => match self.classes.get_key_value(parent.text.as_str()) {
                 Some((key, _)) => {
                     let key = *key;
@@ -204,6 +301,7 @@ impl<'a> Checker<'a> {
             },
             None => Vec::new(),
         };
+        let mut rules = Flat::new(inherited);
         let own = Source {
             origin: Origin::Class(name.to_string()),
             class: name.to_string(),
@@ -223,12 +321,12 @@ impl<'a> Checker<'a> {
             };
             self.apply_body(&mut rules, &b.body, &mut Vec::new(), &source);
         }
-        rules
+        rules.into_rules()
     }
 
     fn apply_body(
         &mut self,
-        rules: &mut Vec<ClassRule>,
+        rules: &mut Flat,
         body: &'a [ClassItem],
         conditions: &mut Vec<Condition>,
         source: &Source,
@@ -239,23 +337,24 @@ impl<'a> Checker<'a> {
                     let mut all = conditions.clone();
                     all.extend(rule.condition.clone());
                     let entry = ClassRule::new(rule.clone(), all, source.origin.clone());
-                    let existing = rules
-                        .iter()
-                        .position(|r| r.rule.section.text == rule.section.text);
+                    let existing = rules.find(&rule.section.text);
                     match (rule.overrides, existing) {
-                        (true, Some(i)) if same_rule(&rules[i], &entry) => {
+                        (true, Some(old)) if same_rule(old, &entry) => {
                             self.error(
                                 CheckError::OverrideChangesNothing {
                                     section: rule.section.text.clone(),
                                     at: rule.section.span,
-                                    replaced: rules[i].rule.section.span,
+                                    replaced: old.rule.section.span,
                                 }
                                 .into(),
                             );
-                            place(rules, existing, entry);
+                            rules.place(entry);
                         }
-                        (false, None) | (true, Some(_)) => place(rules, existing, entry),
-                        (false, Some(i)) => self.report_duplicate(&rules[i], rule, source),
+                        (false, None) | (true, Some(_)) => rules.place(entry),
+                        (false, Some(old)) => {
+                            let old = old.clone();
+                            self.report_duplicate(&old, rule, source);
+                        }
                         (true, None) => self.report_nothing_to_override(rule, source),
                     }
                 }
@@ -273,12 +372,7 @@ impl<'a> Checker<'a> {
                             }
                             .into(),
                         );
-                    } else if let Some(i) = rules
-                        .iter()
-                        .position(|r| r.rule.section.text == section.text)
-                    {
-                        rules.remove(i);
-                    } else {
+                    } else if !rules.remove(&section.text) {
                         self.error(
                             CheckError::NothingToDrop {
                                 class: source.class.clone(),
@@ -344,10 +438,59 @@ fn same_rule(a: &ClassRule, b: &ClassRule) -> bool {
         && x.note == y.note
 }
 
-/// Replaces the rule at `at`, or appends a new one.
-fn place(rules: &mut Vec<ClassRule>, at: Option<usize>, entry: ClassRule) {
-    match at {
-        Some(i) => rules[i] = entry,
-        None => rules.push(entry),
+/// A class's rules while its body and bulletins are applied: in order, with each found by
+/// its section number in constant time. A dropped rule leaves a hole, closed at the end, so
+/// that neither finding, replacing nor dropping grows with the number of rules.
+struct Flat {
+    rules: Vec<Option<ClassRule>>,
+    by_section: HashMap<String, usize>,
+}
+
+impl Flat {
+    /// Starts from the rules a class inherits.
+    fn new(inherited: Vec<ClassRule>) -> Flat {
+        let by_section = inherited
+            .iter()
+            .enumerate()
+            .map(|(i, r)| (r.rule.section.text.clone(), i))
+            .collect();
+        Flat {
+            rules: inherited.into_iter().map(Some).collect(),
+            by_section,
+        }
+    }
+
+    /// The rule with this section number.
+    fn find(&self, section: &str) -> Option<&ClassRule> {
+        let at = *self.by_section.get(section)?;
+        self.rules.get(at)?.as_ref()
+    }
+
+    /// Replaces the rule with the entry's section number where it stands, or appends it.
+    fn place(&mut self, entry: ClassRule) {
+        match self.by_section.get(&entry.rule.section.text) {
+            Some(&at) => self.rules[at] = Some(entry),
+            None => {
+                self.by_section
+                    .insert(entry.rule.section.text.clone(), self.rules.len());
+                self.rules.push(Some(entry));
+            }
+        }
+    }
+
+    /// Drops the rule with this section number; false when there is none.
+    fn remove(&mut self, section: &str) -> bool {
+        match self.by_section.remove(section) {
+            Some(at) => {
+                self.rules[at] = None;
+                true
+            }
+            None => false,
+        }
+    }
+
+    /// The rules in order.
+    fn into_rules(self) -> Vec<ClassRule> {
+        self.rules.into_iter().flatten().collect()
     }
 }

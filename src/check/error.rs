@@ -8,7 +8,9 @@ use crate::parse::ast::{CompareOp, Date};
 use crate::source::Span;
 use crate::units::{self, Dimension};
 
+use super::classes::MAX_EXTENDS;
 use super::model::{Origin, ValueKind};
+use super::patterns::MAX_PATTERNS;
 
 /// One of the three header lines a rulebook's main file must have.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
@@ -155,6 +157,20 @@ pub enum CheckError {
         /// The classes of the loop in order, the first repeated at the end.
         chain: Vec<String>,
         /// The `extends` that closes it.
+        at: Span,
+    },
+    /// A class more than [`MAX_EXTENDS`] `extends` below its root class.
+    ExtendsTooLong {
+        /// The class.
+        class: String,
+        /// The class at the top of its chain, which extends none.
+        root: String,
+        /// Its `extends`.
+        at: Span,
+    },
+    /// More patterns in the rulebook and its includes than [`MAX_PATTERNS`].
+    TooManyPatterns {
+        /// The first pattern past the limit.
         at: Span,
     },
     /// An override that says the same as the rule it replaces (a warning).
@@ -617,6 +633,8 @@ impl CheckError {
             CheckError::BulletinBeforeEdition { .. } => "gonogo::check::bulletin-before-edition",
             CheckError::EmptyBulletin { .. } => "gonogo::check::empty-bulletin",
             CheckError::ExtendsCycle { .. } => "gonogo::check::extends-cycle",
+            CheckError::ExtendsTooLong { .. } => "gonogo::check::extends-too-long",
+            CheckError::TooManyPatterns { .. } => "gonogo::check::too-many-patterns",
             CheckError::OverrideChangesNothing { .. } => "gonogo::check::override-changes-nothing",
             CheckError::NothingToOverride { .. } => "gonogo::check::nothing-to-override",
             CheckError::DuplicateSection { .. } | CheckError::SectionClash { .. } => {
@@ -731,6 +749,12 @@ impl CheckError {
                 "classes extend each other in a loop: `{}`",
                 chain.join("` → `")
             ),
+            CheckError::ExtendsTooLong { class, root, .. } => format!(
+                "`{class}` stands more than {MAX_EXTENDS} `extends` below its root class `{root}`"
+            ),
+            CheckError::TooManyPatterns { .. } => {
+                format!("the rulebook and its includes hold more than {MAX_PATTERNS} patterns")
+            }
             CheckError::OverrideChangesNothing { section, .. } => {
                 format!("this override of rule {section} changes nothing")
             }
@@ -943,6 +967,8 @@ impl CheckError {
             }
             CheckError::EmptyBulletin { at, .. } => vec![(*at, "no rules")],
             CheckError::ExtendsCycle { at, .. } => vec![(*at, "closes the loop")],
+            CheckError::ExtendsTooLong { at, .. } => vec![(*at, "one step too many")],
+            CheckError::TooManyPatterns { at } => vec![(*at, "past the limit")],
             CheckError::OverrideChangesNothing { at, replaced, .. } => vec![
                 (*at, "same as the rule it replaces"),
                 (*replaced, "the rule it replaces"),
@@ -1079,6 +1105,12 @@ impl CheckError {
             CheckError::EmptyBulletin { .. } => "add the rules it changes, or remove it",
             CheckError::ExtendsCycle { .. } => {
                 "one class of the loop must stand on its own; remove its `extends`"
+            }
+            CheckError::ExtendsTooLong { .. } => {
+                "let this class extend one nearer the root, and repeat here the rules it needs"
+            }
+            CheckError::TooManyPatterns { .. } => {
+                "list part numbers as exact entries in quotes, or join related patterns into one like `/^TV-(12|13)[0-9]{2}$/`"
             }
             CheckError::OverrideChangesNothing { .. } => {
                 "remove the override, or write the change it was meant to make"

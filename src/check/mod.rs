@@ -107,6 +107,8 @@ struct Checker<'a> {
     /// While checking, the compiled pattern of every `matches` test by where it is written,
     /// so that each is compiled once.
     test_patterns: HashMap<(u32, usize), regex::Regex>,
+    /// Patterns compiled so far, across every file (see [`patterns::MAX_PATTERNS`]).
+    patterns_compiled: usize,
 }
 
 impl<'a> Checker<'a> {

@@ -1,5 +1,8 @@
 //! Parts lists and patterns: every regular expression compiled once, under a size limit, with
-//! a diagnostic for one that does not compile or is too large.
+//! a diagnostic for one that does not compile or is too large, and at most [`MAX_PATTERNS`]
+//! of them in a rulebook and its includes together.
+
+use std::collections::HashSet;
 
 use regex::RegexBuilder;
 
@@ -11,17 +14,23 @@ use crate::parse::ast::{ListEntry, Pattern};
 /// Largest compiled program a pattern may have, in bytes.
 pub const PATTERN_SIZE_LIMIT: usize = 256 * 1024;
 
+/// Most patterns a rulebook and its includes may hold together. A compiled pattern of a
+/// part number takes a few kilobytes, so this keeps the whole within tens of megabytes
+/// (and a quarter of a gigabyte even if every one were near [`PATTERN_SIZE_LIMIT`]); a
+/// rulebook that needs more should list its parts as exact entries.
+pub const MAX_PATTERNS: usize = 1000;
+
 impl<'a> Checker<'a> {
     /// Compiles every parts list.
     pub(super) fn compile_lists(&mut self) {
         let lists: Vec<_> = self.lists.iter().map(|(k, v)| (*k, *v)).collect();
         for (name, list) in lists {
             let mut entries = Vec::new();
-            let mut seen: Vec<&str> = Vec::new();
+            let mut seen: HashSet<&str> = HashSet::new();
             for entry in &list.entries {
                 match entry {
                     ListEntry::Exact(text) => {
-                        if seen.contains(&text.value.as_str()) {
+                        if !seen.insert(&text.value) {
                             self.error(
                                 CheckError::DuplicateEntry {
                                     entry: text.value.clone(),
@@ -31,7 +40,6 @@ impl<'a> Checker<'a> {
                                 .into(),
                             );
                         }
-                        seen.push(&text.value);
                         entries.push(PartEntry::Exact(text.value.clone()));
                     }
                     ListEntry::Pattern(p) => {
@@ -57,6 +65,9 @@ impl<'a> Checker<'a> {
     /// Warns about each pattern of an approved list that also matches an entry of a banned list:
     /// the rulebook would approve and ban the same part.
     pub(super) fn check_approved_against_banned(&mut self) {
+        if self.patterns_compiled > MAX_PATTERNS {
+            return; // reported once, where the limit was passed
+        }
         let banned: Vec<(&str, String, crate::source::Span)> = self
             .lists
             .values()
@@ -102,6 +113,13 @@ impl<'a> Checker<'a> {
 
     /// Compiles one pattern, anchored as written, reporting why it cannot be.
     pub(super) fn compile_pattern(&mut self, pattern: &Pattern) -> Option<regex::Regex> {
+        self.patterns_compiled += 1;
+        if self.patterns_compiled > MAX_PATTERNS {
+            if self.patterns_compiled == MAX_PATTERNS + 1 {
+                self.error(CheckError::TooManyPatterns { at: pattern.span }.into());
+            }
+            return None;
+        }
         let built = RegexBuilder::new(&pattern.source)
             .case_insensitive(pattern.ignore_case)
             .size_limit(PATTERN_SIZE_LIMIT)

@@ -1,7 +1,7 @@
 //! Collecting the declarations of every file: the header, the measurement schema, derived
 //! values, parts lists, classes and bulletins, with duplicates reported.
 
-use std::collections::BTreeMap;
+use std::collections::HashMap;
 
 use super::Checker;
 use super::error::{CheckError, Definition, HeaderLine};
@@ -13,9 +13,10 @@ use crate::source::Span;
 impl<'a> Checker<'a> {
     /// Files every item of every file under its kind.
     pub(super) fn collect(&mut self, files: &'a RulebookFiles) {
+        let mut bulletin_ids = HashMap::new();
         for (index, (file, book)) in files.files.iter().enumerate() {
             for item in &book.items {
-                self.collect_item(item, index == 0);
+                self.collect_item(item, index == 0, &mut bulletin_ids);
             }
             if index == 0 {
                 self.require_header(*file);
@@ -23,7 +24,12 @@ impl<'a> Checker<'a> {
         }
     }
 
-    fn collect_item(&mut self, item: &'a Item, in_root: bool) {
+    fn collect_item(
+        &mut self,
+        item: &'a Item,
+        in_root: bool,
+        bulletin_ids: &mut HashMap<&'a str, Span>,
+    ) {
         match item {
             Item::Series(_) | Item::Edition(_) | Item::Decision(_) if !in_root => {
                 let at = header_span(item);
@@ -64,30 +70,29 @@ impl<'a> Checker<'a> {
                 }
             }
             Item::List(l) => {
-                let spans: BTreeMap<&str, Span> =
-                    self.lists.iter().map(|(k, v)| (*k, v.name.span)).collect();
-                if unique_in(&spans, &l.name, Definition::PartsList, &mut self.problems) {
+                let first = self.lists.get(l.name.text.as_str()).map(|o| o.name.span);
+                if unique_in(first, &l.name, Definition::PartsList, &mut self.problems) {
                     self.lists.insert(&l.name.text, l);
                 }
             }
             Item::Class(c) => {
-                let spans: BTreeMap<&str, Span> = self
-                    .classes
-                    .iter()
-                    .map(|(k, v)| (*k, v.name.span))
-                    .collect();
-                if unique_in(&spans, &c.name, Definition::Class, &mut self.problems) {
+                let first = self.classes.get(c.name.text.as_str()).map(|o| o.name.span);
+                if unique_in(first, &c.name, Definition::Class, &mut self.problems) {
                     self.classes.insert(&c.name.text, c);
                     self.class_order.push(&c.name.text);
                 }
             }
-            Item::Bulletin(b) => self.collect_bulletin(b),
+            Item::Bulletin(b) => self.collect_bulletin(b, bulletin_ids),
         }
     }
 
-    fn collect_bulletin(&mut self, b: &'a crate::parse::ast::Bulletin) {
-        if let Some(first) = self.bulletins.iter().find(|o| o.id.value == b.id.value) {
-            let first = first.id.span;
+    /// Files a bulletin, or reports its id taken; `ids` holds where each id was first used.
+    fn collect_bulletin(
+        &mut self,
+        b: &'a crate::parse::ast::Bulletin,
+        ids: &mut HashMap<&'a str, Span>,
+    ) {
+        if let Some(&first) = ids.get(b.id.value.as_str()) {
             self.error(
                 CheckError::DuplicateBulletin {
                     id: b.id.value.clone(),
@@ -98,6 +103,7 @@ impl<'a> Checker<'a> {
             );
             return;
         }
+        ids.insert(&b.id.value, b.id.span);
         self.bulletins.push(b);
     }
 
@@ -160,13 +166,14 @@ fn once<'a, T>(
     }
 }
 
+/// Whether `name` is new; reports it defined twice when `first` is where it was already.
 fn unique_in(
-    existing: &BTreeMap<&str, Span>,
+    first: Option<Span>,
     name: &Name,
     kind: Definition,
     problems: &mut Vec<Problem>,
 ) -> bool {
-    let Some(first) = existing.get(name.text.as_str()) else {
+    let Some(first) = first else {
         return true;
     };
     problems.push(
@@ -174,7 +181,7 @@ fn unique_in(
             kind,
             name: name.text.clone(),
             at: name.span,
-            first: *first,
+            first,
         }
         .into(),
     );

@@ -31,6 +31,11 @@ pub enum ParseError {
     BadEscape,
     /// A string with no closing quote on its line.
     UnterminatedString,
+    /// A control character (other than a tab) in a string, written as it is or as `\u{...}`.
+    ControlCharacter {
+        /// Its code point.
+        code_point: u32,
+    },
     /// A fraction with a zero denominator.
     BadFraction,
     /// A number too large to be finite.
@@ -42,6 +47,8 @@ pub enum ParseError {
     },
     /// A pattern with no closing `/` on its line.
     UnterminatedPattern,
+    /// The empty pattern `//`, which every text matches.
+    EmptyPattern,
     /// `allowing` in a condition.
     AllowanceInCondition,
     /// `allowing` after a list or pattern test.
@@ -59,10 +66,12 @@ impl ParseError {
             ParseError::TooDeep => "gonogo::parse::too-deep",
             ParseError::BadEscape => "gonogo::parse::bad-escape",
             ParseError::UnterminatedString => "gonogo::parse::unterminated-string",
+            ParseError::ControlCharacter { .. } => "gonogo::parse::control-character",
             ParseError::BadFraction => "gonogo::parse::bad-fraction",
             ParseError::NumberTooLarge => "gonogo::parse::number-too-large",
             ParseError::BadDate { .. } => "gonogo::parse::bad-date",
             ParseError::UnterminatedPattern => "gonogo::parse::unterminated-pattern",
+            ParseError::EmptyPattern => "gonogo::parse::empty-pattern",
             ParseError::AllowanceInCondition => "gonogo::parse::allowance-in-condition",
             ParseError::AllowanceOnList => "gonogo::parse::allowance-on-list",
             ParseError::JoinedRequire => "gonogo::parse::joined-require",
@@ -76,7 +85,7 @@ impl ParseError {
                 let found = if found.is_empty() {
                     "the end of the file".to_string()
                 } else {
-                    format!("`{found}`")
+                    format!("`{}`", visible(found))
                 };
                 format!(
                     "expected {}, found {found}",
@@ -89,10 +98,17 @@ impl ParseError {
             ParseError::TooDeep => format!("nesting is deeper than {MAX_DEPTH} levels"),
             ParseError::BadEscape => "unknown escape in string".to_string(),
             ParseError::UnterminatedString => "this string has no closing quote".to_string(),
+            ParseError::ControlCharacter { code_point } => {
+                format!("this string holds the control character U+{code_point:04X}")
+            }
             ParseError::BadFraction => "this fraction divides by zero".to_string(),
             ParseError::NumberTooLarge => "this number is too large".to_string(),
             ParseError::BadDate { written } => format!("`{written}` is not a calendar date"),
             ParseError::UnterminatedPattern => "this pattern has no closing `/`".to_string(),
+            ParseError::EmptyPattern => {
+                "the empty pattern `//` matches every text, so a test with it can never fail"
+                    .to_string()
+            }
             ParseError::AllowanceInCondition => {
                 "an allowance belongs to a rule's `require`, not to a condition".to_string()
             }
@@ -124,12 +140,18 @@ impl ParseError {
             }
             ParseError::BadEscape => "the escapes are `\\\"`, `\\\\`, `\\n`, `\\t` and `\\u{...}`",
             ParseError::UnterminatedString => "end the string with `\"` on the same line",
+            ParseError::ControlCharacter { .. } => {
+                "remove it (it does not show when printed); write a line break as `\\n` and a tab as `\\t`"
+            }
             ParseError::BadFraction => {
                 "a fraction is written like `5/8` or `1-5/8`, with a denominator above zero"
             }
             ParseError::NumberTooLarge => "write a number below 1e300",
             ParseError::BadDate { .. } => {
                 "write the date as year-month-day, for example `2027-03-06`"
+            }
+            ParseError::EmptyPattern => {
+                "write what the text must look like between the slashes, like `/^TV-4[0-9]{2}$/`, or drop the test"
             }
             ParseError::UnterminatedPattern => {
                 "end the pattern with `/` on the same line; write `\\/` for a slash inside it"
@@ -169,8 +191,6 @@ pub enum ReadError {
     TooLarge {
         /// The file, as given.
         path: String,
-        /// Its size in bytes.
-        size: u64,
         /// The `include` that named it, if an include did.
         included_at: Option<Span>,
     },
@@ -204,6 +224,23 @@ pub enum ReadError {
         /// Where.
         at: Span,
     },
+    /// An include whose file is a link that leads round in a loop of links.
+    IncludeLinkLoop {
+        /// The path as written.
+        include: String,
+        /// Where.
+        at: Span,
+    },
+    /// An include that names a folder, a FIFO, a device or anything else that is not a
+    /// regular file (it is never opened, so it cannot block the run).
+    IncludeNotAFile {
+        /// The path as written.
+        include: String,
+        /// What it is instead, like `a FIFO (named pipe)`.
+        kind: &'static str,
+        /// Where.
+        at: Span,
+    },
     /// An include that leads back to a file being read.
     IncludeCycle {
         /// The path as written.
@@ -223,11 +260,7 @@ impl ReadError {
                 reason: e.to_string(),
                 included_at,
             },
-            ReadFailure::TooLarge(size) => ReadError::TooLarge {
-                path,
-                size,
-                included_at,
-            },
+            ReadFailure::TooLarge => ReadError::TooLarge { path, included_at },
             ReadFailure::NotUtf8(offset) => ReadError::NotUtf8 {
                 path,
                 offset,
@@ -247,6 +280,8 @@ impl ReadError {
             }
             ReadError::IncludeMissing { .. } => "gonogo::read::include-missing",
             ReadError::IncludeCycle { .. } => "gonogo::read::include-cycle",
+            ReadError::IncludeLinkLoop { .. } => "gonogo::read::include-link-loop",
+            ReadError::IncludeNotAFile { .. } => "gonogo::read::include-not-a-file",
         }
     }
 
@@ -254,8 +289,8 @@ impl ReadError {
     pub fn message(&self) -> String {
         match self {
             ReadError::Io { path, reason, .. } => format!("cannot read `{path}`: {reason}"),
-            ReadError::TooLarge { path, size, .. } => {
-                format!("`{path}` is {size} bytes, over the limit of {MAX_FILE_BYTES} bytes")
+            ReadError::TooLarge { path, .. } => {
+                format!("`{path}` is over the limit of {MAX_FILE_BYTES} bytes (8 MiB)")
             }
             ReadError::NotUtf8 { path, offset, .. } => {
                 format!("`{path}` is not UTF-8 text (first bad byte at offset {offset})")
@@ -272,6 +307,12 @@ impl ReadError {
             ReadError::IncludeCycle { include, .. } => {
                 format!("`{include}` includes itself, directly or through other files")
             }
+            ReadError::IncludeLinkLoop { include, .. } => {
+                format!("the included file `{include}` is a link that leads round in a loop")
+            }
+            ReadError::IncludeNotAFile { include, kind, .. } => {
+                format!("the included file `{include}` is {kind}, not a regular file")
+            }
         }
     }
 
@@ -285,6 +326,8 @@ impl ReadError {
             ReadError::IncludeLeadsOutside { at, .. } => Some((*at, "a link leads elsewhere")),
             ReadError::IncludeMissing { at, .. } => Some((*at, "not found")),
             ReadError::IncludeCycle { at, .. } => Some((*at, "cycle")),
+            ReadError::IncludeLinkLoop { at, .. } => Some((*at, "link loop")),
+            ReadError::IncludeNotAFile { at, .. } => Some((*at, "not a regular file")),
         }
     }
 
@@ -306,6 +349,12 @@ impl ReadError {
                 "check the file name; the path is relative to this file's folder"
             }
             ReadError::IncludeCycle { .. } => "remove one of the includes that close the loop",
+            ReadError::IncludeLinkLoop { .. } => {
+                "point the link at the rulebook file itself, or replace it with a copy of the file"
+            }
+            ReadError::IncludeNotAFile { .. } => {
+                "an include names one rulebook file saved on disk, like `parts/heads.rules`"
+            }
         }
     }
 }
@@ -456,6 +505,26 @@ fn found_token(text: &str, offset: usize) -> &str {
     &rest[..len]
 }
 
+/// The text with every character that does not show when printed (control and format
+/// characters such as a NUL or a byte-order mark) written as `\u{...}`.
+fn visible(text: &str) -> String {
+    text.chars()
+        .map(|c| {
+            if c.is_control() || is_format_character(c) {
+                format!("\\u{{{:x}}}", u32::from(c))
+            } else {
+                c.to_string()
+            }
+        })
+        .collect()
+}
+
+/// The invisible format characters a file is likely to hold by accident: the byte-order
+/// mark, zero-width spaces and joiners, and the direction marks and overrides.
+fn is_format_character(c: char) -> bool {
+    matches!(c, '\u{ad}' | '\u{200b}'..='\u{200f}' | '\u{202a}'..='\u{202e}' | '\u{2060}'..='\u{2064}' | '\u{2066}'..='\u{2069}' | '\u{feff}')
+}
+
 /// `a`, `a or b`, `a, b or c`, without repeats and in the order first seen.
 fn list_alternatives(items: &[&'static str]) -> String {
     let mut unique: Vec<&str> = Vec::new();
@@ -525,6 +594,8 @@ mod tests {
             ParseError::TooDeep,
             ParseError::BadEscape,
             ParseError::UnterminatedString,
+            ParseError::ControlCharacter { code_point: 0 },
+            ParseError::EmptyPattern,
             ParseError::BadFraction,
             ParseError::NumberTooLarge,
             ParseError::BadDate {
@@ -558,25 +629,34 @@ mod tests {
     #[test]
     fn an_unreadable_file_points_at_the_include_that_named_it() {
         let at = Span::new(0, 8, 20);
-        let failure = ReadFailure::TooLarge(MAX_FILE_BYTES + 1);
+        let failure = ReadFailure::TooLarge;
         let p: Problem = ReadError::unreadable(Path::new("big.rules"), failure, Some(at)).into();
         assert_eq!(
             p.code,
             ReadError::TooLarge {
                 path: String::new(),
-                size: 0,
                 included_at: None
             }
             .code()
         );
         assert_eq!(
             p.message,
-            "`big.rules` is 8388609 bytes, over the limit of 8388608 bytes"
+            "`big.rules` is over the limit of 8388608 bytes (8 MiB)"
         );
         assert_eq!(p.primary_span(), Some(at));
         let unlocated: Problem =
             ReadError::unreadable(Path::new("big.rules"), ReadFailure::NotUtf8(3), None).into();
         assert_eq!(unlocated.primary_span(), None);
+    }
+
+    #[test]
+    fn an_invisible_character_found_is_written_so_it_shows() {
+        let e = ParseError::Unexpected {
+            expected: Expected::one("a name"),
+            found: "\u{0}".to_string(),
+        };
+        assert_eq!(e.message(), "expected a name, found `\\u{0}`");
+        assert_eq!(visible("a\u{200b}b±"), "a\\u{200b}b±");
     }
 
     #[test]

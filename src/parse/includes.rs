@@ -1,6 +1,8 @@
 //! Reading a rulebook from disk: the root file and every file it includes. An include names
 //! a file in the including file's own folder or below it; absolute paths, `..` and links that
-//! lead outside are refused, and so is a file that includes itself.
+//! lead outside are refused, and so is a file that includes itself. An include must name a
+//! regular file: a FIFO, a device or a folder is refused without being opened, so reading
+//! can never block, and a link that leads round in a loop is named as one.
 
 use std::path::{Component, Path, PathBuf};
 
@@ -90,6 +92,13 @@ impl Reader<'_> {
         let target = folder.join(relative);
         let (canonical, inside) = match (target.canonicalize(), folder.canonicalize()) {
             (Ok(t), Ok(f)) => (t.clone(), t.starts_with(f)),
+            _ if is_link_loop(&target) => {
+                self.refuse(ReadError::IncludeLinkLoop {
+                    include: include.value.clone(),
+                    at: include.span,
+                });
+                return;
+            }
             _ => {
                 self.refuse(ReadError::IncludeMissing {
                     include: include.value.clone(),
@@ -101,6 +110,12 @@ impl Reader<'_> {
         if !inside {
             self.refuse(ReadError::IncludeLeadsOutside {
                 include: include.value.clone(),
+                at: include.span,
+            });
+        } else if let Some(kind) = not_regular(&canonical) {
+            self.refuse(ReadError::IncludeNotAFile {
+                include: include.value.clone(),
+                kind,
                 at: include.span,
             });
         } else if self.stack.contains(&canonical) {
@@ -123,6 +138,50 @@ impl Reader<'_> {
     }
 }
 
+/// Most links followed one after another before a chain counts as a loop (as Linux does).
+const MAX_LINK_HOPS: usize = 40;
+
+/// Whether `path` is a symbolic link that, followed link by link, never reaches anything
+/// but another link.
+fn is_link_loop(path: &Path) -> bool {
+    let mut current = path.to_path_buf();
+    for _ in 0..MAX_LINK_HOPS {
+        let Ok(next) = std::fs::read_link(&current) else {
+            return false;
+        };
+        current = match current.parent() {
+            Some(folder) => folder.join(next),
+            None => next,
+        };
+    }
+    std::fs::symlink_metadata(&current).is_ok_and(|m| m.file_type().is_symlink())
+}
+
+/// What `path` is when it is not a regular file: a folder, a FIFO, a device, a socket.
+fn not_regular(path: &Path) -> Option<&'static str> {
+    let kind = std::fs::metadata(path).ok()?.file_type();
+    if kind.is_file() {
+        return None;
+    }
+    if kind.is_dir() {
+        return Some("a folder");
+    }
+    #[cfg(unix)]
+    {
+        use std::os::unix::fs::FileTypeExt;
+        if kind.is_fifo() {
+            return Some("a FIFO (named pipe)");
+        }
+        if kind.is_char_device() || kind.is_block_device() {
+            return Some("a device");
+        }
+        if kind.is_socket() {
+            return Some("a socket");
+        }
+    }
+    Some("not a regular file")
+}
+
 /// The path if it is relative and never climbs with `..`.
 fn safe_relative(text: &str) -> Option<&Path> {
     let path = Path::new(text);
@@ -135,7 +194,33 @@ fn safe_relative(text: &str) -> Option<&Path> {
 
 #[cfg(test)]
 mod tests {
-    use super::safe_relative;
+    use super::{is_link_loop, not_regular, safe_relative};
+    use std::path::Path;
+
+    #[cfg(unix)]
+    #[test]
+    fn links_in_a_loop_are_told_from_missing_files() {
+        let folder = std::env::temp_dir().join(format!("gonogo-link-loop-{}", std::process::id()));
+        let _ = std::fs::remove_dir_all(&folder);
+        std::fs::create_dir_all(&folder).unwrap_or_else(|e| panic!("{e}"));
+        let (a, b) = (folder.join("a.rules"), folder.join("b.rules"));
+        std::os::unix::fs::symlink(&b, &a).unwrap_or_else(|e| panic!("{e}"));
+        std::os::unix::fs::symlink(&a, &b).unwrap_or_else(|e| panic!("{e}"));
+        std::os::unix::fs::symlink("nowhere.rules", folder.join("dangling.rules"))
+            .unwrap_or_else(|e| panic!("{e}"));
+        assert!(is_link_loop(&a));
+        assert!(!is_link_loop(&folder.join("dangling.rules")));
+        assert!(!is_link_loop(&folder.join("absent.rules")));
+        let _ = std::fs::remove_dir_all(&folder);
+    }
+
+    #[cfg(unix)]
+    #[test]
+    fn devices_and_folders_are_not_regular_files() {
+        assert_eq!(not_regular(Path::new("/dev/null")), Some("a device"));
+        assert_eq!(not_regular(Path::new("/")), Some("a folder"));
+        assert_eq!(not_regular(Path::new(file!())), None);
+    }
 
     #[test]
     fn only_paths_below_the_folder_are_safe() {

@@ -282,6 +282,10 @@ pub fn string(input: Input) -> PResult<Text> {
             }
             '\n' => break,
             '\\' => match escape(&mut chars) {
+                Some(decoded) if is_refused_control(decoded) && decoded != '\n' => {
+                    let len = body.len() - chars.as_str().len() - at;
+                    return Err(control_character(start, at, len, decoded));
+                }
                 Some(decoded) => value.push(decoded),
                 None => {
                     let bad = advance(start, at + 1);
@@ -292,6 +296,9 @@ pub fn string(input: Input) -> PResult<Text> {
                     )));
                 }
             },
+            other if is_refused_control(other) => {
+                return Err(control_character(start, at, other.len_utf8(), other));
+            }
             other => value.push(other),
         }
     }
@@ -300,6 +307,25 @@ pub fn string(input: Input) -> PResult<Text> {
         1,
         ParseError::UnterminatedString,
     )))
+}
+
+/// Whether a string may not hold `c`: every control character but the tab. (A line break
+/// ends the string before this is asked, and `\n` writes one.)
+fn is_refused_control(c: char) -> bool {
+    c.is_control() && c != '\t'
+}
+
+/// The error for the control character `c`, written in `len` bytes at byte `at` of the
+/// string's body (the text after the opening quote at `start`).
+fn control_character(start: Input, at: usize, len: usize, c: char) -> Err<SyntaxError> {
+    let bad = advance(start, at + 1);
+    Err::Failure(SyntaxError::specific(
+        &bad,
+        len,
+        ParseError::ControlCharacter {
+            code_point: u32::from(c),
+        },
+    ))
 }
 
 fn escape(chars: &mut std::str::CharIndices) -> Option<char> {
@@ -636,6 +662,13 @@ pub fn pattern(input: Input) -> PResult<Pattern> {
     let mut chars = body.char_indices();
     while let Some((at, c)) = chars.next() {
         match c {
+            '/' if at == 0 => {
+                return Err(Err::Failure(SyntaxError::specific(
+                    &start,
+                    2,
+                    ParseError::EmptyPattern,
+                )));
+            }
             '/' => return finish_pattern(start, source, at + 2),
             '\n' => break,
             '\\' => match chars.next() {
@@ -771,6 +804,38 @@ mod tests {
     fn strings_resolve_escapes() {
         let (_, text) = string(input(r#""a \"b\" \u{B1}""#)).unwrap_or_else(|_| panic!("parse"));
         assert_eq!(text.value, "a \"b\" ±");
+    }
+
+    #[test]
+    fn control_characters_in_strings_are_refused_where_they_stand() {
+        let refused = |text: &str| match string(input(text)) {
+            Err(Err::Failure(e)) => match e.kind {
+                super::super::SyntaxKind::Specific(k) => Some((*k, e.offset, e.len)),
+                _ => None,
+            },
+            _ => None,
+        };
+        let nul = ParseError::ControlCharacter { code_point: 0 };
+        assert_eq!(refused("\"ab\u{0}c\""), Some((nul.clone(), 3, 1)));
+        assert_eq!(refused(r#""ab\u{0}c""#), Some((nul, 3, 5)));
+        let escape = ParseError::ControlCharacter { code_point: 0x1b };
+        assert_eq!(refused("\"\u{1b}[31m\""), Some((escape, 1, 1)));
+        assert!(string(input("\"a\tb\"")).is_ok());
+        assert!(string(input(r#""a\nb\tc""#)).is_ok());
+    }
+
+    #[test]
+    fn the_empty_pattern_is_refused() {
+        let refused = |text: &str| match pattern(input(text)) {
+            Err(Err::Failure(e)) => {
+                e.kind == super::super::SyntaxKind::Specific(Box::new(ParseError::EmptyPattern))
+            }
+            _ => false,
+        };
+        assert!(refused("//"));
+        assert!(refused(" //i"));
+        assert!(pattern(input("/a/")).is_ok());
+        assert!(pattern(input(r"/\//")).is_ok());
     }
 
     #[test]

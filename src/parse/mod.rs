@@ -22,9 +22,16 @@ use crate::source::FileId;
 /// Most syntax errors reported for one file; past this the rest is noise.
 const MAX_SYNTAX_ERRORS: usize = 20;
 
+/// The byte-order mark some editors write at the start of a UTF-8 file.
+const BYTE_ORDER_MARK: char = '\u{feff}';
+
 /// Parses one file. Returns the items that parsed and a problem for each that did not.
+/// A byte-order mark at the start is skipped (spans still count its bytes).
 pub fn parse_rulebook(file: FileId, text: &str) -> (Rulebook, Vec<Problem>) {
     let mut input = Input::new_extra(text, Context { file, depth: 0 });
+    if text.starts_with(BYTE_ORDER_MARK) {
+        input = lexical::advance(input, BYTE_ORDER_MARK.len_utf8());
+    }
     let mut items = Vec::new();
     let mut problems = Vec::new();
     loop {

@@ -259,3 +259,34 @@ fn an_allowance_in_a_condition_is_refused() {
         ParseError::AllowanceInCondition.code()
     );
 }
+
+#[test]
+fn a_byte_order_mark_at_the_start_is_accepted() {
+    let text = format!("\u{feff}{HEADER}");
+    assert_eq!(parse_ok(&text), parse_ok(HEADER));
+    // only at the start: anywhere else it is a character out of place, and named visibly
+    let p = problems(&format!("{HEADER}\u{feff}"));
+    assert_eq!(p.len(), 1);
+    assert!(p[0].message.contains("`\\u{feff}`"), "{}", p[0].message);
+}
+
+#[test]
+fn a_control_character_in_a_rule_title_is_refused_at_the_character() {
+    let text = "class c rule 1 \"bore\u{0}limit\" require a == 1 end end";
+    let p = problems(text);
+    assert_eq!(
+        p[0].code,
+        ParseError::ControlCharacter { code_point: 0 }.code()
+    );
+    assert_eq!(underlined(text), "\u{0}");
+    assert!(p[0].help.is_some());
+}
+
+#[test]
+fn an_empty_pattern_is_refused_in_a_test_and_in_a_list() {
+    let test = "class c rule 1 \"t\" require head.casting matches // end end";
+    assert_eq!(problems(test)[0].code, ParseError::EmptyPattern.code());
+    assert_eq!(underlined(test), "//");
+    let list = "approved list heads \"Heads\" \"TV-1\", //i end";
+    assert_eq!(problems(list)[0].code, ParseError::EmptyPattern.code());
+}
