@@ -12,7 +12,6 @@
 use std::fmt::Write as _;
 use std::path::{Path, PathBuf};
 
-use gonogo::commands::lint::{self, LintFormat};
 use gonogo::diagnostic::RenderStyle;
 use gonogo::exit::Exit;
 
@@ -102,7 +101,7 @@ fn lint_text(name: &str, text: &str, includes: &[(String, String)]) -> (String, 
     for (file, body) in includes {
         write(&dir.join(file), body);
     }
-    let out = lint::run(&[root], LintFormat::Text, RenderStyle::PLAIN);
+    let out = lint_report(&[root]);
     let _ = std::fs::remove_dir_all(&dir);
     out
 }
@@ -223,4 +222,13 @@ fn an_error_at_column_70000_of_a_100k_line_prints_a_few_lines() {
     assert!(report.contains("gonogo::check::unknown-unit"), "{report}");
     assert!(report.contains("furlongs"), "{report}");
     assert!(report.len() < 3_000, "{} bytes", report.len());
+}
+
+/// The text report and exit status of `lint` on these files.
+fn lint_report(paths: &[std::path::PathBuf]) -> (String, gonogo::exit::Exit) {
+    let linted = gonogo::commands::lint::run(paths);
+    (
+        linted.render(gonogo::commands::lint::LintFormat::Text, RenderStyle::PLAIN),
+        linted.exit(),
+    )
 }

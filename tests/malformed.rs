@@ -75,11 +75,7 @@ fn an_include_that_is_a_fifo_is_refused_without_blocking() {
         eprintln!("skipped: `mkfifo` is not available");
         return;
     }
-    let (report, exit) = lint::run(
-        &[folder.join("book.rules")],
-        LintFormat::Text,
-        RenderStyle::PLAIN,
-    );
+    let (report, exit) = lint_text(&[folder.join("book.rules")]);
     let _ = std::fs::remove_dir_all(&folder);
     assert_eq!(exit, Exit::BadInput, "{report}");
     assert!(
@@ -98,11 +94,7 @@ fn an_include_that_is_a_link_loop_says_so() {
     let (a, b) = (folder.join("loop-a.rules"), folder.join("loop-b.rules"));
     std::os::unix::fs::symlink("loop-b.rules", &a).unwrap_or_else(|e| panic!("{e}"));
     std::os::unix::fs::symlink("loop-a.rules", &b).unwrap_or_else(|e| panic!("{e}"));
-    let (report, exit) = lint::run(
-        &[folder.join("book.rules")],
-        LintFormat::Text,
-        RenderStyle::PLAIN,
-    );
+    let (report, exit) = lint_text(&[folder.join("book.rules")]);
     let _ = std::fs::remove_dir_all(&folder);
     assert_eq!(exit, Exit::BadInput, "{report}");
     assert!(
@@ -111,4 +103,13 @@ fn an_include_that_is_a_link_loop_says_so() {
             && !report.contains("does not exist"),
         "{report}"
     );
+}
+
+/// The text report and exit status of `lint` on these files.
+fn lint_text(paths: &[std::path::PathBuf]) -> (String, gonogo::exit::Exit) {
+    let linted = gonogo::commands::lint::run(paths);
+    (
+        linted.render(gonogo::commands::lint::LintFormat::Text, RenderStyle::PLAIN),
+        linted.exit(),
+    )
 }
