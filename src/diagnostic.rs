@@ -4,7 +4,10 @@
 //! message, labelled spans and a help line that says how to fix the input. A problem becomes a
 //! miette diagnostic only when it is rendered, together with the source it points into.
 
+pub mod codes;
 mod window;
+
+pub use codes::Code;
 
 use std::fmt;
 use std::sync::Arc;
@@ -29,8 +32,8 @@ pub enum Level {
 /// One problem found in the input.
 #[derive(Clone, Debug)]
 pub struct Problem {
-    /// Stable code, for example `gonogo::check::unknown-name`.
-    pub code: &'static str,
+    /// Stable code from the one table in [`codes`], for example `C54 unknown-name`.
+    pub code: Code,
     /// Error or warning.
     pub level: Level,
     /// What is wrong, lowercase, no final period, the user's words in backticks.
@@ -43,7 +46,7 @@ pub struct Problem {
 
 impl Problem {
     /// An error with one labelled span.
-    pub fn error(code: &'static str, message: impl Into<String>, span: Span, label: &str) -> Self {
+    pub fn error(code: Code, message: impl Into<String>, span: Span, label: &str) -> Self {
         Problem {
             code,
             level: Level::Error,
@@ -54,12 +57,7 @@ impl Problem {
     }
 
     /// A warning with one labelled span.
-    pub fn warning(
-        code: &'static str,
-        message: impl Into<String>,
-        span: Span,
-        label: &str,
-    ) -> Self {
+    pub fn warning(code: Code, message: impl Into<String>, span: Span, label: &str) -> Self {
         Problem {
             level: Level::Warning,
             ..Problem::error(code, message, span, label)
@@ -67,7 +65,7 @@ impl Problem {
     }
 
     /// A problem that points at no text (an unreadable file, say).
-    pub fn unlocated(code: &'static str, message: impl Into<String>) -> Self {
+    pub fn unlocated(code: Code, message: impl Into<String>) -> Self {
         Problem {
             code,
             level: Level::Error,
@@ -295,7 +293,7 @@ mod tests {
         );
         let start = "first line\n".len() + 69_999;
         let at = Span::new(id, start, start + "furlongs".len());
-        let problem = Problem::error("gonogo::check::unknown-unit", "unknown unit", at, "here")
+        let problem = Problem::error(codes::check::UNKNOWN_UNIT, "unknown unit", at, "here")
             .with_help("use a unit gonogo knows");
         (sources, problem)
     }
@@ -318,7 +316,7 @@ mod tests {
     fn short_lines_render_as_they_are() {
         let mut sources = SourceMap::default();
         let id = sources.add("a.rules".into(), "series \"S\"\nrule 1\n".into());
-        let problem = Problem::error("gonogo::x", "bad", Span::new(id, 12, 16), "here");
+        let problem = Problem::error(codes::check::INTERNAL, "bad", Span::new(id, 12, 16), "here");
         let out = render(&problem, &sources, RenderStyle::PLAIN);
         assert!(out.contains("a.rules:2:2") && out.contains("rule 1") && !out.contains('…'));
     }

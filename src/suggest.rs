@@ -3,6 +3,7 @@
 
 use crate::check::model::{CheckedRulebook, Class};
 use crate::diagnostic::Problem;
+use crate::diagnostic::codes;
 use crate::source::Span;
 
 /// The candidate closest to `word` by Jaro-Winkler similarity, if any is close enough to be a
@@ -53,8 +54,8 @@ impl UnknownClass {
     }
 
     /// The stable code.
-    pub fn code(&self) -> &'static str {
-        "gonogo::load::unknown-class"
+    pub fn code(&self) -> codes::Code {
+        codes::load::UNKNOWN_CLASS
     }
 
     /// What is wrong.

@@ -316,10 +316,7 @@ fn a_declaration_dated_before_the_edition_is_refused() {
         .err()
         .unwrap_or_default();
     let _ = std::fs::remove_file(&path);
-    assert!(
-        message.contains("gonogo::check::before-edition"),
-        "{message}"
-    );
+    assert!(message.contains("C12 before-edition"), "{message}");
     assert!(
         message.contains("is dated 2027-01-10, before edition 2027 took effect"),
         "{message}"

@@ -93,7 +93,7 @@ fn two_series_cannot_be_compared() {
     .err()
     .map(|e| e.to_string())
     .unwrap_or_default();
-    assert!(e.contains("gonogo::diff::different-series"), "{e}");
+    assert!(e.contains("A01 different-series"), "{e}");
 }
 
 /// `gonogo diff` in text of two one-class rulebooks whose rules are given, in order.

@@ -79,7 +79,7 @@ fn an_include_that_is_a_fifo_is_refused_without_blocking() {
     let _ = std::fs::remove_dir_all(&folder);
     assert_eq!(exit, Exit::BadInput, "{report}");
     assert!(
-        report.contains("gonogo::read::include-not-a-file")
+        report.contains("F04 include-not-a-file")
             && report.contains("is a FIFO (named pipe), not a regular file"),
         "{report}"
     );
@@ -98,7 +98,7 @@ fn an_include_that_is_a_link_loop_says_so() {
     let _ = std::fs::remove_dir_all(&folder);
     assert_eq!(exit, Exit::BadInput, "{report}");
     assert!(
-        report.contains("gonogo::read::include-link-loop")
+        report.contains("F02 include-link-loop")
             && report.contains("`loop-a.rules` is a link that leads round in a loop")
             && !report.contains("does not exist"),
         "{report}"

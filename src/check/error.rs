@@ -3,6 +3,7 @@
 //! level, message, labels and help in one match each; `Problem::from` turns it into the
 //! [`Problem`] that miette renders.
 
+use crate::diagnostic::codes;
 use crate::diagnostic::{Level, Problem};
 use crate::parse::ast::{CompareOp, Date};
 use crate::source::Span;
@@ -620,74 +621,74 @@ pub enum Joined {
 
 impl CheckError {
     /// The stable code.
-    pub fn code(&self) -> &'static str {
+    pub fn code(&self) -> codes::Code {
         match self {
-            CheckError::HeaderInInclude { .. } => "gonogo::check::header-in-include",
-            CheckError::DuplicateHeader { .. } => "gonogo::check::duplicate-header",
-            CheckError::MissingHeader { .. } => "gonogo::check::missing-header",
+            CheckError::HeaderInInclude { .. } => codes::check::HEADER_IN_INCLUDE,
+            CheckError::DuplicateHeader { .. } => codes::check::DUPLICATE_HEADER,
+            CheckError::MissingHeader { .. } => codes::check::MISSING_HEADER,
             CheckError::DuplicateValueName { .. } | CheckError::DuplicateDefinition { .. } => {
-                "gonogo::check::duplicate-name"
+                codes::check::DUPLICATE_NAME
             }
-            CheckError::DuplicateBulletin { .. } => "gonogo::check::duplicate-bulletin",
-            CheckError::UnknownClass { .. } => "gonogo::check::unknown-class",
-            CheckError::BulletinBeforeEdition { .. } => "gonogo::check::bulletin-before-edition",
-            CheckError::EmptyBulletin { .. } => "gonogo::check::empty-bulletin",
-            CheckError::ExtendsCycle { .. } => "gonogo::check::extends-cycle",
-            CheckError::ExtendsTooLong { .. } => "gonogo::check::extends-too-long",
-            CheckError::TooManyPatterns { .. } => "gonogo::check::too-many-patterns",
-            CheckError::OverrideChangesNothing { .. } => "gonogo::check::override-changes-nothing",
-            CheckError::NothingToOverride { .. } => "gonogo::check::nothing-to-override",
+            CheckError::DuplicateBulletin { .. } => codes::check::DUPLICATE_BULLETIN,
+            CheckError::UnknownClass { .. } => codes::check::UNKNOWN_CLASS,
+            CheckError::BulletinBeforeEdition { .. } => codes::check::BULLETIN_BEFORE_EDITION,
+            CheckError::EmptyBulletin { .. } => codes::check::EMPTY_BULLETIN,
+            CheckError::ExtendsCycle { .. } => codes::check::EXTENDS_CYCLE,
+            CheckError::ExtendsTooLong { .. } => codes::check::EXTENDS_TOO_LONG,
+            CheckError::TooManyPatterns { .. } => codes::check::TOO_MANY_PATTERNS,
+            CheckError::OverrideChangesNothing { .. } => codes::check::OVERRIDE_CHANGES_NOTHING,
+            CheckError::NothingToOverride { .. } => codes::check::NOTHING_TO_OVERRIDE,
             CheckError::DuplicateSection { .. } | CheckError::SectionClash { .. } => {
-                "gonogo::check::duplicate-section"
+                codes::check::DUPLICATE_SECTION
             }
-            CheckError::ConditionalDrop { .. } => "gonogo::check::conditional-drop",
-            CheckError::NothingToDrop { .. } => "gonogo::check::nothing-to-drop",
-            CheckError::DuplicateEntry { .. } => "gonogo::check::duplicate-entry",
-            CheckError::ApprovedAndBanned { .. } => "gonogo::check::approved-and-banned",
-            CheckError::PatternTooLarge { .. } => "gonogo::check::pattern-too-large",
-            CheckError::BadPattern { .. } => "gonogo::check::bad-pattern",
-            CheckError::UnusedMeasurement { .. } => "gonogo::check::unused-measurement",
-            CheckError::UnusedDefine { .. } => "gonogo::check::unused-define",
-            CheckError::PerCylinderText { .. } => "gonogo::check::per-cylinder-text",
-            CheckError::UnknownDimension { .. } => "gonogo::check::unknown-dimension",
-            CheckError::RangeOnText { .. } => "gonogo::check::range-on-text",
-            CheckError::EmptyRange { .. } => "gonogo::check::empty-range",
-            CheckError::DefineCycle { .. } => "gonogo::check::define-cycle",
-            CheckError::UncertaintyDimension { .. } => "gonogo::check::uncertainty-dimension",
-            CheckError::BadCoverage { .. } => "gonogo::check::bad-coverage",
-            CheckError::UnknownUnit { .. } => "gonogo::check::unknown-unit",
-            CheckError::UnknownName { .. } => "gonogo::check::unknown-name",
-            CheckError::BadExponent { .. } => "gonogo::check::bad-exponent",
-            CheckError::UnknownFunction { .. } => "gonogo::check::unknown-function",
-            CheckError::ArgumentDimension { .. } => "gonogo::check::argument-dimension",
-            CheckError::NeedsSingleValue { .. } => "gonogo::check::needs-single-value",
+            CheckError::ConditionalDrop { .. } => codes::check::CONDITIONAL_DROP,
+            CheckError::NothingToDrop { .. } => codes::check::NOTHING_TO_DROP,
+            CheckError::DuplicateEntry { .. } => codes::check::DUPLICATE_ENTRY,
+            CheckError::ApprovedAndBanned { .. } => codes::check::APPROVED_AND_BANNED,
+            CheckError::PatternTooLarge { .. } => codes::check::PATTERN_TOO_LARGE,
+            CheckError::BadPattern { .. } => codes::check::BAD_PATTERN,
+            CheckError::UnusedMeasurement { .. } => codes::check::UNUSED_MEASUREMENT,
+            CheckError::UnusedDefine { .. } => codes::check::UNUSED_DEFINE,
+            CheckError::PerCylinderText { .. } => codes::check::PER_CYLINDER_TEXT,
+            CheckError::UnknownDimension { .. } => codes::check::UNKNOWN_DIMENSION,
+            CheckError::RangeOnText { .. } => codes::check::RANGE_ON_TEXT,
+            CheckError::EmptyRange { .. } => codes::check::EMPTY_RANGE,
+            CheckError::DefineCycle { .. } => codes::check::DEFINE_CYCLE,
+            CheckError::UncertaintyDimension { .. } => codes::check::UNCERTAINTY_DIMENSION,
+            CheckError::BadCoverage { .. } => codes::check::BAD_COVERAGE,
+            CheckError::UnknownUnit { .. } => codes::check::UNKNOWN_UNIT,
+            CheckError::UnknownName { .. } => codes::check::UNKNOWN_NAME,
+            CheckError::BadExponent { .. } => codes::check::BAD_EXPONENT,
+            CheckError::UnknownFunction { .. } => codes::check::UNKNOWN_FUNCTION,
+            CheckError::ArgumentDimension { .. } => codes::check::ARGUMENT_DIMENSION,
+            CheckError::NeedsSingleValue { .. } => codes::check::NEEDS_SINGLE_VALUE,
             CheckError::UnknownArgument { .. } | CheckError::LabelNotTaken { .. } => {
-                "gonogo::check::unknown-argument"
+                codes::check::UNKNOWN_ARGUMENT
             }
-            CheckError::ArgumentTwice { .. } => "gonogo::check::argument-twice",
+            CheckError::ArgumentTwice { .. } => codes::check::ARGUMENT_TWICE,
             CheckError::TooManyArguments { .. } | CheckError::GenericArgumentCount { .. } => {
-                "gonogo::check::argument-count"
+                codes::check::ARGUMENT_COUNT
             }
-            CheckError::ArgumentMissing { .. } => "gonogo::check::argument-missing",
+            CheckError::ArgumentMissing { .. } => codes::check::ARGUMENT_MISSING,
             CheckError::MixedDimensions { .. }
             | CheckError::WrongDimension { .. }
             | CheckError::DimensionMismatch { .. }
-            | CheckError::KindMismatch { .. } => "gonogo::check::dimension-mismatch",
-            CheckError::BadRoot { .. } => "gonogo::check::bad-root",
-            CheckError::TextInArithmetic { .. } => "gonogo::check::text-in-arithmetic",
-            CheckError::UnknownList { .. } => "gonogo::check::unknown-list",
-            CheckError::NotText { .. } => "gonogo::check::not-text",
-            CheckError::TextOrder { .. } => "gonogo::check::text-order",
-            CheckError::PerCylinderCondition { .. } => "gonogo::check::per-cylinder-condition",
-            CheckError::AllowanceOnEquality { .. } => "gonogo::check::allowance-on-equality",
-            CheckError::NegativeAllowance { .. } => "gonogo::check::negative-allowance",
-            CheckError::AllowanceNotConstant { .. } => "gonogo::check::allowance-not-constant",
-            CheckError::NeverFails { .. } => "gonogo::check::never-fails",
-            CheckError::NeverMet { .. } => "gonogo::check::never-met",
-            CheckError::ContradictoryLimits { .. } => "gonogo::check::contradictory-limits",
-            CheckError::NeverHolds { .. } => "gonogo::check::never-holds",
+            | CheckError::KindMismatch { .. } => codes::check::DIMENSION_MISMATCH,
+            CheckError::BadRoot { .. } => codes::check::BAD_ROOT,
+            CheckError::TextInArithmetic { .. } => codes::check::TEXT_IN_ARITHMETIC,
+            CheckError::UnknownList { .. } => codes::check::UNKNOWN_LIST,
+            CheckError::NotText { .. } => codes::check::NOT_TEXT,
+            CheckError::TextOrder { .. } => codes::check::TEXT_ORDER,
+            CheckError::PerCylinderCondition { .. } => codes::check::PER_CYLINDER_CONDITION,
+            CheckError::AllowanceOnEquality { .. } => codes::check::ALLOWANCE_ON_EQUALITY,
+            CheckError::NegativeAllowance { .. } => codes::check::NEGATIVE_ALLOWANCE,
+            CheckError::AllowanceNotConstant { .. } => codes::check::ALLOWANCE_NOT_CONSTANT,
+            CheckError::NeverFails { .. } => codes::check::NEVER_FAILS,
+            CheckError::NeverMet { .. } => codes::check::NEVER_MET,
+            CheckError::ContradictoryLimits { .. } => codes::check::CONTRADICTORY_LIMITS,
+            CheckError::NeverHolds { .. } => codes::check::NEVER_HOLDS,
             CheckError::FormulaTableMismatch { .. } | CheckError::Internal { .. } => {
-                "gonogo::check::internal"
+                codes::check::INTERNAL
             }
         }
     }

@@ -2,6 +2,7 @@
 //! JSON. Every declaration is loaded before anything is written, so bad input gives its
 //! diagnostics and exit 2, never half a report.
 
+use crate::diagnostic::codes;
 use std::path::{Path, PathBuf};
 
 use super::{Failure, checked_rulebook};
@@ -153,7 +154,7 @@ pub(super) fn declaration_files(named: &[PathBuf]) -> Result<Vec<PathBuf>, Probl
             let before = files.len();
             collect_yaml(path, &mut files).map_err(|e| {
                 Problem::unlocated(
-                    "gonogo::read::io",
+                    codes::read::IO,
                     format!("cannot read the folder `{}`: {e}", path.display()),
                 )
                 .with_help("check the path and that the folder may be read")
@@ -161,7 +162,7 @@ pub(super) fn declaration_files(named: &[PathBuf]) -> Result<Vec<PathBuf>, Probl
             files[before..].sort();
             if files.len() == before {
                 return Err(Problem::unlocated(
-                    "gonogo::check::empty-folder",
+                    codes::check::EMPTY_FOLDER,
                     format!(
                         "`{}` holds no `.yaml` or `.yml` declaration",
                         path.display()

@@ -1,5 +1,6 @@
 //! `gonogo explain`: one rule of a rulebook in plain words.
 
+use crate::diagnostic::codes;
 use std::path::Path;
 
 use super::{Failure, load_rulebook};
@@ -23,7 +24,7 @@ pub fn run(rules: &Path, class: Option<&str>, section: &str) -> Result<String, F
             .map(|c| format!("class `{c}`"))
             .unwrap_or_else(|| "any class".to_string());
         let problem = Problem::unlocated(
-            "gonogo::check::unknown-section",
+            codes::check::UNKNOWN_SECTION,
             format!("{place} has no rule {section}"),
         )
         .with_help(

@@ -1,5 +1,6 @@
 //! `gonogo impact`: a field of engines checked under two editions; whose verdicts change.
 
+use crate::diagnostic::codes;
 use std::path::PathBuf;
 
 use super::check::{Role, declaration_files};
@@ -36,7 +37,7 @@ pub fn run(
             .map(|(f, w)| format!("{f}: {w}"))
             .collect();
         let problem = Problem::unlocated(
-            "gonogo::impact::nothing-to-compare",
+            codes::analyze::NOTHING_TO_COMPARE,
             "no declaration could be compared under both editions",
         )
         .with_help(if list.is_empty() {

@@ -139,7 +139,7 @@ impl FileReport {
 
 #[derive(Serialize)]
 struct JsonProblem {
-    code: &'static str,
+    code: crate::diagnostic::Code,
     severity: &'static str,
     message: String,
     help: Option<String>,

@@ -13,6 +13,7 @@ pub mod lint;
 pub mod sheet;
 
 use crate::check::model::CheckedRulebook;
+use crate::diagnostic::codes;
 use crate::diagnostic::{Level, Problem, RenderStyle, render};
 use crate::parse::includes::{RulebookFiles, read_rulebook};
 use crate::source::SourceMap;
@@ -148,7 +149,7 @@ pub fn load_editions(
 /// The refusal to compare rulebooks of two series.
 pub fn different_series(a: &str, b: &str) -> Problem {
     Problem::unlocated(
-        "gonogo::diff::different-series",
+        codes::analyze::DIFFERENT_SERIES,
         format!("these rulebooks belong to different series: `{a}` and `{b}`"),
     )
     .with_help("compare two editions of the same series")

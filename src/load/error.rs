@@ -3,6 +3,7 @@
 //! from them here and nowhere else. [`LoadProblem`] adds where it is and becomes a
 //! [`Problem`] for miette.
 
+use crate::diagnostic::codes;
 use std::path::PathBuf;
 
 use super::path::DeclPath;
@@ -223,35 +224,35 @@ pub enum LoadError {
 
 impl LoadError {
     /// The stable code.
-    pub fn code(&self) -> &'static str {
+    pub fn code(&self) -> codes::Code {
         match self {
-            LoadError::UnknownKey { .. } => "gonogo::load::unknown-key",
-            LoadError::DuplicateKey { .. } => "gonogo::load::duplicate-key",
+            LoadError::UnknownKey { .. } => codes::load::UNKNOWN_KEY,
+            LoadError::DuplicateKey { .. } => codes::load::DUPLICATE_KEY,
             LoadError::UnknownClass(e) => e.code(),
-            LoadError::NoClass { .. } => "gonogo::check::no-class",
-            LoadError::BeforeEdition { .. } => "gonogo::check::before-edition",
-            LoadError::BadDate { .. } => "gonogo::load::bad-date",
-            LoadError::BadQuantity { .. } => "gonogo::load::bad-quantity",
-            LoadError::BadCoverage(_) => "gonogo::load::bad-coverage",
-            LoadError::MissingUnit { .. } => "gonogo::load::missing-unit",
+            LoadError::NoClass { .. } => codes::check::NO_CLASS,
+            LoadError::BeforeEdition { .. } => codes::check::BEFORE_EDITION,
+            LoadError::BadDate { .. } => codes::load::BAD_DATE,
+            LoadError::BadQuantity { .. } => codes::load::BAD_QUANTITY,
+            LoadError::BadCoverage(_) => codes::load::BAD_COVERAGE,
+            LoadError::MissingUnit { .. } => codes::load::MISSING_UNIT,
             LoadError::WrongUnit { .. }
             | LoadError::InstrumentMixed
-            | LoadError::InstrumentWrongDimension { .. } => "gonogo::load::wrong-dimension",
-            LoadError::UnknownUnit { .. } => "gonogo::load::unknown-unit",
-            LoadError::NotFinite => "gonogo::load::not-finite",
-            LoadError::Negative { .. } => "gonogo::load::negative",
-            LoadError::OutOfRange { .. } => "gonogo::load::out-of-range",
-            LoadError::NotPositive => "gonogo::load::not-positive",
-            LoadError::InstrumentEmpty => "gonogo::load::instrument-empty",
-            LoadError::UnknownInstrument { .. } => "gonogo::load::unknown-instrument",
-            LoadError::NeedsList { .. } => "gonogo::load::needs-list",
-            LoadError::NotAList { .. } => "gonogo::load::not-a-list",
-            LoadError::EmptyList => "gonogo::load::empty-list",
-            LoadError::CylinderCount { .. } => "gonogo::load::cylinder-count",
-            LoadError::TwoUncertainties => "gonogo::load::two-uncertainties",
-            LoadError::ValueAndValues => "gonogo::load::value-and-values",
-            LoadError::Yaml { .. } => "gonogo::load::yaml",
-            LoadError::TooMany { .. } => "gonogo::load::too-many",
+            | LoadError::InstrumentWrongDimension { .. } => codes::load::WRONG_DIMENSION,
+            LoadError::UnknownUnit { .. } => codes::load::UNKNOWN_UNIT,
+            LoadError::NotFinite => codes::load::NOT_FINITE,
+            LoadError::Negative { .. } => codes::load::NEGATIVE,
+            LoadError::OutOfRange { .. } => codes::load::OUT_OF_RANGE,
+            LoadError::NotPositive => codes::load::NOT_POSITIVE,
+            LoadError::InstrumentEmpty => codes::load::INSTRUMENT_EMPTY,
+            LoadError::UnknownInstrument { .. } => codes::load::UNKNOWN_INSTRUMENT,
+            LoadError::NeedsList { .. } => codes::load::NEEDS_LIST,
+            LoadError::NotAList { .. } => codes::load::NOT_A_LIST,
+            LoadError::EmptyList => codes::load::EMPTY_LIST,
+            LoadError::CylinderCount { .. } => codes::load::CYLINDER_COUNT,
+            LoadError::TwoUncertainties => codes::load::TWO_UNCERTAINTIES,
+            LoadError::ValueAndValues => codes::load::VALUE_AND_VALUES,
+            LoadError::Yaml { .. } => codes::load::YAML,
+            LoadError::TooMany { .. } => codes::load::TOO_MANY,
         }
     }
 
@@ -568,7 +569,7 @@ mod tests {
             "measurements: `strok` is not a measurement gonogo knows here"
         );
         assert_eq!(p.help.as_deref(), Some("did you mean `stroke`?"));
-        assert_eq!(p.code, "gonogo::load::unknown-key");
+        assert_eq!(p.code, codes::load::UNKNOWN_KEY);
     }
 
     #[test]

@@ -194,6 +194,7 @@ pub fn example(m: &Measurement) -> String {
 #[cfg(test)]
 mod tests {
     use super::*;
+    use crate::diagnostic::codes;
     use crate::source::Span;
 
     fn bore() -> Measurement {
@@ -228,19 +229,19 @@ mod tests {
     #[test]
     fn the_wrong_dimension_is_refused() {
         let e = read_text("76 cc", &bore()).err().map(|e| e.code());
-        assert_eq!(e, Some("gonogo::load::wrong-dimension"));
+        assert_eq!(e, Some(codes::load::WRONG_DIMENSION));
     }
 
     #[test]
     fn negative_and_out_of_range_values_are_refused() {
         assert_eq!(
             read_text("-4.0 in", &bore()).err().map(|e| e.code()),
-            Some("gonogo::load::negative")
+            Some(codes::load::NEGATIVE)
         );
         assert_eq!(read_text("103 mm", &bore()).err().map(|e| e.code()), None);
         assert_eq!(
             read_text("4.03 mm", &bore()).err().map(|e| e.code()),
-            Some("gonogo::load::out-of-range")
+            Some(codes::load::OUT_OF_RANGE)
         );
     }
 
@@ -248,7 +249,7 @@ mod tests {
     fn a_bare_number_needs_a_unit_unless_the_measurement_is_a_plain_number() {
         assert_eq!(
             read_number(4.03, &bore()).err().map(|e| e.code()),
-            Some("gonogo::load::missing-unit")
+            Some(codes::load::MISSING_UNIT)
         );
     }
 }

@@ -4,6 +4,7 @@
 //! the nom error type that carries a [`ParseError`] (or the set of things expected) to the
 //! place parsing stopped.
 
+use crate::diagnostic::codes;
 use std::path::Path;
 
 use nom::error::{ErrorKind, ParseError as NomParseError};
@@ -59,22 +60,22 @@ pub enum ParseError {
 
 impl ParseError {
     /// The stable code.
-    pub fn code(&self) -> &'static str {
+    pub fn code(&self) -> codes::Code {
         match self {
-            ParseError::Unexpected { .. } => "gonogo::parse::unexpected",
-            ParseError::TooLong => "gonogo::parse::too-long",
-            ParseError::TooDeep => "gonogo::parse::too-deep",
-            ParseError::BadEscape => "gonogo::parse::bad-escape",
-            ParseError::UnterminatedString => "gonogo::parse::unterminated-string",
-            ParseError::ControlCharacter { .. } => "gonogo::parse::control-character",
-            ParseError::BadFraction => "gonogo::parse::bad-fraction",
-            ParseError::NumberTooLarge => "gonogo::parse::number-too-large",
-            ParseError::BadDate { .. } => "gonogo::parse::bad-date",
-            ParseError::UnterminatedPattern => "gonogo::parse::unterminated-pattern",
-            ParseError::EmptyPattern => "gonogo::parse::empty-pattern",
-            ParseError::AllowanceInCondition => "gonogo::parse::allowance-in-condition",
-            ParseError::AllowanceOnList => "gonogo::parse::allowance-on-list",
-            ParseError::JoinedRequire => "gonogo::parse::joined-require",
+            ParseError::Unexpected { .. } => codes::parse::UNEXPECTED,
+            ParseError::TooLong => codes::parse::TOO_LONG,
+            ParseError::TooDeep => codes::parse::TOO_DEEP,
+            ParseError::BadEscape => codes::parse::BAD_ESCAPE,
+            ParseError::UnterminatedString => codes::parse::UNTERMINATED_STRING,
+            ParseError::ControlCharacter { .. } => codes::parse::CONTROL_CHARACTER,
+            ParseError::BadFraction => codes::parse::BAD_FRACTION,
+            ParseError::NumberTooLarge => codes::parse::NUMBER_TOO_LARGE,
+            ParseError::BadDate { .. } => codes::parse::BAD_DATE,
+            ParseError::UnterminatedPattern => codes::parse::UNTERMINATED_PATTERN,
+            ParseError::EmptyPattern => codes::parse::EMPTY_PATTERN,
+            ParseError::AllowanceInCondition => codes::parse::ALLOWANCE_IN_CONDITION,
+            ParseError::AllowanceOnList => codes::parse::ALLOWANCE_ON_LIST,
+            ParseError::JoinedRequire => codes::parse::JOINED_REQUIRE,
         }
     }
 
@@ -270,18 +271,18 @@ impl ReadError {
     }
 
     /// The stable code.
-    pub fn code(&self) -> &'static str {
+    pub fn code(&self) -> codes::Code {
         match self {
-            ReadError::Io { .. } => "gonogo::read::io",
-            ReadError::TooLarge { .. } => "gonogo::read::too-large",
-            ReadError::NotUtf8 { .. } => "gonogo::read::not-utf8",
+            ReadError::Io { .. } => codes::read::IO,
+            ReadError::TooLarge { .. } => codes::read::TOO_LARGE,
+            ReadError::NotUtf8 { .. } => codes::read::NOT_UTF8,
             ReadError::IncludeOutside { .. } | ReadError::IncludeLeadsOutside { .. } => {
-                "gonogo::read::include-outside"
+                codes::read::INCLUDE_OUTSIDE
             }
-            ReadError::IncludeMissing { .. } => "gonogo::read::include-missing",
-            ReadError::IncludeCycle { .. } => "gonogo::read::include-cycle",
-            ReadError::IncludeLinkLoop { .. } => "gonogo::read::include-link-loop",
-            ReadError::IncludeNotAFile { .. } => "gonogo::read::include-not-a-file",
+            ReadError::IncludeMissing { .. } => codes::read::INCLUDE_MISSING,
+            ReadError::IncludeCycle { .. } => codes::read::INCLUDE_CYCLE,
+            ReadError::IncludeLinkLoop { .. } => codes::read::INCLUDE_LINK_LOOP,
+            ReadError::IncludeNotAFile { .. } => codes::read::INCLUDE_NOT_A_FILE,
         }
     }
 
@@ -606,7 +607,7 @@ mod tests {
             ParseError::AllowanceOnList,
             ParseError::JoinedRequire,
         ];
-        let mut codes: Vec<&str> = all.iter().map(ParseError::code).collect();
+        let mut codes: Vec<String> = all.iter().map(|e| e.code().to_string()).collect();
         codes.sort_unstable();
         codes.dedup();
         assert_eq!(codes.len(), all.len());
