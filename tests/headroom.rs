@@ -5,9 +5,9 @@ mod common;
 
 use std::path::Path;
 
+use gonogo::analyze::headroom::headroom as compute;
 use gonogo::commands::headroom;
 use gonogo::commands::load_rulebook;
-use gonogo::evaluate::headroom::headroom as compute;
 use gonogo::load::load_declaration;
 use gonogo::report::headroom::HeadroomFormat;
 use gonogo::source::SourceMap;

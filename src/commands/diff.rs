@@ -3,7 +3,7 @@
 use std::path::Path;
 
 use super::{Failure, different_series, load_editions};
-use crate::compare::{Incomparable, compare};
+use crate::analyze::compare::{Incomparable, compare};
 use crate::report::diff::{DiffFormat, render};
 use crate::suggest::{ClassScope, UnknownClass, class_names};
 

@@ -4,7 +4,7 @@ use std::path::PathBuf;
 
 use super::check::{Role, class_of, declaration_files};
 use super::{Failure, checked_rulebook};
-use crate::evaluate::headroom::headroom;
+use crate::analyze::headroom::headroom;
 use crate::load::{LoadProblem, load_declaration};
 use crate::report::headroom::{HeadroomFormat, json, text};
 use crate::source::SourceMap;

@@ -5,9 +5,9 @@ use std::path::PathBuf;
 
 use super::check::{Role, declaration_files};
 use super::{Failure, load_editions};
+use crate::analyze::impact::{Engine, impact};
 use crate::check::model::CheckedRulebook;
 use crate::diagnostic::Problem;
-use crate::impact::{Engine, impact};
 use crate::load::{Declaration, load_declaration};
 use crate::report::impact::{Heading, ImpactFormat, render};
 use crate::source::SourceMap;

@@ -2,8 +2,7 @@
 //! respect to every measured input. The GUM law of propagation (JCGM 100:2008, eq. 10) then
 //! gives the combined standard uncertainty from those sensitivity coefficients.
 
-/// Identifies one measured input (one scalar: each cylinder's bore is its own input).
-pub type InputId = u32;
+use crate::load::InputId;
 
 /// A value and its sensitivity coefficients ∂value/∂input, sorted by input, zeros left out.
 #[derive(Clone, Debug, PartialEq)]

@@ -4,7 +4,7 @@
 
 use std::f64::consts::PI;
 
-use super::dual::{Dual, InputId};
+use super::dual::Dual;
 use super::value::{Evaluated, Unevaluated, Value, all, both};
 use crate::check::builtins::extreme;
 use crate::check::model::CheckedRulebook;
@@ -12,6 +12,7 @@ use crate::check::resolved::{
     Args, Bound, Call, DerivedId, Expr, ExprKind, Literal, LiteralId, MeasurementId, Term,
     TextExpr, TextKind,
 };
+use crate::load::InputId;
 use crate::load::{Declaration, Input, InputName, Supplied, UncertaintySource};
 use crate::parse::ast::BinaryOp;
 

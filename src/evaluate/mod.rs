@@ -6,7 +6,6 @@
 pub mod dual;
 pub mod expr;
 pub mod finding;
-pub mod headroom;
 pub mod outcome;
 mod rule;
 pub mod value;

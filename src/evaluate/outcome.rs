@@ -1,9 +1,9 @@
 //! What evaluation found for each rule: the data every report renders. Numbers are in SI
 //! units; each carries the unit it should be shown in.
 
-use super::dual::InputId;
 use super::finding::{Finding, Verdict};
 use crate::check::model::{CheckedRulebook, Class, ClassRule, Derived};
+use crate::load::InputId;
 use crate::load::{Declaration, Input, Place};
 use crate::parse::ast::DecisionRule;
 use crate::units::Unit;

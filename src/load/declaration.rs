@@ -3,8 +3,11 @@
 
 use std::path::PathBuf;
 
+/// Identifies one input of a check: a measured scalar of the declaration (each cylinder's
+/// bore is its own input), then the rulebook's literals with a stated uncertainty.
+pub type InputId = u32;
+
 use crate::check::model::CheckedRulebook;
-use crate::evaluate::dual::InputId;
 use crate::parse::ast::Date;
 
 /// Who and what was measured.

@@ -17,7 +17,7 @@ use serde::Deserialize;
 use serde::de::{DeserializeSeed, IgnoredAny};
 
 pub use declaration::{
-    Declaration, Identity, Input, InputName, Place, Supplied, UncertaintySource,
+    Declaration, Identity, Input, InputId, InputName, Place, Supplied, UncertaintySource,
 };
 pub use error::{LoadError, LoadProblem};
 pub use path::DeclPath;

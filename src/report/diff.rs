@@ -6,7 +6,7 @@ use std::fmt::Write;
 use serde::Serialize;
 
 use super::format::quantity;
-use crate::compare::{EditionDiff, Limits, RuleChange, RuleDiff};
+use crate::analyze::compare::{EditionDiff, Limits, RuleChange, RuleDiff};
 
 /// Output formats of `diff`.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, clap::ValueEnum)]
@@ -171,8 +171,8 @@ struct Document<'a> {
     old: Edition<'a>,
     new: Edition<'a>,
     decision: Option<[&'static str; 2]>,
-    measurements: &'a [crate::compare::MeasurementDiff],
-    lists: &'a [crate::compare::ListDiff],
+    measurements: &'a [crate::analyze::compare::MeasurementDiff],
+    lists: &'a [crate::analyze::compare::ListDiff],
     bulletins_dropped: &'a [String],
     bulletins_added: &'a [String],
     classes_dropped: &'a [String],

@@ -6,8 +6,8 @@ use std::fmt::Write;
 use serde::Serialize;
 
 use super::format::{quantity, uncertainty_in};
+use crate::analyze::headroom::{Move, RuleHeadroom};
 use crate::check::model::CheckedRulebook;
-use crate::evaluate::headroom::{Move, RuleHeadroom};
 use crate::load::Declaration;
 use crate::units::{self, Unit};
 

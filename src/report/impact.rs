@@ -9,7 +9,7 @@ use std::fmt::Write;
 use serde::Serialize;
 
 use super::format::quantity;
-use crate::impact::{Call, Changed, Impact};
+use crate::analyze::impact::{Call, Changed, Impact};
 
 /// Output formats of `impact`.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, clap::ValueEnum)]

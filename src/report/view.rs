@@ -14,9 +14,9 @@ use serde::Serialize;
 
 use super::format::{probability, quantity, uncertainty_in};
 use crate::check::model::{Derived, Origin, ValueKind};
-use crate::evaluate::dual::InputId;
 use crate::evaluate::finding::{Finding, Verdict};
 use crate::evaluate::outcome::{Applies, EngineReport, EngineResult, Numeric, Outcome, Trace};
+use crate::load::InputId;
 use crate::load::{Input, InputName, UncertaintySource};
 use crate::units::{self, Unit};
 

@@ -3,10 +3,10 @@
 //! coefficient (margin / ∂margin/∂input), then confirmed by re-evaluating the rule with the
 //! input moved, refining by secant steps and, where those do not settle, by bisection.
 
-use super::dual::InputId;
-use super::expr::Evaluator;
-use super::outcome::{Applies, Numeric};
 use crate::check::model::{CheckedRulebook, Class, ClassRule};
+use crate::evaluate::expr::Evaluator;
+use crate::evaluate::outcome::{Applies, Numeric};
+use crate::load::InputId;
 use crate::load::{Declaration, InputName};
 use crate::parse::ast::DecisionRule;
 
