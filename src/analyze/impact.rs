@@ -6,7 +6,7 @@
 use crate::check::model::CheckedRulebook;
 use crate::evaluate::check_against;
 use crate::evaluate::finding::{Finding, Verdict};
-use crate::evaluate::outcome::{EngineReport, Outcome};
+use crate::evaluate::outcome::{EngineReport, EngineResult, Outcome};
 use crate::load::Declaration;
 use crate::parse::ast::DecisionRule;
 use crate::units::Unit;
@@ -65,10 +65,10 @@ fn call(o: &Outcome) -> Call {
 }
 
 fn result_word(r: &EngineReport) -> &'static str {
-    match r.exit() {
-        crate::exit::Exit::Illegal => "illegal",
-        crate::exit::Exit::Uncertain => "not all clear",
-        _ => "legal",
+    match r.result() {
+        EngineResult::Illegal => "illegal",
+        EngineResult::NotAllClear => "not all clear",
+        EngineResult::Legal => "legal",
     }
 }
 

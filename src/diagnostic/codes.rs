@@ -305,6 +305,8 @@ pub mod load {
     pub const WRONG_DIMENSION: Code = Code::new(Stage::Load, 22, "wrong-dimension");
     /// `D23 yaml`
     pub const YAML: Code = Code::new(Stage::Load, 23, "yaml");
+    /// `D24 too-many-values`
+    pub const TOO_MANY_VALUES: Code = Code::new(Stage::Load, 24, "too-many-values");
 }
 
 /// Codes of comparing editions and fields.
@@ -422,6 +424,7 @@ pub const ALL: &[Code] = &[
     load::VALUE_AND_VALUES,
     load::WRONG_DIMENSION,
     load::YAML,
+    load::TOO_MANY_VALUES,
     analyze::DIFFERENT_SERIES,
     analyze::NOTHING_TO_COMPARE,
 ];

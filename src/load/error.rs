@@ -197,6 +197,8 @@ pub enum LoadError {
     },
     /// An empty per-cylinder list.
     EmptyList,
+    /// More measured values than gonogo can number.
+    TooManyValues,
     /// A per-cylinder list whose length disagrees with the cylinder count.
     CylinderCount {
         /// How many this list gives.
@@ -248,6 +250,7 @@ impl LoadError {
             LoadError::NeedsList { .. } => codes::load::NEEDS_LIST,
             LoadError::NotAList { .. } => codes::load::NOT_A_LIST,
             LoadError::EmptyList => codes::load::EMPTY_LIST,
+            LoadError::TooManyValues => codes::load::TOO_MANY_VALUES,
             LoadError::CylinderCount { .. } => codes::load::CYLINDER_COUNT,
             LoadError::TwoUncertainties => codes::load::TWO_UNCERTAINTIES,
             LoadError::ValueAndValues => codes::load::VALUE_AND_VALUES,
@@ -333,6 +336,9 @@ impl LoadError {
                 }
             }
             LoadError::EmptyList => "this list has no values".to_string(),
+            LoadError::TooManyValues => {
+                "the declaration gives more measured values than gonogo can number".to_string()
+            }
             LoadError::CylinderCount {
                 count,
                 earlier,
@@ -374,6 +380,7 @@ impl LoadError {
             LoadError::NeedsList { .. } => "one value".to_string(),
             LoadError::NotAList { .. } => "a list".to_string(),
             LoadError::EmptyList => "empty".to_string(),
+            LoadError::TooManyValues => "one value too many".to_string(),
             LoadError::CylinderCount { count, .. } => format!("{count} cylinders"),
             LoadError::TwoUncertainties | LoadError::ValueAndValues => "here".to_string(),
             LoadError::Yaml { .. }
@@ -466,6 +473,9 @@ impl LoadError {
             LoadError::NotAList { .. } => "write a single value".to_string(),
             LoadError::EmptyList => {
                 "give one value per cylinder, or leave the measurement out".to_string()
+            }
+            LoadError::TooManyValues => {
+                "split the inspection into several declarations".to_string()
             }
             LoadError::CylinderCount { .. } => {
                 "every per-cylinder list has one value per cylinder, and `cylinders` counts them"

@@ -15,7 +15,7 @@ use serde::de::{self, DeserializeSeed, Deserializer, IgnoredAny, MapAccess, SeqA
 
 use super::collect::Collector;
 use super::declaration::{
-    Declaration, Identity, Input, InputName, Place, Supplied, UncertaintySource,
+    Declaration, Identity, Input, InputId, InputName, Place, Supplied, UncertaintySource,
 };
 use super::error::{CoverageAt, KeyKind, LoadError, Twice};
 use super::path::DeclPath;
@@ -913,7 +913,8 @@ impl ValueSeed<'_> {
             self.note_cylinders::<E>(reading.value.round() as usize)?;
         }
         let mut state = self.cx.state.borrow_mut();
-        let id = push_input(&mut state.declaration, self.name(None), reading, source);
+        let id = push_input(&mut state.declaration, self.name(None), reading, source)
+            .ok_or_else(|| self.refuse(LoadError::TooManyValues))?;
         self.supply(&mut state, Supplied::Single(id));
         Ok(vec![id])
     }
@@ -967,8 +968,9 @@ impl ValueSeed<'_> {
                     r,
                     source.clone(),
                 )
+                .ok_or_else(|| self.refuse(LoadError::TooManyValues))
             })
-            .collect();
+            .collect::<Result<_, E>>()?;
         self.supply(&mut state, Supplied::PerCylinder(ids.clone()));
         Ok(ids)
     }
@@ -982,12 +984,14 @@ impl ValueSeed<'_> {
     }
 }
 
+/// Adds one measured value to the declaration's inputs and gives its id; `None` when the
+/// ids have run out (more values than an 8 MiB file can hold, but never a wrapped id).
 fn push_input(
     d: &mut Declaration,
     name: InputName,
     r: Reading,
     source: Option<UncertaintySource>,
-) -> u32 {
+) -> Option<InputId> {
     let (u, source) = match (r.stated, source) {
         (Some((expanded, k)), _) => (expanded / k, UncertaintySource::Stated { k }),
         (None, Some(s)) => (0.0, s),
@@ -1001,7 +1005,7 @@ fn push_input(
         written: Some(r.written),
         source,
     });
-    u32::try_from(d.inputs.len() - 1).unwrap_or(u32::MAX)
+    InputId::try_from(d.inputs.len() - 1).ok()
 }
 
 impl<'de> Visitor<'de> for ValueSeed<'_> {
