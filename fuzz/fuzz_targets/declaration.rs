@@ -40,8 +40,10 @@ fuzz_target!(|data: &[u8]| {
         &mut sources,
     ) {
         Ok(declaration) => declaration,
-        Err(problem) => {
-            let _ = render(&problem, &sources, RenderStyle::PLAIN);
+        Err(problems) => {
+            for problem in &problems {
+                let _ = render(problem, &sources, RenderStyle::PLAIN);
+            }
             return;
         }
     };
