@@ -360,7 +360,10 @@ fn per_cylinder_equality_holds_on_every_cylinder_and_names_the_deciding_one() {
     );
     assert_eq!(rows[8].finding, Some(Finding::Fail), "{:?}", rows[8]);
     assert_eq!(rows[8].verdict, Verdict::Illegal);
-    assert_eq!(rows[8].observed.as_deref(), Some("4.2 (cylinder 2)"));
+    assert_eq!(
+        rows[8].observed.as_deref(),
+        Some("4.2 in on cylinder 2; cylinders 2, 3, 4 break the rule")
+    );
     // `!=` likewise: cylinder 3 is the stock bore, so the rule fails there
     let bores = "\"4.100 in\", \"4.200 in\", \"4.000 in\", \"4.300 in\"";
     let rows = case.run(
@@ -368,7 +371,7 @@ fn per_cylinder_equality_holds_on_every_cylinder_and_names_the_deciding_one() {
         DecisionRule::GuardedRejection,
     );
     assert_eq!(rows[9].verdict, Verdict::Illegal, "{:?}", rows[9]);
-    assert_eq!(rows[9].observed.as_deref(), Some("4 (cylinder 3)"));
+    assert_eq!(rows[9].observed.as_deref(), Some("4 in on cylinder 3"));
     // every cylinder at 4.000 in: `==` passes, `!=` fails at cylinder 1
     let bores = "\"4.000 in\", \"4.000 in\", \"4.000 in\", \"4.000 in\"";
     let rows = case.run(
@@ -376,8 +379,12 @@ fn per_cylinder_equality_holds_on_every_cylinder_and_names_the_deciding_one() {
         DecisionRule::GuardedRejection,
     );
     assert_eq!(rows[8].verdict, Verdict::Legal, "{:?}", rows[8]);
+    assert_eq!(rows[8].observed.as_deref(), Some("4 in on every cylinder"));
     assert_eq!(rows[9].verdict, Verdict::Illegal, "{:?}", rows[9]);
-    assert_eq!(rows[9].observed.as_deref(), Some("4 (cylinder 1)"));
+    assert_eq!(
+        rows[9].observed.as_deref(),
+        Some("4 in on cylinder 1; cylinders 1, 2, 3, 4 break the rule")
+    );
 }
 
 /// A declaration whose bores are a per-cylinder list of no cylinders, which the loader never

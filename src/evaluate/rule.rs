@@ -199,8 +199,9 @@ impl<'a> Evaluator<'a> {
         }
     }
 
-    /// `==` or `!=` of numbers, on every cylinder: the first cylinder that breaks it decides
-    /// (cylinder 1 when none does), and is named beside the value found.
+    /// `==` or `!=` of numbers, on every cylinder: any cylinder that breaks it fails the rule.
+    /// The value shown is the first such cylinder's, in the limit's unit, with every cylinder
+    /// that breaks it named; on a pass, the value of cylinder 1 "on every cylinder".
     fn equality(
         &self,
         l: &Value,
@@ -212,22 +213,35 @@ impl<'a> Evaluator<'a> {
         if cylinders == 0 {
             return Err(no_value());
         }
-        let mut deciding = (0, true);
+        let mut breaking = Vec::new();
         for i in 0..cylinders {
             let (a, b) = (l.at(i)?.value, r.at(i)?.value);
             let same = (a - b).abs() <= 1e-9 * a.abs().max(b.abs()).max(1e-300);
             if same != equal {
-                deciding = (i, false);
-                break;
+                breaking.push(i);
             }
         }
-        let (i, holds) = deciding;
-        let value = l.at(i)?.value / unit.map_or(1.0, |u| u.to_si);
+        let shown_at = breaking.first().copied().unwrap_or(0);
+        let value = l.at(shown_at)?.value / unit.map_or(1.0, |u| u.to_si);
         let mut shown = crate::report::format::number(value);
-        if l.is_per_cylinder() || r.is_per_cylinder() {
-            shown = format!("{shown} (cylinder {})", i + 1);
+        if let Some(u) = unit {
+            shown = format!("{shown} {}", u.symbol);
         }
-        Ok(binary_finding(holds, shown))
+        if l.is_per_cylinder() || r.is_per_cylinder() {
+            shown = match breaking.as_slice() {
+                [] => format!("{shown} on every cylinder"),
+                [one] => format!("{shown} on cylinder {}", one + 1),
+                many => {
+                    let list: Vec<String> = many.iter().map(|i| (i + 1).to_string()).collect();
+                    format!(
+                        "{shown} on cylinder {}; cylinders {} break the rule",
+                        shown_at + 1,
+                        list.join(", ")
+                    )
+                }
+            };
+        }
+        Ok(binary_finding(breaking.is_empty(), shown))
     }
 
     /// A limit on one side (`<=`, `<` when `upper`; `>=`, `>` otherwise), on every
