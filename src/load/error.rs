@@ -231,7 +231,7 @@ impl LoadError {
             LoadError::UnknownKey { .. } => codes::load::UNKNOWN_KEY,
             LoadError::DuplicateKey { .. } => codes::load::DUPLICATE_KEY,
             LoadError::UnknownClass(e) => e.code(),
-            LoadError::NoClass { .. } => codes::check::NO_CLASS,
+            LoadError::NoClass { .. } => codes::load::NO_CLASS,
             LoadError::BeforeEdition { .. } => codes::check::BEFORE_EDITION,
             LoadError::BadDate { .. } => codes::load::BAD_DATE,
             LoadError::BadQuantity { .. } => codes::load::BAD_QUANTITY,
