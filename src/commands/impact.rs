@@ -67,24 +67,33 @@ pub fn run(
 }
 
 /// The declaration read against each edition's schema, and its class (in both editions).
+/// Every problem of a declaration on one line each, with its line and column and code:
+/// `15:40 \`bore\` is a length, … (D22 wrong-dimension)`.
+fn every_problem(problems: &[Problem], sources: &SourceMap) -> String {
+    if problems.is_empty() {
+        return "the declaration could not be read".to_string();
+    }
+    let lines: Vec<String> = problems
+        .iter()
+        .map(|p| {
+            let at = p.primary_span().map(|span| {
+                let (line, column) = sources.file(span.file).line_column(span.start);
+                format!("{line}:{column} ")
+            });
+            format!("{}{} ({})", at.unwrap_or_default(), p.message, p.code)
+        })
+        .collect();
+    lines.join("; ")
+}
+
 fn load_both(
     path: &std::path::Path,
     old: &CheckedRulebook,
     new: &CheckedRulebook,
 ) -> Result<(Declaration, Declaration, String), String> {
     let mut sources = SourceMap::default();
-    let first_line = |problems: Vec<Problem>| match problems.first() {
-        Some(p) if problems.len() > 1 => format!(
-            "{} ({}), and {} more",
-            p.message,
-            p.code,
-            problems.len() - 1
-        ),
-        Some(p) => format!("{} ({})", p.message, p.code),
-        None => "the declaration could not be read".to_string(),
-    };
-    let o = load_declaration(path, old, &mut sources).map_err(first_line)?;
-    let n = load_declaration(path, new, &mut sources).map_err(first_line)?;
+    let o = load_declaration(path, old, &mut sources).map_err(|p| every_problem(&p, &sources))?;
+    let n = load_declaration(path, new, &mut sources).map_err(|p| every_problem(&p, &sources))?;
     let class = n
         .identity
         .class
