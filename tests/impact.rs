@@ -89,3 +89,26 @@ fn nothing_to_compare_is_exit_2() {
     .unwrap_or_default();
     assert!(series.contains("different series"), "{series}");
 }
+
+#[test]
+fn a_declaration_it_cannot_compare_is_listed_with_every_problem_and_where_it_is() {
+    // the file's four mistakes, at the lines and columns its own snapshot shows
+    let out = run(
+        &[
+            PathBuf::from("engines-demo/limited2-legal.yaml"),
+            PathBuf::from("tests/bad-declarations/several-mistakes.yaml"),
+        ],
+        ImpactFormat::Text,
+    )
+    .unwrap_or_else(|e| panic!("{e}"));
+    for expected in [
+        "15:40 measurements.bore[3]",
+        "(D22 wrong-dimension)",
+        "17:3 measurements: `strok`",
+        "29:16 measurements.gasket.bore",
+        "33:17 measurements.cam.lobe_lift.instrument",
+        "(D18 unknown-instrument)",
+    ] {
+        assert!(out.contains(expected), "`{expected}` missing from:\n{out}");
+    }
+}
