@@ -445,7 +445,7 @@ fn evaluation_reads_the_resolved_call_not_the_name_as_written() {
     assert!(close(rows[12].margin.unwrap_or(f64::NAN), by_hand, 1e-9));
     for class in &mut case.rulebook.classes {
         for rule in &mut class.rules {
-            rename_calls(&mut rule.rule.require);
+            rename_calls(&mut rule.written.rule.require);
         }
     }
     let rows = case.run(

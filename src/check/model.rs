@@ -165,30 +165,27 @@ impl WrittenRule {
     }
 }
 
-/// A rule as it stands in a class: the rule and every condition it sits under, as written and
-/// resolved.
+/// A rule as it stands in a class: the rule as written (every [`WrittenRule`] field reads
+/// through, `rule.requirement`, `rule.limit` …) and the same rule resolved.
 #[derive(Clone, Debug)]
 pub struct ClassRule {
-    /// The rule as written.
-    pub rule: Rule,
-    /// The conditions of enclosing `when` groups, outermost first, then the rule's own.
-    pub conditions: Vec<Condition>,
-    /// Where it was written.
-    pub origin: Origin,
-    /// The requirement in the rulebook's canonical words.
-    pub requirement: String,
-    /// Each condition in canonical words.
-    pub condition_texts: Vec<String>,
-    /// The names its conditions and requirement read, each once, in the order first read.
-    pub reads: Vec<String>,
+    /// The rule as written, with its texts and limit.
+    pub written: WrittenRule,
     /// The requirement, resolved.
     pub test: resolved::Test,
     /// The conditions, resolved, in the order of `conditions`.
     pub when: Vec<resolved::Condition>,
     /// What its conditions and requirement read, each once, in the order first read.
     pub read_ids: Vec<Read>,
-    /// The requirement's limit in normal form; `None` for a membership or pattern test.
-    pub limit: Option<super::limit::Limit<Expr>>,
+}
+
+impl std::ops::Deref for ClassRule {
+    type Target = WrittenRule;
+
+    /// The rule as written: a resolved rule is the written one with more known about it.
+    fn deref(&self) -> &WrittenRule {
+        &self.written
+    }
 }
 
 impl ClassRule {
@@ -202,13 +199,7 @@ impl ClassRule {
         when.iter().for_each(|c| c.reads(&mut read_ids));
         test.reads(&mut read_ids);
         ClassRule {
-            rule: written.rule,
-            conditions: written.conditions,
-            origin: written.origin,
-            requirement: written.requirement,
-            condition_texts: written.condition_texts,
-            reads: written.reads,
-            limit: written.limit,
+            written,
             test,
             when,
             read_ids,
