@@ -13,7 +13,7 @@ use crate::check::resolved::{
     TextExpr, TextKind,
 };
 use crate::load::InputId;
-use crate::load::{Declaration, Input, InputName, Supplied, UncertaintySource};
+use crate::load::{Component, Declaration, Input, InputName, Supplied, UncertaintySource};
 use crate::parse::ast::BinaryOp;
 
 /// Evaluates expressions for one declaration, caching derived values.
@@ -202,6 +202,7 @@ impl<'a> Evaluator<'a> {
             name: InputName::Literal(written.text.clone()),
             value: written.value,
             standard_uncertainty: written.standard_uncertainty,
+            components: vec![Component::normal(written.standard_uncertainty)],
             unit: written.unit.map(|u| u.symbol),
             written: None,
             source: UncertaintySource::Rulebook,

@@ -43,6 +43,41 @@ pub enum UncertaintySource {
     None,
 }
 
+/// The distribution an uncertainty component is drawn from (JCGM 101:2008, 6.4): what a
+/// Monte Carlo propagation samples, and where a component's degrees of freedom come from.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub enum Distribution {
+    /// Normal (Gaussian): a stated expanded uncertainty or a calibration certificate.
+    Normal,
+    /// Rectangular (uniform) over ±√3·u: a digital resolution (GUM F.2.2.1).
+    Rectangular,
+    /// A scaled and shifted t-distribution: the mean of repeated readings (Type A, GUM 4.2),
+    /// with its degrees of freedom.
+    StudentT {
+        /// Degrees of freedom, n − 1 for n readings.
+        degrees_of_freedom: f64,
+    },
+}
+
+/// One component of an input's standard uncertainty.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct Component {
+    /// The standard uncertainty of this component, in SI units.
+    pub standard_uncertainty: f64,
+    /// The distribution it is drawn from.
+    pub distribution: Distribution,
+}
+
+impl Component {
+    /// A normal component of standard uncertainty `u`.
+    pub fn normal(u: f64) -> Component {
+        Component {
+            standard_uncertainty: u,
+            distribution: Distribution::Normal,
+        }
+    }
+}
+
 /// Where in a declaration a value was written.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Hash)]
 pub enum Place {
@@ -85,8 +120,11 @@ pub struct Input {
     pub name: InputName,
     /// Value in SI units.
     pub value: f64,
-    /// Standard uncertainty in SI units.
+    /// Standard uncertainty in SI units: the components added in quadrature.
     pub standard_uncertainty: f64,
+    /// The components of the standard uncertainty, each with its distribution (empty when the
+    /// value is taken as exact).
+    pub components: Vec<Component>,
     /// The unit it was written in, for showing it back.
     pub unit: Option<&'static str>,
     /// The value exactly as written (`4.0312 in`), when it was written as text.

@@ -17,7 +17,8 @@ use serde::Deserialize;
 use serde::de::{DeserializeSeed, IgnoredAny};
 
 pub use declaration::{
-    Declaration, Identity, Input, InputId, InputName, Place, Supplied, UncertaintySource,
+    Component, Declaration, Distribution, Identity, Input, InputId, InputName, Place, Supplied,
+    UncertaintySource,
 };
 pub use error::{LoadError, LoadProblem};
 pub use path::DeclPath;
@@ -184,6 +185,7 @@ fn resolve_instruments(state: &mut State) -> Vec<(DeclPath, LoadError)> {
         for id in &usage.inputs {
             if let Some(input) = state.declaration.inputs.get_mut(*id as usize) {
                 input.standard_uncertainty = instrument.standard_uncertainty;
+                input.components.clone_from(&instrument.components);
             }
         }
     }

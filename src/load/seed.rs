@@ -15,7 +15,8 @@ use serde::de::{self, DeserializeSeed, Deserializer, IgnoredAny, MapAccess, SeqA
 
 use super::collect::Collector;
 use super::declaration::{
-    Declaration, Identity, Input, InputId, InputName, Place, Supplied, UncertaintySource,
+    Component, Declaration, Distribution, Identity, Input, InputId, InputName, Place, Supplied,
+    UncertaintySource,
 };
 use super::error::{CoverageAt, KeyKind, LoadError, Twice};
 use super::path::DeclPath;
@@ -43,6 +44,8 @@ pub const TOP_KEYS: &[&str] = &[
 pub struct Instrument {
     /// Standard uncertainty in SI units.
     pub standard_uncertainty: f64,
+    /// Its components: the resolution (rectangular) and the stated uncertainty (normal).
+    pub components: Vec<Component>,
     /// The dimension of what it measures.
     pub dimension: Dimension,
 }
@@ -634,8 +637,14 @@ fn instrument_from(
     let u = from_resolution
         .map_or(0.0, |(u, _)| u)
         .hypot(from_expanded.map_or(0.0, |(u, _)| u));
+    let rectangular = from_resolution.map(|(u, _)| Component {
+        standard_uncertainty: u,
+        distribution: Distribution::Rectangular,
+    });
+    let normal = from_expanded.map(|(u, _)| Component::normal(u));
     Ok(Instrument {
         standard_uncertainty: u,
+        components: rectangular.into_iter().chain(normal).collect(),
         dimension,
     })
 }
@@ -1001,6 +1010,11 @@ fn push_input(
         name,
         value: r.value,
         standard_uncertainty: u,
+        components: if u > 0.0 {
+            vec![Component::normal(u)]
+        } else {
+            Vec::new()
+        },
         unit: r.unit,
         written: Some(r.written),
         source,

@@ -1007,6 +1007,7 @@ mod tests {
             name: InputName::Literal("x".to_string()),
             value,
             standard_uncertainty: 0.0,
+            components: Vec::new(),
             unit: Some("in"),
             written: written.map(str::to_string),
             source,
