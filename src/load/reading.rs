@@ -71,7 +71,7 @@ pub fn read_number(value: f64, m: &Measurement) -> Result<Reading, LoadError> {
         value,
         stated: None,
         unit: None,
-        written: crate::report::format::number(value),
+        written: crate::report::format::shortest(value),
     })
 }
 

@@ -1,7 +1,130 @@
-//! Formatting numbers for people: values to six significant digits, uncertainties to two,
-//! probabilities as percentages, always in the unit the rulebook or declaration wrote.
+//! Formatting numbers for people. A reading is shown as it was written (the view keeps its
+//! text); a value computed from readings is shown with the digits its uncertainty supports
+//! (GUM 7.2.6, [`Digits::supported_by`]): the uncertainty to two significant digits and the
+//! value rounded to the same decimal place. A value without an uncertainty keeps six
+//! significant digits, trailing zeros trimmed. Probabilities are percentages.
 
 use crate::units::Unit;
+
+/// How many digits to show of a value.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Digits {
+    /// Rounded to this decimal place: 3 is thousandths, 0 units, −1 tens. Set by an
+    /// uncertainty (GUM 7.2.6) or by the digits a value was written with.
+    Place(i32),
+    /// Six significant digits, trailing zeros trimmed: a value known without an uncertainty.
+    Significant,
+}
+
+/// No value is shown with more significant digits than this: a double holds about 15.
+const MAX_SIGNIFICANT: i32 = 15;
+
+impl Digits {
+    /// The digits an uncertainty `u` supports (GUM JCGM 100:2008, 7.2.6): `u` to two
+    /// significant digits, and every value it belongs to rounded to the same decimal place.
+    /// Without an uncertainty (zero, or not a finite number), six significant digits.
+    pub fn supported_by(u: f64) -> Digits {
+        if !u.is_finite() || u <= 0.0 {
+            return Digits::Significant;
+        }
+        // `{:.1e}` rounds to two significant digits in decimal, so 0.0999 gives 1.0e-1
+        let text = format!("{:.1e}", u);
+        match text.split_once('e').and_then(|(_, e)| e.parse::<i32>().ok()) {
+            Some(exponent) => Digits::Place(1 - exponent),
+            None => Digits::Significant,
+        }
+    }
+
+    /// The digits an uncertainty `u_si` in SI units supports for a value shown in `unit`.
+    pub fn supported_in(u_si: f64, unit: Option<&Unit>) -> Digits {
+        Digits::supported_by(u_si / unit.map_or(1.0, |u| u.to_si))
+    }
+
+    /// The decimal places of a number as written (`4.0346 in` has 4, `3200 lb` has 0); a
+    /// fraction (`1-3/4 in`) or a number in exponent form gives six significant digits.
+    pub fn as_written(text: &str) -> Digits {
+        let number = text.trim().split_whitespace().next().unwrap_or_default();
+        let number = number.trim_start_matches(['-', '+', '−']);
+        let (whole, fraction) = number.split_once('.').unwrap_or((number, ""));
+        let all_digits = |s: &str| s.chars().all(|c| c.is_ascii_digit());
+        if whole.is_empty() && fraction.is_empty() || !all_digits(whole) || !all_digits(fraction)
+        {
+            return Digits::Significant;
+        }
+        Digits::Place(fraction.len() as i32)
+    }
+
+    /// The finer of two: the one that shows more decimal places.
+    pub fn finer(self, other: Digits) -> Digits {
+        match (self, other) {
+            (Digits::Place(a), Digits::Place(b)) => Digits::Place(a.max(b)),
+            (Digits::Significant, d) | (d, Digits::Significant) => d,
+        }
+    }
+
+    /// `v` with these digits.
+    pub fn number(self, v: f64) -> String {
+        match self {
+            Digits::Significant => significant(v, 6),
+            Digits::Place(place) => fixed(v, place),
+        }
+    }
+
+    /// A value in SI units shown in `unit` with these digits (`4.0312 in`), or a plain number.
+    pub fn quantity(self, si: f64, unit: Option<&Unit>) -> String {
+        match unit {
+            Some(u) => format!("{} {}", self.number(si / u.to_si), u.symbol),
+            None => self.number(si),
+        }
+    }
+
+}
+
+/// A bare number as serde_yaml hands it over (a double, its text lost): the shortest text
+/// that reads back as the same double, so `1.5` stays `1.5` but `1.50` becomes `1.5`.
+pub fn shortest(v: f64) -> String {
+    format!("{v}")
+}
+
+/// A value and its uncertainty with the digits the uncertainty supports (GUM 7.2.6): the
+/// uncertainty to two significant digits, the value to the same decimal place. Without an
+/// uncertainty the value has six significant digits and the uncertainty reads `0`.
+pub fn with_uncertainty(value: f64, u: f64) -> (String, String) {
+    match Digits::supported_by(u) {
+        Digits::Significant => (number(value), uncertainty(u)),
+        digits => (digits.number(value), digits.number(u)),
+    }
+}
+
+/// `v` rounded to `place` decimals (negative: tens, hundreds …), at most 15 significant
+/// digits, never `-0`.
+fn fixed(v: f64, place: i32) -> String {
+    if !v.is_finite() {
+        return significant(v, 6);
+    }
+    let magnitude = if v == 0.0 {
+        0
+    } else {
+        v.abs().log10().floor() as i32
+    };
+    let place = place.min(MAX_SIGNIFICANT - 1 - magnitude).min(20);
+    let text = if place >= 0 {
+        let decimals = place as usize;
+        format!("{v:.decimals$}")
+    } else {
+        let scale = 10f64.powi(-place);
+        let zeros = "0".repeat((-place) as usize);
+        match format!("{:.0}", (v / scale).round()) {
+            t if t == "0" || t == "-0" => "0".to_string(),
+            t => format!("{t}{zeros}"),
+        }
+    };
+    if text.starts_with('-') && text.chars().all(|c| matches!(c, '-' | '0' | '.')) {
+        text[1..].to_string()
+    } else {
+        text
+    }
+}
 
 /// A value to six significant digits, trailing zeros trimmed.
 pub fn number(v: f64) -> String {
@@ -63,6 +186,62 @@ pub fn probability(p: f64, uncertain: bool) -> String {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn gum_7_2_6_two_significant_digits_of_u_and_the_value_to_the_same_place() {
+        // GUM JCGM 100:2008, 7.2.2 (from memory): m_S = 100.021 47 g with u_c = 0.35 mg
+        assert_eq!(
+            with_uncertainty(100.021_47, 0.000_35),
+            ("100.02147".to_string(), "0.00035".to_string())
+        );
+        // GUM 7.2.6 (from memory): y = 10.057 62 Ω with u_c(y) = 27 mΩ is rounded to 10.058 Ω
+        assert_eq!(
+            with_uncertainty(10.057_62, 0.027),
+            ("10.058".to_string(), "0.027".to_string())
+        );
+        // 7.2.4's form (from memory): m_S = (100.021 47 ± 0.000 79) g with U = 0.79 mg, k = 2.26
+        assert_eq!(
+            with_uncertainty(100.021_47, 0.000_79),
+            ("100.02147".to_string(), "0.00079".to_string())
+        );
+    }
+
+    #[test]
+    fn the_place_follows_u_after_its_rounding_and_keeps_a_trailing_zero() {
+        // two significant digits of 0.0999 are 0.10: the place is the hundredths
+        assert_eq!(Digits::supported_by(0.0999), Digits::Place(2));
+        assert_eq!(with_uncertainty(3.141_59, 0.0999).0, "3.14");
+        assert_eq!(with_uncertainty(8.643_53, 0.014).0, "8.644");
+        assert_eq!(with_uncertainty(3080.0, 2.0), ("3080.0".into(), "2.0".into()));
+        // u of 270 ends at the tens: the value is rounded to tens
+        assert_eq!(with_uncertainty(12_345.0, 270.0), ("12350".into(), "270".into()));
+        assert_eq!(with_uncertainty(-0.000_01, 0.0012), ("0.0000".into(), "0.0012".into()));
+    }
+
+    #[test]
+    fn without_an_uncertainty_six_significant_digits() {
+        assert_eq!(Digits::supported_by(0.0), Digits::Significant);
+        assert_eq!(Digits::supported_by(f64::NAN), Digits::Significant);
+        assert_eq!(with_uncertainty(355.926_300_6, 0.0), ("355.926".into(), "0".into()));
+    }
+
+    #[test]
+    fn the_places_of_a_number_as_written() {
+        assert_eq!(Digits::as_written("1.6200 in"), Digits::Place(4));
+        assert_eq!(Digits::as_written("3200 lb"), Digits::Place(0));
+        assert_eq!(Digits::as_written("-0.012 in"), Digits::Place(3));
+        assert_eq!(Digits::as_written("1-3/4 in"), Digits::Significant);
+        assert_eq!(Digits::as_written("1e3"), Digits::Significant);
+        assert_eq!(Digits::Place(3).finer(Digits::Place(5)), Digits::Place(5));
+        assert_eq!(Digits::Significant.finer(Digits::Place(1)), Digits::Place(1));
+    }
+
+    #[test]
+    fn a_bare_number_keeps_its_shortest_round_trip_text() {
+        assert_eq!(shortest(1.62), "1.62");
+        assert_eq!(shortest(1.622_999_999), "1.622999999");
+        assert_eq!(shortest(8.0), "8");
+    }
 
     #[test]
     fn six_significant_digits_for_values() {

@@ -12,12 +12,14 @@ use std::collections::HashMap;
 
 use serde::Serialize;
 
-use super::format::{probability, quantity, uncertainty_in};
+use super::format::{Digits, probability, quantity, with_uncertainty};
+use crate::check::builtins::Reduce;
 use crate::check::model::{Derived, Origin, ValueKind};
+use crate::check::resolved::{Expr, ExprKind, Term, TestKind};
 use crate::evaluate::finding::{Finding, Verdict};
 use crate::evaluate::outcome::{Applies, EngineReport, EngineResult, Numeric, Outcome, Trace};
 use crate::load::InputId;
-use crate::load::{Input, InputName, UncertaintySource};
+use crate::load::{Input, InputName, Supplied, UncertaintySource};
 use crate::units::{self, Unit};
 
 /// One engine checked against one class, as every report shows it.
@@ -648,13 +650,18 @@ impl RuleView {
             },
             penalty: o.penalty().map(str::to_string),
             note: o.note().map(str::to_string),
-            numeric: checked.and_then(|c| c.numeric.as_ref()).map(number_view),
+            numeric: checked
+                .and_then(|c| c.numeric.as_ref())
+                .map(|n| number_view(n, subject_reading(o, r, n))),
             observed: checked.and_then(|c| c.observed.clone()),
             missing: o.missing.clone(),
             not_finite: o.not_finite,
             internal_error: o.error.clone(),
             shows_finding: checked.is_some_and(|c| c.is_finite()),
-            trace: o.trace.iter().map(|t| book.trace(t, r)).collect(),
+            trace: {
+                let limit_unit = checked.and_then(|c| c.numeric.as_ref()?.unit);
+                o.trace.iter().map(|t| book.trace(t, r, limit_unit)).collect()
+            },
         }
     }
 
@@ -779,9 +786,8 @@ impl RuleView {
     }
 }
 
-fn number_view(n: &Numeric) -> NumberView {
+fn number_view(n: &Numeric, reading: Option<&Input>) -> NumberView {
     let s = n.unit.map_or(1.0, |u| u.to_si);
-    let side = if n.margin >= 0.0 { "inside" } else { "outside" };
     NumberView {
         unit: n.unit.map(|u| u.symbol),
         value: n.value / s,
@@ -792,17 +798,70 @@ fn number_view(n: &Numeric) -> NumberView {
         coverage_factor: n.k,
         probability_of_conformance: n.probability,
         cylinder: n.cylinder,
-        shown: NumberShown {
-            value: quantity(n.value, n.unit),
-            limit: quantity(n.limit, n.unit),
-            range: n
-                .range
-                .map(|(a, b)| [quantity(a, n.unit), quantity(b, n.unit)]),
-            margin: format!("{} {side}", quantity(n.margin.abs(), n.unit)),
-            expanded_uncertainty: uncertainty_in(n.expanded, n.unit),
-            probability_of_conformance: probability(n.probability, n.expanded > 0.0),
-        },
+        shown: number_shown(n, reading),
     }
+}
+
+/// A limit's numbers in words: a reading tested as it is as written (with its value in the
+/// limit's unit beside it when it was written in another); a computed value, the margin and
+/// U with the digits U supports (GUM 7.2.6); without an uncertainty the margin to the decimal
+/// place of the finer of value and limit shown; the limit to six significant digits.
+fn number_shown(n: &Numeric, reading: Option<&Input>) -> NumberShown {
+    let digits = Digits::supported_in(n.expanded, n.unit);
+    let computed = digits.quantity(n.value, n.unit);
+    let value = match reading {
+        Some(input) => {
+            let written = written(input, input.unit.and_then(units::lookup));
+            if input.unit == n.unit.map(|u| u.symbol) {
+                written
+            } else {
+                format!("{written} ({computed})")
+            }
+        }
+        None => computed,
+    };
+    let limit = quantity(n.limit, n.unit);
+    let margin_digits = match digits {
+        Digits::Place(_) => digits,
+        Digits::Significant => Digits::as_written(&value).finer(Digits::as_written(&limit)),
+    };
+    let side = if n.margin >= 0.0 { "inside" } else { "outside" };
+    NumberShown {
+        value,
+        limit,
+        range: n
+            .range
+            .map(|(a, b)| [quantity(a, n.unit), quantity(b, n.unit)]),
+        margin: format!("{} {side}", margin_digits.quantity(n.margin.abs(), n.unit)),
+        expanded_uncertainty: digits.quantity(n.expanded, n.unit),
+        probability_of_conformance: probability(n.probability, n.expanded > 0.0),
+    }
+}
+
+/// The reading a limit tests when its subject is a reading itself (`bore`, `max(bore)`):
+/// the input at the deciding cylinder, or the one whose value the subject took.
+fn subject_reading<'r>(o: &Outcome, r: &'r EngineReport, n: &Numeric) -> Option<&'r Input> {
+    let TestKind::Limit { limit, .. } = &o.rule.test.kind else {
+        return None;
+    };
+    let measurement = match &limit.subject.kind {
+        ExprKind::Measurement(m) => *m,
+        ExprKind::Reduce(Reduce::Max | Reduce::Min, inner) => match inner.kind {
+            ExprKind::Measurement(m) => m,
+            _ => return None,
+        },
+        _ => return None,
+    };
+    let ids: &[InputId] = match r.declaration.supplied(measurement.index())? {
+        Supplied::Single(id) => std::slice::from_ref(id),
+        Supplied::PerCylinder(ids) => ids,
+        Supplied::Text(..) => return None,
+    };
+    let at = n.cylinder.and_then(|c| ids.get(c.checked_sub(1)?));
+    at.into_iter()
+        .chain(ids)
+        .map(|id| r.input(*id))
+        .find(|i| i.value.to_bits() == n.value.to_bits())
 }
 
 /// The engine's inputs and derived values, each entered once as the rules are viewed.
@@ -815,7 +874,7 @@ struct Book {
 }
 
 impl Book {
-    fn trace(&mut self, t: &Trace, r: &EngineReport) -> TraceRef {
+    fn trace(&mut self, t: &Trace, r: &EngineReport, limit_unit: Option<&'static Unit>) -> TraceRef {
         match t {
             Trace::Input(id) => TraceRef::Input(self.number(*id, r)),
             Trace::Text { name, value, place } => {
@@ -840,7 +899,10 @@ impl Book {
                 derived,
                 values,
                 uncertainties,
-            } => TraceRef::Derived(self.derived(derived, values, uncertainties)),
+            } => {
+                let unit = derived_unit(derived, r, limit_unit);
+                TraceRef::Derived(self.derived(derived, values, uncertainties, unit))
+            }
             Trace::Missing { name } => TraceRef::Missing(name.to_string()),
         }
     }
@@ -856,8 +918,13 @@ impl Book {
     }
 
     /// A derived value's id; one computed with other values elsewhere gets its own.
-    fn derived(&mut self, d: &Derived, values: &[f64], uncertainties: &[f64]) -> usize {
-        let unit = derived_unit(d);
+    fn derived(
+        &mut self,
+        d: &Derived,
+        values: &[f64],
+        uncertainties: &[f64],
+        unit: Option<&'static Unit>,
+    ) -> usize {
         let scale = unit.map_or(1.0, |u| u.to_si);
         let view = DerivedView {
             id: self.derived.len(),
@@ -914,9 +981,14 @@ fn input_view(id: usize, input: &Input, r: &EngineReport) -> InputView {
     }
 }
 
-/// The value as written, without a stated `± U`; formatted when it was not written as text.
+/// The value as written, without a stated `± U` (a rulebook literal's as the rulebook wrote
+/// it); formatted when it was not written as text.
 fn written(input: &Input, unit: Option<&Unit>) -> String {
-    let value = input.written.as_deref().map(|w| {
+    let text = match &input.name {
+        InputName::Literal(text) => input.written.as_deref().or(Some(text.as_str())),
+        InputName::Measured { .. } => input.written.as_deref(),
+    };
+    let value = text.map(|w| {
         let end = w.find('±').or_else(|| w.find("+/-")).unwrap_or(w.len());
         w[..end].trim()
     });
@@ -927,7 +999,8 @@ fn written(input: &Input, unit: Option<&Unit>) -> String {
 }
 
 fn uncertainty_words(input: &Input, unit: Option<&Unit>) -> String {
-    let u = uncertainty_in(input.standard_uncertainty, unit);
+    let u = Digits::supported_in(input.standard_uncertainty, unit)
+        .quantity(input.standard_uncertainty, unit);
     match &input.source {
         UncertaintySource::None => "no uncertainty stated".to_string(),
         UncertaintySource::Instrument(i) => format!("u {u} ({i})"),
@@ -943,16 +1016,64 @@ fn derived_shown(values: &[f64], uncertainties: &[f64], unit: Option<&Unit>) -> 
     values
         .iter()
         .zip(uncertainties)
-        .map(|(v, u)| format!("{} (u {})", quantity(*v, unit), uncertainty_in(*u, unit)))
+        .map(|(v, u)| {
+            let scale = unit.map_or(1.0, |x| x.to_si);
+            let symbol = unit.map(|x| format!(" {}", x.symbol)).unwrap_or_default();
+            let (v, u) = with_uncertainty(v / scale, u / scale);
+            format!("{v}{symbol} (u {u}{symbol})")
+        })
         .collect::<Vec<_>>()
         .join(", ")
 }
 
-/// The unit a derived value is shown in.
-fn derived_unit(d: &Derived) -> Option<&'static Unit> {
-    match d.ty.kind {
-        ValueKind::Number(dim) => units::display_unit(dim),
-        ValueKind::Text => None,
+/// The unit a derived value is shown in: from the families of the units its readings and
+/// the rulebook's numbers in its formula were written in, the limit's unit when they mix
+/// (see [`units::shown_unit`]).
+fn derived_unit(
+    d: &Derived,
+    r: &EngineReport,
+    limit_unit: Option<&'static Unit>,
+) -> Option<&'static Unit> {
+    let ValueKind::Number(dim) = d.ty.kind else {
+        return None;
+    };
+    let mut written = Vec::new();
+    if let Term::Number(e) = &d.body {
+        written_units(e, r, &mut written, 0);
+    }
+    units::shown_unit(dim, written, limit_unit)
+}
+
+/// The units the readings and rulebook numbers an expression reads were written in.
+fn written_units(e: &Expr, r: &EngineReport, out: &mut Vec<&'static str>, depth: usize) {
+    let mut each = |e: &Expr| written_units(e, r, out, depth + 1);
+    match &e.kind {
+        ExprKind::Literal(l) => out.extend(l.unit.map(|u| u.symbol)),
+        ExprKind::Pi => {}
+        ExprKind::Measurement(m) => {
+            let ids: &[InputId] = match r.declaration.supplied(m.index()) {
+                Some(Supplied::Single(id)) => std::slice::from_ref(id),
+                Some(Supplied::PerCylinder(ids)) => ids,
+                _ => &[],
+            };
+            out.extend(ids.iter().filter_map(|id| r.input(*id).unit));
+        }
+        ExprKind::Derived(d) if depth < 32 => {
+            if let Some(Term::Number(body)) = r.rulebook.derived.get(d.index()).map(|d| &d.body) {
+                each(body);
+            }
+        }
+        ExprKind::Derived(_) => {}
+        ExprKind::Negate(inner)
+        | ExprKind::Reduce(_, inner)
+        | ExprKind::Abs(inner)
+        | ExprKind::Sqrt(inner) => each(inner),
+        ExprKind::Binary { left, right, .. } => {
+            each(left);
+            each(right);
+        }
+        ExprKind::Formula(call) => call.args().iter().for_each(each),
+        ExprKind::Extreme { args, .. } => args.iter().for_each(each),
     }
 }
 
@@ -1004,7 +1125,11 @@ mod tests {
 
     fn input(written: Option<&str>, value: f64, source: UncertaintySource) -> Input {
         Input {
-            name: InputName::Literal("x".to_string()),
+            name: InputName::Measured {
+                measurement: 0,
+                cylinder: None,
+                place: crate::load::Place::Measurements,
+            },
             value,
             standard_uncertainty: 0.0,
             components: Vec::new(),
@@ -1026,6 +1151,16 @@ mod tests {
             written(&input(None, 0.0254, UncertaintySource::None), inch),
             "1 in"
         );
+    }
+
+    #[test]
+    fn a_rulebook_literal_is_shown_as_the_rulebook_wrote_it() {
+        let mm = units::lookup("mm");
+        let literal = Input {
+            name: InputName::Literal("50.000623 mm ± 0.00004 mm (k = 2)".to_string()),
+            ..input(None, 0.050_000_623, UncertaintySource::Rulebook)
+        };
+        assert_eq!(written(&literal, mm), "50.000623 mm");
     }
 
     #[test]

@@ -1,4 +1,6 @@
-//! Units of measure: dimensions, the unit table and lookups with a "did you mean".
+//! Units of measure: dimensions, the unit table, lookups with a "did you mean", and the unit
+//! a computed value is shown in (metric or inch family, from the units its inputs were
+//! written in).
 
 mod dimension;
 mod table;
@@ -22,6 +24,82 @@ const SPELLED_OUT: &[(&str, &str)] = &[
     ("degrees", "deg"),
     ("thousandths", "thou"),
 ];
+
+/// The family a unit belongs to, for choosing the unit a computed value is shown in.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Family {
+    /// Millimetres, cubic centimetres, kilograms, kilopascals …
+    Metric,
+    /// Inches, cubic inches, pounds, inches of mercury … (US customary)
+    Inch,
+}
+
+/// Symbols of the metric family.
+const METRIC: &[&str] = &[
+    "mm", "cm", "m", "mm²", "mm^2", "cm²", "cm^2", "m²", "m^2", "cc", "cm³", "cm^3", "mL", "L",
+    "m³", "m^3", "kg", "g", "N", "kPa", "bar", "Pa", "L/s", "m³/s", "m^3/s", "kW", "W",
+];
+
+/// Symbols of the inch family.
+const INCH: &[&str] = &[
+    "in", "thou", "ft", "in²", "in^2", "ci", "in³", "in^3", "lb", "lbf", "inHg", "psi", "cfm",
+    "hp",
+];
+
+/// The family of a unit symbol; `None` for units both families use (degrees, rpm, seconds,
+/// percent) and for plain numbers.
+pub fn family(symbol: &str) -> Option<Family> {
+    if METRIC.contains(&symbol) {
+        Some(Family::Metric)
+    } else if INCH.contains(&symbol) {
+        Some(Family::Inch)
+    } else {
+        None
+    }
+}
+
+/// The unit a value of `dimension` is shown in for a family: the inch family's is
+/// [`display_unit`], the trade's convention; the metric family's is the engine shop's
+/// (mm, cc, kg, kPa, L/s; common practice, no source).
+pub fn family_unit(dimension: Dimension, family: Family) -> Option<&'static Unit> {
+    if family == Family::Inch {
+        return display_unit(dimension);
+    }
+    let symbol = match dimension {
+        d if d == Dimension::LENGTH => "mm",
+        d if d == Dimension::AREA => "mm²",
+        d if d == Dimension::VOLUME => "cc",
+        d if d == Dimension::MASS => "kg",
+        d if d == Dimension::FORCE => "N",
+        d if d == Dimension::PRESSURE => "kPa",
+        d if d == Dimension::AIRFLOW => "L/s",
+        d if d == Dimension::POWER => "kW",
+        _ => return display_unit(dimension),
+    };
+    lookup(symbol)
+}
+
+/// The unit to show a computed value of `dimension` in, from the units its inputs were
+/// written in (`written`): all metric, the metric family's unit; all inch family, the inch
+/// family's; mixed, `declared` (the rulebook's unit for it, else the limit's unit) when it is
+/// of this dimension; otherwise, and when no input has a family, [`display_unit`].
+pub fn shown_unit<'a>(
+    dimension: Dimension,
+    written: impl IntoIterator<Item = &'a str>,
+    declared: Option<&'static Unit>,
+) -> Option<&'static Unit> {
+    let mut families = written.into_iter().filter_map(family);
+    let Some(first) = families.next() else {
+        return display_unit(dimension);
+    };
+    if families.all(|f| f == first) {
+        return family_unit(dimension, first);
+    }
+    match declared {
+        Some(u) if u.dimension == dimension => Some(u),
+        _ => display_unit(dimension),
+    }
+}
 
 /// The known unit symbol closest to `symbol`, for a "did you mean" help line.
 pub fn closest_unit(symbol: &str) -> Option<&'static str> {
@@ -102,6 +180,48 @@ mod tests {
                 u.symbol
             );
         }
+    }
+
+    #[test]
+    fn every_unit_of_a_length_area_volume_mass_force_pressure_airflow_or_power_has_a_family() {
+        let family_bound = [
+            Dimension::LENGTH,
+            Dimension::AREA,
+            Dimension::VOLUME,
+            Dimension::MASS,
+            Dimension::FORCE,
+            Dimension::PRESSURE,
+            Dimension::AIRFLOW,
+            Dimension::POWER,
+        ];
+        for u in UNITS.iter().filter(|u| family_bound.contains(&u.dimension)) {
+            assert!(family(u.symbol).is_some(), "{} has no family", u.symbol);
+        }
+        for f in [Family::Metric, Family::Inch] {
+            for d in family_bound {
+                let shown = family_unit(d, f).map(|u| (u.dimension, family(u.symbol)));
+                assert_eq!(shown, Some((d, Some(f))), "{d:?} in {f:?}");
+            }
+        }
+    }
+
+    #[test]
+    fn a_computed_value_is_shown_in_the_family_its_inputs_were_written_in() {
+        let symbol = |u: Option<&Unit>| u.map(|u| u.symbol);
+        let volume = |written: &[&str], declared: Option<&str>| {
+            symbol(shown_unit(
+                Dimension::VOLUME,
+                written.iter().copied(),
+                declared.and_then(lookup),
+            ))
+        };
+        assert_eq!(volume(&["mm", "mm"], None), Some("cc"));
+        assert_eq!(volume(&["in", "thou", "ci"], None), Some("ci"));
+        assert_eq!(volume(&["mm", "in"], Some("L")), Some("L"));
+        assert_eq!(volume(&["mm", "in"], Some("mm")), Some("ci"));
+        assert_eq!(volume(&["mm", "in"], None), Some("ci"));
+        assert_eq!(volume(&["deg", "rpm"], None), Some("ci"));
+        assert_eq!(volume(&[], Some("cc")), Some("ci"));
     }
 
     #[test]
