@@ -146,7 +146,9 @@ fn a_certified_value_is_shown_with_all_its_digits() {
     let text = reading.check("text");
     let value = lines(&text, "value");
     assert!(
-        value.first().is_some_and(|v| v.starts_with("value      50.000623 mm (")),
+        value
+            .first()
+            .is_some_and(|v| v.starts_with("value      50.000623 mm (")),
         "{text}"
     );
     assert!(!text.contains("50.0006 mm"), "{text}");
@@ -159,10 +161,7 @@ fn a_derived_value_has_the_digits_its_uncertainty_supports() {
     // 0.0100 in + 50.000623 mm = 1.978528464… in; u = 0.000020 mm = 0.00000079 in
     // (1 in = 25.4 mm exactly, NIST SP 811 B.8): two significant digits of u end at the
     // eighth decimal, so the value is given to eight (GUM 7.2.6)
-    assert!(
-        text.contains("= 1.97852846 in (u 0.00000079 in)"),
-        "{text}"
-    );
+    assert!(text.contains("= 1.97852846 in (u 0.00000079 in)"), "{text}");
 }
 
 /// A metric rulebook: every unit it writes is metric.
@@ -173,6 +172,7 @@ decision guarded rejection
 measure cylinders: count range 4 to 8 "Count the cylinders"
 measure bore: length per cylinder range 90 mm to 110 mm "Bore gauge"
 measure stroke: length range 60 mm to 110 mm "Dial indicator"
+measure deck.height: length "Depth gauge, block on the bench"
 
 define swept = displacement(bore: max(bore), stroke: stroke, cylinders: cylinders)
 define bore_spread = max(bore) - min(bore)
@@ -183,6 +183,9 @@ class metric_stock "Metric Stock"
   end
   rule 3.2 "Bores alike"
     require bore_spread <= 0.05 mm
+  end
+  rule 3.3 "Deck height"
+    require deck.height >= 200 mm
   end
 end
 "#;
@@ -200,6 +203,7 @@ measurements:
     values: ["101.60 mm", "101.61 mm", "101.62 mm", "101.60 mm"]
     instrument: bore_gauge
   stroke: "{stroke}"
+  deck.height: "228.60 mm"
 "#
     )
 }
@@ -214,6 +218,7 @@ fn a_metric_rulebook_with_metric_readings_sees_metric_derived_values() {
         .filter(|l| l.starts_with("= "))
         .collect();
     assert_eq!(derived.len(), 2, "{text}");
+    assert!(text.contains("value      228.60 mm"), "{text}");
     assert!(derived[0].ends_with(" cc)"), "displacement in cc: {text}");
     assert!(derived[1].ends_with(" mm)"), "bore spread in mm: {text}");
     assert!(!text.contains(" ci") && !text.contains(" in)"), "{text}");
@@ -252,4 +257,26 @@ fn json_keeps_full_precision_and_the_written_text() {
     // 1.75 − 1.622999999, unrounded
     let margin = numeric["margin"].as_f64().unwrap_or(f64::NAN);
     assert!((margin - 0.127_000_001).abs() < 1e-12, "{margin}");
+}
+
+#[test]
+fn a_metric_rulebooks_sheet_asks_for_metric_readings() {
+    let case = Case::new("sheet", METRIC_RULES, &metric_declaration("88.90 mm"));
+    let rules = case.dir.join("r.rules");
+    let run = gonogo(&[
+        "sheet",
+        "--rules",
+        rules.to_str().unwrap_or_default(),
+        "--class",
+        "metric_stock",
+        "--format",
+        "yaml",
+    ]);
+    assert_eq!(run.code, 0, "{}{}", run.stdout, run.stderr);
+    // deck.height has no range of its own: the rulebook's other ranges are all in mm
+    assert!(
+        run.stdout.contains("# length in mm — Depth gauge"),
+        "{}",
+        run.stdout
+    );
 }

@@ -20,6 +20,8 @@ pub struct Call {
     pub finding: Option<Finding>,
     /// The margin to the limit (SI) and the unit to show it in.
     pub margin: Option<(f64, Option<&'static Unit>)>,
+    /// The margin's expanded uncertainty U (SI), for the digits it is shown with.
+    pub margin_uncertainty: Option<f64>,
 }
 
 /// A rule whose verdict differs between the editions, for one engine.
@@ -61,6 +63,11 @@ fn call(o: &Outcome) -> Call {
             .as_ref()
             .and_then(|c| c.numeric.as_ref())
             .map(|n| (n.margin, n.unit)),
+        margin_uncertainty: o
+            .checked
+            .as_ref()
+            .and_then(|c| c.numeric.as_ref())
+            .map(|n| n.expanded),
     }
 }
 

@@ -29,7 +29,10 @@ impl Digits {
         }
         // `{:.1e}` rounds to two significant digits in decimal, so 0.0999 gives 1.0e-1
         let text = format!("{:.1e}", u);
-        match text.split_once('e').and_then(|(_, e)| e.parse::<i32>().ok()) {
+        match text
+            .split_once('e')
+            .and_then(|(_, e)| e.parse::<i32>().ok())
+        {
             Some(exponent) => Digits::Place(1 - exponent),
             None => Digits::Significant,
         }
@@ -47,8 +50,7 @@ impl Digits {
         let number = number.trim_start_matches(['-', '+', '−']);
         let (whole, fraction) = number.split_once('.').unwrap_or((number, ""));
         let all_digits = |s: &str| s.chars().all(|c| c.is_ascii_digit());
-        if whole.is_empty() && fraction.is_empty() || !all_digits(whole) || !all_digits(fraction)
-        {
+        if whole.is_empty() && fraction.is_empty() || !all_digits(whole) || !all_digits(fraction) {
             return Digits::Significant;
         }
         Digits::Place(fraction.len() as i32)
@@ -77,7 +79,6 @@ impl Digits {
             None => self.number(si),
         }
     }
-
 }
 
 /// A bare number as serde_yaml hands it over (a double, its text lost): the shortest text
@@ -93,6 +94,24 @@ pub fn with_uncertainty(value: f64, u: f64) -> (String, String) {
     match Digits::supported_by(u) {
         Digits::Significant => (number(value), uncertainty(u)),
         digits => (digits.number(value), digits.number(u)),
+    }
+}
+
+/// The digits of a margin `limit − value` and of its expanded uncertainty: with an
+/// uncertainty, the place two significant digits of `expanded_si` end at (GUM 7.2.6); without
+/// one, the finer decimal place of the value and the limit as shown, so the difference of the
+/// two numbers a reader sees is given exactly.
+pub fn margin_digits(
+    expanded_si: f64,
+    unit: Option<&Unit>,
+    value_shown: &str,
+    limit_shown: &str,
+) -> Digits {
+    match Digits::supported_in(expanded_si, unit) {
+        Digits::Significant => {
+            Digits::as_written(value_shown).finer(Digits::as_written(limit_shown))
+        }
+        place => place,
     }
 }
 
@@ -212,17 +231,44 @@ mod tests {
         assert_eq!(Digits::supported_by(0.0999), Digits::Place(2));
         assert_eq!(with_uncertainty(3.141_59, 0.0999).0, "3.14");
         assert_eq!(with_uncertainty(8.643_53, 0.014).0, "8.644");
-        assert_eq!(with_uncertainty(3080.0, 2.0), ("3080.0".into(), "2.0".into()));
+        assert_eq!(
+            with_uncertainty(3080.0, 2.0),
+            ("3080.0".into(), "2.0".into())
+        );
         // u of 270 ends at the tens: the value is rounded to tens
-        assert_eq!(with_uncertainty(12_345.0, 270.0), ("12350".into(), "270".into()));
-        assert_eq!(with_uncertainty(-0.000_01, 0.0012), ("0.0000".into(), "0.0012".into()));
+        assert_eq!(
+            with_uncertainty(12_345.0, 270.0),
+            ("12350".into(), "270".into())
+        );
+        assert_eq!(
+            with_uncertainty(-0.000_01, 0.0012),
+            ("0.0000".into(), "0.0012".into())
+        );
     }
 
     #[test]
     fn without_an_uncertainty_six_significant_digits() {
         assert_eq!(Digits::supported_by(0.0), Digits::Significant);
         assert_eq!(Digits::supported_by(f64::NAN), Digits::Significant);
-        assert_eq!(with_uncertainty(355.926_300_6, 0.0), ("355.926".into(), "0".into()));
+        assert_eq!(
+            with_uncertainty(355.926_300_6, 0.0),
+            ("355.926".into(), "0".into())
+        );
+    }
+
+    #[test]
+    fn a_margin_has_the_place_of_u_or_else_of_the_finer_of_value_and_limit() {
+        let inch = crate::units::lookup("in");
+        // U = 0.00058 in (0.000014732 m; 1 in = 0.0254 m exactly, NIST SP 811 B.8)
+        assert_eq!(
+            margin_digits(0.000_58 * 0.0254, inch, "3.480 in", "3.49 in"),
+            Digits::Place(5)
+        );
+        assert_eq!(
+            margin_digits(0.0, inch, "1.622999999 in", "1.75 in"),
+            Digits::Place(9)
+        );
+        assert_eq!(margin_digits(0.0, None, "8", "10.5"), Digits::Place(1));
     }
 
     #[test]
@@ -233,7 +279,10 @@ mod tests {
         assert_eq!(Digits::as_written("1-3/4 in"), Digits::Significant);
         assert_eq!(Digits::as_written("1e3"), Digits::Significant);
         assert_eq!(Digits::Place(3).finer(Digits::Place(5)), Digits::Place(5));
-        assert_eq!(Digits::Significant.finer(Digits::Place(1)), Digits::Place(1));
+        assert_eq!(
+            Digits::Significant.finer(Digits::Place(1)),
+            Digits::Place(1)
+        );
     }
 
     #[test]

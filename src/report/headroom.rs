@@ -1,11 +1,13 @@
-//! The report of `gonogo headroom`: for each numeric rule, the margin to its limit and how far
-//! each input may move (in the unit it was written in) before the limit is reached.
+//! The report of `gonogo headroom`: for each numeric rule, the margin to its limit (with the
+//! digits its U supports, as `check` shows it) and how far each input may move (in the unit it
+//! was written in; an estimate without an uncertainty of its own, so to six significant
+//! digits) before the limit is reached.
 
 use std::fmt::Write;
 
 use serde::Serialize;
 
-use super::format::{quantity, uncertainty_in};
+use super::format::{Digits, margin_digits, quantity};
 use crate::analyze::headroom::{Move, RuleHeadroom};
 use crate::check::model::CheckedRulebook;
 use crate::load::Declaration;
@@ -56,15 +58,16 @@ pub fn text(
     for r in rules {
         let n = &r.numeric;
         let side = if n.margin >= 0.0 { "inside" } else { "outside" };
+        let limit = quantity(n.limit, n.unit);
+        let digits = margin_digits(n.expanded, n.unit, &quantity(n.value, n.unit), &limit);
         let _ = writeln!(
             out,
-            "\n{} {} — {}, {} {side} the limit of {} (U = {})",
+            "\n{} {} — {}, {} {side} the limit of {limit} (U = {})",
             r.rule.rule.section.text,
             r.rule.rule.title.value,
             r.finding,
-            quantity(n.margin.abs(), n.unit),
-            quantity(n.limit, n.unit),
-            uncertainty_in(n.expanded, n.unit)
+            digits.quantity(n.margin.abs(), n.unit),
+            Digits::supported_in(n.expanded, n.unit).quantity(n.expanded, n.unit)
         );
         if r.moves.is_empty() {
             let _ = writeln!(

@@ -8,7 +8,7 @@ use std::fmt::Write;
 
 use serde::Serialize;
 
-use super::format::quantity;
+use super::format::Digits;
 use crate::analyze::impact::{Call, Changed, Impact};
 
 /// Output formats of `impact`.
@@ -58,7 +58,10 @@ fn call_text(c: &Option<Call>) -> String {
         .unwrap_or_default();
     let margin = c
         .margin
-        .map(|(m, unit)| format!(", margin {}", quantity(m, unit)))
+        .map(|(m, unit)| {
+            let digits = Digits::supported_in(c.margin_uncertainty.unwrap_or(0.0), unit);
+            format!(", margin {}", digits.quantity(m, unit))
+        })
         .unwrap_or_default();
     format!("{}{finding}{margin}", c.verdict.words())
 }

@@ -49,14 +49,18 @@ fn reads(rulebook: &CheckedRulebook, name: &str, measurement: &str, depth: usize
             }))
 }
 
-/// The unit to write a measurement in: the rulebook's own (from its `range`), else the one
-/// gonogo shows that dimension in.
-fn unit_of(m: &Measurement) -> &'static str {
+/// The unit to write a measurement in: the rulebook's own (from its `range`), else the unit
+/// of that dimension in the family of the units the rulebook's ranges are written in (a
+/// metric rulebook asks for metric readings), else the one gonogo shows that dimension in.
+fn unit_of(rulebook: &CheckedRulebook, m: &Measurement) -> &'static str {
     if let Some(u) = m.unit {
         return u;
     }
     match m.kind {
-        ValueKind::Number(d) => units::display_unit(d).map_or("", |u| u.symbol),
+        ValueKind::Number(d) => {
+            let written = rulebook.measurements.iter().filter_map(|m| m.unit);
+            units::shown_unit(d, written, None).map_or("", |u| u.symbol)
+        }
         ValueKind::Text => "text",
     }
 }
@@ -110,7 +114,7 @@ pub fn markdown(rulebook: &CheckedRulebook, class: &Class) -> String {
             out,
             "| `{}`{required} | {} | {} | {value} | ________ | {} |",
             m.name,
-            unit_of(m),
+            unit_of(rulebook, m),
             m.procedure.as_deref().unwrap_or("").replace('|', "\\|"),
             line.feeds.join(", ")
         );
@@ -162,7 +166,7 @@ pub fn html(rulebook: &CheckedRulebook, class: &Class) -> String {
             out,
             "<tr><td><code>{}</code>{optional}</td><td>{}</td><td>{}</td><td>{value}</td><td></td><td>{}</td></tr>",
             escape(&m.name),
-            escape(unit_of(m)),
+            escape(unit_of(rulebook, m)),
             escape(m.procedure.as_deref().unwrap_or("")),
             escape(&line.feeds.join(", "))
         );
@@ -210,7 +214,7 @@ pub fn yaml(rulebook: &CheckedRulebook, class: &Class) -> String {
         } else {
             ""
         };
-        let unit = match unit_of(m) {
+        let unit = match unit_of(rulebook, m) {
             "" => String::new(),
             u => format!(" in {u}"),
         };

@@ -12,7 +12,7 @@ use std::collections::HashMap;
 
 use serde::Serialize;
 
-use super::format::{Digits, probability, quantity, with_uncertainty};
+use super::format::{Digits, margin_digits, probability, quantity, with_uncertainty};
 use crate::check::builtins::Reduce;
 use crate::check::model::{Derived, Origin, ValueKind};
 use crate::check::resolved::{Expr, ExprKind, Term, TestKind};
@@ -660,7 +660,10 @@ impl RuleView {
             shows_finding: checked.is_some_and(|c| c.is_finite()),
             trace: {
                 let limit_unit = checked.and_then(|c| c.numeric.as_ref()?.unit);
-                o.trace.iter().map(|t| book.trace(t, r, limit_unit)).collect()
+                o.trace
+                    .iter()
+                    .map(|t| book.trace(t, r, limit_unit))
+                    .collect()
             },
         }
     }
@@ -821,10 +824,7 @@ fn number_shown(n: &Numeric, reading: Option<&Input>) -> NumberShown {
         None => computed,
     };
     let limit = quantity(n.limit, n.unit);
-    let margin_digits = match digits {
-        Digits::Place(_) => digits,
-        Digits::Significant => Digits::as_written(&value).finer(Digits::as_written(&limit)),
-    };
+    let margin_digits = margin_digits(n.expanded, n.unit, &value, &limit);
     let side = if n.margin >= 0.0 { "inside" } else { "outside" };
     NumberShown {
         value,
@@ -874,7 +874,12 @@ struct Book {
 }
 
 impl Book {
-    fn trace(&mut self, t: &Trace, r: &EngineReport, limit_unit: Option<&'static Unit>) -> TraceRef {
+    fn trace(
+        &mut self,
+        t: &Trace,
+        r: &EngineReport,
+        limit_unit: Option<&'static Unit>,
+    ) -> TraceRef {
         match t {
             Trace::Input(id) => TraceRef::Input(self.number(*id, r)),
             Trace::Text { name, value, place } => {

@@ -42,8 +42,7 @@ const METRIC: &[&str] = &[
 
 /// Symbols of the inch family.
 const INCH: &[&str] = &[
-    "in", "thou", "ft", "in²", "in^2", "ci", "in³", "in^3", "lb", "lbf", "inHg", "psi", "cfm",
-    "hp",
+    "in", "thou", "ft", "in²", "in^2", "ci", "in³", "in^3", "lb", "lbf", "inHg", "psi", "cfm", "hp",
 ];
 
 /// The family of a unit symbol; `None` for units both families use (degrees, rpm, seconds,
