@@ -58,6 +58,7 @@ decision guarded rejection
 
 measure header.primary_od: length "Caliper"
 measure plate.gap: length "Feeler gauge"
+measure rocker.ratio: ratio range 1.2 to 2.0 "Stamped on the rocker arm"
 
 define plate_check = plate.gap + 50.000623 mm ± 0.000040 mm (k = 2)
 
@@ -67,6 +68,12 @@ class street_stock "Street Stock"
   end
   rule 6.2 "Plate"
     require plate_check <= 2 in
+  end
+  rule 6.3 "Rocker ratio"
+    require rocker.ratio <= 1.8
+  end
+  rule 6.4 "Plate gap"
+    require plate.gap <= 0.030 in allowing 0.0050 in
   end
 end
 "#;
@@ -78,6 +85,7 @@ class: street_stock
 date: "2027-05-22"
 measurements:
   plate.gap: "0.0100 in"
+  rocker.ratio: 1.622999999
 components:
   header:
     primary_od: "{primary}"
@@ -111,6 +119,17 @@ fn a_reading_written_with_nine_decimals_is_shown_with_nine_in_every_format() {
     }
     // the margin is given to the reading's nine decimals: 1.75 − 1.622999999 = 0.127000001
     assert!(text.contains("margin     0.127000001 in inside"), "{text}");
+}
+
+#[test]
+fn a_bare_yaml_number_keeps_every_digit_it_was_written_with() {
+    let case = Case::new("bare", INCH_RULES, &inch_declaration("1.625 in"));
+    let text = case.check("text");
+    assert!(
+        text.contains("rocker.ratio = 1.622999999  no uncertainty stated"),
+        "{text}"
+    );
+    assert!(text.contains("value      1.622999999\n"), "{text}");
 }
 
 #[test]
@@ -276,6 +295,25 @@ fn a_metric_rulebooks_sheet_asks_for_metric_readings() {
     // deck.height has no range of its own: the rulebook's other ranges are all in mm
     assert!(
         run.stdout.contains("# length in mm — Depth gauge"),
+        "{}",
+        run.stdout
+    );
+}
+
+#[test]
+fn explain_sums_a_limit_and_its_allowance_to_the_finer_place_written() {
+    let case = Case::new("explain", INCH_RULES, &inch_declaration("1.625 in"));
+    let rules = case.dir.join("r.rules");
+    let run = gonogo(&[
+        "explain",
+        "--rules",
+        rules.to_str().unwrap_or_default(),
+        "6.4",
+    ]);
+    assert_eq!(run.code, 0, "{}{}", run.stdout, run.stderr);
+    // 0.030 in + 0.0050 in, to the ten-thousandths the allowance is written to
+    assert!(
+        run.stdout.contains("(so at most 0.0350 in)"),
         "{}",
         run.stdout
     );

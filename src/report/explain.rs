@@ -4,6 +4,7 @@
 
 use std::fmt::Write;
 
+use super::format::Digits;
 use crate::check::builtins::{self, Function};
 use crate::check::limit::{self, Limit};
 use crate::check::model::{CheckedRulebook, Class, ClassRule, Origin, ValueKind};
@@ -207,7 +208,7 @@ fn other_test_words(rulebook: &CheckedRulebook, test: &crate::parse::ast::Test) 
 }
 
 /// `, with a written allowance of 0.005 in (so at most 4.035 in)`; the sum is shown when both
-/// are plain quantities.
+/// are plain quantities, to the finer decimal place of the two.
 fn allowance_words(limit: &Limit<Expr>, allowance: &Expr, op: CompareOp) -> String {
     let written = format!(", with a written allowance of {}", expr_text(allowance));
     let literal = |e: &Expr| match &e.kind {
@@ -228,11 +229,15 @@ fn allowance_words(limit: &Limit<Expr>, allowance: &Expr, op: CompareOp) -> Stri
         .unit
         .as_ref()
         .and_then(|u| crate::units::lookup(&u.symbol));
+    // the sum to the finer decimal place of the two numbers written (`4.030 in` and
+    // `0.0050 in` give `4.0350 in`); a fraction alone keeps six significant digits
+    let digits = Digits::as_written(&expr_text(limit.limits().0))
+        .finer(Digits::as_written(&expr_text(allowance)));
     match end {
         Some(effective) => format!(
             "{written} (so {} {})",
             op_words(op),
-            crate::report::format::quantity(effective, unit)
+            digits.quantity(effective, unit)
         ),
         None => written,
     }
