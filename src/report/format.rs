@@ -46,7 +46,7 @@ impl Digits {
     /// The decimal places of a number as written (`4.0346 in` has 4, `3200 lb` has 0); a
     /// fraction (`1-3/4 in`) or a number in exponent form gives six significant digits.
     pub fn as_written(text: &str) -> Digits {
-        let number = text.trim().split_whitespace().next().unwrap_or_default();
+        let number = text.split_whitespace().next().unwrap_or_default();
         let number = number.trim_start_matches(['-', '+', '−']);
         let (whole, fraction) = number.split_once('.').unwrap_or((number, ""));
         let all_digits = |s: &str| s.chars().all(|c| c.is_ascii_digit());
@@ -229,7 +229,7 @@ mod tests {
     fn the_place_follows_u_after_its_rounding_and_keeps_a_trailing_zero() {
         // two significant digits of 0.0999 are 0.10: the place is the hundredths
         assert_eq!(Digits::supported_by(0.0999), Digits::Place(2));
-        assert_eq!(with_uncertainty(3.141_59, 0.0999).0, "3.14");
+        assert_eq!(with_uncertainty(2.718_49, 0.0999).0, "2.72");
         assert_eq!(with_uncertainty(8.643_53, 0.014).0, "8.644");
         assert_eq!(
             with_uncertainty(3080.0, 2.0),

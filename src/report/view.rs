@@ -812,19 +812,23 @@ fn number_view(n: &Numeric, reading: Option<&Input>) -> NumberView {
 fn number_shown(n: &Numeric, reading: Option<&Input>) -> NumberShown {
     let digits = Digits::supported_in(n.expanded, n.unit);
     let computed = digits.quantity(n.value, n.unit);
-    let value = match reading {
+    let limit = quantity(n.limit, n.unit);
+    let (value, margin_digits) = match reading {
         Some(input) => {
             let written = written(input, input.unit.and_then(units::lookup));
             if input.unit == n.unit.map(|u| u.symbol) {
-                written
+                let digits = margin_digits(n.expanded, n.unit, &written, &limit);
+                (written, digits)
             } else {
-                format!("{written} ({computed})")
+                let digits = margin_digits(n.expanded, n.unit, &computed, &limit);
+                (format!("{written} ({computed})"), digits)
             }
         }
-        None => computed,
+        None => {
+            let digits = margin_digits(n.expanded, n.unit, &computed, &limit);
+            (computed, digits)
+        }
     };
-    let limit = quantity(n.limit, n.unit);
-    let margin_digits = margin_digits(n.expanded, n.unit, &value, &limit);
     let side = if n.margin >= 0.0 { "inside" } else { "outside" };
     NumberShown {
         value,
