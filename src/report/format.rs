@@ -182,14 +182,6 @@ pub fn quantity(si: f64, unit: Option<&Unit>) -> String {
     }
 }
 
-/// An uncertainty in SI units shown in `unit`.
-pub fn uncertainty_in(si: f64, unit: Option<&Unit>) -> String {
-    match unit {
-        Some(u) => format!("{} {}", uncertainty(si / u.to_si), u.symbol),
-        None => uncertainty(si),
-    }
-}
-
 /// A probability as a percentage. With an uncertainty the ends are shown as bounds, never as
 /// a certain 100 % or 0 %.
 pub fn probability(p: f64, uncertain: bool) -> String {
