@@ -337,7 +337,10 @@ fn stdin_at_most_once(command: &Command) -> Result<(), Problem> {
             rules,
             declarations,
             ..
-        } => std::iter::once(rules).chain(declarations).map(PathBuf::as_path).collect(),
+        } => std::iter::once(rules)
+            .chain(declarations)
+            .map(PathBuf::as_path)
+            .collect(),
         Command::Impact {
             old,
             new,

@@ -112,7 +112,10 @@ impl Target {
         if is_read_only(&path, &metadata) {
             return Err(Problem::unlocated(
                 codes::OUTPUT_READ_ONLY,
-                format!("`{}` is read-only, so gonogo leaves it as it is", given.display()),
+                format!(
+                    "`{}` is read-only, so gonogo leaves it as it is",
+                    given.display()
+                ),
             )
             .with_help("make it writable first (`chmod u+w`), or write to another file"));
         }
@@ -281,7 +284,10 @@ mod tests {
             Destination::resolve(Some(Path::new("-"))),
             Ok(Destination::Stdout)
         ));
-        assert!(matches!(Destination::resolve(None), Ok(Destination::Stdout)));
+        assert!(matches!(
+            Destination::resolve(None),
+            Ok(Destination::Stdout)
+        ));
     }
 
     #[cfg(unix)]

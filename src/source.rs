@@ -136,7 +136,9 @@ fn read_stdin() -> Result<Vec<u8>, ReadFailure> {
     match kept {
         KeptStdin::Bytes(bytes) => Ok(bytes.clone()),
         KeptStdin::TooLarge => Err(ReadFailure::TooLarge),
-        KeptStdin::Failed(kind, why) => Err(ReadFailure::Io(std::io::Error::new(*kind, why.clone()))),
+        KeptStdin::Failed(kind, why) => {
+            Err(ReadFailure::Io(std::io::Error::new(*kind, why.clone())))
+        }
     }
 }
 

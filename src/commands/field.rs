@@ -36,7 +36,11 @@ impl Field {
             notes.push(format!(
                 "{} dropped: {} a declaration already taken or a folder already walked",
                 count(self.duplicates, "name", "names"),
-                if self.duplicates == 1 { "it reaches" } else { "each reaches" },
+                if self.duplicates == 1 {
+                    "it reaches"
+                } else {
+                    "each reaches"
+                },
             ));
         }
         if self.not_yaml > 0 {
