@@ -149,8 +149,9 @@ pub(super) fn declaration_files(named: &[PathBuf]) -> Result<Vec<PathBuf>, Probl
     super::field::walk(named).map(|field| field.files)
 }
 
-/// A declaration and the position of the class it is checked against.
-fn load_with_class(
+/// A declaration and the position of the class it is checked against: dated on or after the
+/// edition, its class found as `check` finds it (shared by `headroom`).
+pub(super) fn load_with_class(
     path: &Path,
     rulebook: &CheckedRulebook,
     class: Option<&str>,
