@@ -606,3 +606,27 @@ fn headroom_refuses_a_declaration_dated_before_the_edition_as_check_does() {
         headroom.stderr
     );
 }
+
+#[test]
+fn a_count_that_is_not_a_whole_number_is_refused_at_its_place() {
+    let text = std::fs::read_to_string(concat!(
+        env!("CARGO_MANIFEST_DIR"),
+        "/engines-demo/limited2-legal.yaml"
+    ))
+    .unwrap_or_default()
+    .replace("  cylinders: 8\n", "  cylinders: 7.5\n");
+    assert!(
+        text.contains("cylinders: 7.5"),
+        "the demo's cylinder line moved"
+    );
+    let half = Scratch::new("half-cylinder.yaml", text.as_bytes());
+    let run = gonogo(&["check", "--rules", RULES, half.path()]);
+    assert_eq!(run.code, 2, "{}", run.stdout);
+    assert!(run.stderr.contains("D26 not-whole"), "{}", run.stderr);
+    assert!(
+        run.stderr.contains("7.5 is not a whole number"),
+        "{}",
+        run.stderr
+    );
+    assert!(run.stderr.contains(":19:14]"), "{}", run.stderr);
+}

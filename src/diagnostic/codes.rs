@@ -310,6 +310,8 @@ pub mod load {
     pub const NO_CLASS: Code = Code::new(Stage::Load, 25, "no-class");
     /// `D24 too-many-values`
     pub const TOO_MANY_VALUES: Code = Code::new(Stage::Load, 24, "too-many-values");
+    /// `D26 not-whole`
+    pub const NOT_WHOLE: Code = Code::new(Stage::Load, 26, "not-whole");
 }
 
 /// Codes of comparing editions and fields.
@@ -449,6 +451,7 @@ pub const ALL: &[Code] = &[
     load::YAML,
     load::TOO_MANY_VALUES,
     load::NO_CLASS,
+    load::NOT_WHOLE,
     analyze::DIFFERENT_SERIES,
     analyze::NOTHING_TO_COMPARE,
     write::OUTPUT_IS_INPUT,
