@@ -10,7 +10,8 @@ pub enum Exit {
     Clean = 0,
     /// At least one rule is illegal under the decision rule in force.
     Illegal = 1,
-    /// The input could not be read: usage, syntax, a bad rulebook or declaration.
+    /// The input could not be read (usage, syntax, a bad rulebook or declaration), or the
+    /// output could not be written (a full disk, a refused `--output`).
     BadInput = 2,
     /// Nothing illegal, but some finding is conditional or some rule was not checked.
     Uncertain = 3,

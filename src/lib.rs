@@ -18,7 +18,8 @@
 //! [`commands`] runs each subcommand through these stages and returns its document or its
 //! problems, which `main.rs` renders once. Beside the stages: [`units`] the unit table,
 //! [`diagnostic`] the problem type and the table of codes every stage reports with,
-//! [`suggest`] "did you mean", [`exit`] the exit statuses, [`parallel`] an order-preserving map
+//! [`suggest`] "did you mean", [`exit`] the exit statuses, [`output`] writing a document
+//! without ever costing an input, [`parallel`] an order-preserving map
 //! over threads for fields of engines.
 
 pub mod analyze;
@@ -28,6 +29,7 @@ pub mod diagnostic;
 pub mod evaluate;
 pub mod exit;
 pub mod load;
+pub mod output;
 pub mod parallel;
 pub mod parse;
 pub mod report;

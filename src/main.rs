@@ -1,15 +1,16 @@
 //! The `gonogo` command line: argument parsing and dispatch to [`gonogo::commands`].
 
-use std::io::{IsTerminal, Write};
-use std::path::PathBuf;
+use std::io::IsTerminal;
+use std::path::{Path, PathBuf};
 use std::process::ExitCode;
 
 use clap::{CommandFactory, Parser, Subcommand};
 use gonogo::commands::check::{self, CheckFormat, CheckRequest, Role};
 use gonogo::commands::sheet::{self, SheetFormat};
-use gonogo::commands::{Failure, diff, explain, fmt, headroom, impact, lint};
-use gonogo::diagnostic::RenderStyle;
+use gonogo::commands::{Failure, diff, explain, field, fmt, headroom, impact, lint};
+use gonogo::diagnostic::{Problem, RenderStyle, codes};
 use gonogo::exit::Exit;
+use gonogo::output::{Destination, to_stderr};
 use gonogo::report::diff::DiffFormat;
 use gonogo::report::headroom::HeadroomFormat;
 use gonogo::report::impact::ImpactFormat;
@@ -21,8 +22,10 @@ const STACK_BYTES: usize = 256 * 1024 * 1024;
 #[derive(Parser)]
 #[command(name = "gonogo", version, about, long_about = None)]
 struct Cli {
-    /// Write the output to this file instead of standard output. The file is written beside
-    /// its final place and renamed into it, so it is never left half-written.
+    /// Write the output to this file instead of standard output (`-` is standard output).
+    /// A file is written beside its final place and renamed into it, so it is never left
+    /// half-written, and keeps its mode; a link is written through to its file; a device or
+    /// FIFO is written directly. A file the run reads and a read-only file are refused.
     #[arg(long, global = true, value_name = "FILE")]
     output: Option<PathBuf>,
     #[command(subcommand)]
@@ -173,16 +176,43 @@ enum Command {
 }
 
 fn main() -> ExitCode {
-    let cli = Cli::parse();
+    let cli = match Cli::try_parse() {
+        Ok(cli) => cli,
+        Err(e) => return clap_message(&e).into(),
+    };
     let worker = std::thread::Builder::new()
         .stack_size(STACK_BYTES)
         .spawn(move || run(cli));
     match worker.map(|handle| handle.join()) {
         Ok(Ok(exit)) => exit.into(),
         _ => {
-            eprintln!("gonogo: internal error");
+            to_stderr("gonogo: internal error\n");
             Exit::BadInput.into()
         }
+    }
+}
+
+/// Prints clap's help, version or usage error where clap would, with every write checked:
+/// help that cannot be written is exit 2, not a silent 0.
+fn clap_message(e: &clap::Error) -> Exit {
+    let styled = e.render();
+    if e.use_stderr() {
+        let text = if std::io::stderr().is_terminal() {
+            styled.ansi().to_string()
+        } else {
+            styled.to_string()
+        };
+        to_stderr(&text);
+        return Exit::BadInput;
+    }
+    let text = if std::io::stdout().is_terminal() {
+        styled.ansi().to_string()
+    } else {
+        styled.to_string()
+    };
+    match Destination::Stdout.write(&text) {
+        Ok(()) => Exit::Clean,
+        Err(problem) => fail(Failure::one(problem)),
     }
 }
 
@@ -192,8 +222,14 @@ fn style_for(stream_is_terminal: bool) -> RenderStyle {
 }
 
 fn run(cli: Cli) -> Exit {
-    let output = cli.output;
-    let output = output.as_deref();
+    let output = match Destination::resolve(cli.output.as_deref()) {
+        Ok(destination) => destination,
+        Err(problem) => return fail(Failure::one(problem)),
+    };
+    if let Err(problem) = stdin_at_most_once(&cli.command) {
+        return fail(Failure::one(problem));
+    }
+    let output = &output;
     let done =
         |result: Result<String, Failure>| finish(result.map(|text| (text, Exit::Clean)), output);
     match cli.command {
@@ -205,6 +241,9 @@ fn run(cli: Cli) -> Exit {
             jobs,
             declarations,
         } => {
+            let Ok(declarations) = walk_field(&declarations) else {
+                return Exit::BadInput;
+            };
             let request = CheckRequest {
                 rules: &rules,
                 class: class.as_deref(),
@@ -217,8 +256,8 @@ fn run(cli: Cli) -> Exit {
         }
         Command::Lint { files, format } => {
             let linted = lint::run(&files);
-            let text = linted.render(format, style_for(std::io::stdout().is_terminal()));
-            write_out(&text, output, linted.exit())
+            let text = linted.render(format, style_for(output.is_terminal()));
+            lint_out(&text, output, linted.exit())
         }
         Command::Diff {
             old,
@@ -232,20 +271,30 @@ fn run(cli: Cli) -> Exit {
             declarations,
             role,
             format,
-        } => done(impact::run(&old, &new, &declarations, role, format)),
+        } => {
+            let Ok(declarations) = walk_field(&declarations) else {
+                return Exit::BadInput;
+            };
+            done(impact::run(&old, &new, &declarations, role, format))
+        }
         Command::Headroom {
             rules,
             class,
             role,
             format,
             declarations,
-        } => done(headroom::run(
-            &rules,
-            class.as_deref(),
-            role,
-            &declarations,
-            format,
-        )),
+        } => {
+            let Ok(declarations) = walk_field(&declarations) else {
+                return Exit::BadInput;
+            };
+            done(headroom::run(
+                &rules,
+                class.as_deref(),
+                role,
+                &declarations,
+                format,
+            ))
+        }
         Command::Explain {
             rules,
             class,
@@ -266,7 +315,7 @@ fn run(cli: Cli) -> Exit {
             match clap_mangen::Man::new(Cli::command()).render(&mut page) {
                 Ok(()) => write_out(&String::from_utf8_lossy(&page), output, Exit::Clean),
                 Err(e) => {
-                    eprintln!("gonogo: cannot make the manual page: {e}");
+                    to_stderr(&format!("gonogo: cannot make the manual page: {e}\n"));
                     Exit::BadInput
                 }
             }
@@ -275,52 +324,95 @@ fn run(cli: Cli) -> Exit {
     }
 }
 
-/// Writes a command's document with its exit status, or renders its problems on standard
-/// error (the one place diagnostics are rendered) and gives exit 2.
-fn finish(result: Result<(String, Exit), Failure>, output: Option<&std::path::Path>) -> Exit {
+/// Every path of the run that reads standard input (`-`), refused when more than one does:
+/// standard input can be read once.
+fn stdin_at_most_once(command: &Command) -> Result<(), Problem> {
+    let named: Vec<&Path> = match command {
+        Command::Check {
+            rules,
+            declarations,
+            ..
+        }
+        | Command::Headroom {
+            rules,
+            declarations,
+            ..
+        } => std::iter::once(rules)
+            .chain(declarations)
+            .map(PathBuf::as_path)
+            .collect(),
+        Command::Impact {
+            old,
+            new,
+            declarations,
+            ..
+        } => [old, new]
+            .into_iter()
+            .chain(declarations)
+            .map(PathBuf::as_path)
+            .collect(),
+        Command::Diff { old, new, .. } => vec![old, new],
+        Command::Lint { files, .. } => files.iter().map(PathBuf::as_path).collect(),
+        Command::Explain { rules, .. } | Command::Sheet { rules, .. } => vec![rules],
+        Command::Fmt { file } => vec![file],
+        Command::Completions { .. } | Command::Man => Vec::new(),
+    };
+    if named.iter().filter(|p| gonogo::source::is_stdin(p)).count() > 1 {
+        return Err(Problem::unlocated(
+            codes::write::STDIN_TWICE,
+            "standard input (`-`) is named more than once",
+        )
+        .with_help("standard input can be read only once: name files for the others"));
+    }
+    Ok(())
+}
+
+/// The declaration files of a field, each once; what the walk left out is noted on standard
+/// error. A folder that cannot be read or holds no declaration is rendered and refused.
+fn walk_field(named: &[PathBuf]) -> Result<Vec<PathBuf>, Exit> {
+    match field::walk(named) {
+        Ok(found) => {
+            for note in found.notes() {
+                to_stderr(&format!("gonogo: note: {note}\n"));
+            }
+            Ok(found.files)
+        }
+        Err(problem) => Err(fail(Failure::one(problem))),
+    }
+}
+
+/// Renders a command's problems on standard error (the one place diagnostics are rendered);
+/// exit 2.
+fn fail(failure: Failure) -> Exit {
+    to_stderr(&failure.render(style_for(std::io::stderr().is_terminal())));
+    Exit::BadInput
+}
+
+/// Writes a command's document with its exit status, or renders its problems; exit 2.
+fn finish(result: Result<(String, Exit), Failure>, output: &Destination) -> Exit {
     match result {
         Ok((text, exit)) => write_out(&text, output, exit),
-        Err(failure) => {
-            eprint!(
-                "{}",
-                failure.render(style_for(std::io::stderr().is_terminal()))
-            );
-            Exit::BadInput
-        }
+        Err(failure) => fail(failure),
     }
 }
 
-/// Writes the output, to standard output or atomically to `--output`; a failed write is exit 2.
-fn write_out(text: &str, output: Option<&std::path::Path>, exit: Exit) -> Exit {
-    let Some(path) = output else {
-        let mut stdout = std::io::stdout().lock();
-        let _ = stdout.write_all(text.as_bytes());
-        let _ = stdout.flush();
-        return exit;
-    };
-    match write_atomically(path, text) {
+/// Writes the document; a failed write is rendered and exit 2.
+fn write_out(text: &str, output: &Destination, exit: Exit) -> Exit {
+    match output.write(text) {
         Ok(()) => exit,
-        Err(e) => {
-            eprintln!("gonogo: cannot write `{}`: {e}", path.display());
-            Exit::BadInput
-        }
+        Err(problem) => fail(Failure::one(problem)),
     }
 }
 
-/// Writes `text` to a temporary file in the same folder, then renames it over `path`.
-fn write_atomically(path: &std::path::Path, text: &str) -> std::io::Result<()> {
-    let folder = path
-        .parent()
-        .filter(|p| !p.as_os_str().is_empty())
-        .unwrap_or(std::path::Path::new("."));
-    let name = path
-        .file_name()
-        .map(|n| n.to_string_lossy().into_owned())
-        .unwrap_or_default();
-    let temporary = folder.join(format!(".{name}.{}.partial", std::process::id()));
-    let written = std::fs::write(&temporary, text).and_then(|()| std::fs::rename(&temporary, path));
-    if written.is_err() {
-        let _ = std::fs::remove_file(&temporary);
+/// `lint`'s report: written as any document when it found no error. With errors no file is
+/// written: to standard output the report goes as before, while for `--output FILE` it
+/// goes to standard error instead, where the other commands' problems go.
+fn lint_out(text: &str, output: &Destination, exit: Exit) -> Exit {
+    match (exit, output) {
+        (Exit::BadInput, Destination::File(_)) => {
+            to_stderr(text);
+            Exit::BadInput
+        }
+        _ => write_out(text, output, exit),
     }
-    written
 }

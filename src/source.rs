@@ -1,9 +1,11 @@
-//! Source files and byte spans: reading a rulebook from disk with its size and encoding
-//! checked, and the one place where parser offsets become miette spans.
+//! Source files and byte spans: reading a rulebook or a declaration from disk or from
+//! standard input (`-`) with its size and encoding checked, the log of every file read (so
+//! that a write never replaces one, see [`crate::output`]), and the one place where parser
+//! offsets become miette spans.
 
 use std::io::Read;
 use std::path::{Path, PathBuf};
-use std::sync::Arc;
+use std::sync::{Arc, Mutex, OnceLock};
 
 use miette::{NamedSource, SourceSpan};
 
@@ -105,6 +107,135 @@ pub fn read_capped(reader: impl Read) -> Result<Vec<u8>, ReadFailure> {
     Ok(bytes)
 }
 
+/// The name that stands for standard input where a file is expected.
+pub const STDIN: &str = "-";
+
+/// Whether `path` names standard input (`-`).
+pub fn is_stdin(path: &Path) -> bool {
+    path.as_os_str() == STDIN
+}
+
+/// Standard input as read once: its bytes, or why it could not be had.
+enum KeptStdin {
+    Bytes(Vec<u8>),
+    TooLarge,
+    Failed(std::io::ErrorKind, String),
+}
+
+/// Standard input, read once under the size cap and kept for the rest of the run.
+fn read_stdin() -> Result<Vec<u8>, ReadFailure> {
+    static KEPT: OnceLock<KeptStdin> = OnceLock::new();
+    let kept = KEPT.get_or_init(|| {
+        note_stdin();
+        match read_capped(std::io::stdin().lock()) {
+            Ok(bytes) => KeptStdin::Bytes(bytes),
+            Err(ReadFailure::Io(e)) => KeptStdin::Failed(e.kind(), e.to_string()),
+            Err(_) => KeptStdin::TooLarge,
+        }
+    });
+    match kept {
+        KeptStdin::Bytes(bytes) => Ok(bytes.clone()),
+        KeptStdin::TooLarge => Err(ReadFailure::TooLarge),
+        KeptStdin::Failed(kind, why) => {
+            Err(ReadFailure::Io(std::io::Error::new(*kind, why.clone())))
+        }
+    }
+}
+
+/// What names one file on this machine: its canonical path and, on Unix, its device and
+/// inode, so a hard link or a second name of the same file is the same file.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct FileKey {
+    /// The canonical path, when it could be had.
+    pub canonical: Option<PathBuf>,
+    /// Device and inode (Unix only).
+    pub device_inode: Option<(u64, u64)>,
+}
+
+impl FileKey {
+    /// The key of an open file reached through `path`.
+    pub fn of_open(path: &Path, file: &std::fs::File) -> FileKey {
+        FileKey {
+            canonical: path.canonicalize().ok(),
+            device_inode: file.metadata().ok().and_then(|m| device_inode(&m)),
+        }
+    }
+
+    /// The key of the file `path` names (links followed), if it exists.
+    pub fn of_path(path: &Path) -> Option<FileKey> {
+        let metadata = std::fs::metadata(path).ok()?;
+        Some(FileKey {
+            canonical: path.canonicalize().ok(),
+            device_inode: device_inode(&metadata),
+        })
+    }
+
+    /// Whether the two keys name the same file.
+    pub fn same_file(&self, other: &FileKey) -> bool {
+        match (self.device_inode, other.device_inode) {
+            (Some(a), Some(b)) => a == b,
+            _ => self.canonical.is_some() && self.canonical == other.canonical,
+        }
+    }
+}
+
+/// Device and inode of a file's metadata.
+#[cfg(unix)]
+pub fn device_inode(metadata: &std::fs::Metadata) -> Option<(u64, u64)> {
+    use std::os::unix::fs::MetadataExt;
+    Some((metadata.dev(), metadata.ino()))
+}
+
+/// Device and inode of a file's metadata: none off Unix.
+#[cfg(not(unix))]
+pub fn device_inode(_metadata: &std::fs::Metadata) -> Option<(u64, u64)> {
+    None
+}
+
+/// Every file this process has read, as the path it was read by and its key.
+static READ_LOG: Mutex<Vec<(PathBuf, FileKey)>> = Mutex::new(Vec::new());
+
+fn note_read(path: &Path, file: &std::fs::File) {
+    let key = FileKey::of_open(path, file);
+    if let Ok(mut log) = READ_LOG.lock() {
+        log.push((path.to_path_buf(), key));
+    }
+}
+
+/// Notes standard input when it is a regular file (`< v.yaml`), so it is protected like one.
+#[cfg(unix)]
+fn note_stdin() {
+    use std::os::fd::AsFd;
+    let Ok(owned) = std::io::stdin().as_fd().try_clone_to_owned() else {
+        return;
+    };
+    let Ok(metadata) = std::fs::File::from(owned).metadata() else {
+        return;
+    };
+    if !metadata.is_file() {
+        return;
+    }
+    let key = FileKey {
+        canonical: None,
+        device_inode: device_inode(&metadata),
+    };
+    if let Ok(mut log) = READ_LOG.lock() {
+        log.push((PathBuf::from(STDIN), key));
+    }
+}
+
+/// Standard input cannot be named off Unix.
+#[cfg(not(unix))]
+fn note_stdin() {}
+
+/// The path by which this process read the file `key` names, if it read it.
+pub fn was_read(key: &FileKey) -> Option<PathBuf> {
+    let log = READ_LOG.lock().ok()?;
+    log.iter()
+        .find(|(_, read)| read.same_file(key))
+        .map(|(path, _)| path.clone())
+}
+
 /// All files of one run, so spans can be resolved back to text.
 #[derive(Debug, Default)]
 pub struct SourceMap {
@@ -121,11 +252,20 @@ impl SourceMap {
         FileId::try_from(self.files.len() - 1).unwrap_or(FileId::MAX)
     }
 
-    /// Reads a file from disk, refusing files that are too large or not UTF-8. The cap holds
-    /// on the bytes actually read, so a pipe or a device (`/dev/zero`) that reports no size is
-    /// refused after [`MAX_FILE_BYTES`] bytes rather than read whole.
+    /// Reads a file from disk, or standard input when the path is [`STDIN`], refusing text
+    /// that is too large or not UTF-8. The cap holds on the bytes actually read, so a pipe or
+    /// a device (`/dev/zero`) that reports no size is refused after [`MAX_FILE_BYTES`] bytes
+    /// rather than read whole. Standard input is read once and kept, so a declaration read
+    /// against two editions reads the same text twice. Every file opened is noted in the
+    /// [`was_read`] log.
     pub fn read(&mut self, path: &Path) -> Result<FileId, ReadFailure> {
-        let bytes = read_capped(std::fs::File::open(path).map_err(ReadFailure::Io)?)?;
+        let bytes = if is_stdin(path) {
+            read_stdin()?
+        } else {
+            let file = std::fs::File::open(path).map_err(ReadFailure::Io)?;
+            note_read(path, &file);
+            read_capped(file)?
+        };
         let text = String::from_utf8(bytes)
             .map_err(|e| ReadFailure::NotUtf8(e.utf8_error().valid_up_to()))?;
         Ok(self.add(path.to_path_buf(), text))

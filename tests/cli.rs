@@ -553,3 +553,80 @@ fn a_misspelt_class_gets_the_same_did_you_mean_from_every_command() {
         );
     }
 }
+
+#[test]
+fn headroom_lists_every_bad_declaration_as_check_does() {
+    let bad = [
+        "tests/bad-declarations/wrong-dimension.yaml",
+        "tests/bad-declarations/unknown-unit.yaml",
+    ];
+    let codes = |stderr: &str| -> Vec<String> {
+        stderr
+            .lines()
+            .filter(|l| {
+                l.len() > 4
+                    && l.as_bytes()[0] == b'D'
+                    && l[1..3].bytes().all(|b| b.is_ascii_digit())
+            })
+            .map(str::to_string)
+            .collect()
+    };
+    let check = gonogo(&["check", "--rules", RULES, bad[0], bad[1]]);
+    let headroom = gonogo(&["headroom", "--rules", RULES, bad[0], bad[1]]);
+    assert_eq!(headroom.code, 2);
+    assert_eq!(
+        codes(&headroom.stderr),
+        ["D22 wrong-dimension", "D20 unknown-unit"],
+        "{}",
+        headroom.stderr
+    );
+    assert_eq!(codes(&headroom.stderr), codes(&check.stderr));
+}
+
+#[test]
+fn headroom_refuses_a_declaration_dated_before_the_edition_as_check_does() {
+    let text = std::fs::read_to_string(concat!(
+        env!("CARGO_MANIFEST_DIR"),
+        "/engines-demo/limited2-legal.yaml"
+    ))
+    .unwrap_or_default()
+    .replace("date: \"2027-05-22\"", "date: \"2019-05-22\"");
+    assert!(
+        text.contains("2019-05-22"),
+        "the demo declaration's date moved"
+    );
+    let early = Scratch::new("early.yaml", text.as_bytes());
+    let check = gonogo(&["check", "--rules", RULES, early.path()]);
+    let headroom = gonogo(&["headroom", "--rules", RULES, early.path()]);
+    assert_eq!(check.code, 2, "{}", check.stderr);
+    assert_eq!(headroom.code, 2, "{}", headroom.stdout);
+    assert!(
+        headroom.stderr.contains("C12 before-edition"),
+        "{}",
+        headroom.stderr
+    );
+}
+
+#[test]
+fn a_count_that_is_not_a_whole_number_is_refused_at_its_place() {
+    let text = std::fs::read_to_string(concat!(
+        env!("CARGO_MANIFEST_DIR"),
+        "/engines-demo/limited2-legal.yaml"
+    ))
+    .unwrap_or_default()
+    .replace("  cylinders: 8\n", "  cylinders: 7.5\n");
+    assert!(
+        text.contains("cylinders: 7.5"),
+        "the demo's cylinder line moved"
+    );
+    let half = Scratch::new("half-cylinder.yaml", text.as_bytes());
+    let run = gonogo(&["check", "--rules", RULES, half.path()]);
+    assert_eq!(run.code, 2, "{}", run.stdout);
+    assert!(run.stderr.contains("D26 not-whole"), "{}", run.stderr);
+    assert!(
+        run.stderr.contains("7.5 is not a whole number"),
+        "{}",
+        run.stderr
+    );
+    assert!(run.stderr.contains(":19:14]"), "{}", run.stderr);
+}

@@ -2,7 +2,6 @@
 //! JSON. Every declaration is loaded before anything is written, so bad input gives its
 //! diagnostics and exit 2, never half a report.
 
-use crate::diagnostic::codes;
 use std::path::{Path, PathBuf};
 
 use super::{Failure, checked_rulebook};
@@ -145,52 +144,14 @@ impl Progress {
     }
 }
 
-/// The declarations named: files as given, folders searched recursively for `.yaml` and
-/// `.yml` files (sorted, so the order is the same on every machine).
+/// The declarations named, each file once, folders walked (see [`super::field`]).
 pub(super) fn declaration_files(named: &[PathBuf]) -> Result<Vec<PathBuf>, Problem> {
-    let mut files = Vec::new();
-    for path in named {
-        if path.is_dir() {
-            let before = files.len();
-            collect_yaml(path, &mut files).map_err(|e| {
-                Problem::unlocated(
-                    codes::read::IO,
-                    format!("cannot read the folder `{}`: {e}", path.display()),
-                )
-                .with_help("check the path and that the folder may be read")
-            })?;
-            files[before..].sort();
-            if files.len() == before {
-                return Err(Problem::unlocated(
-                    codes::check::EMPTY_FOLDER,
-                    format!(
-                        "`{}` holds no `.yaml` or `.yml` declaration",
-                        path.display()
-                    ),
-                )
-                .with_help("name the declaration files, or a folder that holds some"));
-            }
-        } else {
-            files.push(path.clone());
-        }
-    }
-    Ok(files)
+    super::field::walk(named).map(|field| field.files)
 }
 
-fn collect_yaml(folder: &Path, files: &mut Vec<PathBuf>) -> std::io::Result<()> {
-    for entry in std::fs::read_dir(folder)? {
-        let path = entry?.path();
-        if path.is_dir() {
-            collect_yaml(&path, files)?;
-        } else if path.extension().is_some_and(|e| e == "yaml" || e == "yml") {
-            files.push(path);
-        }
-    }
-    Ok(())
-}
-
-/// A declaration and the position of the class it is checked against.
-fn load_with_class(
+/// A declaration and the position of the class it is checked against: dated on or after the
+/// edition, its class found as `check` finds it (shared by `headroom`).
+pub(super) fn load_with_class(
     path: &Path,
     rulebook: &CheckedRulebook,
     class: Option<&str>,

@@ -2,14 +2,14 @@
 
 use std::path::PathBuf;
 
-use super::check::{Role, class_of, declaration_files};
+use super::check::{Role, declaration_files, load_with_class};
 use super::{Failure, checked_rulebook};
 use crate::analyze::headroom::headroom;
-use crate::load::{LoadProblem, load_declaration};
 use crate::report::headroom::{HeadroomFormat, json, text};
 use crate::source::SourceMap;
 
-/// The headroom of each declaration, or the problems that prevent it.
+/// The headroom of each declaration, or every problem of every declaration that prevents
+/// it: each is loaded, dated and given its class as `check` does.
 pub fn run(
     rules: &std::path::Path,
     class: Option<&str>,
@@ -19,20 +19,26 @@ pub fn run(
 ) -> Result<String, Failure> {
     let rulebook = checked_rulebook(rules)?;
     let files = declaration_files(named).map_err(Failure::one)?;
-    let mut sources = SourceMap::default();
+    let mut engines = Vec::new();
+    let mut failed = Failure::default();
+    for path in &files {
+        let mut sources = SourceMap::default();
+        match load_with_class(path, &rulebook, class, &mut sources) {
+            Ok(engine) => engines.push(engine),
+            Err(problems) => failed.0.extend(Failure::new(problems, sources).0),
+        }
+    }
+    if !failed.0.is_empty() {
+        return Err(failed);
+    }
     let mut texts = Vec::new();
     let mut docs = Vec::new();
-    for path in &files {
-        let d = match load_declaration(path, &rulebook, &mut sources) {
-            Ok(d) => d,
-            Err(problems) => return Err(Failure::new(problems, sources)),
-        };
-        let (_, found) = class_of(path, &d, &rulebook, class)
-            .map_err(|e| Failure::one(LoadProblem::unlocated(e).problem()))?;
-        let rules = headroom(&rulebook, found, &d, role.map(Role::decision));
+    for (d, at) in &engines {
+        let found = &rulebook.classes[*at];
+        let rules = headroom(&rulebook, found, d, role.map(Role::decision));
         match format {
-            HeadroomFormat::Text => texts.push(text(&rulebook, &found.name, &d, &rules)),
-            HeadroomFormat::Json => docs.push(json(&rulebook, &found.name, &d, &rules)),
+            HeadroomFormat::Text => texts.push(text(&rulebook, &found.name, d, &rules)),
+            HeadroomFormat::Json => docs.push(json(&rulebook, &found.name, d, &rules)),
         }
     }
     Ok(match format {

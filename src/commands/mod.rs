@@ -6,6 +6,7 @@
 pub mod check;
 pub mod diff;
 pub mod explain;
+pub mod field;
 pub mod fmt;
 pub mod headroom;
 pub mod impact;

@@ -2,7 +2,7 @@
 //!
 //! A code is a stage letter and a number beside a readable name, `C56 unknown-unit`: F for
 //! reading rulebook files, P for parsing, C for checking a rulebook, D for loading an engine
-//! declaration, A for comparing editions and fields. A code is never reused for another
+//! declaration, A for comparing editions and fields, W for writing the output. A code is never reused for another
 //! problem; a new one takes the next free number of its stage. README.md lists them all (a
 //! test keeps the two in step).
 
@@ -21,6 +21,8 @@ pub enum Stage {
     Load,
     /// Comparing editions and fields (`diff`, `impact`).
     Analyze,
+    /// Writing the output (`--output`, standard output) and naming the inputs.
+    Write,
 }
 
 impl Stage {
@@ -32,6 +34,7 @@ impl Stage {
             Stage::Check => 'C',
             Stage::Load => 'D',
             Stage::Analyze => 'A',
+            Stage::Write => 'W',
         }
     }
 }
@@ -307,6 +310,8 @@ pub mod load {
     pub const NO_CLASS: Code = Code::new(Stage::Load, 25, "no-class");
     /// `D24 too-many-values`
     pub const TOO_MANY_VALUES: Code = Code::new(Stage::Load, 24, "too-many-values");
+    /// `D26 not-whole`
+    pub const NOT_WHOLE: Code = Code::new(Stage::Load, 26, "not-whole");
 }
 
 /// Codes of comparing editions and fields.
@@ -317,6 +322,24 @@ pub mod analyze {
     pub const DIFFERENT_SERIES: Code = Code::new(Stage::Analyze, 1, "different-series");
     /// `A02 nothing-to-compare`
     pub const NOTHING_TO_COMPARE: Code = Code::new(Stage::Analyze, 2, "nothing-to-compare");
+}
+
+/// Codes of writing the output and naming the inputs.
+pub mod write {
+    use super::{Code, Stage};
+
+    /// `W01 output-is-input`
+    pub const OUTPUT_IS_INPUT: Code = Code::new(Stage::Write, 1, "output-is-input");
+    /// `W02 output-read-only`
+    pub const OUTPUT_READ_ONLY: Code = Code::new(Stage::Write, 2, "output-read-only");
+    /// `W03 output-not-a-file`
+    pub const OUTPUT_NOT_A_FILE: Code = Code::new(Stage::Write, 3, "output-not-a-file");
+    /// `W04 output-dangling-link`
+    pub const OUTPUT_DANGLING_LINK: Code = Code::new(Stage::Write, 4, "output-dangling-link");
+    /// `W05 write-failed`
+    pub const WRITE_FAILED: Code = Code::new(Stage::Write, 5, "write-failed");
+    /// `W06 stdin-twice`
+    pub const STDIN_TWICE: Code = Code::new(Stage::Write, 6, "stdin-twice");
 }
 
 /// Numbers no longer given, and never given again: the problem moved to another stage.
@@ -428,8 +451,15 @@ pub const ALL: &[Code] = &[
     load::YAML,
     load::TOO_MANY_VALUES,
     load::NO_CLASS,
+    load::NOT_WHOLE,
     analyze::DIFFERENT_SERIES,
     analyze::NOTHING_TO_COMPARE,
+    write::OUTPUT_IS_INPUT,
+    write::OUTPUT_READ_ONLY,
+    write::OUTPUT_NOT_A_FILE,
+    write::OUTPUT_DANGLING_LINK,
+    write::WRITE_FAILED,
+    write::STDIN_TWICE,
 ];
 
 #[cfg(test)]

@@ -147,6 +147,13 @@ pub enum LoadError {
     },
     /// An infinite or not-a-number value.
     NotFinite,
+    /// A fraction where the rulebook counts (`cylinders: 7.5`).
+    NotWhole {
+        /// The measurement.
+        measurement: String,
+        /// The value written.
+        value: f64,
+    },
     /// A negative value where the rulebook allows none.
     Negative {
         /// The measurement.
@@ -242,6 +249,7 @@ impl LoadError {
             | LoadError::InstrumentWrongDimension { .. } => codes::load::WRONG_DIMENSION,
             LoadError::UnknownUnit { .. } => codes::load::UNKNOWN_UNIT,
             LoadError::NotFinite => codes::load::NOT_FINITE,
+            LoadError::NotWhole { .. } => codes::load::NOT_WHOLE,
             LoadError::Negative { .. } => codes::load::NEGATIVE,
             LoadError::OutOfRange { .. } => codes::load::OUT_OF_RANGE,
             LoadError::NotPositive => codes::load::NOT_POSITIVE,
@@ -303,6 +311,9 @@ impl LoadError {
                 format!("`{symbol}` is not a unit gonogo knows")
             }
             LoadError::NotFinite => "this value is not a finite number".to_string(),
+            LoadError::NotWhole { measurement, value } => {
+                format!("`{measurement}` is a count, and {value} is not a whole number")
+            }
             LoadError::Negative { measurement } => format!("`{measurement}` cannot be negative"),
             LoadError::OutOfRange { measurement, .. } => {
                 format!("this value is outside the range the rulebook declares for `{measurement}`")
@@ -368,6 +379,7 @@ impl LoadError {
             LoadError::WrongUnit { found, .. } => format!("a {found}"),
             LoadError::UnknownUnit { .. } => "unknown unit".to_string(),
             LoadError::NotFinite => "not finite".to_string(),
+            LoadError::NotWhole { .. } => "not a whole number".to_string(),
             LoadError::Negative { .. } => "negative".to_string(),
             LoadError::OutOfRange { .. } => "out of range".to_string(),
             LoadError::NotPositive => "not above zero".to_string(),
@@ -442,6 +454,7 @@ impl LoadError {
                 None => "the units gonogo knows are listed in README.md".to_string(),
             },
             LoadError::NotFinite => "write the measured value".to_string(),
+            LoadError::NotWhole { .. } => "write the count as a whole number".to_string(),
             LoadError::Negative { .. } => {
                 "check the sign; the rulebook allows negative values only where its `range` does"
                     .to_string()

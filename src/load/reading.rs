@@ -148,6 +148,12 @@ fn check_value(value: f64, m: &Measurement) -> Result<(), LoadError> {
     if !value.is_finite() {
         return Err(LoadError::NotFinite);
     }
+    if m.dimension_word == "count" && value.fract() != 0.0 {
+        return Err(LoadError::NotWhole {
+            measurement: m.name.clone(),
+            value,
+        });
+    }
     let negatives_allowed = m.range.is_some_and(|(low, _)| low < 0.0);
     if value < 0.0 && !negatives_allowed {
         return Err(LoadError::Negative {

@@ -1,0 +1,209 @@
+//! The field: the declaration files a run names, with folders walked. A file named on the
+//! command line is taken as it is; a folder is searched recursively for files whose name ends
+//! in `.yaml` or `.yml` in any case (`B.YAML`, `c.Yml`), sorted by path so every machine
+//! sees the same order. Each file is taken once however it is reached (by device and inode on
+//! Unix, else by canonical path): a second name, a hard link or a link into a folder already
+//! walked adds nothing, and a folder is never entered twice, so a link back into itself ends
+//! the walk there. Inside a folder, a FIFO, a device or a socket is skipped with a note
+//! instead of being opened, so a walk never blocks; so is a file that is not YAML.
+
+use std::collections::HashSet;
+use std::path::{Path, PathBuf};
+
+use crate::diagnostic::Problem;
+use crate::diagnostic::codes;
+use crate::source::{FileKey, is_stdin};
+
+/// The declaration files of a run, and what the walk left out.
+#[derive(Debug, Default)]
+pub struct Field {
+    /// Each declaration file once, in order: as named, folders' files sorted.
+    pub files: Vec<PathBuf>,
+    /// Names dropped because they reach a file already taken or a folder already walked.
+    pub duplicates: usize,
+    /// Files inside folders that are not YAML by their name.
+    pub not_yaml: usize,
+    /// Entries inside folders that are not regular files (FIFO, device, socket), with what
+    /// they are.
+    pub special: Vec<(PathBuf, &'static str)>,
+}
+
+impl Field {
+    /// What the walk left out, one line each, for standard error; empty when nothing was.
+    pub fn notes(&self) -> Vec<String> {
+        let mut notes = Vec::new();
+        if self.duplicates > 0 {
+            notes.push(format!(
+                "{} dropped: {} a declaration already taken or a folder already walked",
+                count(self.duplicates, "name", "names"),
+                if self.duplicates == 1 {
+                    "it reaches"
+                } else {
+                    "each reaches"
+                },
+            ));
+        }
+        if self.not_yaml > 0 {
+            notes.push(format!(
+                "{} in the folders skipped: not `.yaml` or `.yml`",
+                count(self.not_yaml, "file", "files"),
+            ));
+        }
+        for (path, kind) in &self.special {
+            notes.push(format!(
+                "`{}` skipped: it is {kind}, not a file",
+                path.display()
+            ));
+        }
+        notes
+    }
+}
+
+fn count(n: usize, one: &str, many: &str) -> String {
+    format!("{n} {}", if n == 1 { one } else { many })
+}
+
+/// Walks the named paths into the field, or says which folder could not be read or held no
+/// declaration.
+pub fn walk(named: &[PathBuf]) -> Result<Field, Problem> {
+    let mut walker = Walker::default();
+    for path in named {
+        if path.is_dir() {
+            let mut found = Vec::new();
+            let dropped_before = walker.field.duplicates;
+            walker
+                .folder(path, &mut found)
+                .map_err(|e| unreadable_folder(path, &e))?;
+            if found.is_empty() && walker.field.duplicates == dropped_before {
+                return Err(empty_folder(path));
+            }
+            found.sort();
+            for file in found {
+                walker.take(file);
+            }
+        } else {
+            walker.take(path.clone());
+        }
+    }
+    Ok(walker.field)
+}
+
+#[derive(Default)]
+struct Walker {
+    field: Field,
+    /// Files taken, by key.
+    files: Vec<FileKey>,
+    /// Canonical paths of folders entered.
+    folders: HashSet<PathBuf>,
+}
+
+impl Walker {
+    /// Adds a file unless it is one already taken.
+    fn take(&mut self, path: PathBuf) {
+        if !is_stdin(&path)
+            && let Some(key) = FileKey::of_path(&path)
+        {
+            if self.files.iter().any(|k| k.same_file(&key)) {
+                self.field.duplicates += 1;
+                return;
+            }
+            self.files.push(key);
+        }
+        self.field.files.push(path);
+    }
+
+    /// Collects the YAML files under `folder` into `found`, entering each folder once.
+    fn folder(&mut self, folder: &Path, found: &mut Vec<PathBuf>) -> std::io::Result<()> {
+        let canonical = folder.canonicalize()?;
+        if !self.folders.insert(canonical) {
+            self.field.duplicates += 1;
+            return Ok(());
+        }
+        for entry in std::fs::read_dir(folder)? {
+            let path = entry?.path();
+            match std::fs::metadata(&path) {
+                Ok(m) if m.is_dir() => self.folder(&path, found)?,
+                _ if !is_yaml(&path) => self.field.not_yaml += 1,
+                Ok(m) if !m.is_file() => self.field.special.push((path, kind_of(&m))),
+                // a regular file, or a dangling link whose read will say so
+                _ => found.push(path),
+            }
+        }
+        Ok(())
+    }
+}
+
+/// Whether the name ends in `.yaml` or `.yml`, in any case.
+fn is_yaml(path: &Path) -> bool {
+    path.extension()
+        .and_then(|e| e.to_str())
+        .is_some_and(|e| e.eq_ignore_ascii_case("yaml") || e.eq_ignore_ascii_case("yml"))
+}
+
+/// What a thing that is neither a file nor a folder is.
+fn kind_of(metadata: &std::fs::Metadata) -> &'static str {
+    #[cfg(unix)]
+    {
+        use std::os::unix::fs::FileTypeExt;
+        let kind = metadata.file_type();
+        if kind.is_fifo() {
+            return "a FIFO (named pipe)";
+        }
+        if kind.is_char_device() || kind.is_block_device() {
+            return "a device";
+        }
+        if kind.is_socket() {
+            return "a socket";
+        }
+    }
+    let _ = metadata;
+    "not a regular file"
+}
+
+fn unreadable_folder(path: &Path, e: &std::io::Error) -> Problem {
+    Problem::unlocated(
+        codes::read::IO,
+        format!("cannot read the folder `{}`: {e}", path.display()),
+    )
+    .with_help("check the path and that the folder may be read")
+}
+
+fn empty_folder(path: &Path) -> Problem {
+    Problem::unlocated(
+        codes::check::EMPTY_FOLDER,
+        format!(
+            "`{}` holds no `.yaml` or `.yml` declaration",
+            path.display()
+        ),
+    )
+    .with_help("name the declaration files, or a folder that holds some")
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn extensions_match_in_any_case() {
+        assert!(is_yaml(Path::new("a/B.YAML")));
+        assert!(is_yaml(Path::new("c.Yml")));
+        assert!(!is_yaml(Path::new("d.yaml.txt")));
+        assert!(!is_yaml(Path::new("yaml")));
+    }
+
+    #[test]
+    fn notes_count_in_words() {
+        let field = Field {
+            duplicates: 1,
+            not_yaml: 2,
+            ..Field::default()
+        };
+        assert_eq!(
+            field.notes(),
+            [
+                "1 name dropped: it reaches a declaration already taken or a folder already walked",
+                "2 files in the folders skipped: not `.yaml` or `.yml`",
+            ]
+        );
+    }
+}

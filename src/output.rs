@@ -1,0 +1,317 @@
+//! Where a command's document goes, and the rules that keep writing it from costing the user
+//! a file. Every command writes through here.
+//!
+//! - `--output -`, or no `--output`, is standard output. A failed write there is a problem
+//!   (`W05 write-failed`); a closed pipe (the reader went away) is not, and stays quiet.
+//! - A regular file is replaced atomically: the text goes to a temporary file beside it,
+//!   which is synced, given the mode of the file it replaces, and renamed over it; the folder
+//!   is then synced. A new file is made the same way.
+//! - A file this run read (a declaration, a rulebook, an include, standard input redirected
+//!   from a file) is never written: it is refused (`W01 output-is-input`), by device and
+//!   inode on Unix, so a hard link or another spelling of the path is caught too.
+//! - A read-only file is refused (`W02 output-read-only`), never replaced with a new mode.
+//! - A symbolic link is written through: the file it names is replaced and the link stays.
+//!   A link that leads nowhere is refused (`W04 output-dangling-link`).
+//! - A device, a FIFO, a socket, or any path under `/dev` or `/proc` (`/dev/stdout`) is
+//!   opened and written directly, never renamed over, so no device node is ever replaced.
+//! - A folder is refused (`W03 output-not-a-file`).
+
+use std::fs::{self, OpenOptions, Permissions};
+use std::io::{ErrorKind, IsTerminal, Write};
+use std::path::{Path, PathBuf};
+
+use crate::diagnostic::Problem;
+use crate::diagnostic::codes::write as codes;
+use crate::source::{FileKey, STDIN, was_read};
+
+/// Where a command's document is written.
+#[derive(Debug)]
+pub enum Destination {
+    /// Standard output.
+    Stdout,
+    /// A file, a link to one, or a device.
+    File(Target),
+}
+
+/// A `--output` path, looked at before the command runs.
+#[derive(Debug)]
+pub struct Target {
+    /// The path as the user gave it.
+    given: PathBuf,
+    /// What is there, and so how it is written.
+    kind: Kind,
+}
+
+#[derive(Debug)]
+enum Kind {
+    /// Nothing there yet: made at this path, atomically.
+    New(PathBuf),
+    /// A regular file (reached through links, if any): replaced atomically at its own path,
+    /// with its permissions.
+    Replace(PathBuf, Permissions),
+    /// A device, FIFO, socket, or a path under `/dev` or `/proc`: opened and written.
+    Direct(PathBuf),
+}
+
+impl Destination {
+    /// The destination `--output` names: standard output for none or `-`, else the file,
+    /// refused at once when it is a folder, read-only, or a link that leads nowhere.
+    pub fn resolve(output: Option<&Path>) -> Result<Destination, Problem> {
+        match output {
+            None => Ok(Destination::Stdout),
+            Some(path) if path.as_os_str() == STDIN => Ok(Destination::Stdout),
+            Some(path) => Target::resolve(path).map(Destination::File),
+        }
+    }
+
+    /// Whether the document goes to a terminal (colour may be used).
+    pub fn is_terminal(&self) -> bool {
+        matches!(self, Destination::Stdout) && std::io::stdout().is_terminal()
+    }
+
+    /// Writes the document, or says why it could not be written.
+    pub fn write(&self, text: &str) -> Result<(), Problem> {
+        match self {
+            Destination::Stdout => to_stdout(text),
+            Destination::File(target) => target.write(text.as_bytes()),
+        }
+    }
+}
+
+impl Target {
+    fn resolve(given: &Path) -> Result<Target, Problem> {
+        let target = |kind| Target {
+            given: given.to_path_buf(),
+            kind,
+        };
+        let link = match fs::symlink_metadata(given) {
+            Err(e) if e.kind() == ErrorKind::NotFound => {
+                return Ok(target(Kind::New(given.to_path_buf())));
+            }
+            Err(e) => return Err(write_failed(given, &e)),
+            Ok(m) => m,
+        };
+        let Ok(metadata) = fs::metadata(given) else {
+            return Err(dangling(given));
+        };
+        if metadata.is_dir() {
+            return Err(Problem::unlocated(
+                codes::OUTPUT_NOT_A_FILE,
+                format!("`{}` is a folder", given.display()),
+            )
+            .with_help("name a file to write to, in a folder that exists"));
+        }
+        if !metadata.is_file() || is_system_path(given) {
+            return Ok(target(Kind::Direct(given.to_path_buf())));
+        }
+        let path = if link.file_type().is_symlink() {
+            fs::canonicalize(given).map_err(|e| write_failed(given, &e))?
+        } else {
+            given.to_path_buf()
+        };
+        if is_read_only(&path, &metadata) {
+            return Err(Problem::unlocated(
+                codes::OUTPUT_READ_ONLY,
+                format!(
+                    "`{}` is read-only, so gonogo leaves it as it is",
+                    given.display()
+                ),
+            )
+            .with_help("make it writable first (`chmod u+w`), or write to another file"));
+        }
+        Ok(target(Kind::Replace(path, metadata.permissions())))
+    }
+
+    fn write(&self, bytes: &[u8]) -> Result<(), Problem> {
+        self.refuse_an_input()?;
+        let written = match &self.kind {
+            Kind::New(path) => replace_atomically(path, bytes, None),
+            Kind::Replace(path, permissions) => {
+                replace_atomically(path, bytes, Some(permissions.clone()))
+            }
+            Kind::Direct(path) => write_directly(path, bytes),
+        };
+        written.map_err(|e| write_failed(&self.given, &e))
+    }
+
+    /// Refuses a target that names a file this run has read, however it was named.
+    fn refuse_an_input(&self) -> Result<(), Problem> {
+        let is_file = fs::metadata(&self.given).is_ok_and(|m| m.is_file());
+        let Some(key) = FileKey::of_path(&self.given).filter(|_| is_file) else {
+            return Ok(());
+        };
+        let Some(input) = was_read(&key) else {
+            return Ok(());
+        };
+        let read_as = if input == self.given {
+            String::new()
+        } else if input.as_os_str() == STDIN {
+            " (read as standard input)".to_string()
+        } else {
+            format!(" (read as `{}`)", input.display())
+        };
+        Err(Problem::unlocated(
+            codes::OUTPUT_IS_INPUT,
+            format!(
+                "`--output {}` names a file this run reads{read_as}; nothing was written",
+                self.given.display()
+            ),
+        )
+        .with_help("write to another file: gonogo never writes over one of its inputs"))
+    }
+}
+
+/// Writes `text` to standard output. A closed pipe is not a failure: the reader has gone.
+pub fn to_stdout(text: &str) -> Result<(), Problem> {
+    let mut out = std::io::stdout().lock();
+    match out.write_all(text.as_bytes()).and_then(|()| out.flush()) {
+        Err(e) if e.kind() != ErrorKind::BrokenPipe => Err(Problem::unlocated(
+            codes::WRITE_FAILED,
+            format!("cannot write to standard output: {e}"),
+        )
+        .with_help("check that the disk or device standard output goes to has room")),
+        _ => Ok(()),
+    }
+}
+
+/// Writes `text` to standard error. A failure there cannot be reported anywhere, so it is
+/// ignored (never a panic); the exit status still tells.
+pub fn to_stderr(text: &str) {
+    let mut err = std::io::stderr().lock();
+    let _ = err.write_all(text.as_bytes()).and_then(|()| err.flush());
+}
+
+/// Paths written directly whatever they lead to: `/dev/stdout` names whatever standard
+/// output is, and must never be renamed over.
+fn is_system_path(path: &Path) -> bool {
+    path.starts_with("/dev") || path.starts_with("/proc")
+}
+
+/// Whether the file may not be written: no write permission at all, or none for this user.
+fn is_read_only(path: &Path, metadata: &fs::Metadata) -> bool {
+    metadata.permissions().readonly()
+        || OpenOptions::new()
+            .write(true)
+            .open(path)
+            .is_err_and(|e| e.kind() == ErrorKind::PermissionDenied)
+}
+
+fn dangling(given: &Path) -> Problem {
+    let to = fs::read_link(given)
+        .map(|t| format!(" to `{}`", t.display()))
+        .unwrap_or_default();
+    Problem::unlocated(
+        codes::OUTPUT_DANGLING_LINK,
+        format!("`{}` is a link{to} that leads to no file", given.display()),
+    )
+    .with_help("write to the file itself, or make the link lead to one")
+}
+
+fn write_failed(path: &Path, e: &std::io::Error) -> Problem {
+    Problem::unlocated(
+        codes::WRITE_FAILED,
+        format!("cannot write `{}`: {e}", path.display()),
+    )
+    .with_help("check that the folder exists, may be written and has room")
+}
+
+/// Writes `bytes` to a new file beside `path`, syncs it, gives it `permissions`, renames it
+/// over `path` and syncs the folder. The temporary file is removed on failure.
+fn replace_atomically(
+    path: &Path,
+    bytes: &[u8],
+    permissions: Option<Permissions>,
+) -> std::io::Result<()> {
+    let folder = match path.parent() {
+        Some(p) if !p.as_os_str().is_empty() => p.to_path_buf(),
+        _ => PathBuf::from("."),
+    };
+    let name = path
+        .file_name()
+        .map(|n| n.to_string_lossy().into_owned())
+        .unwrap_or_default();
+    let temporary = folder.join(format!(".{name}.{}.partial", std::process::id()));
+    let written = write_new(&temporary, bytes, permissions)
+        .and_then(|()| fs::rename(&temporary, path))
+        .and_then(|()| sync_folder(&folder));
+    if written.is_err() {
+        let _ = fs::remove_file(&temporary);
+    }
+    written
+}
+
+fn write_new(path: &Path, bytes: &[u8], permissions: Option<Permissions>) -> std::io::Result<()> {
+    let mut file = OpenOptions::new().write(true).create_new(true).open(path)?;
+    file.write_all(bytes)?;
+    if let Some(permissions) = permissions {
+        file.set_permissions(permissions)?;
+    }
+    file.sync_all()
+}
+
+/// Syncs a folder so a rename in it survives a crash (Unix; elsewhere nothing to do).
+fn sync_folder(folder: &Path) -> std::io::Result<()> {
+    #[cfg(unix)]
+    {
+        fs::File::open(folder)?.sync_all()
+    }
+    #[cfg(not(unix))]
+    {
+        let _ = folder;
+        Ok(())
+    }
+}
+
+/// Opens an existing device, FIFO or system path and writes to it; a regular file reached
+/// this way is truncated first, so no old text is left after the new.
+fn write_directly(path: &Path, bytes: &[u8]) -> std::io::Result<()> {
+    let regular = fs::metadata(path).is_ok_and(|m| m.is_file());
+    let mut file = OpenOptions::new()
+        .write(true)
+        .truncate(regular)
+        .open(path)?;
+    file.write_all(bytes)?;
+    file.flush()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn a_dash_and_no_output_are_standard_output() {
+        assert!(matches!(
+            Destination::resolve(Some(Path::new("-"))),
+            Ok(Destination::Stdout)
+        ));
+        assert!(matches!(
+            Destination::resolve(None),
+            Ok(Destination::Stdout)
+        ));
+    }
+
+    #[cfg(unix)]
+    #[test]
+    fn devices_are_written_directly() {
+        let resolved = Destination::resolve(Some(Path::new("/dev/null")));
+        assert!(
+            matches!(
+                &resolved,
+                Ok(Destination::File(Target {
+                    kind: Kind::Direct(_),
+                    ..
+                }))
+            ),
+            "{resolved:?}"
+        );
+    }
+
+    #[test]
+    fn a_folder_is_refused() {
+        let resolved = Destination::resolve(Some(&std::env::temp_dir()));
+        assert!(
+            matches!(&resolved, Err(p) if p.code == codes::OUTPUT_NOT_A_FILE),
+            "{resolved:?}"
+        );
+    }
+}
