@@ -107,6 +107,8 @@ pub enum Trace<'a> {
 pub struct Outcome<'a> {
     /// The rule, with its texts.
     pub rule: &'a ClassRule,
+    /// The decision rule that decided it (`--as`, else the rule's own, else the rulebook's).
+    pub decision: DecisionRule,
     /// Whether its conditions hold.
     pub applies: Applies,
     /// The verdict under the decision rule in force.
@@ -224,7 +226,8 @@ pub struct EngineReport<'a> {
     pub bulletins: &'a [String],
     /// Rulebook literals with a stated uncertainty, numbered after the declaration's inputs.
     pub rulebook_inputs: Vec<Input>,
-    /// The decision rule applied.
+    /// The decision rule applied to every rule that states none of its own (all of them when
+    /// it came from the command line).
     pub decision: DecisionRule,
     /// Whether it came from the command line rather than the rulebook.
     pub decision_overridden: bool,

@@ -28,10 +28,13 @@ enum Truth {
 }
 
 impl<'a> Evaluator<'a> {
-    /// Evaluates one rule of a class under a decision rule.
-    pub fn rule(&mut self, r: &'a ClassRule, decision: DecisionRule) -> Outcome<'a> {
+    /// Evaluates one rule of a class under its decision rule: `command_line` (`--as`) when
+    /// given, else the rule's own, else the rulebook's.
+    pub fn rule(&mut self, r: &'a ClassRule, command_line: Option<DecisionRule>) -> Outcome<'a> {
+        let decision = r.decision_in_force(command_line, self.rulebook.decision);
         let mut outcome = Outcome {
             rule: r,
+            decision,
             applies: Applies::Always,
             verdict: Verdict::NotChecked,
             checked: None,

@@ -326,6 +326,9 @@ pub struct RuleView {
     /// Why the rule could not be evaluated when that is gonogo's own mistake, not the input's.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub internal_error: Option<String>,
+    /// The rule's own decision rule, when it decided the rule instead of the engine's.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub decision: Option<&'static str>,
     /// True when it was checked and every number behind the finding is finite, so the
     /// finding's numbers are shown.
     #[serde(skip)]
@@ -653,6 +656,7 @@ impl RuleView {
             missing: o.missing.clone(),
             not_finite: o.not_finite,
             internal_error: o.error.clone(),
+            decision: (o.decision != r.decision).then(|| o.decision.words()),
             shows_finding: checked.is_some_and(|c| c.is_finite()),
             trace: o.trace.iter().map(|t| book.trace(t, r)).collect(),
         }
@@ -707,6 +711,13 @@ impl RuleView {
         }
         if let Some(source) = engine.shown_source(self) {
             lines.push(fact("from", None, source.words()));
+        }
+        if let Some(own) = self.decision {
+            let text = format!(
+                "{own}, this rule's own (the rulebook's is {})",
+                engine.decision
+            );
+            lines.push(fact("decided by", None, text));
         }
         if !self.missing.is_empty() {
             let text = format!("{} (not in the declaration)", self.missing.join(", "));
