@@ -127,3 +127,89 @@ fn the_json_names_the_rules_own_decision_rule_only_where_it_decided() {
         [serde_json::Value::Null, serde_json::Value::Null]
     );
 }
+
+/// Two optional measurements and one required, and rules that read them alone and mixed.
+fn valve_rules() -> String {
+    format!(
+        "{HEADER}measure stroke: length range 2.5 in to 4.5 in \"Dial indicator\"\n\
+         measure head.exhaust_valve: length \"Micrometer across the margin\"\n\
+         measure head.intake_valve: length optional \"Micrometer across the margin\"\n\
+         measure carburetor.throttle_bore: length optional \"Go/no-go gauge\"\n\
+         class hobby \"Hobby\"\n\
+           rule 3.3 \"Stroke\"\n    require stroke <= 3.490 in\n  end\n\
+           rule 4.4 \"Throttle bores\"\n    require carburetor.throttle_bore <= 1-11/16 in\n  end\n\
+           rule 5.2 \"Intake valve\"\n    require head.intake_valve <= 2.02 in\n  end\n\
+           rule 5.3 \"Exhaust valve\"\n    require head.exhaust_valve <= 1.60 in\n  end\n\
+           rule 5.4 \"Valves together\"\n    \
+             require head.intake_valve + head.exhaust_valve <= 3.60 in\n  end\n\
+         end\n"
+    )
+}
+
+#[test]
+fn a_rule_on_optional_measurements_not_measured_is_not_applicable_and_the_engine_is_clear() {
+    let engine = "class: hobby\nmeasurements:\n  stroke: \"3.480 in\"\n  \
+                  head.exhaust_valve: \"1.50 in\"\n";
+    let case = Case::new("optional-absent", &valve_rules(), engine);
+    let run = case.check(&[]);
+    assert_eq!(run.code, 0, "{}{}", run.stdout, run.stderr);
+    for rule in [
+        "4.4  Throttle bores",
+        "5.2  Intake valve",
+        // mixed: the required exhaust valve is there, only the optional intake valve is not
+        "5.4  Valves together",
+    ] {
+        assert!(
+            run.stdout
+                .contains(&format!("{rule} — NOT APPLICABLE (optional, not measured)")),
+            "{rule}:\n{}",
+            run.stdout
+        );
+    }
+    assert!(
+        run.stdout
+            .contains("result: LEGAL — 2 legal, 0 illegal, 0 not checked, 3 not applicable"),
+        "{}",
+        run.stdout
+    );
+    assert!(
+        run.stdout
+            .contains("head.intake_valve (optional, not measured)"),
+        "{}",
+        run.stdout
+    );
+}
+
+#[test]
+fn a_rule_that_misses_a_required_measurement_stays_not_checked() {
+    // the exhaust valve is required: its rule, and the rule that also reads the optional
+    // intake valve, cannot be checked, and the engine is not all clear
+    let engine = "class: hobby\nmeasurements:\n  stroke: \"3.480 in\"\n";
+    let case = Case::new("required-absent", &valve_rules(), engine);
+    let run = case.check(&[]);
+    assert_eq!(run.code, 3, "{}{}", run.stdout, run.stderr);
+    for rule in ["5.3  Exhaust valve", "5.4  Valves together"] {
+        assert!(
+            run.stdout.contains(&format!("{rule} — NOT CHECKED")),
+            "{rule}:\n{}",
+            run.stdout
+        );
+    }
+    assert!(
+        run.stdout
+            .contains("head.exhaust_valve, head.intake_valve (not in the declaration)"),
+        "{}",
+        run.stdout
+    );
+    let json = case.check(&["--format", "json"]);
+    let doc: serde_json::Value =
+        serde_json::from_str(&json.stdout).unwrap_or_else(|e| panic!("{e}: {}", json.stdout));
+    let applies: Vec<&str> = doc["engines"][0]["rules"]
+        .as_array()
+        .map(|rules| rules.iter().filter_map(|r| r["applies"].as_str()).collect())
+        .unwrap_or_default();
+    assert_eq!(
+        applies,
+        ["always", "not_measured", "not_measured", "always", "always"]
+    );
+}

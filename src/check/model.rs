@@ -335,6 +335,15 @@ impl CheckedRulebook {
         }
     }
 
+    /// True when every name is a measurement the schema marks `optional` (and there is at
+    /// least one): a rule that misses only these does not apply rather than go unchecked.
+    pub fn all_optional(&self, names: &[String]) -> bool {
+        !names.is_empty()
+            && names
+                .iter()
+                .all(|n| self.measurement(n).is_some_and(|m| !m.required))
+    }
+
     /// The position of the measurement with this name in `measurements`.
     pub fn measurement_index(&self, name: &str) -> Option<usize> {
         match self.index.get(name) {

@@ -20,6 +20,9 @@ pub enum Applies {
     Uncertain,
     /// Its condition does not hold.
     DoesNotHold,
+    /// It reads an `optional` measurement the declaration does not give, and no required
+    /// one is missing: it does not apply to this engine.
+    NotMeasured,
 }
 
 /// A numeric limit checked.

@@ -255,6 +255,19 @@ fn measured_lines(out: &mut String, rulebook: &CheckedRulebook, rule: &ClassRule
     for name in &rule.reads {
         name_lines(out, rulebook, name, &mut seen);
     }
+    let optional: Vec<&str> = seen
+        .iter()
+        .copied()
+        .filter(|n| rulebook.measurement(n).is_some_and(|m| !m.required))
+        .collect();
+    if !optional.is_empty() {
+        let _ = writeln!(
+            out,
+            "  optional   not applicable to an engine whose declaration does not give {}; \
+             a missing required measurement leaves it not checked",
+            optional.join(" or ")
+        );
+    }
 }
 
 fn name_lines<'a>(

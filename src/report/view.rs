@@ -669,7 +669,12 @@ impl RuleView {
             .finding
             .map(|f| format!(" · {}", f.words()))
             .unwrap_or_default();
-        format!("{}{finding}", self.verdict.words())
+        let why = if self.applies == Applies::NotMeasured {
+            " (optional, not measured)"
+        } else {
+            ""
+        };
+        format!("{}{why}{finding}", self.verdict.words())
     }
 
     /// The state of the rule's conditions: `holds`, `does not hold`, or uncertain.
@@ -678,6 +683,7 @@ impl RuleView {
             Applies::DoesNotHold => "does not hold",
             Applies::Uncertain => "uncertain: inside the uncertainty band",
             Applies::Always | Applies::Holds => "holds",
+            Applies::NotMeasured => "not judged: an optional measurement is not given",
         }
     }
 
@@ -720,7 +726,11 @@ impl RuleView {
             lines.push(fact("decided by", None, text));
         }
         if !self.missing.is_empty() {
-            let text = format!("{} (not in the declaration)", self.missing.join(", "));
+            let why = match self.applies {
+                Applies::NotMeasured => "optional, not measured",
+                _ => "not in the declaration",
+            };
+            let text = format!("{} ({why})", self.missing.join(", "));
             lines.push(fact("missing", None, text));
         }
         if self.not_finite {
