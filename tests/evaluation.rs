@@ -268,12 +268,14 @@ fn uncertainties_of_a_sum_add_in_quadrature() {
 }
 
 #[test]
-fn a_missing_measurement_is_not_checked_and_named() {
+fn a_missing_optional_measurement_makes_its_rule_not_applicable_and_named() {
+    // rule 5 reads the required car.weight, given, and the optional ballast, not given
     let rows = Case::new().run(
         &declaration("\"4.0 in\"", "3100 lb", ""),
         DecisionRule::GuardedRejection,
     );
-    assert_eq!(rows[4].verdict, Verdict::NotChecked);
+    assert_eq!(rows[4].verdict, Verdict::NotApplicable);
+    assert_eq!(rows[4].applies, Applies::NotMeasured);
     assert_eq!(rows[4].missing, vec!["ballast".to_string()]);
 }
 

@@ -50,7 +50,6 @@ pub fn headroom<'a>(
     decision: Option<DecisionRule>,
 ) -> Vec<RuleHeadroom<'a>> {
     let (rules, _) = class.in_force(declaration.identity.date);
-    let decision = decision.unwrap_or(rulebook.decision);
     let mut out = Vec::new();
     for r in rules {
         let outcome = Evaluator::new(rulebook, declaration).rule(r, decision);

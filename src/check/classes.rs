@@ -434,6 +434,7 @@ fn same_rule(a: &ClassRule, b: &ClassRule) -> bool {
     a.requirement == b.requirement
         && a.condition_texts == b.condition_texts
         && x.title == y.title
+        && x.decision == y.decision
         && x.penalty == y.penalty
         && x.note == y.note
 }

@@ -44,6 +44,17 @@ impl HeaderLine {
     }
 }
 
+/// The part of a limit a `±` was written on.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum LimitPart {
+    /// An upper or lower limit, or an end of a `between`.
+    Limit,
+    /// The value of `==` or `!=`.
+    Equality,
+    /// The amount after `allowing`.
+    Allowance,
+}
+
 /// A kind of named definition that must be unique in a rulebook.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 pub enum Definition {
@@ -549,6 +560,19 @@ pub enum CheckError {
         /// The allowance.
         at: Span,
     },
+    /// A `±` on a limit or an allowance, which are exact.
+    UncertainLimit {
+        /// Where on the limit.
+        part: LimitPart,
+        /// The uncertainty as written, with its unit (`0.001 in`).
+        uncertainty: String,
+        /// The `define` the limit names, when the `±` is inside it.
+        through: Option<String>,
+        /// The literal, or the name written on the limit when it is reached through a `define`.
+        at: Span,
+        /// The literal.
+        literal: Span,
+    },
     /// An allowance that is not a fixed amount.
     AllowanceNotConstant {
         /// The allowance.
@@ -683,6 +707,7 @@ impl CheckError {
             CheckError::AllowanceOnEquality { .. } => codes::check::ALLOWANCE_ON_EQUALITY,
             CheckError::NegativeAllowance { .. } => codes::check::NEGATIVE_ALLOWANCE,
             CheckError::AllowanceNotConstant { .. } => codes::check::ALLOWANCE_NOT_CONSTANT,
+            CheckError::UncertainLimit { .. } => codes::check::UNCERTAIN_LIMIT,
             CheckError::NeverFails { .. } => codes::check::NEVER_FAILS,
             CheckError::NeverMet { .. } => codes::check::NEVER_MET,
             CheckError::ContradictoryLimits { .. } => codes::check::CONTRADICTORY_LIMITS,
@@ -922,6 +947,15 @@ impl CheckError {
             CheckError::AllowanceNotConstant { .. } => {
                 "an allowance must be a fixed amount, not a measured one".to_string()
             }
+            CheckError::UncertainLimit {
+                part: LimitPart::Allowance,
+                ..
+            } => "an allowance cannot carry an uncertainty".to_string(),
+            CheckError::UncertainLimit {
+                through: Some(name),
+                ..
+            } => format!("`{name}` is used as a limit, and a limit cannot carry an uncertainty"),
+            CheckError::UncertainLimit { .. } => "a limit cannot carry an uncertainty".to_string(),
             CheckError::NeverFails { subject, .. } => format!(
                 "this rule can never fail: the declared measurement ranges keep `{subject}` inside its limit"
             ),
@@ -1050,6 +1084,26 @@ impl CheckError {
             CheckError::AllowanceOnEquality { at } => vec![(*at, "allowance")],
             CheckError::NegativeAllowance { at } => vec![(*at, "negative")],
             CheckError::AllowanceNotConstant { at } => vec![(*at, "not a fixed amount")],
+            CheckError::UncertainLimit {
+                part,
+                uncertainty,
+                through,
+                at,
+                literal,
+            } => {
+                let written = format!("`± {uncertainty}`");
+                let on = match part {
+                    LimitPart::Allowance => "on the allowance",
+                    LimitPart::Limit | LimitPart::Equality => "on the limit",
+                };
+                return match through {
+                    Some(_) => vec![
+                        (*at, "used as a limit here".to_string()),
+                        (*literal, format!("{written} written here")),
+                    ],
+                    None => vec![(*at, format!("{written} {on}"))],
+                };
+            }
             CheckError::NeverFails { at, .. } => vec![(*at, "always met")],
             CheckError::NeverMet { at, .. } => vec![(*at, "never met")],
             CheckError::ContradictoryLimits { at, other, .. } => {
@@ -1280,6 +1334,24 @@ impl CheckError {
             }
             CheckError::AllowanceNotConstant { .. } => {
                 "write the allowance as a number with a unit, like `allowing 0.005 in`"
+            }
+            CheckError::UncertainLimit {
+                part, uncertainty, ..
+            } => {
+                return match part {
+                    LimitPart::Limit => format!(
+                        "a limit is exact (ISO 14253-1); for a tolerance on it write \
+                         `allowing {uncertainty}`, and give the measured value its uncertainty \
+                         in the declaration"
+                    ),
+                    LimitPart::Equality => "a limit is exact (ISO 14253-1); for a tolerance \
+                         around the value write the range with `between`, and give the measured \
+                         value its uncertainty in the declaration"
+                        .to_string(),
+                    LimitPart::Allowance => {
+                        "an allowance is an exact amount: write it without `±`".to_string()
+                    }
+                };
             }
             CheckError::NeverFails { .. } => {
                 "tighten the limit, or widen the `range` of the measurements it reads if real engines go further"

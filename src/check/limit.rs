@@ -15,7 +15,7 @@
 //! constants can say better through its own `Operand`.
 
 use super::interval::Interval;
-use crate::parse::ast::{CompareOp, Expr, Test, TestKind};
+use crate::parse::ast::{CompareOp, Expr, ExprKind, Name, Test, TestKind};
 
 /// An operand of a comparison that can tell whether it is a fixed value of the rulebook (a
 /// number, a unit, `pi`, arithmetic and calls on them) rather than something read from the
@@ -353,6 +353,76 @@ pub fn subject(test: &Test) -> &Expr {
     }
 }
 
+/// A `±` written where a limit stands: the literal, and the name of the `define` it was
+/// reached through when the limit names one.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct UncertainOnLimit<'e> {
+    /// The literal with the stated uncertainty.
+    pub literal: &'e Expr,
+    /// The name written on the limit, when the literal is inside that `define`.
+    pub through: Option<&'e Name>,
+}
+
+/// Names are followed through `define`s at most this deep (cycles are reported elsewhere).
+const MAX_LIMIT_DEPTH: u32 = 32;
+
+/// The literals with a stated uncertainty on one side of a limit, when that side is a limit of
+/// the rulebook: a side that reads no measurement, even through the `define`s it names
+/// (`lookup` gives a derived value's expression, `None` for a measurement). A side that reads
+/// the engine is a derived value, whose `±` is an uncertainty of its own: it gives none.
+///
+/// ISO 14253-1 gives a specification limit no measurement uncertainty, so the checker refuses
+/// every literal this returns.
+pub fn uncertain_on_limit<'e>(
+    side: &'e Expr,
+    lookup: &dyn Fn(&str) -> Option<&'e Expr>,
+) -> Vec<UncertainOnLimit<'e>> {
+    let mut found = Vec::new();
+    if collect_uncertain(side, None, lookup, 0, &mut found) {
+        found
+    } else {
+        Vec::new()
+    }
+}
+
+/// Adds the uncertain literals of `e` to `found`; false when `e` reads the engine.
+fn collect_uncertain<'e>(
+    e: &'e Expr,
+    through: Option<&'e Name>,
+    lookup: &dyn Fn(&str) -> Option<&'e Expr>,
+    depth: u32,
+    found: &mut Vec<UncertainOnLimit<'e>>,
+) -> bool {
+    if depth > MAX_LIMIT_DEPTH {
+        return false;
+    }
+    match &e.kind {
+        ExprKind::Quantity(q) => {
+            if q.uncertainty.is_some() {
+                found.push(UncertainOnLimit {
+                    literal: e,
+                    through,
+                });
+            }
+            true
+        }
+        ExprKind::Text(_) => true,
+        ExprKind::Name(n) if n.text == "pi" => true,
+        ExprKind::Name(n) => match lookup(&n.text) {
+            Some(body) => collect_uncertain(body, through.or(Some(n)), lookup, depth + 1, found),
+            None => false,
+        },
+        ExprKind::Negate(inner) => collect_uncertain(inner, through, lookup, depth, found),
+        ExprKind::Binary { left, right, .. } => {
+            let l = collect_uncertain(left, through, lookup, depth, found);
+            l && collect_uncertain(right, through, lookup, depth, found)
+        }
+        ExprKind::Call { args, .. } => args
+            .iter()
+            .all(|a| collect_uncertain(&a.value, through, lookup, depth, found)),
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -617,6 +687,76 @@ mod tests {
             })
         );
         assert_eq!(n(Side::NotEqual { value: 8.0 }, None).interval(), None);
+    }
+
+    /// The limit side of a one-sided test.
+    fn limit_side(t: &Test) -> Option<&Expr> {
+        of(t).map(|l| *l.limits().0)
+    }
+
+    /// The uncertainties written on each limit of a test (both ends of a range, the allowance
+    /// last), with `cap` defined as `3 in ± 0.001 in` and `scale` as a measured value with `±`.
+    fn uncertain(test: &str) -> Vec<String> {
+        let (cap, scale) = (
+            require("x <= 3 in ± 0.001 in"),
+            require("x <= car.weight + 0 lb ± 4 lb"),
+        );
+        let (cap, scale) = (limit_side(&cap), limit_side(&scale));
+        let lookup = |name: &str| match name {
+            "cap" => cap,
+            "scale" => scale,
+            _ => None,
+        };
+        let t = require(test);
+        let l = of(&t).unwrap_or_else(|| panic!("{test} is not a limit"));
+        let (first, second) = l.limits();
+        [Some(*first), second.copied(), l.allowance]
+            .into_iter()
+            .flatten()
+            .flat_map(|side| uncertain_on_limit(side, &lookup))
+            .map(|u| {
+                let via = u
+                    .through
+                    .map(|n| format!(" via {}", n.text))
+                    .unwrap_or_default();
+                format!("{}{via}", expr_text(u.literal))
+            })
+            .collect()
+    }
+
+    #[test]
+    fn a_plus_minus_on_any_limit_is_found() {
+        assert_eq!(
+            uncertain("bore <= 4.030 in ± 0.001 in"),
+            ["4.030 in ± 0.001 in"]
+        );
+        assert_eq!(
+            uncertain("3000 lb ± 4 lb <= car.weight"),
+            ["3000 lb ± 4 lb"]
+        );
+        assert_eq!(
+            uncertain("stroke between 3.47 in ± 0.002 in and 3.49 in ± 0.002 in"),
+            ["3.47 in ± 0.002 in", "3.49 in ± 0.002 in"]
+        );
+        assert_eq!(uncertain("cylinders == 8 ± 1"), ["8 ± 1"]);
+        assert_eq!(
+            uncertain("bore <= 4.030 in allowing 0.005 in ± 0.001 in"),
+            ["0.005 in ± 0.001 in"]
+        );
+        assert_eq!(
+            uncertain("header.od <= cap * 2"),
+            ["3 in ± 0.001 in via cap"]
+        );
+    }
+
+    #[test]
+    fn a_plus_minus_on_a_measured_or_derived_value_is_not_a_limit_one() {
+        // the subject's own uncertainty (a scale's certified ±) is measurement uncertainty
+        assert!(uncertain("scale >= 3000 lb").is_empty());
+        // a limit side that reads the engine is a derived value, not a limit of the rulebook
+        assert!(uncertain("airflow <= demand * 1.25 ± 0.01").is_empty());
+        assert!(uncertain("x <= scale").is_empty());
+        assert!(uncertain("bore <= 4.030 in allowing 0.005 in").is_empty());
     }
 
     #[test]

@@ -165,6 +165,20 @@ impl WrittenRule {
     }
 }
 
+impl WrittenRule {
+    /// The decision rule that decides this rule: the one given on the command line (`--as`)
+    /// when there is one, else the rule's own `decision`, else the rulebook's.
+    pub fn decision_in_force(
+        &self,
+        command_line: Option<DecisionRule>,
+        rulebook: DecisionRule,
+    ) -> DecisionRule {
+        command_line
+            .or(self.rule.decision.as_ref().map(|d| d.rule))
+            .unwrap_or(rulebook)
+    }
+}
+
 /// A rule as it stands in a class: the rule as written (every [`WrittenRule`] field reads
 /// through, `rule.requirement`, `rule.limit` …) and the same rule resolved.
 #[derive(Clone, Debug)]
@@ -319,6 +333,15 @@ impl CheckedRulebook {
             Some(Named::Measurement(i)) => self.measurements.get(*i),
             _ => None,
         }
+    }
+
+    /// True when every name is a measurement the schema marks `optional` (and there is at
+    /// least one): a rule that misses only these does not apply rather than go unchecked.
+    pub fn all_optional(&self, names: &[String]) -> bool {
+        !names.is_empty()
+            && names
+                .iter()
+                .all(|n| self.measurement(n).is_some_and(|m| !m.required))
     }
 
     /// The position of the measurement with this name in `measurements`.

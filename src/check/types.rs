@@ -4,8 +4,8 @@
 
 use super::Checker;
 use super::builtins::{self, Formula, Function, Generic, Reduce, Shape};
-use super::error::{CheckError, Joined};
-use super::limit::Limit;
+use super::error::{CheckError, Joined, LimitPart};
+use super::limit::{Limit, SideKind, uncertain_on_limit};
 use super::model::{Measurement, Type, ValueKind};
 use super::resolved::{
     self, Call, DerivedId, ExprKind as R, Literal, LiteralId, MeasurementId, Term, TextExpr,
@@ -854,6 +854,7 @@ impl<'a> Checker<'a> {
         allowance: Option<&Expr>,
         place: Place,
     ) -> Option<resolved::TestKind> {
+        self.check_exact_limit(Limit::compare(left, op, right, allowance));
         let (l, r) = (self.resolve(left), self.resolve(right));
         let ((lt, lterm), (rt, rterm)) = (l?, r?);
         let ok = self.check_comparison(left, op, right, lt, rt, place);
@@ -884,6 +885,7 @@ impl<'a> Checker<'a> {
         allowance: Option<&Expr>,
         place: Place,
     ) -> Option<resolved::TestKind> {
+        self.check_exact_limit(Limit::between(subject, low, high, allowance));
         let typed = [self.resolve(subject), self.resolve(low), self.resolve(high)];
         let [Some((st, s)), Some((lt, l)), Some((ht, h))] = typed else {
             return None;
@@ -1011,6 +1013,47 @@ impl<'a> Checker<'a> {
             return false;
         }
         true
+    }
+
+    /// Reports every `±` written on a limit or its allowance, directly or inside a `define`
+    /// the limit names: a limit is exact (ISO 14253-1), and `±` there would widen the
+    /// measurement's uncertainty instead of the limit.
+    fn check_exact_limit(&mut self, limit: Limit<&Expr>) {
+        let part = match limit.kind() {
+            SideKind::Equal | SideKind::NotEqual => LimitPart::Equality,
+            _ => LimitPart::Limit,
+        };
+        let (first, second) = limit.limits();
+        let sides = [
+            Some((*first, part)),
+            second.map(|s| (*s, part)),
+            limit.allowance.map(|a| (a, LimitPart::Allowance)),
+        ];
+        let lookup = |name: &str| self.defines.get(name).map(|d| &d.expr);
+        let mut errors = Vec::new();
+        for (side, part) in sides.into_iter().flatten() {
+            for found in uncertain_on_limit(side, &lookup) {
+                let ExprKind::Quantity(q) = &found.literal.kind else {
+                    continue;
+                };
+                let Some(u) = &q.uncertainty else { continue };
+                let unit = u.unit.as_ref().or(q.unit.as_ref());
+                let uncertainty = match unit {
+                    Some(unit) => format!("{} {}", u.value.text, unit.symbol),
+                    None => u.value.text.clone(),
+                };
+                errors.push(CheckError::UncertainLimit {
+                    part,
+                    uncertainty,
+                    through: found.through.map(|n| n.text.clone()),
+                    at: found.through.map_or(found.literal.span, |n| n.span),
+                    literal: found.literal.span,
+                });
+            }
+        }
+        for e in errors {
+            self.error(e.into());
+        }
     }
 
     /// Checks an allowance and resolves it, `None` after reporting what is wrong with it.

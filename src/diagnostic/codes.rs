@@ -254,6 +254,8 @@ pub mod check {
     pub const UNUSED_DEFINE: Code = Code::new(Stage::Check, 57, "unused-define");
     /// `C58 unused-measurement`
     pub const UNUSED_MEASUREMENT: Code = Code::new(Stage::Check, 58, "unused-measurement");
+    /// `C59 uncertain-limit`
+    pub const UNCERTAIN_LIMIT: Code = Code::new(Stage::Check, 59, "uncertain-limit");
 }
 
 /// Codes of loading an engine declaration.

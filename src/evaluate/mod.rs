@@ -19,7 +19,8 @@ use expr::Evaluator;
 use outcome::EngineReport;
 
 /// Checks one declaration against one class, with the rules in force on the declaration's date
-/// (the edition's when it has none). `decision` overrides the rulebook's rule.
+/// (the edition's when it has none). `decision` (`--as`) overrides the rulebook's rule and
+/// every rule's own.
 pub fn check_engine<'a>(
     rulebook: &'a CheckedRulebook,
     class: &'a Class,
@@ -41,7 +42,7 @@ pub fn check_against<'a>(
 ) -> EngineReport<'a> {
     let rule = decision.unwrap_or(rulebook.decision);
     let mut evaluator = Evaluator::new(rulebook, declaration);
-    let outcomes = rules.iter().map(|r| evaluator.rule(r, rule)).collect();
+    let outcomes = rules.iter().map(|r| evaluator.rule(r, decision)).collect();
     EngineReport {
         rulebook,
         class,

@@ -20,6 +20,9 @@ pub enum Applies {
     Uncertain,
     /// Its condition does not hold.
     DoesNotHold,
+    /// It reads an `optional` measurement the declaration does not give, and no required
+    /// one is missing: it does not apply to this engine.
+    NotMeasured,
 }
 
 /// A numeric limit checked.
@@ -107,6 +110,8 @@ pub enum Trace<'a> {
 pub struct Outcome<'a> {
     /// The rule, with its texts.
     pub rule: &'a ClassRule,
+    /// The decision rule that decided it (`--as`, else the rule's own, else the rulebook's).
+    pub decision: DecisionRule,
     /// Whether its conditions hold.
     pub applies: Applies,
     /// The verdict under the decision rule in force.
@@ -224,7 +229,8 @@ pub struct EngineReport<'a> {
     pub bulletins: &'a [String],
     /// Rulebook literals with a stated uncertainty, numbered after the declaration's inputs.
     pub rulebook_inputs: Vec<Input>,
-    /// The decision rule applied.
+    /// The decision rule applied to every rule that states none of its own (all of them when
+    /// it came from the command line).
     pub decision: DecisionRule,
     /// Whether it came from the command line rather than the rulebook.
     pub decision_overridden: bool,

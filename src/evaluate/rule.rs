@@ -10,7 +10,7 @@ use super::finding::{Finding, Verdict, finding, probability, probability_between
 use super::outcome::{Applies, Checked, Numeric, Outcome, Trace};
 use super::value::{Evaluated, Unevaluated, Value, both};
 use crate::check::limit::{Limit, Side};
-use crate::check::model::ClassRule;
+use crate::check::model::{CheckedRulebook, ClassRule};
 use crate::check::resolved::{Condition, Expr, Read, Term, Test, TestKind};
 use crate::load::Supplied;
 use crate::parse::ast::DecisionRule;
@@ -28,10 +28,13 @@ enum Truth {
 }
 
 impl<'a> Evaluator<'a> {
-    /// Evaluates one rule of a class under a decision rule.
-    pub fn rule(&mut self, r: &'a ClassRule, decision: DecisionRule) -> Outcome<'a> {
+    /// Evaluates one rule of a class under its decision rule: `command_line` (`--as`) when
+    /// given, else the rule's own, else the rulebook's.
+    pub fn rule(&mut self, r: &'a ClassRule, command_line: Option<DecisionRule>) -> Outcome<'a> {
+        let decision = r.decision_in_force(command_line, self.rulebook.decision);
         let mut outcome = Outcome {
             rule: r,
+            decision,
             applies: Applies::Always,
             verdict: Verdict::NotChecked,
             checked: None,
@@ -43,7 +46,7 @@ impl<'a> Evaluator<'a> {
         outcome.trace = self.trace(r);
         match self.conditions(&r.when, decision) {
             Err(why) => {
-                outcome.record(why);
+                outcome.record(why, self.rulebook);
                 return outcome;
             }
             Ok(Truth::False) => {
@@ -56,7 +59,7 @@ impl<'a> Evaluator<'a> {
             Ok(Truth::True) => {}
         }
         match self.test(&r.test) {
-            Err(why) => outcome.record(why),
+            Err(why) => outcome.record(why, self.rulebook),
             Ok(checked) if !checked.is_finite() => {
                 // bad input must not turn into a verdict: a value that is not a number decides nothing
                 outcome.not_finite = true;
@@ -455,11 +458,18 @@ impl<'a> Evaluator<'a> {
 }
 
 impl Outcome<'_> {
-    /// Records why the rule could not be evaluated.
-    fn record(&mut self, why: Unevaluated) {
+    /// Records why the rule could not be evaluated. A rule that misses only optional
+    /// measurements does not apply to the engine ("not applicable, optional, not measured");
+    /// one that misses a required measurement, alone or beside optional ones, stays not
+    /// checked.
+    fn record(&mut self, why: Unevaluated, rulebook: &CheckedRulebook) {
         match why {
             Unevaluated::Missing(missing) => self.missing = missing.0.into_iter().collect(),
             Unevaluated::Internal(error) => self.error = Some(error),
+        }
+        if rulebook.all_optional(&self.missing) {
+            self.applies = Applies::NotMeasured;
+            self.verdict = Verdict::NotApplicable;
         }
     }
 }

@@ -122,7 +122,7 @@ impl DecisionRule {
     }
 }
 
-/// `decision guarded rejection`
+/// `decision guarded rejection`, in the header or in a rule.
 #[derive(Clone, Debug)]
 #[derive_where(PartialEq)]
 pub struct Decision {
@@ -290,7 +290,8 @@ pub struct Section {
     pub span: Span,
 }
 
-/// `[override] rule SECTION "title" [when COND] require TEST [penalty "..."] [note "..."] end`
+/// `[override] rule SECTION "title" [when COND] require TEST [decision RULE] [penalty "..."]
+/// [note "..."] end`
 #[derive(Clone, Debug)]
 #[derive_where(PartialEq)]
 pub struct Rule {
@@ -304,6 +305,8 @@ pub struct Rule {
     pub condition: Option<Condition>,
     /// The limit.
     pub require: Test,
+    /// The rule's own decision rule, when it states one instead of the rulebook's.
+    pub decision: Option<Decision>,
     /// The penalty class.
     pub penalty: Option<Text>,
     /// A note for the report.

@@ -61,10 +61,22 @@ fn edition(input: Input) -> PResult<Item> {
     Ok((rest, Item::Edition(Edition { name, effective })))
 }
 
-/// `decision = "decision" ( "guarded" ( "rejection" | "acceptance" ) | "simple" "acceptance" )`
+/// `decision = "decision" decision_rule`
 fn decision(input: Input) -> PResult<Item> {
+    decision_line.map(Item::Decision).parse(input)
+}
+
+/// `"decision" decision_rule`, in the header or in a rule, with its span.
+fn decision_line(input: Input) -> PResult<Decision> {
     let (start, _) = ws(input)?;
     let (rest, _) = keyword("decision").parse(start)?;
+    let (rest, rule) = cut(decision_rule).parse(rest)?;
+    let span = span_between(&start, &rest);
+    Ok((rest, Decision { rule, span }))
+}
+
+/// `decision_rule = "guarded" ( "rejection" | "acceptance" ) | "simple" "acceptance"`
+fn decision_rule(input: Input) -> PResult<DecisionRule> {
     let guarded = (
         keyword("guarded"),
         alt((
@@ -74,9 +86,7 @@ fn decision(input: Input) -> PResult<Item> {
     )
         .map(|(_, rule)| rule);
     let simple = (keyword("simple"), keyword("acceptance")).map(|_| DecisionRule::SimpleAcceptance);
-    let (rest, rule) = cut(alt((guarded, simple))).parse(rest)?;
-    let span = span_between(&start, &rest);
-    Ok((rest, Item::Decision(Decision { rule, span })))
+    alt((guarded, simple)).parse(input)
 }
 
 /// `include = "include" string`
@@ -269,7 +279,7 @@ fn when_group(input: Input) -> PResult<WhenGroup> {
 }
 
 /// `rule = [ "override" ] "rule" section string [ "when" condition ] "require" test
-///         [ "penalty" string ] [ "note" string ] "end"`
+///         [ "decision" decision_rule ] [ "penalty" string ] [ "note" string ] "end"`
 fn rule(input: Input) -> PResult<Rule> {
     let (start, _) = ws(input)?;
     let (rest, overrides) = opt(keyword("override")).parse(start)?;
@@ -283,11 +293,12 @@ fn rule(input: Input) -> PResult<Rule> {
     let (rest, _) = cut(keyword("require")).parse(rest)?;
     let (rest, require) = cut(|i| test(i, Allowance::Allowed)).parse(rest)?;
     refuse_joined_tests(rest)?;
+    let (rest, decision) = opt(decision_line).parse(rest)?;
     let (rest, penalty) = opt((keyword("penalty"), cut(string)).map(|(_, s)| s)).parse(rest)?;
     let (rest, note) = opt((keyword("note"), cut(string)).map(|(_, s)| s)).parse(rest)?;
     let (rest, _) = keyword("end")
         .parse(rest)
-        .map_err(|e| cut_with(e, "`penalty`, `note` or `end`"))?;
+        .map_err(|e| cut_with(e, "`decision`, `penalty`, `note` or `end`"))?;
     Ok((
         rest,
         Rule {
@@ -296,6 +307,7 @@ fn rule(input: Input) -> PResult<Rule> {
             title,
             condition,
             require,
+            decision,
             penalty,
             note,
             span: span_between(&start, &rest),

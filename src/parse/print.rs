@@ -152,6 +152,9 @@ fn rule_text(out: &mut String, depth: usize, rule: &Rule) {
         depth + 1,
         &format!("require {}", test_text(&rule.require)),
     );
+    if let Some(d) = &rule.decision {
+        line(out, depth + 1, &format!("decision {}", d.rule.words()));
+    }
     if let Some(p) = &rule.penalty {
         line(out, depth + 1, &format!("penalty {}", quoted(p)));
     }

@@ -202,7 +202,7 @@ fn canonical_form_parses_back_to_the_same_tree() {
         "{HEADER}measure bore: length per cylinder optional range 3 in to 5 in \"gauge\"\n\
          define d = -(a - b)^2 / (c * (d + e)) - -f\n\
          approved list h \"t\" \"A\", /x\\/y/i end\n\
-         class c \"C\" extends b drop 1.2 when not (a == 1 or b == \"q\\\"\") and c > 2 override rule 3a \"t\" when z != 0 require x <= 1-5/8 in ± 1 thou (k = 2) allowing 0.1 in penalty \"p\" note \"n\" end end end\n\
+         class c \"C\" extends b drop 1.2 when not (a == 1 or b == \"q\\\"\") and c > 2 override rule 3a \"t\" when z != 0 require x <= 1-5/8 in ± 1 thou (k = 2) allowing 0.1 in decision guarded acceptance penalty \"p\" note \"n\" end end end\n\
          bulletin \"B\" \"title\" effective 2027-05-01 amends c rule 9 \"n\" require x not matches /a/ end end\n"
     );
     let first = parse_ok(&text);
@@ -211,6 +211,40 @@ fn canonical_form_parses_back_to_the_same_tree() {
     });
     let second = parse_ok(&printed);
     assert_eq!(first, second, "canonical text:\n{printed}");
+}
+
+#[test]
+fn a_rule_keeps_its_own_decision_rule_through_the_printer() {
+    use super::ast::DecisionRule;
+    let text = format!(
+        "{HEADER}class c rule 8.1 \"Weight\" require w >= 3000 lb decision simple acceptance \
+         penalty \"p\" end rule 3.2 \"Bore\" require b <= 4 in end end\n"
+    );
+    let decisions = |items: Vec<Item>| -> Vec<Option<DecisionRule>> {
+        items
+            .into_iter()
+            .filter_map(|i| match i {
+                Item::Class(c) => Some(c.body),
+                _ => None,
+            })
+            .flatten()
+            .filter_map(|b| match b {
+                ClassItem::Rule(r) => Some(r.decision.map(|d| d.rule)),
+                _ => None,
+            })
+            .collect()
+    };
+    let first = parse_ok(&text);
+    let printed = canonical(&super::ast::Rulebook {
+        items: first.clone(),
+    });
+    assert!(
+        printed.contains("    decision simple acceptance\n"),
+        "{printed}"
+    );
+    let expected = vec![Some(DecisionRule::SimpleAcceptance), None];
+    assert_eq!(decisions(first), expected);
+    assert_eq!(decisions(parse_ok(&printed)), expected);
 }
 
 #[test]

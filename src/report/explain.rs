@@ -90,7 +90,7 @@ pub fn explain(rulebook: &CheckedRulebook, sources: &SourceMap, found: &Found) -
         let _ = writeln!(out, "  applies    only when {c}");
     }
     measured_lines(&mut out, rulebook, found.rule);
-    let _ = writeln!(out, "  decided by {}", decision_words(rulebook));
+    let _ = writeln!(out, "  decided by {}", decision_words(rulebook, found.rule));
     if let Some(p) = &r.penalty {
         let _ = writeln!(out, "  penalty    {}", p.value);
     }
@@ -260,6 +260,19 @@ fn measured_lines(out: &mut String, rulebook: &CheckedRulebook, rule: &ClassRule
     for name in &rule.reads {
         name_lines(out, rulebook, name, &mut seen);
     }
+    let optional: Vec<&str> = seen
+        .iter()
+        .copied()
+        .filter(|n| rulebook.measurement(n).is_some_and(|m| !m.required))
+        .collect();
+    if !optional.is_empty() {
+        let _ = writeln!(
+            out,
+            "  optional   not applicable to an engine whose declaration does not give {}; \
+             a missing required measurement leaves it not checked",
+            optional.join(" or ")
+        );
+    }
 }
 
 fn name_lines<'a>(
@@ -310,9 +323,11 @@ fn formula_summary(e: &crate::parse::ast::Expr) -> Option<&'static str> {
     }
 }
 
-fn decision_words(rulebook: &CheckedRulebook) -> String {
+/// The decision rule that judges the rule, whose it is, and what it means.
+fn decision_words(rulebook: &CheckedRulebook, rule: &ClassRule) -> String {
     use crate::parse::ast::DecisionRule::*;
-    let how = match rulebook.decision {
+    let decision = rule.decision_in_force(None, rulebook.decision);
+    let how = match decision {
         GuardedRejection => {
             "illegal only when the measurement proves the limit broken beyond its expanded uncertainty"
         }
@@ -321,8 +336,13 @@ fn decision_words(rulebook: &CheckedRulebook) -> String {
         }
         SimpleAcceptance => "the measured value alone decides; its uncertainty is reported",
     };
-    format!(
-        "{} (the rulebook's decision rule): {how}",
-        rulebook.decision.words()
-    )
+    let whose = match &rule.rule.decision {
+        Some(_) => format!(
+            "this rule's own decision rule, in place of the rulebook's {}; `--as` on the \
+             command line overrides it",
+            rulebook.decision.words()
+        ),
+        None => "the rulebook's decision rule".to_string(),
+    };
+    format!("{} ({whose}): {how}", decision.words())
 }

@@ -328,6 +328,9 @@ pub struct RuleView {
     /// Why the rule could not be evaluated when that is gonogo's own mistake, not the input's.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub internal_error: Option<String>,
+    /// The rule's own decision rule, when it decided the rule instead of the engine's.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub decision: Option<&'static str>,
     /// True when it was checked and every number behind the finding is finite, so the
     /// finding's numbers are shown.
     #[serde(skip)]
@@ -657,6 +660,7 @@ impl RuleView {
             missing: o.missing.clone(),
             not_finite: o.not_finite,
             internal_error: o.error.clone(),
+            decision: (o.decision != r.decision).then(|| o.decision.words()),
             shows_finding: checked.is_some_and(|c| c.is_finite()),
             trace: {
                 let limit_unit = checked.and_then(|c| c.numeric.as_ref()?.unit);
@@ -675,7 +679,12 @@ impl RuleView {
             .finding
             .map(|f| format!(" · {}", f.words()))
             .unwrap_or_default();
-        format!("{}{finding}", self.verdict.words())
+        let why = if self.applies == Applies::NotMeasured {
+            " (optional, not measured)"
+        } else {
+            ""
+        };
+        format!("{}{why}{finding}", self.verdict.words())
     }
 
     /// The state of the rule's conditions: `holds`, `does not hold`, or uncertain.
@@ -684,6 +693,7 @@ impl RuleView {
             Applies::DoesNotHold => "does not hold",
             Applies::Uncertain => "uncertain: inside the uncertainty band",
             Applies::Always | Applies::Holds => "holds",
+            Applies::NotMeasured => "not judged: an optional measurement is not given",
         }
     }
 
@@ -718,8 +728,19 @@ impl RuleView {
         if let Some(source) = engine.shown_source(self) {
             lines.push(fact("from", None, source.words()));
         }
+        if let Some(own) = self.decision {
+            let text = format!(
+                "{own}, this rule's own (the rulebook's is {})",
+                engine.decision
+            );
+            lines.push(fact("decided by", None, text));
+        }
         if !self.missing.is_empty() {
-            let text = format!("{} (not in the declaration)", self.missing.join(", "));
+            let why = match self.applies {
+                Applies::NotMeasured => "optional, not measured",
+                _ => "not in the declaration",
+            };
+            let text = format!("{} ({why})", self.missing.join(", "));
             lines.push(fact("missing", None, text));
         }
         if self.not_finite {
