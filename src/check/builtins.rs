@@ -802,6 +802,150 @@ mod tests {
         assert!((demand - 687.5).abs() < 1e-9, "{demand}");
     }
 
+    /// The quantity of the first requirement of `name` that `args` (SI units) break.
+    fn broken(name: &str, args: &[f64]) -> Option<&'static str> {
+        formula(name)
+            .and_then(|f| f.breach(args))
+            .map(|(r, _)| r.quantity)
+    }
+
+    /// The demo's legal cylinder in SI: bore 4.030 in, stroke 3.480 in, chamber 72 cc,
+    /// gasket 4.100 in × 0.041 in, deck 0.012 in, dish 12 cc.
+    fn cylinder(chamber_cc: f64, deck_in: f64, piston_cc: f64) -> [f64; 7] {
+        [
+            4.030 * INCH,
+            3.480 * INCH,
+            chamber_cc * CC,
+            4.100 * INCH,
+            0.041 * INCH,
+            deck_in * INCH,
+            piston_cc * CC,
+        ]
+    }
+
+    #[test]
+    fn the_compression_ratio_needs_a_positive_clearance_volume() {
+        // Heywood, Internal Combustion Engine Fundamentals, ch. 2: r_c = (V_d + V_c) / V_c
+        // with V_c the clearance volume, which must be above zero (then r_c > 1).
+        // Clearance by hand: gasket π/4 · 4.100² · 0.041 = 0.5413043 in³ = 8.870388 cc,
+        // deck π/4 · 4.030² · (−0.050) = −0.6377787 in³ = −10.451320 cc (1 in³ =
+        // 16.387064 cc, NIST SP 811): 40 + 8.870388 − 10.451320 − 38.419068 cc is zero.
+        let edge = 40.0 + 8.870_388 - 10.451_320;
+        assert_eq!(
+            broken("compression_ratio", &cylinder(72.0, 0.012, 12.0)),
+            None
+        );
+        let beyond = cylinder(40.0, -0.050, -(edge + 0.01));
+        assert_eq!(
+            broken("compression_ratio", &beyond),
+            Some("clearance volume")
+        );
+        let value = formula("compression_ratio")
+            .and_then(|f| f.breach(&beyond))
+            .map(|(_, v)| v / CC);
+        assert!(value.is_some_and(|v| (v + 0.01).abs() < 1e-5), "{value:?}");
+        // just inside the edge the ratio is large but above 1, and the formula is applied
+        let inside = cylinder(40.0, -0.050, -(edge - 0.01));
+        assert_eq!(broken("compression_ratio", &inside), None);
+        let args: Vec<Dual> = inside.iter().map(|v| c(*v)).collect();
+        let refs: Vec<&Dual> = args.iter().collect();
+        let cr = formula("compression_ratio").and_then(|f| f.apply_to(&refs));
+        assert!(cr.is_some_and(|cr| cr.value > 1.0));
+        // a zero stroke would give a ratio of exactly 1: the stroke must be above zero
+        let mut flat = cylinder(72.0, 0.012, 12.0);
+        flat[1] = 0.0;
+        assert_eq!(broken("compression_ratio", &flat), Some("stroke"));
+        let mut no_bore = cylinder(72.0, 0.012, 12.0);
+        no_bore[0] = -4.030 * INCH;
+        assert_eq!(broken("compression_ratio", &no_bore), Some("bore"));
+        // a gasket of zero thickness is a gasket left out; a negative one is impossible
+        let mut no_gasket = cylinder(72.0, 0.012, 12.0);
+        no_gasket[4] = 0.0;
+        assert_eq!(broken("compression_ratio", &no_gasket), None);
+        no_gasket[4] = -0.001 * INCH;
+        assert_eq!(
+            broken("compression_ratio", &no_gasket),
+            Some("gasket thickness")
+        );
+    }
+
+    #[test]
+    fn displacement_needs_positive_bore_stroke_and_cylinders() {
+        // Heywood ch. 2: V_d = π/4 · B² · L per cylinder; each factor is above zero
+        let d = |b: f64, s: f64, n: f64| broken("displacement", &[b * INCH, s * INCH, n]);
+        assert_eq!(d(4.0, 3.48, 8.0), None);
+        assert_eq!(d(0.0, 3.48, 8.0), Some("bore"));
+        assert_eq!(d(-4.0, 3.48, 8.0), Some("bore"));
+        assert_eq!(d(4.0, 0.0, 8.0), Some("stroke"));
+        assert_eq!(d(4.0, 3.48, 0.0), Some("cylinders"));
+        assert_eq!(d(4.0, 3.48, -8.0), Some("cylinders"));
+    }
+
+    #[test]
+    fn valve_lift_needs_a_lift_of_at_least_zero() {
+        // common practice, no source: gross lift = lobe lift × rocker ratio, net = gross − lash;
+        // 0.320 in × 1.70 = 0.544 in gross, so a lash of 0.544 in is the edge
+        assert_eq!(broken("valve_lift", &[0.320, 1.70]), None);
+        assert_eq!(broken("valve_lift", &[0.0, 1.70]), None);
+        assert_eq!(broken("valve_lift", &[-0.001, 1.70]), Some("lobe lift"));
+        assert_eq!(broken("valve_lift", &[0.320, 0.0]), Some("rocker ratio"));
+        assert_eq!(broken("net_valve_lift", &[0.320, 1.70, 0.016]), None);
+        assert_eq!(broken("net_valve_lift", &[0.320, 1.70, 0.0]), None);
+        assert_eq!(
+            broken("net_valve_lift", &[0.320, 1.70, -0.001]),
+            Some("lash")
+        );
+        assert_eq!(broken("net_valve_lift", &[0.320, 1.70, 0.544]), None);
+        assert_eq!(
+            broken("net_valve_lift", &[0.320, 1.70, 0.545]),
+            Some("net lift")
+        );
+    }
+
+    #[test]
+    fn airflow_conversion_needs_positive_pressure_drops() {
+        // the orifice law, flow ∝ √(pressure drop); common practice, no source: the ratio of
+        // the drops must be defined and above zero
+        let at = |f: f64, rated: f64, target: f64| {
+            broken("airflow_at", &[f * CFM, rated * INHG, target * INHG])
+        };
+        assert_eq!(at(500.0, 3.0, 1.5), None);
+        assert_eq!(at(0.0, 3.0, 1.5), None);
+        assert_eq!(at(-1.0, 3.0, 1.5), Some("flow"));
+        assert_eq!(at(500.0, 0.0, 1.5), Some("rated pressure drop"));
+        assert_eq!(at(500.0, -3.0, 1.5), Some("rated pressure drop"));
+        assert_eq!(at(500.0, 3.0, 0.0), Some("target pressure drop"));
+    }
+
+    #[test]
+    fn airflow_demand_needs_positive_displacement_speed_and_efficiency() {
+        // common practice, no source: cfm = ci · rpm · VE / 3456, each factor above zero
+        let rpm = 1.0 / 60.0;
+        let demand =
+            |ci: f64, speed: f64, ve: f64| broken("airflow_demand", &[ci * CI, speed * rpm, ve]);
+        assert_eq!(demand(440.0, 6000.0, 0.90), None);
+        assert_eq!(demand(0.0, 6000.0, 0.90), Some("displacement"));
+        assert_eq!(demand(440.0, 0.0, 0.90), Some("speed"));
+        assert_eq!(demand(440.0, 6000.0, -0.1), Some("efficiency"));
+    }
+
+    #[test]
+    fn every_domain_reads_parameters_of_its_formula_with_their_dimensions() {
+        for f in FORMULAS {
+            assert!(!f.domain.is_empty(), "{} has no domain", f.name);
+            assert!(!f.source.is_empty(), "{} names no source", f.name);
+            for r in f.domain {
+                assert!(r.reads().iter().all(|i| *i < f.params.len()), "{}", f.name);
+                if let Tested::Argument(i) = r.tested {
+                    let param = f.params.get(i).map(|p| p.dimension);
+                    assert_eq!(param, Some(r.dimension), "{} {}", f.name, r.quantity);
+                }
+                // a list of the wrong length is never inside the domain
+                assert!(f.breach(&[]).is_some(), "{}", f.name);
+            }
+        }
+    }
+
     #[test]
     fn every_formula_takes_as_many_arguments_as_it_has_parameters() {
         for f in FORMULAS {

@@ -57,13 +57,16 @@ pub struct Breach {
 }
 
 impl Breach {
-    /// The inputs of these values together, in input order, each once.
+    /// The inputs of these values together, each once: the first value's in input order,
+    /// then those the next one adds, and so on (a formula's in the order of its parameters).
     pub fn inputs_of<'a>(values: impl IntoIterator<Item = &'a Dual>) -> Vec<InputId> {
-        let ids: BTreeSet<InputId> = values
-            .into_iter()
-            .flat_map(|d| d.partials.iter().map(|(id, _)| *id))
-            .collect();
-        ids.into_iter().collect()
+        let mut ids: Vec<InputId> = Vec::new();
+        for (id, _) in values.into_iter().flat_map(|d| d.partials.iter()) {
+            if !ids.contains(id) {
+                ids.push(*id);
+            }
+        }
+        ids
     }
 }
 

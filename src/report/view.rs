@@ -715,12 +715,14 @@ impl RuleView {
         format!("{}{finding}", self.verdict.words())
     }
 
-    /// The state of the rule's conditions: `holds`, `does not hold`, or uncertain.
+    /// The state of the rule's conditions: `holds`, `does not hold`, uncertain, or not known
+    /// (a rule with conditions is left `always` only when they could not be computed).
     pub fn condition_state(&self) -> &'static str {
         match self.applies {
             Applies::DoesNotHold => "does not hold",
             Applies::Uncertain => "uncertain: inside the uncertainty band",
-            Applies::Always | Applies::Holds => "holds",
+            Applies::Holds => "holds",
+            Applies::Always => "not known: it could not be computed",
         }
     }
 
