@@ -1,8 +1,11 @@
 //! The built-in functions a rulebook may call, in one table: for each, its parameters with
 //! their dimensions and shapes, the dimension of its result, what it means in one line, and its
 //! implementation on dual numbers in SI units (DESIGN.md section 4; sources are cited in the
-//! tests). The checker types calls from this table and binds their arguments in parameter
-//! order; evaluation applies the implementation the checker bound.
+//! tests), and its domain: what its arguments must be for the result to mean anything
+//! (a positive clearance volume for a compression ratio). The checker types calls from this
+//! table and binds their arguments in parameter order; evaluation tests the domain and then
+//! applies the implementation the checker bound, and a call outside its domain is not
+//! computed.
 
 use std::f64::consts::PI;
 
@@ -66,7 +69,258 @@ pub struct Formula {
     pub summary: &'static str,
     /// How it is computed.
     pub apply: Apply,
+    /// What its arguments must be, in the order they are tested; the first one broken is
+    /// the reason the call is not computed.
+    pub domain: &'static [Requirement],
+    /// Where the formula and its domain come from: a handbook, or common practice.
+    pub source: &'static str,
 }
+
+/// One condition of a formula's domain: a quantity read from its arguments must be above
+/// zero (or at least zero).
+#[derive(Clone, Copy, Debug)]
+pub struct Requirement {
+    /// The condition in words, as it follows "needs": `a positive clearance volume`.
+    pub needs: &'static str,
+    /// The quantity tested, in words: `clearance volume`, `bore`.
+    pub quantity: &'static str,
+    /// Its dimension.
+    pub dimension: Dimension,
+    /// What is tested: one argument, or a quantity computed from several.
+    pub tested: Tested,
+    /// Whether zero is inside the domain (at least zero) or not (above zero).
+    pub zero_allowed: bool,
+}
+
+/// What a [`Requirement`] tests.
+#[derive(Clone, Copy, Debug)]
+pub enum Tested {
+    /// One argument itself, by position.
+    Argument(usize),
+    /// A quantity computed from the arguments at `reads`.
+    Computed {
+        /// The positions of the arguments it reads.
+        reads: &'static [usize],
+        /// The quantity from the argument values in parameter order, SI units (`None` for
+        /// a list of the wrong length).
+        value: fn(&[f64]) -> Option<f64>,
+    },
+}
+
+impl Requirement {
+    /// Whether `value` meets it; a value that is not a number never does.
+    pub fn holds(&self, value: f64) -> bool {
+        if self.zero_allowed {
+            value >= 0.0
+        } else {
+            value > 0.0
+        }
+    }
+
+    /// The quantity it tests, from the argument values in parameter order (`None` for a list
+    /// of the wrong length).
+    pub fn value(&self, args: &[f64]) -> Option<f64> {
+        match self.tested {
+            Tested::Argument(i) => args.get(i).copied(),
+            Tested::Computed { value, .. } => value(args),
+        }
+    }
+
+    /// The positions of the arguments it reads.
+    pub fn reads(&self) -> &[usize] {
+        match &self.tested {
+            Tested::Argument(i) => std::slice::from_ref(i),
+            Tested::Computed { reads, .. } => reads,
+        }
+    }
+}
+
+/// A requirement on one argument itself: above zero, or at least zero when `zero_allowed`.
+const fn on(
+    position: usize,
+    needs: &'static str,
+    quantity: &'static str,
+    dimension: Dimension,
+    zero_allowed: bool,
+) -> Requirement {
+    Requirement {
+        needs,
+        quantity,
+        dimension,
+        tested: Tested::Argument(position),
+        zero_allowed,
+    }
+}
+
+const HEYWOOD: &str = "Heywood, Internal Combustion Engine Fundamentals, ch. 2";
+const COMMON: &str = "common practice, no source";
+
+/// Bore, stroke and cylinders of `displacement`: a cylinder has a positive bore and stroke,
+/// an engine a positive number of cylinders.
+const DISPLACEMENT_DOMAIN: &[Requirement] = &[
+    on(0, "a positive bore", "bore", Dimension::LENGTH, false),
+    on(1, "a positive stroke", "stroke", Dimension::LENGTH, false),
+    on(
+        2,
+        "a positive number of cylinders",
+        "cylinders",
+        Dimension::NONE,
+        false,
+    ),
+];
+
+/// `compression_ratio`: positive bore and stroke, a gasket of no negative size, and a
+/// positive clearance volume V_c. With V_c > 0 and a positive swept volume V_d the ratio
+/// (V_d + V_c) / V_c is above 1, so no further test of the result is needed.
+const COMPRESSION_DOMAIN: &[Requirement] = &[
+    on(0, "a positive bore", "bore", Dimension::LENGTH, false),
+    on(1, "a positive stroke", "stroke", Dimension::LENGTH, false),
+    on(
+        3,
+        "a gasket bore of at least zero",
+        "gasket bore",
+        Dimension::LENGTH,
+        true,
+    ),
+    on(
+        4,
+        "a gasket thickness of at least zero",
+        "gasket thickness",
+        Dimension::LENGTH,
+        true,
+    ),
+    Requirement {
+        needs: "a positive clearance volume",
+        quantity: "clearance volume",
+        dimension: Dimension::VOLUME,
+        tested: Tested::Computed {
+            reads: &[0, 2, 3, 4, 5, 6],
+            value: |x| match x {
+                [
+                    bore,
+                    _,
+                    chamber,
+                    gasket_bore,
+                    gasket_thickness,
+                    deck,
+                    piston,
+                ] => Some(clearance_volume(
+                    *bore,
+                    *chamber,
+                    *gasket_bore,
+                    *gasket_thickness,
+                    *deck,
+                    *piston,
+                )),
+                _ => None,
+            },
+        },
+        zero_allowed: false,
+    },
+];
+
+/// `valve_lift`: a lobe lift of at least zero and a positive rocker ratio.
+const LIFT_DOMAIN: &[Requirement] = &[
+    on(
+        0,
+        "a lobe lift of at least zero",
+        "lobe lift",
+        Dimension::LENGTH,
+        true,
+    ),
+    on(
+        1,
+        "a positive rocker ratio",
+        "rocker ratio",
+        Dimension::NONE,
+        false,
+    ),
+];
+
+/// `net_valve_lift`: as `valve_lift`, a lash of at least zero, and a net lift of at least
+/// zero (a lash larger than the gross lift would leave the valve shut, not open it by a
+/// negative amount).
+const NET_LIFT_DOMAIN: &[Requirement] = &[
+    on(
+        0,
+        "a lobe lift of at least zero",
+        "lobe lift",
+        Dimension::LENGTH,
+        true,
+    ),
+    on(
+        1,
+        "a positive rocker ratio",
+        "rocker ratio",
+        Dimension::NONE,
+        false,
+    ),
+    on(
+        2,
+        "a lash of at least zero",
+        "lash",
+        Dimension::LENGTH,
+        true,
+    ),
+    Requirement {
+        needs: "a lash no larger than the gross lift",
+        quantity: "net lift",
+        dimension: Dimension::LENGTH,
+        tested: Tested::Computed {
+            reads: &[0, 1, 2],
+            value: |x| match x {
+                [lobe, ratio, lash] => Some(lobe * ratio - lash),
+                _ => None,
+            },
+        },
+        zero_allowed: true,
+    },
+];
+
+/// `airflow_at`: a flow of at least zero and positive pressure drops (the square root of
+/// their ratio needs both above zero).
+const AIRFLOW_AT_DOMAIN: &[Requirement] = &[
+    on(
+        0,
+        "a flow of at least zero",
+        "flow",
+        Dimension::AIRFLOW,
+        true,
+    ),
+    on(
+        1,
+        "a positive rated pressure drop",
+        "rated pressure drop",
+        Dimension::PRESSURE,
+        false,
+    ),
+    on(
+        2,
+        "a positive target pressure drop",
+        "target pressure drop",
+        Dimension::PRESSURE,
+        false,
+    ),
+];
+
+/// `airflow_demand`: positive displacement, speed and volumetric efficiency.
+const DEMAND_DOMAIN: &[Requirement] = &[
+    on(
+        0,
+        "a positive displacement",
+        "displacement",
+        Dimension::VOLUME,
+        false,
+    ),
+    on(1, "a positive speed", "speed", Dimension::SPEED, false),
+    on(
+        2,
+        "a positive volumetric efficiency",
+        "efficiency",
+        Dimension::NONE,
+        false,
+    ),
+];
 
 const fn param(name: &'static str, dimension: Dimension, shape: Shape) -> Param {
     Param {
@@ -88,6 +342,8 @@ pub const FORMULAS: &[Formula] = &[
         result: Dimension::VOLUME,
         summary: "swept volume π/4 · bore² · stroke · cylinders",
         apply: Apply::Three(|[bore, stroke, cylinders]| displacement(bore, stroke, cylinders)),
+        domain: DISPLACEMENT_DOMAIN,
+        source: HEYWOOD,
     },
     Formula {
         name: "compression_ratio",
@@ -124,6 +380,8 @@ pub const FORMULAS: &[Formula] = &[
                 })
             },
         ),
+        domain: COMPRESSION_DOMAIN,
+        source: HEYWOOD,
     },
     Formula {
         name: "valve_lift",
@@ -134,6 +392,8 @@ pub const FORMULAS: &[Formula] = &[
         result: Dimension::LENGTH,
         summary: "gross valve lift lobe_lift · rocker_ratio",
         apply: Apply::Two(|[lobe_lift, rocker_ratio]| valve_lift(lobe_lift, rocker_ratio)),
+        domain: LIFT_DOMAIN,
+        source: COMMON,
     },
     Formula {
         name: "net_valve_lift",
@@ -147,6 +407,8 @@ pub const FORMULAS: &[Formula] = &[
         apply: Apply::Three(|[lobe_lift, rocker_ratio, lash]| {
             net_valve_lift(lobe_lift, rocker_ratio, lash)
         }),
+        domain: NET_LIFT_DOMAIN,
+        source: COMMON,
     },
     Formula {
         name: "airflow_at",
@@ -158,6 +420,8 @@ pub const FORMULAS: &[Formula] = &[
         result: Dimension::AIRFLOW,
         summary: "airflow rated at one pressure drop converted to another, flow · √(target_drop / rated_drop)",
         apply: Apply::Three(|[flow, rated, target]| airflow_at(flow, rated, target)),
+        domain: AIRFLOW_AT_DOMAIN,
+        source: "the orifice law, flow ∝ √(pressure drop); common practice, no source",
     },
     Formula {
         name: "airflow_demand",
@@ -172,6 +436,8 @@ pub const FORMULAS: &[Formula] = &[
         apply: Apply::Three(|[volume, speed, efficiency]| {
             airflow_demand(volume, speed, efficiency)
         }),
+        domain: DEMAND_DOMAIN,
+        source: COMMON,
     },
 ];
 
@@ -183,6 +449,17 @@ impl Formula {
             Apply::Two(f) => f(args.try_into().ok()?),
             Apply::Three(f) => f(args.try_into().ok()?),
             Apply::Seven(f) => f(args.try_into().ok()?),
+        })
+    }
+}
+
+impl Formula {
+    /// The first requirement of its domain that arguments given in parameter order break,
+    /// with the value of the quantity it tests (SI units); `None` inside the domain.
+    pub fn breach(&self, args: &[f64]) -> Option<(&'static Requirement, f64)> {
+        self.domain.iter().find_map(|r| {
+            let value = r.value(args).unwrap_or(f64::NAN);
+            (!r.holds(value)).then_some((r, value))
         })
     }
 }
@@ -342,12 +619,27 @@ pub struct Cylinder<'a> {
 /// Static compression ratio `(V_swept + V_clear) / V_clear` with
 /// `V_clear = chamber + π/4·gasket_bore²·gasket_thickness + π/4·bore²·deck_clearance + piston`.
 pub fn compression_ratio(c: &Cylinder) -> Dual {
+    // the clearance volume here and in `clearance_volume` (the domain's test) are one sum
     let bore_area = circle_area(c.bore);
     let swept = bore_area.mul(c.stroke);
     let gasket = circle_area(c.gasket_bore).mul(c.gasket_thickness);
     let deck = bore_area.mul(c.deck_clearance);
     let clearance = c.chamber.add(&gasket).add(&deck).add(c.piston_volume);
     swept.add(&clearance).div(&clearance)
+}
+
+/// The clearance volume above the piston at top dead centre, SI units: chamber, gasket,
+/// deck and piston (dish positive, dome negative), as [`compression_ratio`] adds them.
+pub fn clearance_volume(
+    bore: f64,
+    chamber: f64,
+    gasket_bore: f64,
+    gasket_thickness: f64,
+    deck_clearance: f64,
+    piston_volume: f64,
+) -> f64 {
+    let area = |d: f64| PI / 4.0 * d * d;
+    chamber + area(gasket_bore) * gasket_thickness + area(bore) * deck_clearance + piston_volume
 }
 
 /// Gross valve lift `lobe_lift · rocker_ratio`.
@@ -508,6 +800,150 @@ mod tests {
         let rpm = 1.0 / 60.0; // revolutions per second, as the unit table has it
         let demand = airflow_demand(&c(440.0 * CI), &c(6000.0 * rpm), &c(0.90)).value / CFM;
         assert!((demand - 687.5).abs() < 1e-9, "{demand}");
+    }
+
+    /// The quantity of the first requirement of `name` that `args` (SI units) break.
+    fn broken(name: &str, args: &[f64]) -> Option<&'static str> {
+        formula(name)
+            .and_then(|f| f.breach(args))
+            .map(|(r, _)| r.quantity)
+    }
+
+    /// The demo's legal cylinder in SI: bore 4.030 in, stroke 3.480 in, chamber 72 cc,
+    /// gasket 4.100 in × 0.041 in, deck 0.012 in, dish 12 cc.
+    fn cylinder(chamber_cc: f64, deck_in: f64, piston_cc: f64) -> [f64; 7] {
+        [
+            4.030 * INCH,
+            3.480 * INCH,
+            chamber_cc * CC,
+            4.100 * INCH,
+            0.041 * INCH,
+            deck_in * INCH,
+            piston_cc * CC,
+        ]
+    }
+
+    #[test]
+    fn the_compression_ratio_needs_a_positive_clearance_volume() {
+        // Heywood, Internal Combustion Engine Fundamentals, ch. 2: r_c = (V_d + V_c) / V_c
+        // with V_c the clearance volume, which must be above zero (then r_c > 1).
+        // Clearance by hand: gasket π/4 · 4.100² · 0.041 = 0.5413043 in³ = 8.870388 cc,
+        // deck π/4 · 4.030² · (−0.050) = −0.6377787 in³ = −10.451320 cc (1 in³ =
+        // 16.387064 cc, NIST SP 811): 40 + 8.870388 − 10.451320 − 38.419068 cc is zero.
+        let edge = 40.0 + 8.870_388 - 10.451_320;
+        assert_eq!(
+            broken("compression_ratio", &cylinder(72.0, 0.012, 12.0)),
+            None
+        );
+        let beyond = cylinder(40.0, -0.050, -(edge + 0.01));
+        assert_eq!(
+            broken("compression_ratio", &beyond),
+            Some("clearance volume")
+        );
+        let value = formula("compression_ratio")
+            .and_then(|f| f.breach(&beyond))
+            .map(|(_, v)| v / CC);
+        assert!(value.is_some_and(|v| (v + 0.01).abs() < 1e-5), "{value:?}");
+        // just inside the edge the ratio is large but above 1, and the formula is applied
+        let inside = cylinder(40.0, -0.050, -(edge - 0.01));
+        assert_eq!(broken("compression_ratio", &inside), None);
+        let args: Vec<Dual> = inside.iter().map(|v| c(*v)).collect();
+        let refs: Vec<&Dual> = args.iter().collect();
+        let cr = formula("compression_ratio").and_then(|f| f.apply_to(&refs));
+        assert!(cr.is_some_and(|cr| cr.value > 1.0));
+        // a zero stroke would give a ratio of exactly 1: the stroke must be above zero
+        let mut flat = cylinder(72.0, 0.012, 12.0);
+        flat[1] = 0.0;
+        assert_eq!(broken("compression_ratio", &flat), Some("stroke"));
+        let mut no_bore = cylinder(72.0, 0.012, 12.0);
+        no_bore[0] = -4.030 * INCH;
+        assert_eq!(broken("compression_ratio", &no_bore), Some("bore"));
+        // a gasket of zero thickness is a gasket left out; a negative one is impossible
+        let mut no_gasket = cylinder(72.0, 0.012, 12.0);
+        no_gasket[4] = 0.0;
+        assert_eq!(broken("compression_ratio", &no_gasket), None);
+        no_gasket[4] = -0.001 * INCH;
+        assert_eq!(
+            broken("compression_ratio", &no_gasket),
+            Some("gasket thickness")
+        );
+    }
+
+    #[test]
+    fn displacement_needs_positive_bore_stroke_and_cylinders() {
+        // Heywood ch. 2: V_d = π/4 · B² · L per cylinder; each factor is above zero
+        let d = |b: f64, s: f64, n: f64| broken("displacement", &[b * INCH, s * INCH, n]);
+        assert_eq!(d(4.0, 3.48, 8.0), None);
+        assert_eq!(d(0.0, 3.48, 8.0), Some("bore"));
+        assert_eq!(d(-4.0, 3.48, 8.0), Some("bore"));
+        assert_eq!(d(4.0, 0.0, 8.0), Some("stroke"));
+        assert_eq!(d(4.0, 3.48, 0.0), Some("cylinders"));
+        assert_eq!(d(4.0, 3.48, -8.0), Some("cylinders"));
+    }
+
+    #[test]
+    fn valve_lift_needs_a_lift_of_at_least_zero() {
+        // common practice, no source: gross lift = lobe lift × rocker ratio, net = gross − lash;
+        // 0.320 in × 1.70 = 0.544 in gross, so a lash of 0.544 in is the edge
+        assert_eq!(broken("valve_lift", &[0.320, 1.70]), None);
+        assert_eq!(broken("valve_lift", &[0.0, 1.70]), None);
+        assert_eq!(broken("valve_lift", &[-0.001, 1.70]), Some("lobe lift"));
+        assert_eq!(broken("valve_lift", &[0.320, 0.0]), Some("rocker ratio"));
+        assert_eq!(broken("net_valve_lift", &[0.320, 1.70, 0.016]), None);
+        assert_eq!(broken("net_valve_lift", &[0.320, 1.70, 0.0]), None);
+        assert_eq!(
+            broken("net_valve_lift", &[0.320, 1.70, -0.001]),
+            Some("lash")
+        );
+        assert_eq!(broken("net_valve_lift", &[0.320, 1.70, 0.544]), None);
+        assert_eq!(
+            broken("net_valve_lift", &[0.320, 1.70, 0.545]),
+            Some("net lift")
+        );
+    }
+
+    #[test]
+    fn airflow_conversion_needs_positive_pressure_drops() {
+        // the orifice law, flow ∝ √(pressure drop); common practice, no source: the ratio of
+        // the drops must be defined and above zero
+        let at = |f: f64, rated: f64, target: f64| {
+            broken("airflow_at", &[f * CFM, rated * INHG, target * INHG])
+        };
+        assert_eq!(at(500.0, 3.0, 1.5), None);
+        assert_eq!(at(0.0, 3.0, 1.5), None);
+        assert_eq!(at(-1.0, 3.0, 1.5), Some("flow"));
+        assert_eq!(at(500.0, 0.0, 1.5), Some("rated pressure drop"));
+        assert_eq!(at(500.0, -3.0, 1.5), Some("rated pressure drop"));
+        assert_eq!(at(500.0, 3.0, 0.0), Some("target pressure drop"));
+    }
+
+    #[test]
+    fn airflow_demand_needs_positive_displacement_speed_and_efficiency() {
+        // common practice, no source: cfm = ci · rpm · VE / 3456, each factor above zero
+        let rpm = 1.0 / 60.0;
+        let demand =
+            |ci: f64, speed: f64, ve: f64| broken("airflow_demand", &[ci * CI, speed * rpm, ve]);
+        assert_eq!(demand(440.0, 6000.0, 0.90), None);
+        assert_eq!(demand(0.0, 6000.0, 0.90), Some("displacement"));
+        assert_eq!(demand(440.0, 0.0, 0.90), Some("speed"));
+        assert_eq!(demand(440.0, 6000.0, -0.1), Some("efficiency"));
+    }
+
+    #[test]
+    fn every_domain_reads_parameters_of_its_formula_with_their_dimensions() {
+        for f in FORMULAS {
+            assert!(!f.domain.is_empty(), "{} has no domain", f.name);
+            assert!(!f.source.is_empty(), "{} names no source", f.name);
+            for r in f.domain {
+                assert!(r.reads().iter().all(|i| *i < f.params.len()), "{}", f.name);
+                if let Tested::Argument(i) = r.tested {
+                    let param = f.params.get(i).map(|p| p.dimension);
+                    assert_eq!(param, Some(r.dimension), "{} {}", f.name, r.quantity);
+                }
+                // a list of the wrong length is never inside the domain
+                assert!(f.breach(&[]).is_some(), "{}", f.name);
+            }
+        }
     }
 
     #[test]

@@ -1,12 +1,14 @@
 //! Evaluating resolved expressions over a declaration: a fold over the checker's tree, each
 //! number carrying its exact sensitivities to the measured inputs. Names are ids, calls are
-//! bound, so nothing is looked up by name or by where it is written.
+//! bound, so nothing is looked up by name or by where it is written. Every formula and
+//! operation is applied only inside its domain: outside it the value is not computed, and the
+//! [`Breach`] says why.
 
 use std::f64::consts::PI;
 
 use super::dual::Dual;
-use super::value::{Evaluated, Unevaluated, Value, all, both};
-use crate::check::builtins::extreme;
+use super::value::{Breach, Evaluated, Unevaluated, Value, all, both};
+use crate::check::builtins::{Formula, extreme};
 use crate::check::model::CheckedRulebook;
 use crate::check::resolved::{
     Args, Bound, Call, DerivedId, Expr, ExprKind, Literal, LiteralId, MeasurementId, Term,
@@ -94,6 +96,7 @@ impl<'a> Evaluator<'a> {
             ExprKind::Negate(inner) => Ok(self.number(inner)?.map(Dual::neg)),
             ExprKind::Binary { op, left, right } => {
                 let (l, r) = both(self.number(left), self.number(right))?;
+                operands_in_domain(*op, &l, &r)?;
                 Ok(binary(*op, &l, &r))
             }
             ExprKind::Formula(call) => self.formula(call),
@@ -114,7 +117,11 @@ impl<'a> Evaluator<'a> {
                 }))
             }
             ExprKind::Abs(inner) => Ok(self.number(inner)?.map(Dual::abs)),
-            ExprKind::Sqrt(inner) => Ok(self.number(inner)?.map(Dual::sqrt)),
+            ExprKind::Sqrt(inner) => {
+                let value = self.number(inner)?;
+                each_in_domain(&value, |d| (d.value < 0.0).then_some(SQRT))?;
+                Ok(value.map(Dual::sqrt))
+            }
         }
     }
 
@@ -227,34 +234,38 @@ impl<'a> Evaluator<'a> {
 
     fn formula(&mut self, call: &Call) -> Evaluated<Value> {
         match &call.args {
-            Args::Two(bound) => self.apply(bound),
-            Args::Three(bound) => self.apply(bound),
-            Args::Seven(bound) => self.apply(bound),
+            Args::Two(bound) => self.apply(call.formula, bound),
+            Args::Three(bound) => self.apply(call.formula, bound),
+            Args::Seven(bound) => self.apply(call.formula, bound),
         }
     }
 
-    /// Applies a formula cylinder by cylinder where its arguments are per cylinder.
-    fn apply<const N: usize>(&mut self, bound: &Bound<N>) -> Evaluated<Value> {
+    /// Applies a formula cylinder by cylinder where its arguments are per cylinder, each
+    /// cylinder only inside the formula's domain (every cylinder outside it is named).
+    fn apply<const N: usize>(
+        &mut self,
+        formula: &'static Formula,
+        bound: &Bound<N>,
+    ) -> Evaluated<Value> {
         let values = all(bound
             .args
             .iter()
             .map(|a| self.number(a))
             .collect::<Vec<_>>())?;
+        let cylinders = values.iter().find_map(|v| match v {
+            Value::PerCylinder(ds) => Some(ds.len()),
+            Value::Single(_) => None,
+        });
         let one = |i: usize| -> Evaluated<Dual> {
             let x: Vec<&Dual> = values.iter().map(|v| v.at(i)).collect::<Evaluated<_>>()?;
+            formula_in_domain(formula, &x, cylinders.map(|_| i + 1))?;
             let x: [&Dual; N] = x
                 .try_into()
                 .map_err(|_| Unevaluated::internal("a formula given the wrong number of values"))?;
             Ok((bound.apply)(x))
         };
-        let cylinders = values.iter().find_map(|v| match v {
-            Value::PerCylinder(ds) => Some(ds.len()),
-            Value::Single(_) => None,
-        });
         match cylinders {
-            Some(n) => Ok(Value::PerCylinder(
-                (0..n).map(one).collect::<Evaluated<_>>()?,
-            )),
+            Some(n) => Ok(Value::PerCylinder(all((0..n).map(one))?)),
             None => Ok(Value::Single(one(0)?)),
         }
     }
@@ -268,6 +279,112 @@ fn binary(op: BinaryOp, l: &Value, r: &Value) -> Value {
         BinaryOp::Divide => l.zip(r, Dual::div),
         // the checker allows only constant exponents
         BinaryOp::Power => l.zip(r, |a, b| a.powf(b.value)),
+    }
+}
+
+/// Outside its domain, the first requirement of a formula its arguments break, with the
+/// inputs of the arguments that requirement reads.
+fn formula_in_domain(
+    formula: &'static Formula,
+    x: &[&Dual],
+    cylinder: Option<usize>,
+) -> Evaluated<()> {
+    let values: Vec<f64> = x.iter().map(|d| d.value).collect();
+    let Some((requirement, value)) = formula.breach(&values) else {
+        return Ok(());
+    };
+    let read = requirement
+        .reads()
+        .iter()
+        .filter_map(|i| x.get(*i).copied());
+    Err(Unevaluated::domain(Breach {
+        by: formula.name,
+        needs: requirement.needs,
+        source: Some(formula.source),
+        quantity: requirement.quantity,
+        value,
+        dimension: Some(requirement.dimension),
+        cylinder,
+        inputs: Breach::inputs_of(read),
+    }))
+}
+
+/// What an operation of arithmetic needs, when an operand breaks it.
+#[derive(Clone, Copy)]
+struct Needs {
+    by: &'static str,
+    needs: &'static str,
+    quantity: &'static str,
+}
+
+const DIVISOR: Needs = Needs {
+    by: "/",
+    needs: "a divisor other than zero",
+    quantity: "divisor",
+};
+const SQRT: Needs = Needs {
+    by: "sqrt",
+    needs: "a value of at least zero",
+    quantity: "value under the root",
+};
+const FRACTIONAL_POWER: Needs = Needs {
+    by: "^",
+    needs: "a base of at least zero for a power that is not a whole number",
+    quantity: "base",
+};
+const NEGATIVE_POWER: Needs = Needs {
+    by: "^",
+    needs: "a base other than zero for a negative power",
+    quantity: "base",
+};
+
+/// Where an operation's operands are outside its domain: a divisor of zero, a negative base
+/// of a fractional power, a zero base of a negative one.
+fn operands_in_domain(op: BinaryOp, l: &Value, r: &Value) -> Evaluated<()> {
+    match op {
+        BinaryOp::Divide => each_in_domain(r, |d| (d.value == 0.0).then_some(DIVISOR)),
+        BinaryOp::Power => {
+            let exponents = r.numbers();
+            each_in_domain(l, |base| {
+                exponents.iter().find_map(|e| {
+                    if base.value < 0.0 && e.value.fract() != 0.0 {
+                        Some(FRACTIONAL_POWER)
+                    } else if base.value == 0.0 && e.value < 0.0 {
+                        Some(NEGATIVE_POWER)
+                    } else {
+                        None
+                    }
+                })
+            })
+        }
+        BinaryOp::Add | BinaryOp::Subtract | BinaryOp::Multiply => Ok(()),
+    }
+}
+
+/// Every number of `value` that `breaks` finds outside the domain, cylinder by cylinder.
+fn each_in_domain(value: &Value, breaks: impl Fn(&Dual) -> Option<Needs>) -> Evaluated<()> {
+    let breaches: Vec<Breach> = value
+        .numbers()
+        .iter()
+        .enumerate()
+        .filter_map(|(i, d)| {
+            let needs = breaks(d)?;
+            Some(Breach {
+                by: needs.by,
+                needs: needs.needs,
+                source: None,
+                quantity: needs.quantity,
+                value: d.value,
+                dimension: None,
+                cylinder: value.is_per_cylinder().then_some(i + 1),
+                inputs: Breach::inputs_of([d]),
+            })
+        })
+        .collect();
+    if breaches.is_empty() {
+        Ok(())
+    } else {
+        Err(Unevaluated::Domain(breaches))
     }
 }
 

@@ -2,6 +2,7 @@
 //! units; each carries the unit it should be shown in.
 
 use super::finding::{Finding, Verdict};
+use super::value::{Breach, Evaluated, Unevaluated};
 use crate::check::model::{CheckedRulebook, Class, ClassRule, Derived};
 use crate::load::InputId;
 use crate::load::{Declaration, Input, Place};
@@ -72,6 +73,31 @@ impl Checked {
                 && n.expanded.is_finite()
         })
     }
+
+    /// The finding when every number behind it is finite; else why it decides nothing, as a
+    /// value outside the domain of the test (an overflow, or a sensitivity without bound
+    /// such as the root's at zero), naming the inputs the value tested is computed from.
+    pub fn finite(self) -> Evaluated<Checked> {
+        let Some(n) = self.numeric.as_ref().filter(|_| !self.is_finite()) else {
+            return Ok(self);
+        };
+        let value_finite = n.value.is_finite() && n.limit.is_finite() && n.margin.is_finite();
+        let (quantity, value) = if value_finite {
+            ("uncertainty of the value tested", n.expanded)
+        } else {
+            ("value tested", n.value)
+        };
+        Err(Unevaluated::domain(Breach {
+            by: "the test",
+            needs: "a finite value and uncertainty",
+            source: None,
+            quantity,
+            value,
+            dimension: n.unit.map(|u| u.dimension),
+            cylinder: n.cylinder,
+            inputs: n.sensitivities.iter().map(|(id, _)| *id).collect(),
+        }))
+    }
 }
 
 /// One line of a rule's trace, borrowing from the rulebook and the declaration.
@@ -120,8 +146,12 @@ pub struct Outcome<'a> {
     pub checked: Option<Checked>,
     /// Measurements it needs that are missing.
     pub missing: Vec<String>,
-    /// True when the value it tests could not be computed as a finite number.
+    /// True when the value it tests could not be computed: a value outside the domain of a
+    /// formula or operation, or not a finite number ([`Outcome::outside_domain`] says which).
     pub not_finite: bool,
+    /// The values outside the domain of the formula or operation that needed them, each
+    /// cylinder's own: the reason the rule is not checked.
+    pub outside_domain: Vec<Breach>,
     /// Why it could not be evaluated, when that is not a missing measurement: an internal
     /// error of gonogo, never a finding.
     pub error: Option<String>,

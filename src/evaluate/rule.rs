@@ -40,6 +40,7 @@ impl<'a> Evaluator<'a> {
             checked: None,
             missing: Vec::new(),
             not_finite: false,
+            outside_domain: Vec::new(),
             error: None,
             trace: Vec::new(),
         };
@@ -58,13 +59,9 @@ impl<'a> Evaluator<'a> {
             Ok(Truth::True) if !r.conditions.is_empty() => outcome.applies = Applies::Holds,
             Ok(Truth::True) => {}
         }
-        match self.test(&r.test) {
+        // bad input must not turn into a verdict: a value that is not a number decides nothing
+        match self.test(&r.test).and_then(Checked::finite) {
             Err(why) => outcome.record(why, self.rulebook),
-            Ok(checked) if !checked.is_finite() => {
-                // bad input must not turn into a verdict: a value that is not a number decides nothing
-                outcome.not_finite = true;
-                outcome.checked = Some(checked);
-            }
             Ok(checked) => {
                 let mut v = verdict(checked.finding, decision);
                 // The inspector's rule gives the doubt to the competitor: a rule that may not
@@ -103,11 +100,8 @@ impl<'a> Evaluator<'a> {
     fn condition(&mut self, c: &Condition, decision: DecisionRule) -> Evaluated<Truth> {
         match c {
             Condition::Test(t) => {
-                let checked = self.test(t)?;
-                // a condition that cannot be computed may or may not hold
-                if !checked.is_finite() {
-                    return Ok(Truth::Uncertain);
-                }
+                // a condition that cannot be computed is unknown, as with a missing measurement
+                let checked = self.test(t).and_then(Checked::finite)?;
                 Ok(truth_of(checked.finding, decision))
             }
             Condition::Not(inner) => Ok(match self.condition(inner, decision)? {
@@ -465,6 +459,10 @@ impl Outcome<'_> {
     fn record(&mut self, why: Unevaluated, rulebook: &CheckedRulebook) {
         match why {
             Unevaluated::Missing(missing) => self.missing = missing.0.into_iter().collect(),
+            Unevaluated::Domain(breaches) => {
+                self.not_finite = true;
+                self.outside_domain = breaches;
+            }
             Unevaluated::Internal(error) => self.error = Some(error),
         }
         if rulebook.all_optional(&self.missing) {

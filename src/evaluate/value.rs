@@ -1,10 +1,13 @@
 //! Values during evaluation: a number (one, or one per cylinder) with its sensitivities; the
-//! measurements found missing on the way; and the one other reason a value may not come out,
-//! an internal error, which is reported with its message and never turned into a number.
+//! measurements found missing on the way; values outside the domain of the formula or
+//! operation that needs them ([`Breach`]), which are never turned into a number; and an
+//! internal error, which is reported with its message.
 
 use std::collections::BTreeSet;
 
 use super::dual::Dual;
+use crate::load::InputId;
+use crate::units::Dimension;
 
 /// An evaluated numeric expression.
 #[derive(Clone, Debug, PartialEq)]
@@ -24,8 +27,47 @@ pub struct Missing(pub BTreeSet<String>);
 pub enum Unevaluated {
     /// Measurements the declaration does not give.
     Missing(Missing),
+    /// Values outside the domain of a formula or operation, each cylinder's own.
+    Domain(Vec<Breach>),
     /// A state the checker and the loader rule out (a mistake in gonogo), with what went wrong.
     Internal(String),
+}
+
+/// A value outside the domain of the formula or operation that needs it (a negative clearance
+/// volume for a compression ratio, a divisor of zero): the data of the reason a rule is not
+/// checked. Reports put it into words (`report::view`).
+#[derive(Clone, Debug, PartialEq)]
+pub struct Breach {
+    /// The formula or operation, as a rulebook writes it: `compression_ratio`, `/`, `sqrt`.
+    pub by: &'static str,
+    /// What it needs, in words: `a positive clearance volume`.
+    pub needs: &'static str,
+    /// Where a formula and its domain come from (`None` for arithmetic).
+    pub source: Option<&'static str>,
+    /// The quantity tested, in words: `clearance volume`, `bore`, `divisor`.
+    pub quantity: &'static str,
+    /// Its value in SI units.
+    pub value: f64,
+    /// Its dimension, when known (an operation's operands carry none at evaluation).
+    pub dimension: Option<Dimension>,
+    /// The cylinder (1-based), for a per-cylinder value.
+    pub cylinder: Option<usize>,
+    /// The inputs the quantity is computed from, in input order.
+    pub inputs: Vec<InputId>,
+}
+
+impl Breach {
+    /// The inputs of these values together, each once: the first value's in input order,
+    /// then those the next one adds, and so on (a formula's in the order of its parameters).
+    pub fn inputs_of<'a>(values: impl IntoIterator<Item = &'a Dual>) -> Vec<InputId> {
+        let mut ids: Vec<InputId> = Vec::new();
+        for (id, _) in values.into_iter().flat_map(|d| d.partials.iter()) {
+            if !ids.contains(id) {
+                ids.push(*id);
+            }
+        }
+        ids
+    }
 }
 
 /// The result of evaluating something that may need a missing measurement.
@@ -55,12 +97,28 @@ impl Unevaluated {
         Unevaluated::Internal(what.into())
     }
 
-    /// Both reasons together: every missing measurement, or the first internal error.
+    /// One value outside its domain.
+    pub fn domain(breach: Breach) -> Unevaluated {
+        Unevaluated::Domain(vec![breach])
+    }
+
+    /// Both reasons together: the first internal error; else every missing measurement
+    /// (a value outside its domain shows once they are given); else every breach.
     pub fn join(self, other: Unevaluated) -> Unevaluated {
         match (self, other) {
-            (Unevaluated::Missing(a), Unevaluated::Missing(b)) => Unevaluated::Missing(a.join(b)),
             (Unevaluated::Internal(e), _) | (_, Unevaluated::Internal(e)) => {
                 Unevaluated::Internal(e)
+            }
+            (Unevaluated::Missing(a), Unevaluated::Missing(b)) => Unevaluated::Missing(a.join(b)),
+            (Unevaluated::Missing(m), Unevaluated::Domain(_))
+            | (Unevaluated::Domain(_), Unevaluated::Missing(m)) => Unevaluated::Missing(m),
+            (Unevaluated::Domain(mut a), Unevaluated::Domain(b)) => {
+                for breach in b {
+                    if !a.contains(&breach) {
+                        a.push(breach);
+                    }
+                }
+                Unevaluated::Domain(a)
             }
         }
     }

@@ -18,6 +18,7 @@ use crate::check::model::{Derived, Origin, ValueKind};
 use crate::check::resolved::{Expr, ExprKind, Term, TestKind};
 use crate::evaluate::finding::{Finding, Verdict};
 use crate::evaluate::outcome::{Applies, EngineReport, EngineResult, Numeric, Outcome, Trace};
+use crate::evaluate::value::Breach;
 use crate::load::InputId;
 use crate::load::{Input, InputName, Supplied, UncertaintySource};
 use crate::units::{self, Unit};
@@ -323,8 +324,12 @@ pub struct RuleView {
     pub observed: Option<String>,
     /// Measurements it needs that are missing.
     pub missing: Vec<String>,
-    /// True when the value it tests could not be computed as a finite number.
+    /// True when the value it tests could not be computed: a value outside the domain of a
+    /// formula or operation, or not a finite number (`outside_domain` says which).
     pub not_finite: bool,
+    /// The values outside the domain of the formula or operation that needed them.
+    #[serde(skip_serializing_if = "Vec::is_empty")]
+    pub outside_domain: Vec<BreachView>,
     /// Why the rule could not be evaluated when that is gonogo's own mistake, not the input's.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub internal_error: Option<String>,
@@ -337,6 +342,31 @@ pub struct RuleView {
     pub shows_finding: bool,
     /// Every input and derived value it reads, by id.
     pub trace: Vec<TraceRef>,
+}
+
+/// A value outside the domain of the formula or operation that needed it, in the units of its
+/// inputs: why a rule is not checked.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct BreachView {
+    /// The formula or operation: `compression_ratio`, `/`, `sqrt`, `^`, `the test`.
+    pub by: &'static str,
+    /// What it needs: `a positive clearance volume`.
+    pub needs: &'static str,
+    /// Where a formula and its domain come from; null for arithmetic.
+    pub source: Option<&'static str>,
+    /// The quantity tested: `clearance volume`, `divisor`.
+    pub quantity: &'static str,
+    /// Its value in `unit` (null when it is not a finite number).
+    pub value: f64,
+    /// The unit of `value` (null: a plain number, or a quantity whose unit is not known).
+    pub unit: Option<&'static str>,
+    /// The cylinder (1-based), for a per-cylinder value.
+    pub cylinder: Option<usize>,
+    /// The inputs it is computed from, by id in [`EngineView::inputs`].
+    pub inputs: Vec<usize>,
+    /// The reason in words: `compression_ratio needs a positive clearance volume (...); on
+    /// cylinder 3, chamber[3] 40 cc, ... give a clearance volume of -2.2 cc`.
+    pub reason: String,
 }
 
 /// One line of a rule's trace: `{"input": ID}`, `{"derived": ID}` or `{"missing": NAME}`.
@@ -618,6 +648,14 @@ impl EngineView {
 }
 
 impl InputView {
+    /// The value as written, unit included (`-0.050 in`); text in quotes.
+    fn as_written(&self) -> String {
+        match &self.value {
+            InputValue::Number { written, .. } => written.clone(),
+            InputValue::Text { value } => format!("\"{value}\""),
+        }
+    }
+
     /// The value as written without its unit (`4.0302`), for a line of cylinders.
     fn bare_written(&self) -> &str {
         match &self.value {
@@ -636,7 +674,11 @@ impl InputView {
 
 impl RuleView {
     fn new(o: &Outcome, r: &EngineReport, book: &mut Book) -> RuleView {
-        let checked = o.checked.as_ref();
+        // a rule not checked has no finding and no numbers, whatever was computed on the way
+        let checked = o
+            .checked
+            .as_ref()
+            .filter(|_| o.verdict != Verdict::NotChecked);
         RuleView {
             section: o.section().to_string(),
             title: o.title().to_string(),
@@ -659,6 +701,11 @@ impl RuleView {
             observed: checked.and_then(|c| c.observed.clone()),
             missing: o.missing.clone(),
             not_finite: o.not_finite,
+            outside_domain: o
+                .outside_domain
+                .iter()
+                .map(|b| breach_view(b, r, book))
+                .collect(),
             internal_error: o.error.clone(),
             decision: (o.decision != r.decision).then(|| o.decision.words()),
             shows_finding: checked.is_some_and(|c| c.is_finite()),
@@ -687,12 +734,14 @@ impl RuleView {
         format!("{}{why}{finding}", self.verdict.words())
     }
 
-    /// The state of the rule's conditions: `holds`, `does not hold`, or uncertain.
+    /// The state of the rule's conditions: `holds`, `does not hold`, uncertain, or not known
+    /// (a rule with conditions is left `always` only when they could not be computed).
     pub fn condition_state(&self) -> &'static str {
         match self.applies {
             Applies::DoesNotHold => "does not hold",
             Applies::Uncertain => "uncertain: inside the uncertainty band",
-            Applies::Always | Applies::Holds => "holds",
+            Applies::Holds => "holds",
+            Applies::Always => "not known: it could not be computed",
             Applies::NotMeasured => "not judged: an optional measurement is not given",
         }
     }
@@ -743,8 +792,8 @@ impl RuleView {
             let text = format!("{} ({why})", self.missing.join(", "));
             lines.push(fact("missing", None, text));
         }
-        if self.not_finite {
-            lines.push(fact("not computed", None, "the value tested is not a finite number (a division by zero or the root of a negative number); check the inputs in the trace".to_string()));
+        for breach in &self.outside_domain {
+            lines.push(fact("not computed", None, breach.reason.clone()));
         }
         if let Some(error) = &self.internal_error {
             let text = format!("{error} (a mistake in gonogo; please report it)");
@@ -887,6 +936,76 @@ fn subject_reading<'r>(o: &Outcome, r: &'r EngineReport, n: &Numeric) -> Option<
         .chain(ids)
         .map(|id| r.input(*id))
         .find(|i| i.value.to_bits() == n.value.to_bits())
+}
+
+/// A value outside its domain in words, its inputs entered in the book: `compression_ratio
+/// needs a positive clearance volume (source); on cylinder 3, chamber[3] 40 cc, ... give a
+/// clearance volume of -2.2 cc`. The one place such a reason is worded.
+fn breach_view(b: &Breach, r: &EngineReport, book: &mut Book) -> BreachView {
+    let inputs: Vec<usize> = b.inputs.iter().map(|id| book.number(*id, r)).collect();
+    let read: Vec<&InputView> = inputs.iter().filter_map(|i| book.inputs.get(*i)).collect();
+    let unit = breach_unit(b, r);
+    let shown = match unit {
+        _ if !b.value.is_finite() => "that is not a finite number".to_string(),
+        Some(u) => format!("of {}", quantity(b.value, u)),
+        None if b.value == 0.0 => "of 0".to_string(),
+        None if b.value < 0.0 => "below zero".to_string(),
+        None => format!("of {} (SI units)", quantity(b.value, None)),
+    };
+    let article = if b.quantity.starts_with(['a', 'e', 'i', 'o', 'u']) {
+        "an"
+    } else {
+        "a"
+    };
+    let source = b.source.map(|s| format!(" ({s})")).unwrap_or_default();
+    let on = b
+        .cylinder
+        .map(|c| format!("on cylinder {c}, "))
+        .unwrap_or_default();
+    let values: Vec<String> = read
+        .iter()
+        .map(|i| format!("{} {}", i.label, i.as_written()))
+        .collect();
+    let given = match values.as_slice() {
+        [] => format!("{on}the rulebook's constants give"),
+        [one] => format!("{on}{one} gives"),
+        many => format!("{on}{} give", many.join(", ")),
+    };
+    BreachView {
+        by: b.by,
+        needs: b.needs,
+        source: b.source,
+        quantity: b.quantity,
+        value: b.value / unit.flatten().map_or(1.0, |u| u.to_si),
+        unit: unit.flatten().map(|u| u.symbol),
+        cylinder: b.cylinder,
+        inputs,
+        reason: format!(
+            "{} needs {}{source}; {given} {article} {} {shown}",
+            b.by, b.needs, b.quantity
+        ),
+    }
+}
+
+/// The unit a breaking value is shown in: that of its first input of the same dimension, else
+/// the usual one for its dimension (`Some(None)` for a plain number); for an operand, whose
+/// dimension is not known, the unit of its one input when it is that input (`None`: unknown).
+fn breach_unit(b: &Breach, r: &EngineReport) -> Option<Option<&'static Unit>> {
+    let unit_of = |id: &InputId| r.input(*id).unit.and_then(units::lookup);
+    match b.dimension {
+        Some(d) if d.is_dimensionless() => Some(None),
+        Some(d) => Some(
+            b.inputs
+                .iter()
+                .filter_map(unit_of)
+                .find(|u| u.dimension == d)
+                .or_else(|| units::display_unit(d)),
+        ),
+        None => match b.inputs.as_slice() {
+            [one] if r.input(*one).value == b.value => Some(unit_of(one)),
+            _ => None,
+        },
+    }
 }
 
 /// The engine's inputs and derived values, each entered once as the rules are viewed.
