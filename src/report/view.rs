@@ -781,7 +781,13 @@ impl RuleView {
 
 fn number_view(n: &Numeric) -> NumberView {
     let s = n.unit.map_or(1.0, |u| u.to_si);
-    let side = if n.margin >= 0.0 { "inside" } else { "outside" };
+    // a value exactly on the limit is inside or outside by the rule's strictness, which the
+    // finding says
+    let side = match n.margin {
+        0.0 => "on the limit",
+        m if m > 0.0 => "inside",
+        _ => "outside",
+    };
     NumberView {
         unit: n.unit.map(|u| u.symbol),
         value: n.value / s,
