@@ -5,6 +5,7 @@
 
 use crate::check::model::{CheckedRulebook, Class, ClassRule};
 use crate::evaluate::expr::Evaluator;
+use crate::evaluate::finding::Finding;
 use crate::evaluate::outcome::{Applies, Numeric};
 use crate::load::InputId;
 use crate::load::{Declaration, InputName};
@@ -35,6 +36,9 @@ pub struct RuleHeadroom<'a> {
     pub numeric: Numeric,
     /// The finding's words.
     pub finding: &'static str,
+    /// Whether the value is inside the limit: a value exactly on it is inside a `<=` or `>=`
+    /// limit and outside a `<` or `>` one (ISO 14253-1).
+    pub inside: bool,
     /// How far each input may move.
     pub moves: Vec<Move>,
 }
@@ -82,6 +86,7 @@ pub fn headroom<'a>(
             rule: r,
             numeric,
             finding: checked.finding.words(),
+            inside: matches!(checked.finding, Finding::Pass | Finding::ConditionalPass),
             moves,
         });
     }

@@ -4,6 +4,7 @@
 //! ([`outcome`]). The built-in formulas are in the checker's one table, `check::builtins`.
 
 pub mod dual;
+pub mod exact;
 pub mod expr;
 pub mod finding;
 pub mod outcome;

@@ -5,6 +5,7 @@
 //! and membership, patterns and text equality as pass or fail.
 
 use super::dual::Dual;
+use super::exact::End;
 use super::expr::Evaluator;
 use super::finding::{Finding, Verdict, finding, probability, probability_between, verdict};
 use super::outcome::{Applies, Checked, Numeric, Outcome, Trace};
@@ -171,15 +172,15 @@ impl<'a> Evaluator<'a> {
         let slack = self.allowance(limit.allowance.as_ref())?;
         match (&limit.side, second) {
             (Side::Upper { strict, .. }, _) => {
-                self.one_sided(&subject, &first, true, *strict, slack, unit)
+                self.one_sided(limit, &subject, &first, true, *strict, slack, unit)
             }
             (Side::Lower { strict, .. }, _) => {
-                self.one_sided(&subject, &first, false, *strict, slack, unit)
+                self.one_sided(limit, &subject, &first, false, *strict, slack, unit)
             }
             (Side::Equal { .. }, _) => self.equality(&subject, true, &first, unit),
             (Side::NotEqual { .. }, _) => self.equality(&subject, false, &first, unit),
             (Side::Between { .. }, Some(high)) => {
-                self.between(&subject, &first, &high, slack, unit)
+                self.between(limit, &subject, &first, &high, slack, unit)
             }
             (Side::Between { .. }, None) => {
                 Err(Unevaluated::internal("a range without its upper limit"))
@@ -243,8 +244,13 @@ impl<'a> Evaluator<'a> {
 
     /// A limit on one side (`<=`, `<` when `upper`; `>=`, `>` otherwise), on every
     /// cylinder: the worst decides.
+    #[allow(
+        clippy::too_many_arguments,
+        reason = "the limit as written and its evaluated parts, read together"
+    )]
     fn one_sided(
         &self,
+        written: &Limit<Expr>,
         subject: &Value,
         limit: &Value,
         upper: bool,
@@ -252,15 +258,16 @@ impl<'a> Evaluator<'a> {
         slack: f64,
         unit: Option<&'static Unit>,
     ) -> Evaluated<Checked> {
-        // margin, positive inside: (limit + allowance) − value, or value − (limit − allowance)
-        let margins = subject.zip(limit, |s, t| if upper { t.sub(s) } else { s.sub(t) });
-        let (i, m) = self.worst(margins.numbers(), slack, strict)?;
+        // margin, positive inside: (limit + allowance) − value, or value − (limit − allowance),
+        // exact at the limit
+        let end = if upper { End::Upper } else { End::Lower };
+        let margins = self.margins(written, end, subject, limit, slack);
+        let (i, m) = self.worst(margins.numbers(), strict)?;
         let lim = limit.at(i)?.value + if upper { slack } else { -slack };
         let numeric = self.numeric(
             subject.at(i)?.value,
             lim,
             &m,
-            slack,
             strict,
             unit,
             cylinder(&margins, i),
@@ -276,14 +283,16 @@ impl<'a> Evaluator<'a> {
     /// A range (`between`), on every cylinder: the worst decides.
     fn between(
         &self,
+        written: &Limit<Expr>,
         s: &Value,
         lo: &Value,
         hi: &Value,
         slack: f64,
         unit: Option<&'static Unit>,
     ) -> Evaluated<Checked> {
-        let low_margins = s.zip(lo, |s, l| s.sub(l));
-        let high_margins = s.zip(hi, |s, h| h.sub(s));
+        // each margin with the allowance, exact at the limit
+        let low_margins = self.margins(written, End::Low, s, lo, slack);
+        let high_margins = self.margins(written, End::High, s, hi, slack);
         let mut worst: Option<Checked> = None;
         for (i, (ml, mh)) in low_margins
             .numbers()
@@ -292,7 +301,7 @@ impl<'a> Evaluator<'a> {
             .enumerate()
         {
             let (ul, uh) = (self.combined(ml), self.combined(mh));
-            let (low_value, high_value) = (ml.value + slack, mh.value + slack);
+            let (low_value, high_value) = (ml.value, mh.value);
             let f = finding(low_value, COVERAGE * ul, false).min(finding(
                 high_value,
                 COVERAGE * uh,
@@ -329,11 +338,12 @@ impl<'a> Evaluator<'a> {
         worst.ok_or_else(no_value)
     }
 
-    /// The cylinder whose margin is worst: lowest probability of conformance, then least margin.
-    fn worst(&self, margins: &[Dual], slack: f64, strict: bool) -> Evaluated<(usize, Dual)> {
+    /// The cylinder whose margin (allowance included) is worst: lowest probability of
+    /// conformance, then least margin.
+    fn worst(&self, margins: &[Dual], strict: bool) -> Evaluated<(usize, Dual)> {
         let mut best = (0, f64::INFINITY, f64::INFINITY);
         for (i, m) in margins.iter().enumerate() {
-            let p = probability(m.value + slack, self.combined(m), strict);
+            let p = probability(m.value, self.combined(m), strict);
             if (p, m.value) < (best.1, best.2) {
                 best = (i, p, m.value);
             }
@@ -351,14 +361,13 @@ impl<'a> Evaluator<'a> {
         value: f64,
         limit: f64,
         m: &Dual,
-        slack: f64,
         strict: bool,
         unit: Option<&'static Unit>,
         cylinder: Option<usize>,
         range: Option<(f64, f64)>,
     ) -> (Numeric, Finding) {
         let u = self.combined(m);
-        let margin = m.value + slack;
+        let margin = m.value;
         let f = finding(margin, COVERAGE * u, strict);
         let n = Numeric {
             value,

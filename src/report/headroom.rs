@@ -57,7 +57,7 @@ pub fn text(
     );
     for r in rules {
         let n = &r.numeric;
-        let side = if n.margin >= 0.0 { "inside" } else { "outside" };
+        let side = if r.inside { "inside" } else { "outside" };
         let limit = quantity(n.limit, n.unit);
         let digits = margin_digits(n.expanded, n.unit, &quantity(n.value, n.unit), &limit);
         let _ = writeln!(
@@ -76,7 +76,7 @@ pub fn text(
             );
         }
         for m in &r.moves {
-            let _ = writeln!(out, "    {}", move_words(rulebook, d, m, n.margin >= 0.0));
+            let _ = writeln!(out, "    {}", move_words(rulebook, d, m, r.inside));
         }
     }
     out
@@ -94,6 +94,9 @@ fn move_words(rulebook: &CheckedRulebook, d: &Declaration, m: &Move, inside: boo
             signed(m.estimate, unit)
         );
     };
+    if delta == 0.0 {
+        return on_the_limit(&label, unit, inside, m.sensitivity > 0.0);
+    }
     let verb = match (inside, delta >= 0.0) {
         (true, true) => "may rise",
         (true, false) => "may fall",
@@ -116,6 +119,23 @@ fn move_words(rulebook: &CheckedRulebook, d: &Declaration, m: &Move, inside: boo
         quantity(delta.abs(), unit),
         quantity(moved, unit)
     )
+}
+
+/// The words for an input that is exactly on the limit: inside when the limit includes its
+/// value (`<=`, `>=`), and otherwise to be moved, by any amount, the way that raises the margin.
+fn on_the_limit(label: &str, unit: Option<&Unit>, inside: bool, rise: bool) -> String {
+    if inside {
+        format!(
+            "{label} is on the limit: it needs to move {} and is inside",
+            quantity(0.0, unit)
+        )
+    } else {
+        let verb = if rise { "rise" } else { "fall" };
+        format!(
+            "{label} is on the limit, which the rule excludes: it must {verb}, by any amount, \
+             to come inside"
+        )
+    }
 }
 
 /// Whether a measured value stays where the rulebook says such values lie: inside the

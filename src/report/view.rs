@@ -899,7 +899,13 @@ fn number_shown(n: &Numeric, reading: Option<&Input>) -> NumberShown {
             (computed, digits)
         }
     };
-    let side = if n.margin >= 0.0 { "inside" } else { "outside" };
+    // a value exactly on the limit is inside or outside by the rule's strictness, which the
+    // finding says
+    let side = match n.margin {
+        0.0 => "on the limit",
+        m if m > 0.0 => "inside",
+        _ => "outside",
+    };
     NumberShown {
         value,
         limit,

@@ -6,7 +6,7 @@ mod dimension;
 mod table;
 
 pub use dimension::{Dimension, NAMED as DIMENSION_NAMES, dimension_named};
-pub use table::{UNITS, Unit, display_unit, lookup};
+pub use table::{Ratio, UNITS, Unit, display_unit, lookup};
 
 /// Spelled-out names people write for a unit, and the symbol gonogo uses.
 const SPELLED_OUT: &[(&str, &str)] = &[
@@ -138,7 +138,7 @@ mod tests {
         ("cc", 1e-6, 1e-15),            // cubic centimetre, exact
         ("lb", 4.535_923_7e-1, 1e-15),  // pound (avoirdupois) to kilogram, exact
         ("lbf", 4.448_222, 1e-7),       // pound-force to newton
-        ("inHg", 3.386_389e3, 1e-7),    // inch of mercury (conventional) to pascal
+        ("inHg", 3.386_389e3, 1.5e-7),  // inch of mercury (conventional); half of 0.001 Pa
         ("psi", 6.894_757e3, 1e-7),     // pound-force per square inch to pascal
         ("cfm", 4.719_474e-4, 1e-7),    // cubic foot per minute to m³/s
         ("hp", 7.456_999e2, 1e-7),      // horsepower (550 ft·lbf/s) to watt
@@ -178,6 +178,59 @@ mod tests {
                 "duplicate symbol {}",
                 u.symbol
             );
+        }
+    }
+
+    /// Whether a unit's exact factor is `numerator / denominator`, by cross-multiplication.
+    fn exactly(symbol: &str, numerator: u128, denominator: u128) -> bool {
+        lookup(symbol).and_then(|u| u.exact).is_some_and(|r| {
+            use num_bigint::BigUint;
+            let big = |n: u128| BigUint::from(n);
+            big(r.numerator) * big(denominator) == big(numerator) * big(r.denominator)
+        })
+    }
+
+    #[test]
+    fn exact_factors_are_the_nist_sp_811_definitions() {
+        // NIST SP 811 (2008) B.8, the factors it marks exact
+        assert!(exactly("in", 254, 10_000)); // 2.54 E-02
+        assert!(exactly("ft", 3_048, 10_000)); // 3.048 E-01
+        assert!(exactly("in^2", 64_516, 100_000_000)); // 6.4516 E-04
+        assert!(exactly("ci", 16_387_064, 10u128.pow(12))); // 1.638 706 4 E-05
+        assert!(exactly("L", 1, 1_000)); // 1.0 E-03
+        assert!(exactly("cc", 1, 1_000_000)); // 1.0 E-06
+        assert!(exactly("lb", 45_359_237, 100_000_000)); // 4.535 923 7 E-01
+        assert!(exactly("thou", 254, 10_000_000)); // a thousandth of 2.54 E-02
+        // products of exact definitions that NIST prints rounded to seven digits:
+        // 1 lbf = 0.453 592 37 kg × 9.806 65 m/s² (g_n by definition, NIST SP 811 B.8 note)
+        assert!(exactly("lbf", 44_482_216_152_605, 10u128.pow(13)));
+        // 1 inHg (conventional) = 25.4 mm × 13.5951 g/cm³ × g_n = 25.4 × 133.322 387 415 Pa
+        assert!(exactly("inHg", 3_386_388_640_341, 10u128.pow(9)));
+        // 1 psi = 1 lbf / (0.0254 m)²
+        assert!(exactly(
+            "psi",
+            44_482_216_152_605 * 10u128.pow(8),
+            64_516 * 10u128.pow(13)
+        ));
+        // 1 hp = 550 ft·lbf/s
+        assert!(exactly(
+            "hp",
+            550 * 3_048 * 44_482_216_152_605,
+            10_000 * 10u128.pow(13)
+        ));
+        // the degree is π/180, not a rational number
+        assert_eq!(lookup("deg").map(|u| u.exact), Some(None));
+    }
+
+    #[test]
+    fn every_float_factor_is_its_exact_factor_to_rounding() {
+        for u in UNITS {
+            if let Some(r) = u.exact {
+                // within two units in the last place, so a reading's float and its exact
+                // value agree to the rounding of reading it
+                let exact = r.numerator as f64 / r.denominator as f64;
+                assert!(rel(u.to_si, exact) < 4.5e-16, "{}", u.symbol);
+            }
         }
     }
 
