@@ -119,3 +119,209 @@ fn displacement_relative_uncertainty_follows_the_closed_form() {
     let closed = ((2.0 * ub / b.value).powi(2) + (us / s.value).powi(2)).sqrt();
     assert!((u / v.value - closed).abs() < 1e-14);
 }
+
+// ---------------------------------------------------------------- through the whole pipeline
+
+/// A small rulebook of the invented series for the reference cases below.
+const RULES: &str = r#"
+series "Tamsin Valley Stock Car Club"
+edition "reference" effective 2027-01-01
+decision guarded rejection
+
+measure cylinders: count
+measure bore: length per cylinder "Bore gauge"
+measure stroke: length "Dial indicator"
+measure chamber: volume per cylinder "Burette"
+measure piston.volume: volume per cylinder "Burette"
+
+define mean_bore_displacement = displacement(bore: mean(bore), stroke: stroke, cylinders: cylinders)
+define chamber_and_piston = chamber + piston.volume
+
+class reference "Reference"
+  rule 1 "Displacement" require mean_bore_displacement <= 400 ci end
+  rule 2 "Chamber and piston" require chamber_and_piston >= 60 cc end
+end
+"#;
+
+/// `RULES` with `header` written after its decision line.
+fn checked(header: &str) -> gonogo::check::model::CheckedRulebook {
+    let text = RULES.replace(
+        "decision guarded rejection\n",
+        &format!("decision guarded rejection\n{header}"),
+    );
+    let (book, problems) = gonogo::parse::parse_rulebook(0, &text);
+    assert!(problems.is_empty(), "{problems:?}");
+    let (checked, problems) = gonogo::check::check(&gonogo::parse::includes::RulebookFiles {
+        files: vec![(0, book)],
+    });
+    checked.unwrap_or_else(|| panic!("{problems:?}"))
+}
+
+/// The engine report of `yaml` against `rulebook`.
+fn run<T>(
+    rulebook: &gonogo::check::model::CheckedRulebook,
+    yaml: &str,
+    look: impl Fn(&gonogo::evaluate::outcome::EngineReport) -> T,
+) -> T {
+    let mut sources = gonogo::source::SourceMap::default();
+    let d = gonogo::load::declaration_from_text(
+        std::path::Path::new("reference.yaml"),
+        yaml.to_string(),
+        rulebook,
+        &mut sources,
+    )
+    .unwrap_or_else(|p| panic!("{p:?}"));
+    let class = rulebook
+        .class("reference")
+        .unwrap_or_else(|| panic!("no class"));
+    look(&gonogo::evaluate::check_engine(rulebook, class, &d, None))
+}
+
+/// The value and combined standard uncertainty of derived value `name` in rule `rule`'s trace.
+fn derived(r: &gonogo::evaluate::outcome::EngineReport, rule: usize, name: &str) -> (f64, f64) {
+    use gonogo::evaluate::outcome::Trace;
+    r.outcomes[rule]
+        .trace
+        .iter()
+        .find_map(|t| match t {
+            Trace::Derived {
+                derived,
+                values,
+                uncertainties,
+            } if derived.name == name => Some((values[0], uncertainties[0])),
+            _ => None,
+        })
+        .unwrap_or_else(|| panic!("no {name} in the trace"))
+}
+
+/// A declaration of eight bores with `gauge` as the bore gauge, the stroke read with a
+/// 0.001 in dial indicator, and one chamber and piston volume per cylinder.
+fn bores_with(gauge: &str, bores: &[&str]) -> String {
+    let list: Vec<String> = bores.iter().map(|b| format!("\"{b}\"")).collect();
+    let cc = vec!["\"72.1 cc\""; bores.len()].join(", ");
+    format!(
+        r#"class: reference
+instruments:
+  bore_gauge: {gauge}
+  dial_indicator: {{resolution: "0.001 in"}}
+measurements:
+  cylinders: {n}
+  bore:
+    values: [{bores}]
+    instrument: bore_gauge
+  stroke:
+    value: "3.480 in"
+    instrument: dial_indicator
+  chamber: [{cc}]
+  piston.volume: [{cc}]
+"#,
+        n = bores.len(),
+        bores = list.join(", "),
+    )
+}
+
+fn gtc(section: &str, name: &str) -> Value {
+    let text = std::fs::read_to_string(concat!(
+        env!("CARGO_MANIFEST_DIR"),
+        "/tests/vectors/gum.json"
+    ))
+    .unwrap_or_default();
+    let doc: Value = serde_json::from_str(&text).unwrap_or(Value::Null);
+    doc[section]
+        .as_array()
+        .and_then(|cases| cases.iter().find(|c| c["name"] == name).cloned())
+        .unwrap_or_else(|| panic!("no {section} case {name} in gum.json"))
+}
+
+fn number(v: &Value) -> f64 {
+    v.as_f64().unwrap_or(f64::NAN)
+}
+
+const OPEN4_BORES: [&str; 8] = [
+    "4.0302 in",
+    "4.0305 in",
+    "4.0301 in",
+    "4.0306 in",
+    "4.0303 in",
+    "4.0304 in",
+    "4.0302 in",
+    "4.0305 in",
+];
+
+#[test]
+fn a_gauge_calibration_shared_by_eight_bores_matches_gtc() {
+    // GTC 1.5.1 (tests/vectors/gum.json): each bore ureal(b, u_res) + one ureal(0, u_cal)
+    let case = gtc("correlated", "mean_bore_displacement_shared_gauge");
+    let rulebook = checked("");
+    let gauge = r#"{resolution: "0.0001 in", calibration: "0.0004 in", k: 2}"#;
+    let (v, u) = run(&rulebook, &bores_with(gauge, &OPEN4_BORES), |r| {
+        derived(r, 0, "mean_bore_displacement")
+    });
+    let (want_v, want_u) = (number(&case["value"]), number(&case["standard_uncertainty"]));
+    assert!(((v - want_v) / want_v).abs() < 1e-12, "value {v} vs GTC {want_v}");
+    assert!(((u - want_u) / want_u).abs() < 1e-9, "u {u} vs GTC {want_u}");
+}
+
+#[test]
+fn a_calibration_shared_by_eight_bores_weighs_sqrt_8_times_an_independent_one() {
+    // issue 9; GUM JCGM 100:2008 5.2 and F.1.2.3: the shared input's sensitivity is the sum
+    // of the eight equal sensitivities (8c), against √8·c for eight independent errors
+    let rulebook = checked("");
+    let bores = ["4.030 in"; 8];
+    let u_of = |gauge: &str| {
+        run(&rulebook, &bores_with(gauge, &bores), |r| {
+            derived(r, 0, "mean_bore_displacement").1
+        })
+    };
+    let exact_stroke = |gauge: &str| {
+        let yaml = bores_with(gauge, &bores).replace(
+            "  stroke:\n    value: \"3.480 in\"\n    instrument: dial_indicator\n",
+            "  stroke: \"3.480 in\"\n",
+        );
+        run(&rulebook, &yaml, |r| derived(r, 0, "mean_bore_displacement").1)
+    };
+    let shared = exact_stroke(r#"{calibration: "0.0004 in", k: 2}"#);
+    let independent = exact_stroke(r#"{uncertainty: "0.0004 in", k: 2}"#);
+    assert!(
+        (shared / independent - 8f64.sqrt()).abs() < 1e-12,
+        "shared {shared} independent {independent}"
+    );
+    // REFERENCES.md [computed]: with no random part, u(mean bore) = u_cal; so u(V)/V = 2·u_cal/B
+    let v = 4.030 * 0.0254;
+    let u_cal = 0.0004 * 0.0254 / 2.0;
+    let displacement = std::f64::consts::PI / 4.0 * v * v * 3.480 * 0.0254 * 8.0;
+    assert!((shared / displacement - 2.0 * u_cal / v).abs() < 1e-12);
+    // with the stroke's own uncertainty the bores' share is smaller but still there
+    assert!(u_of(r#"{calibration: "0.0004 in", k: 2}"#) > shared);
+}
+
+#[test]
+fn chamber_and_piston_read_with_one_burette_match_gtc_with_set_correlation() {
+    // GTC 1.5.1: the two totals given r = u_cal²/(u₁u₂) by set_correlation, against gonogo's
+    // one shared calibration input added to both readings
+    let case = gtc("correlated", "compression_ratio_shared_burette");
+    let order = ORDERS[1].1;
+    let (mut x, mut us) = inputs(&case, order);
+    let shared = u32::try_from(order.len()).unwrap_or(0);
+    for name in ["chamber", "piston_volume"] {
+        let at = order.iter().position(|n| *n == name).unwrap_or(0);
+        x[at] = Dual::reading(at as u32, x[at].value, Some(shared));
+    }
+    us.push(number(&case["shared"]["u"]));
+    let y = ours("compression_ratio", &x);
+    let u = y.combined_uncertainty(|id| us[id as usize]);
+    let want = number(&case["standard_uncertainty"]);
+    assert!(((u - want) / want).abs() < 1e-9, "u {u} vs GTC {want}");
+    // and it is not the uncorrelated answer
+    let uncorrelated = y.combined_uncertainty(|id| {
+        let base = us[id as usize];
+        if id == 2 || id == 6 {
+            base.hypot(us[shared as usize])
+        } else if id == shared {
+            0.0
+        } else {
+            base
+        }
+    });
+    assert!(((uncorrelated - want) / want).abs() > 1e-3);
+}

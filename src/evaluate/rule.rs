@@ -435,6 +435,13 @@ impl<'a> Evaluator<'a> {
                         lines.extend(ids.iter().map(|id| Trace::Input(*id)))
                     }
                 }
+                if let Some(supplied) = declaration.supplied(id.index()) {
+                    for shared in declaration.calibrations_of(supplied) {
+                        if !lines.iter().any(|l| matches!(l, Trace::Input(i) if *i == shared)) {
+                            lines.push(Trace::Input(shared));
+                        }
+                    }
+                }
             }
         }
     }

@@ -42,10 +42,13 @@ pub const TOP_KEYS: &[&str] = &[
 /// An instrument: what its readings' standard uncertainty is.
 #[derive(Clone, Debug)]
 pub struct Instrument {
-    /// Standard uncertainty in SI units.
+    /// Standard uncertainty in SI units: the components added in quadrature.
     pub standard_uncertainty: f64,
     /// Its components: the resolution (rectangular) and the stated uncertainty (normal).
     pub components: Vec<Component>,
+    /// The standard uncertainty of its calibration in SI units: one error common to every
+    /// reading taken with it, so not among `components` but a shared input of its own.
+    pub calibration: Option<f64>,
     /// The dimension of what it measures.
     pub dimension: Dimension,
 }
@@ -581,15 +584,15 @@ impl<'de> Visitor<'de> for InstrumentSeed<'_> {
     type Value = Option<Instrument>;
 
     fn expecting(&self, f: &mut fmt::Formatter) -> fmt::Result {
-        f.write_str("`resolution`, or `uncertainty` with an optional `k`")
+        f.write_str("`resolution`, `uncertainty` or `calibration`, with an optional `k`")
     }
 
     fn visit_map<A: MapAccess<'de>>(self, mut map: A) -> Result<Option<Instrument>, A::Error> {
-        const KEYS: &[&str] = &["resolution", "uncertainty", "k"];
+        const KEYS: &[&str] = &["resolution", "uncertainty", "calibration", "k"];
         let cx = self.cx;
         let before = cx.collector.skipped();
         let mut seen = Vec::new();
-        let (mut resolution, mut expanded, mut k) = (None, None, None);
+        let (mut resolution, mut expanded, mut calibration, mut k) = (None, None, None, None);
         while let Some(key) = map.next_key_seed(KeySeed {
             cx,
             parent: &self.path,
@@ -607,32 +610,59 @@ impl<'de> Visitor<'de> for InstrumentSeed<'_> {
                 "resolution" => {
                     resolution = map.next_value_seed(InstrumentQuantitySeed { cx, path })?
                 }
+                "calibration" => {
+                    calibration = map.next_value_seed(InstrumentQuantitySeed { cx, path })?
+                }
                 _ => expanded = map.next_value_seed(InstrumentQuantitySeed { cx, path })?,
             }
         }
         if cx.collector.skipped() > before {
             return Ok(None);
         }
-        instrument_from(resolution, expanded, k.unwrap_or(2.0))
+        let stated = Stated {
+            random: expanded,
+            calibration,
+            k: k.unwrap_or(2.0),
+        };
+        instrument_from(resolution, stated)
             .map(Some)
             .map_err(|e| cx.refuse(&self.path, e))
     }
 }
 
+/// An instrument's stated expanded uncertainties, each with its dimension, and the coverage
+/// factor both are stated at.
+struct Stated {
+    /// `uncertainty`: the random part, independent from reading to reading.
+    random: Option<(f64, Dimension)>,
+    /// `calibration`: the systematic part, common to every reading.
+    calibration: Option<(f64, Dimension)>,
+    /// `k`.
+    k: f64,
+}
+
 /// The standard uncertainty of an instrument: a digital resolution δ is a rectangular
 /// distribution of half-width δ/2, so u = δ/(2√3) (GUM JCGM 100:2008, F.2.2.1); an expanded
-/// uncertainty U at coverage factor k gives u = U/k; both together add in quadrature.
+/// uncertainty U at coverage factor k gives u = U/k; both together add in quadrature. A
+/// calibration U gives u = U/k as well, kept apart: it is shared by every reading.
 fn instrument_from(
     resolution: Option<(f64, Dimension)>,
-    expanded: Option<(f64, Dimension)>,
-    k: f64,
+    stated: Stated,
 ) -> Result<Instrument, LoadError> {
     let from_resolution = resolution.map(|(r, d)| (r / (2.0 * 3f64.sqrt()), d));
-    let from_expanded = expanded.map(|(u, d)| (u / k, d));
-    let dimension = match (from_resolution, from_expanded) {
-        (Some((_, a)), Some((_, b))) if a != b => return Err(LoadError::InstrumentMixed),
-        (Some((_, d)), _) | (None, Some((_, d))) => d,
-        (None, None) => return Err(LoadError::InstrumentEmpty),
+    let from_expanded = stated.random.map(|(u, d)| (u / stated.k, d));
+    let from_calibration = stated.calibration.map(|(u, d)| (u / stated.k, d));
+    let dimensions: Vec<Dimension> = [from_resolution, from_expanded, from_calibration]
+        .iter()
+        .flatten()
+        .map(|(_, d)| *d)
+        .collect();
+    let dimension = match dimensions.as_slice() {
+        [] => return Err(LoadError::InstrumentEmpty),
+        [first, rest @ ..] if rest.iter().any(|d| d != first) => {
+            return Err(LoadError::InstrumentMixed);
+        }
+        [first, ..] => *first,
     };
     let u = from_resolution
         .map_or(0.0, |(u, _)| u)
@@ -645,6 +675,7 @@ fn instrument_from(
     Ok(Instrument {
         standard_uncertainty: u,
         components: rectangular.into_iter().chain(normal).collect(),
+        calibration: from_calibration.map(|(u, _)| u),
         dimension,
     })
 }

@@ -199,6 +199,24 @@ pub enum UncertaintyFrom {
     Instrument(String),
     /// A literal in the rulebook.
     Rulebook,
+    /// The calibration of an instrument, shared by every reading taken with it.
+    Calibration {
+        /// The instrument.
+        instrument: String,
+        /// How many readings share it.
+        readings: usize,
+    },
+    /// The mean of repeated readings (Type A).
+    Repeated {
+        /// How many readings, n.
+        count: usize,
+        /// Their experimental standard deviation s, in the input's unit.
+        standard_deviation: f64,
+        /// Degrees of freedom, n − 1.
+        degrees_of_freedom: usize,
+        /// The instrument they were taken with, if one is named.
+        instrument: Option<String>,
+    },
 }
 
 /// A derived value of the rulebook, with its value(s) for this engine.
@@ -546,13 +564,13 @@ impl EngineView {
                     standard_uncertainty,
                     uncertainty_from,
                     ..
-                } => Some((
+                } if !matches!(uncertainty_from, UncertaintyFrom::Repeated { .. }) => Some((
                     i.measurement,
                     *unit,
                     standard_uncertainty.to_bits(),
                     uncertainty_from.clone(),
                 )),
-                InputValue::Text { .. } => None,
+                _ => None,
             }
         };
         let Some(first) = trace.first().and_then(key) else {
@@ -890,7 +908,7 @@ fn input_view(id: usize, input: &Input, r: &EngineReport) -> InputView {
             cylinder,
             ..
         } => (Some(measurement), cylinder),
-        InputName::Literal(_) => (None, None),
+        InputName::Literal(_) | InputName::Calibration { .. } => (None, None),
     };
     InputView {
         id,
@@ -903,12 +921,7 @@ fn input_view(id: usize, input: &Input, r: &EngineReport) -> InputView {
             unit: unit.map(|u| u.symbol),
             value: input.value / scale,
             standard_uncertainty: input.standard_uncertainty / scale,
-            uncertainty_from: match &input.source {
-                UncertaintySource::None => UncertaintyFrom::None,
-                UncertaintySource::Stated { k } => UncertaintyFrom::Stated { k: *k },
-                UncertaintySource::Instrument(i) => UncertaintyFrom::Instrument(i.clone()),
-                UncertaintySource::Rulebook => UncertaintyFrom::Rulebook,
-            },
+            uncertainty_from: uncertainty_from(&input.source, scale),
             uncertainty_shown: uncertainty_words(input, unit),
         },
     }
@@ -926,6 +939,32 @@ fn written(input: &Input, unit: Option<&Unit>) -> String {
     }
 }
 
+fn uncertainty_from(source: &UncertaintySource, scale: f64) -> UncertaintyFrom {
+    match source {
+        UncertaintySource::None => UncertaintyFrom::None,
+        UncertaintySource::Stated { k } => UncertaintyFrom::Stated { k: *k },
+        UncertaintySource::Instrument(i) => UncertaintyFrom::Instrument(i.clone()),
+        UncertaintySource::Rulebook => UncertaintyFrom::Rulebook,
+        UncertaintySource::Calibration {
+            instrument,
+            readings,
+        } => UncertaintyFrom::Calibration {
+            instrument: instrument.clone(),
+            readings: *readings,
+        },
+        UncertaintySource::Repeated {
+            count,
+            spread,
+            instrument,
+        } => UncertaintyFrom::Repeated {
+            count: *count,
+            standard_deviation: spread / scale,
+            degrees_of_freedom: count.saturating_sub(1),
+            instrument: instrument.clone(),
+        },
+    }
+}
+
 fn uncertainty_words(input: &Input, unit: Option<&Unit>) -> String {
     let u = uncertainty_in(input.standard_uncertainty, unit);
     match &input.source {
@@ -933,6 +972,25 @@ fn uncertainty_words(input: &Input, unit: Option<&Unit>) -> String {
         UncertaintySource::Instrument(i) => format!("u {u} ({i})"),
         UncertaintySource::Stated { k } => format!("u {u} (stated, k = {k})"),
         UncertaintySource::Rulebook => format!("u {u} (rulebook)"),
+        UncertaintySource::Calibration { readings, .. } => {
+            format!("u {u} (calibration, shared by {readings} readings)")
+        }
+        UncertaintySource::Repeated {
+            count,
+            spread,
+            instrument,
+        } => {
+            let with = instrument
+                .as_ref()
+                .map(|i| format!(", with {i}"))
+                .unwrap_or_default();
+            format!(
+                "mean {}, s {}, n {count}: u {u} (type A, ν = {}{with})",
+                quantity(input.value, unit),
+                uncertainty_in(*spread, unit),
+                count.saturating_sub(1)
+            )
+        }
     }
 }
 
