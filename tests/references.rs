@@ -325,3 +325,63 @@ fn chamber_and_piston_read_with_one_burette_match_gtc_with_set_correlation() {
     });
     assert!(((uncorrelated - want) / want).abs() > 1e-3);
 }
+
+/// The declaration of `yaml` against `rulebook`.
+fn load(rulebook: &gonogo::check::model::CheckedRulebook, yaml: &str) -> gonogo::load::Declaration {
+    let mut sources = gonogo::source::SourceMap::default();
+    gonogo::load::declaration_from_text(
+        std::path::Path::new("reference.yaml"),
+        yaml.to_string(),
+        rulebook,
+        &mut sources,
+    )
+    .unwrap_or_else(|p| panic!("{p:?}"))
+}
+
+#[test]
+fn repeated_readings_give_the_type_a_mean_and_uncertainty_of_gtc() {
+    // GTC 1.5.1 type_a.estimate (GUM JCGM 100:2008 4.2.1 to 4.2.3): mean, s/√n and n − 1
+    use gonogo::load::Distribution;
+    let rulebook = checked("");
+    for (name, measurement, readings) in [
+        ("chamber_recc", "chamber", r#"["72.1 cc", "72.4 cc", "72.2 cc"]"#),
+        ("bore_three", "bore", r#"["4.0331 in", "4.0338 in", "4.0335 in"]"#),
+    ] {
+        let case = gtc("type_a", name);
+        let yaml = format!(
+            "class: reference\nmeasurements:\n  cylinders: 1\n  {measurement}:\n    readings:\n      - {readings}\n"
+        );
+        let d = load(&rulebook, &yaml);
+        let input = d
+            .inputs
+            .iter()
+            .find(|i| i.label(&rulebook) == format!("{measurement}[1]"))
+            .unwrap_or_else(|| panic!("no {measurement}[1]"));
+        let (want_v, want_u) = (number(&case["value"]), number(&case["standard_uncertainty"]));
+        assert!(((input.value - want_v) / want_v).abs() < 1e-12, "{name}");
+        assert!(((input.standard_uncertainty - want_u) / want_u).abs() < 1e-9, "{name}");
+        assert_eq!(
+            input.components.first().map(|c| c.distribution),
+            Some(Distribution::StudentT {
+                degrees_of_freedom: number(&case["degrees_of_freedom"])
+            }),
+            "{name}"
+        );
+    }
+}
+
+#[test]
+fn repeated_readings_with_an_instrument_add_its_components_to_their_spread() {
+    // GUM JCGM 100:2008 5.1.2 with unit sensitivities: u² = (s/√n)² + u_instrument²
+    let rulebook = checked("");
+    let yaml = "class: reference\ninstruments:\n  burette: {uncertainty: \"0.2 cc\", k: 2, calibration: \"0.1 cc\"}\nmeasurements:\n  cylinders: 1\n  chamber:\n    readings: [[\"72.1 cc\", \"72.4 cc\", \"72.2 cc\"]]\n    instrument: burette\n";
+    let d = load(&rulebook, yaml);
+    let chamber = &d.inputs[1];
+    let type_a = 0.152_752_523_165_195_1e-6 / 3f64.sqrt(); // s = √(0.07/3) cc, n = 3 [computed]
+    let want = type_a.hypot(0.1e-6);
+    assert!(((chamber.standard_uncertainty - want) / want).abs() < 1e-9);
+    assert_eq!(chamber.components.len(), 2);
+    // the calibration is kept apart, as one shared input
+    let shared = d.calibration_of(1).unwrap_or_else(|| panic!("no calibration"));
+    assert!((d.inputs[shared as usize].standard_uncertainty - 0.05e-6).abs() < 1e-18);
+}

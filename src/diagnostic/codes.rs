@@ -307,6 +307,10 @@ pub mod load {
     pub const NO_CLASS: Code = Code::new(Stage::Load, 25, "no-class");
     /// `D24 too-many-values`
     pub const TOO_MANY_VALUES: Code = Code::new(Stage::Load, 24, "too-many-values");
+    /// `D26 too-few-readings`
+    pub const TOO_FEW_READINGS: Code = Code::new(Stage::Load, 26, "too-few-readings");
+    /// `D27 stated-in-readings`
+    pub const STATED_IN_READINGS: Code = Code::new(Stage::Load, 27, "stated-in-readings");
 }
 
 /// Codes of comparing editions and fields.
@@ -428,6 +432,8 @@ pub const ALL: &[Code] = &[
     load::YAML,
     load::TOO_MANY_VALUES,
     load::NO_CLASS,
+    load::TOO_FEW_READINGS,
+    load::STATED_IN_READINGS,
     analyze::DIFFERENT_SERIES,
     analyze::NOTHING_TO_COMPARE,
 ];

@@ -8,6 +8,7 @@ pub mod declaration;
 pub mod error;
 pub mod path;
 mod reading;
+mod repeated;
 mod seed;
 
 use std::cell::RefCell;

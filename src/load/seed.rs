@@ -21,6 +21,7 @@ use super::declaration::{
 use super::error::{CoverageAt, KeyKind, LoadError, Twice};
 use super::path::DeclPath;
 use super::reading::{Reading, read_instrument_quantity, read_number, read_text};
+use super::repeated::{TypeA, combine};
 use crate::check::model::{CheckedRulebook, Measurement, Named, ValueKind};
 use crate::suggest::{closest, find_class};
 use crate::units::Dimension;
@@ -984,8 +985,7 @@ impl ValueSeed<'_> {
 
     fn per_cylinder<E: de::Error>(
         &self,
-        readings: Vec<Reading>,
-        source: Option<UncertaintySource>,
+        readings: Vec<(Reading, Option<UncertaintySource>)>,
     ) -> Result<Vec<u32>, E> {
         if !self.measurement.per_cylinder {
             return Err(self.refuse(LoadError::NotAList {
@@ -1001,14 +1001,9 @@ impl ValueSeed<'_> {
         let ids: Vec<u32> = readings
             .into_iter()
             .enumerate()
-            .map(|(i, r)| {
-                push_input(
-                    &mut state.declaration,
-                    self.name(Some(i + 1)),
-                    r,
-                    source.clone(),
-                )
-                .ok_or_else(|| self.refuse(LoadError::TooManyValues))
+            .map(|(i, (r, source))| {
+                push_input(&mut state.declaration, self.name(Some(i + 1)), r, source)
+                    .ok_or_else(|| self.refuse(LoadError::TooManyValues))
             })
             .collect::<Result<_, E>>()?;
         self.supply(&mut state, Supplied::PerCylinder(ids.clone()));
@@ -1032,17 +1027,35 @@ fn push_input(
     r: Reading,
     source: Option<UncertaintySource>,
 ) -> Option<InputId> {
-    let (u, source) = match (r.stated, source) {
-        (Some((expanded, k)), _) => (expanded / k, UncertaintySource::Stated { k }),
-        (None, Some(s)) => (0.0, s),
-        (None, None) => (0.0, UncertaintySource::None),
+    let (u, distribution, source) = match (r.stated, source) {
+        (Some((expanded, k)), _) => (
+            expanded / k,
+            Distribution::Normal,
+            UncertaintySource::Stated { k },
+        ),
+        (None, Some(UncertaintySource::Repeated { count, spread, instrument })) => (
+            spread / (count as f64).sqrt(),
+            Distribution::StudentT {
+                degrees_of_freedom: count.saturating_sub(1) as f64,
+            },
+            UncertaintySource::Repeated {
+                count,
+                spread,
+                instrument,
+            },
+        ),
+        (None, Some(s)) => (0.0, Distribution::Normal, s),
+        (None, None) => (0.0, Distribution::Normal, UncertaintySource::None),
     };
     d.inputs.push(Input {
         name,
         value: r.value,
         standard_uncertainty: u,
         components: if u > 0.0 {
-            vec![Component::normal(u)]
+            vec![Component {
+                standard_uncertainty: u,
+                distribution,
+            }]
         } else {
             Vec::new()
         },
@@ -1120,12 +1133,12 @@ impl<'de> Visitor<'de> for ValueSeed<'_> {
         if self.cx.collector.skipped() > before {
             return Ok(());
         }
-        let readings: Vec<Reading> = readings.into_iter().flatten().collect();
-        self.per_cylinder::<A::Error>(readings, None).map(|_| ())
+        let readings = readings.into_iter().flatten().map(|r| (r, None)).collect();
+        self.per_cylinder::<A::Error>(readings).map(|_| ())
     }
 
     fn visit_map<A: MapAccess<'de>>(self, mut map: A) -> Result<(), A::Error> {
-        const KEYS: &[&str] = &["value", "values", "instrument"];
+        const KEYS: &[&str] = &["value", "values", "readings", "instrument"];
         let cx = self.cx;
         let before = cx.collector.skipped();
         let mut seen = Vec::new();
@@ -1153,6 +1166,14 @@ impl<'de> Visitor<'de> for ValueSeed<'_> {
                         measurement: self.measurement,
                     })?;
                 }
+                "readings" => {
+                    given.repeated = map.next_value_seed(RepeatedSeed {
+                        cx,
+                        path: self.path.wrapper("readings"),
+                        measurement: self.measurement,
+                        per_cylinder: self.measurement.per_cylinder,
+                    })?;
+                }
                 _ => {
                     let path = self.path.key("instrument");
                     given.instrument = map
@@ -1177,7 +1198,29 @@ impl<'de> Visitor<'de> for ValueSeed<'_> {
 struct Given {
     single: Option<Reading>,
     list: Option<Vec<Reading>>,
+    /// `readings:`: the mean of each set of repeated readings, one set per cylinder where the
+    /// measurement is per cylinder.
+    repeated: Option<Vec<(Reading, TypeA)>>,
     instrument: Option<(String, DeclPath)>,
+}
+
+impl Given {
+    /// The first two of `value`, `values` and `readings` given, when more than one is.
+    fn two_forms(&self) -> Option<(&'static str, &'static str)> {
+        let given: Vec<&'static str> = [
+            (self.single.is_some(), "value"),
+            (self.list.is_some(), "values"),
+            (self.repeated.is_some(), "readings"),
+        ]
+        .iter()
+        .filter(|(is, _)| *is)
+        .map(|(_, name)| *name)
+        .collect();
+        match given.as_slice() {
+            [first, second, ..] => Some((first, second)),
+            _ => None,
+        }
+    }
 }
 
 impl ValueSeed<'_> {
@@ -1190,15 +1233,18 @@ impl ValueSeed<'_> {
         if stated && given.instrument.is_some() {
             return Err(self.refuse(LoadError::TwoUncertainties));
         }
-        let source = given
-            .instrument
-            .as_ref()
-            .map(|(name, _)| UncertaintySource::Instrument(name.clone()));
-        let ids = match (given.single, given.list) {
-            (Some(_), Some(_)) => return Err(self.refuse(LoadError::ValueAndValues)),
-            (Some(r), None) => self.single::<E>(r, source)?,
-            (None, Some(rs)) => self.per_cylinder::<E>(rs, source)?,
-            (None, None) => return Ok(()),
+        if let Some((first, second)) = given.two_forms() {
+            return Err(self.refuse(LoadError::ValueAndValues { first, second }));
+        }
+        let instrument = given.instrument.as_ref().map(|(name, _)| name.clone());
+        let source = instrument.clone().map(UncertaintySource::Instrument);
+        let ids = match (given.single, given.list, given.repeated) {
+            (Some(r), _, _) => self.single::<E>(r, source)?,
+            (None, Some(rs), _) => {
+                self.per_cylinder::<E>(rs.into_iter().map(|r| (r, source.clone())).collect())?
+            }
+            (None, None, Some(sets)) => self.repeated::<E>(sets, instrument)?,
+            (None, None, None) => return Ok(()),
         };
         if let Some((instrument, path)) = given.instrument {
             self.cx.state.borrow_mut().uses.push(InstrumentUse {
@@ -1210,6 +1256,102 @@ impl ValueSeed<'_> {
             });
         }
         Ok(())
+    }
+}
+
+impl ValueSeed<'_> {
+    /// Inputs for repeated readings: their mean with its Type A uncertainty, one per cylinder
+    /// where the measurement is per cylinder.
+    fn repeated<E: de::Error>(
+        &self,
+        sets: Vec<(Reading, TypeA)>,
+        instrument: Option<String>,
+    ) -> Result<Vec<u32>, E> {
+        let with_source = |(reading, a): (Reading, TypeA)| {
+            let source = UncertaintySource::Repeated {
+                count: a.count,
+                spread: a.spread,
+                instrument: instrument.clone(),
+            };
+            (reading, Some(source))
+        };
+        let mut sets: Vec<_> = sets.into_iter().map(with_source).collect();
+        if self.measurement.per_cylinder {
+            return self.per_cylinder::<E>(sets);
+        }
+        match sets.pop() {
+            Some((reading, source)) if sets.is_empty() => self.single::<E>(reading, source),
+            _ => Err(self.refuse(LoadError::NeedsList {
+                measurement: self.measurement.name.clone(),
+            })),
+        }
+    }
+}
+
+/// `readings:` — repeated readings of one quantity (a list of at least two values), or for a
+/// per-cylinder measurement one such list per cylinder; each list becomes its mean.
+struct RepeatedSeed<'a> {
+    cx: Context<'a>,
+    path: DeclPath,
+    measurement: &'a Measurement,
+    /// Whether this is the outer list of a per-cylinder measurement, whose elements are
+    /// lists of readings.
+    per_cylinder: bool,
+}
+
+impl<'de> DeserializeSeed<'de> for RepeatedSeed<'_> {
+    type Value = Option<Vec<(Reading, TypeA)>>;
+
+    fn deserialize<D: Deserializer<'de>>(self, d: D) -> Result<Self::Value, D::Error> {
+        let path = self.path.clone();
+        self.cx
+            .collector
+            .guard(&path, d, |d| d.deserialize_seq(self))
+    }
+}
+
+impl<'de> Visitor<'de> for RepeatedSeed<'_> {
+    type Value = Vec<(Reading, TypeA)>;
+
+    fn expecting(&self, f: &mut fmt::Formatter) -> fmt::Result {
+        if self.per_cylinder {
+            f.write_str("a list with one list of repeated readings per cylinder")
+        } else {
+            f.write_str("a list of repeated readings, like [\"72.1 cc\", \"72.4 cc\"]")
+        }
+    }
+
+    fn visit_seq<A: SeqAccess<'de>>(self, mut seq: A) -> Result<Self::Value, A::Error> {
+        let before = self.cx.collector.skipped();
+        if self.per_cylinder {
+            let mut sets = Vec::new();
+            let mut count = 0;
+            while let Some(set) = seq.next_element_seed(RepeatedSeed {
+                cx: self.cx,
+                path: self.path.element(count),
+                measurement: self.measurement,
+                per_cylinder: false,
+            })? {
+                count += 1;
+                sets.extend(set.into_iter().flatten());
+            }
+            return Ok(sets);
+        }
+        let mut readings = Vec::new();
+        let mut count = 0;
+        while let Some(r) = seq.next_element_seed(ElementSeed {
+            cx: self.cx,
+            path: self.path.element(count),
+            measurement: self.measurement,
+        })? {
+            count += 1;
+            readings.extend(r);
+        }
+        if self.cx.collector.skipped() > before {
+            return Ok(Vec::new());
+        }
+        let set = combine(&readings).map_err(|e| self.cx.refuse(&self.path, e))?;
+        Ok(vec![set])
     }
 }
 

@@ -982,10 +982,10 @@ fn uncertainty_words(input: &Input, unit: Option<&Unit>) -> String {
         } => {
             let with = instrument
                 .as_ref()
-                .map(|i| format!(", with {i}"))
+                .map(|i| format!(" with {i}"))
                 .unwrap_or_default();
             format!(
-                "mean {}, s {}, n {count}: u {u} (type A, ν = {}{with})",
+                "mean {}, s {}, n {count} (ν = {}): u {u}{with}",
                 quantity(input.value, unit),
                 uncertainty_in(*spread, unit),
                 count.saturating_sub(1)
