@@ -257,9 +257,18 @@ fn a_gauge_calibration_shared_by_eight_bores_matches_gtc() {
     let (v, u) = run(&rulebook, &bores_with(gauge, &OPEN4_BORES), |r| {
         derived(r, 0, "mean_bore_displacement")
     });
-    let (want_v, want_u) = (number(&case["value"]), number(&case["standard_uncertainty"]));
-    assert!(((v - want_v) / want_v).abs() < 1e-12, "value {v} vs GTC {want_v}");
-    assert!(((u - want_u) / want_u).abs() < 1e-9, "u {u} vs GTC {want_u}");
+    let (want_v, want_u) = (
+        number(&case["value"]),
+        number(&case["standard_uncertainty"]),
+    );
+    assert!(
+        ((v - want_v) / want_v).abs() < 1e-12,
+        "value {v} vs GTC {want_v}"
+    );
+    assert!(
+        ((u - want_u) / want_u).abs() < 1e-9,
+        "u {u} vs GTC {want_u}"
+    );
 }
 
 #[test]
@@ -278,7 +287,9 @@ fn a_calibration_shared_by_eight_bores_weighs_sqrt_8_times_an_independent_one() 
             "  stroke:\n    value: \"3.480 in\"\n    instrument: dial_indicator\n",
             "  stroke: \"3.480 in\"\n",
         );
-        run(&rulebook, &yaml, |r| derived(r, 0, "mean_bore_displacement").1)
+        run(&rulebook, &yaml, |r| {
+            derived(r, 0, "mean_bore_displacement").1
+        })
     };
     let shared = exact_stroke(r#"{calibration: "0.0004 in", k: 2}"#);
     let independent = exact_stroke(r#"{uncertainty: "0.0004 in", k: 2}"#);
@@ -344,8 +355,16 @@ fn repeated_readings_give_the_type_a_mean_and_uncertainty_of_gtc() {
     use gonogo::load::Distribution;
     let rulebook = checked("");
     for (name, measurement, readings) in [
-        ("chamber_recc", "chamber", r#"["72.1 cc", "72.4 cc", "72.2 cc"]"#),
-        ("bore_three", "bore", r#"["4.0331 in", "4.0338 in", "4.0335 in"]"#),
+        (
+            "chamber_recc",
+            "chamber",
+            r#"["72.1 cc", "72.4 cc", "72.2 cc"]"#,
+        ),
+        (
+            "bore_three",
+            "bore",
+            r#"["4.0331 in", "4.0338 in", "4.0335 in"]"#,
+        ),
     ] {
         let case = gtc("type_a", name);
         let yaml = format!(
@@ -357,9 +376,15 @@ fn repeated_readings_give_the_type_a_mean_and_uncertainty_of_gtc() {
             .iter()
             .find(|i| i.label(&rulebook) == format!("{measurement}[1]"))
             .unwrap_or_else(|| panic!("no {measurement}[1]"));
-        let (want_v, want_u) = (number(&case["value"]), number(&case["standard_uncertainty"]));
+        let (want_v, want_u) = (
+            number(&case["value"]),
+            number(&case["standard_uncertainty"]),
+        );
         assert!(((input.value - want_v) / want_v).abs() < 1e-12, "{name}");
-        assert!(((input.standard_uncertainty - want_u) / want_u).abs() < 1e-9, "{name}");
+        assert!(
+            ((input.standard_uncertainty - want_u) / want_u).abs() < 1e-9,
+            "{name}"
+        );
         assert_eq!(
             input.components.first().map(|c| c.distribution),
             Some(Distribution::StudentT {
@@ -382,6 +407,85 @@ fn repeated_readings_with_an_instrument_add_its_components_to_their_spread() {
     assert!(((chamber.standard_uncertainty - want) / want).abs() < 1e-9);
     assert_eq!(chamber.components.len(), 2);
     // the calibration is kept apart, as one shared input
-    let shared = d.calibration_of(1).unwrap_or_else(|| panic!("no calibration"));
+    let shared = d
+        .calibration_of(1)
+        .unwrap_or_else(|| panic!("no calibration"));
     assert!((d.inputs[shared as usize].standard_uncertainty - 0.05e-6).abs() < 1e-18);
+}
+
+/// The numbers behind rule `rule`'s finding.
+fn numeric(r: &gonogo::evaluate::outcome::EngineReport, rule: usize) -> (f64, f64, f64) {
+    let n = r.outcomes[rule]
+        .checked
+        .as_ref()
+        .and_then(|c| c.numeric.as_ref())
+        .unwrap_or_else(|| panic!("rule {rule} has no numbers"));
+    (n.k, n.degrees_of_freedom, n.expanded / n.k)
+}
+
+/// One cylinder: a chamber cc'd three times and a piston volume read once, both with a
+/// burette of U = 0.2 cc at k = 2.
+const RECC: &str = r#"class: reference
+instruments:
+  burette: {uncertainty: "0.2 cc", k: 2}
+measurements:
+  cylinders: 1
+  chamber:
+    readings: [["72.1 cc", "72.4 cc", "72.2 cc"]]
+    instrument: burette
+  piston.volume:
+    values: ["12.1 cc"]
+    instrument: burette
+"#;
+
+#[test]
+fn a_coverage_probability_takes_k_from_t_at_the_welch_satterthwaite_degrees_of_freedom() {
+    // GTC 1.5.1: dof() of the sum (Welch–Satterthwaite, GUM G.4) and reporting.k_factor
+    let case = gtc("coverage", "chamber_recc_plus_piston");
+    let (k, nu, u) = run(&checked("coverage 95 %\n"), RECC, |r| numeric(r, 1));
+    let want_nu = number(&case["effective_degrees_of_freedom"]);
+    assert!(
+        ((nu - want_nu) / want_nu).abs() < 1e-9,
+        "ν_eff {nu} vs GTC {want_nu}"
+    );
+    let want_k = number(&case["k95"]);
+    assert!((k - want_k).abs() < 1e-9, "k {k} vs GTC {want_k}");
+    let want_u = number(&case["standard_uncertainty"]);
+    assert!(
+        ((u - want_u) / want_u).abs() < 1e-9,
+        "u {u} vs GTC {want_u}"
+    );
+}
+
+#[test]
+fn k_from_statrs_agrees_with_gtc_at_several_degrees_of_freedom() {
+    // GTC 1.5.1 reporting.k_factor (Student t, 95 %) at ν = 2, 5, 10, 19, 50
+    use gonogo::check::model::Coverage;
+    use gonogo::evaluate::coverage::coverage_factor;
+    for nu in [2, 5, 10, 19, 50] {
+        let want = number(&gtc("coverage", &format!("t_{nu}"))["k95"]);
+        let k = coverage_factor(Coverage::Probability(0.95), f64::from(nu));
+        assert!((k - want).abs() < 1e-9, "ν = {nu}: k {k} vs GTC {want}");
+    }
+}
+
+#[test]
+fn without_a_coverage_line_k_stays_2_and_a_fixed_factor_is_used_as_written() {
+    // issue 9: a rulebook without `coverage` keeps k = 2 for every finding, as before
+    let (k, nu, _) = run(&checked(""), RECC, |r| numeric(r, 1));
+    assert_eq!(k, 2.0);
+    assert!(
+        nu.is_finite(),
+        "the Type A chamber gives finite degrees of freedom"
+    );
+    let (k, _, _) = run(&checked("coverage k = 3\n"), RECC, |r| numeric(r, 1));
+    assert_eq!(k, 3.0);
+    // Type B inputs alone: ν_eff infinite, so 95 % gives the normal 1.96 (GUM G.3.3)
+    let yaml = RECC.replace(
+        "readings: [[\"72.1 cc\", \"72.4 cc\", \"72.2 cc\"]]",
+        "values: [\"72.2 cc\"]",
+    );
+    let (k, nu, _) = run(&checked("coverage 95 %\n"), &yaml, |r| numeric(r, 1));
+    assert!(nu.is_infinite());
+    assert!((k - 1.959_964).abs() < 1e-6);
 }

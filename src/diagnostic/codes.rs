@@ -251,6 +251,8 @@ pub mod check {
     pub const UNUSED_DEFINE: Code = Code::new(Stage::Check, 57, "unused-define");
     /// `C58 unused-measurement`
     pub const UNUSED_MEASUREMENT: Code = Code::new(Stage::Check, 58, "unused-measurement");
+    /// `C59 coverage-out-of-range`
+    pub const COVERAGE_OUT_OF_RANGE: Code = Code::new(Stage::Check, 59, "coverage-out-of-range");
 }
 
 /// Codes of loading an engine declaration.
@@ -407,6 +409,7 @@ pub const ALL: &[Code] = &[
     check::UNKNOWN_UNIT,
     check::UNUSED_DEFINE,
     check::UNUSED_MEASUREMENT,
+    check::COVERAGE_OUT_OF_RANGE,
     load::BAD_COVERAGE,
     load::BAD_DATE,
     load::BAD_QUANTITY,

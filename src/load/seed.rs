@@ -1033,7 +1033,14 @@ fn push_input(
             Distribution::Normal,
             UncertaintySource::Stated { k },
         ),
-        (None, Some(UncertaintySource::Repeated { count, spread, instrument })) => (
+        (
+            None,
+            Some(UncertaintySource::Repeated {
+                count,
+                spread,
+                instrument,
+            }),
+        ) => (
             spread / (count as f64).sqrt(),
             Distribution::StudentT {
                 degrees_of_freedom: count.saturating_sub(1) as f64,

@@ -277,6 +277,9 @@ pub struct NumberView {
     pub expanded_uncertainty: f64,
     /// The coverage factor k.
     pub coverage_factor: f64,
+    /// The effective degrees of freedom of the margin's uncertainty (Welch–Satterthwaite);
+    /// `null` when infinite (every component of Type B).
+    pub effective_degrees_of_freedom: Option<f64>,
     /// Probability of conformance, 0 to 1.
     pub probability_of_conformance: f64,
     /// The deciding cylinder (1-based), for per-cylinder values.
@@ -299,6 +302,8 @@ pub struct NumberShown {
     pub margin: String,
     /// `0.000058 in`.
     pub expanded_uncertainty: String,
+    /// `k = 2`, `k = 2.06, ν_eff = 25.5`.
+    pub coverage: String,
     /// `≥ 99.99 %`.
     pub probability_of_conformance: String,
 }
@@ -785,8 +790,8 @@ impl RuleView {
         lines.push(fact(
             "margin",
             format!(
-                "{}, expanded uncertainty U = {} (k = {})",
-                s.margin, s.expanded_uncertainty, n.coverage_factor
+                "{}, expanded uncertainty U = {} ({})",
+                s.margin, s.expanded_uncertainty, s.coverage
             ),
         ));
         lines.push(fact(
@@ -808,6 +813,10 @@ fn number_view(n: &Numeric) -> NumberView {
         margin: n.margin / s,
         expanded_uncertainty: n.expanded / s,
         coverage_factor: n.k,
+        effective_degrees_of_freedom: n
+            .degrees_of_freedom
+            .is_finite()
+            .then_some(n.degrees_of_freedom),
         probability_of_conformance: n.probability,
         cylinder: n.cylinder,
         shown: NumberShown {
@@ -818,8 +827,25 @@ fn number_view(n: &Numeric) -> NumberView {
                 .map(|(a, b)| [quantity(a, n.unit), quantity(b, n.unit)]),
             margin: format!("{} {side}", quantity(n.margin.abs(), n.unit)),
             expanded_uncertainty: uncertainty_in(n.expanded, n.unit),
+            coverage: coverage_words(n.k, n.degrees_of_freedom),
             probability_of_conformance: probability(n.probability, n.expanded > 0.0),
         },
+    }
+}
+
+/// `k = 2` for a factor as written, `k = 2.06, ν_eff = 25.5` with finite effective degrees of
+/// freedom; a k from the t-distribution to two decimals.
+fn coverage_words(k: f64, nu: f64) -> String {
+    let trim = |t: String| t.trim_end_matches('0').trim_end_matches('.').to_string();
+    let k = if (k * 1000.0).fract() == 0.0 {
+        format!("{k}")
+    } else {
+        trim(format!("{k:.2}"))
+    };
+    if nu.is_finite() {
+        format!("k = {k}, ν_eff = {}", trim(format!("{nu:.1}")))
+    } else {
+        format!("k = {k}")
     }
 }
 
@@ -1083,6 +1109,16 @@ mod tests {
         assert_eq!(
             written(&input(None, 0.0254, UncertaintySource::None), inch),
             "1 in"
+        );
+    }
+
+    #[test]
+    fn k_is_shown_as_written_or_to_two_decimals_with_finite_degrees_of_freedom() {
+        assert_eq!(coverage_words(2.0, f64::INFINITY), "k = 2");
+        assert_eq!(coverage_words(1.959_963_985, f64::INFINITY), "k = 1.96");
+        assert_eq!(
+            coverage_words(2.057_451_959, 25.510_204),
+            "k = 2.06, ν_eff = 25.5"
         );
     }
 
