@@ -420,7 +420,8 @@ fn numeric(r: &gonogo::evaluate::outcome::EngineReport, rule: usize) -> (f64, f6
         .as_ref()
         .and_then(|c| c.numeric.as_ref())
         .unwrap_or_else(|| panic!("rule {rule} has no numbers"));
-    (n.k, n.degrees_of_freedom, n.expanded / n.k)
+    let factor = n.k;
+    (factor, n.degrees_of_freedom, n.expanded / factor)
 }
 
 /// One cylinder: a chamber cc'd three times and a piston volume read once, both with a

@@ -827,10 +827,15 @@ fn number_view(n: &Numeric) -> NumberView {
                 .map(|(a, b)| [quantity(a, n.unit), quantity(b, n.unit)]),
             margin: format!("{} {side}", quantity(n.margin.abs(), n.unit)),
             expanded_uncertainty: uncertainty_in(n.expanded, n.unit),
-            coverage: coverage_words(n.k, n.degrees_of_freedom),
+            coverage: coverage_of(n),
             probability_of_conformance: probability(n.probability, n.expanded > 0.0),
         },
     }
+}
+
+/// The coverage of a finding's numbers in words.
+fn coverage_of(numbers: &Numeric) -> String {
+    coverage_words(numbers.k, numbers.degrees_of_freedom)
 }
 
 /// `k = 2` for a factor as written, `k = 2.06, ν_eff = 25.5` with finite effective degrees of
