@@ -450,8 +450,15 @@ fn facts_of(
                 );
                 match &input.source {
                     UncertaintySource::None => facts.push("no uncertainty stated".to_string()),
-                    UncertaintySource::Instrument(i) => facts.push(i.clone()),
-                    UncertaintySource::Stated { .. } | UncertaintySource::Rulebook => {}
+                    UncertaintySource::Instrument(i)
+                    | UncertaintySource::Calibration { instrument: i, .. }
+                    | UncertaintySource::Repeated {
+                        instrument: Some(i),
+                        ..
+                    } => facts.push(i.clone()),
+                    UncertaintySource::Stated { .. }
+                    | UncertaintySource::Rulebook
+                    | UncertaintySource::Repeated { .. } => {}
                 }
             }
             Trace::Text { value, .. } => facts.push(value.to_string()),

@@ -22,6 +22,8 @@ pub enum HeaderLine {
     Edition,
     /// `decision ...`
     Decision,
+    /// `coverage ...`
+    Coverage,
 }
 
 impl HeaderLine {
@@ -31,6 +33,7 @@ impl HeaderLine {
             HeaderLine::Series => "series",
             HeaderLine::Edition => "edition",
             HeaderLine::Decision => "decision",
+            HeaderLine::Coverage => "coverage",
         }
     }
 
@@ -40,6 +43,7 @@ impl HeaderLine {
             HeaderLine::Series => "series \"Tamsin Valley Stock Car Club\"",
             HeaderLine::Edition => "edition \"2027\" effective 2027-03-06",
             HeaderLine::Decision => "decision guarded rejection",
+            HeaderLine::Coverage => "coverage 95 %",
         }
     }
 }
@@ -342,6 +346,14 @@ pub enum CheckError {
     /// A coverage factor not above zero.
     BadCoverage {
         /// The quantity.
+        at: Span,
+    },
+    /// A `coverage` line whose factor is not above zero or whose probability is not between
+    /// 0 % and 100 %.
+    CoverageOutOfRange {
+        /// True for a probability, false for a factor.
+        probability: bool,
+        /// The number.
         at: Span,
     },
     /// A unit symbol gonogo does not know.
@@ -680,6 +692,7 @@ impl CheckError {
             CheckError::DefineCycle { .. } => codes::check::DEFINE_CYCLE,
             CheckError::UncertaintyDimension { .. } => codes::check::UNCERTAINTY_DIMENSION,
             CheckError::BadCoverage { .. } => codes::check::BAD_COVERAGE,
+            CheckError::CoverageOutOfRange { .. } => codes::check::COVERAGE_OUT_OF_RANGE,
             CheckError::UnknownUnit { .. } => codes::check::UNKNOWN_UNIT,
             CheckError::UnknownName { .. } => codes::check::UNKNOWN_NAME,
             CheckError::BadExponent { .. } => codes::check::BAD_EXPONENT,
@@ -845,6 +858,12 @@ impl CheckError {
                 uncertainty, value, ..
             } => format!("the uncertainty is a {uncertainty}, but the value is a {value}"),
             CheckError::BadCoverage { .. } => "the coverage factor must be above zero".to_string(),
+            CheckError::CoverageOutOfRange {
+                probability: false, ..
+            } => "the coverage factor must be above zero".to_string(),
+            CheckError::CoverageOutOfRange {
+                probability: true, ..
+            } => "the coverage probability must be above 0 % and below 100 %".to_string(),
             CheckError::UnknownUnit { symbol, .. } => {
                 format!("`{symbol}` is not a unit gonogo knows")
             }
@@ -1040,6 +1059,16 @@ impl CheckError {
             }
             CheckError::UncertaintyDimension { at, .. } => vec![(*at, "uncertainty unit")],
             CheckError::BadCoverage { at } => vec![(*at, "coverage factor")],
+            CheckError::CoverageOutOfRange { probability, at } => {
+                vec![(
+                    *at,
+                    if *probability {
+                        "probability"
+                    } else {
+                        "coverage factor"
+                    },
+                )]
+            }
             CheckError::UnknownUnit { at, .. } => vec![(*at, "unknown unit")],
             CheckError::UnknownName { at, .. } => vec![(*at, "unknown name")],
             CheckError::BadExponent { at, .. } => vec![(*at, "exponent")],
@@ -1222,6 +1251,9 @@ impl CheckError {
                 "write the uncertainty in a unit of the same dimension as the value"
             }
             CheckError::BadCoverage { .. } => "write `(k = 2)` for about 95 % coverage",
+            CheckError::CoverageOutOfRange { .. } => {
+                "write `coverage k = 2` for a fixed factor, or `coverage 95 %` for k from the t-distribution"
+            }
             CheckError::UnknownUnit { suggestion, .. } => match suggestion {
                 Some(near) => {
                     return format!(

@@ -76,6 +76,7 @@ struct Checker<'a> {
     series: Option<&'a ast::Text>,
     edition: Option<&'a ast::Edition>,
     decision: Option<&'a ast::Decision>,
+    coverage: Option<&'a ast::Coverage>,
     measures: BTreeMap<&'a str, &'a ast::Measure>,
     measure_order: Vec<&'a str>,
     defines: BTreeMap<&'a str, &'a ast::Define>,
@@ -217,6 +218,9 @@ impl<'a> Checker<'a> {
             edition: edition.name.value.clone(),
             effective: edition.effective.date,
             decision: decision.rule,
+            coverage: self
+                .coverage
+                .map_or_else(model::Coverage::default, |c| c.spec.into()),
             measurements,
             derived,
             lists: std::mem::take(&mut self.compiled_lists)

@@ -284,6 +284,32 @@ pub struct Bulletin {
     pub source: ast::Bulletin,
 }
 
+/// How a rulebook takes the expanded uncertainty U = k·u its decisions are judged against.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub enum Coverage {
+    /// A fixed coverage factor k (`coverage k = 2`).
+    Factor(f64),
+    /// A coverage probability p, 0 < p < 1 (`coverage 95 %`): k is the t-distribution's
+    /// quantile at (1 + p)/2 for the effective degrees of freedom (GUM G.3, G.4).
+    Probability(f64),
+}
+
+impl Default for Coverage {
+    /// k = 2, for a rulebook without a `coverage` line.
+    fn default() -> Coverage {
+        Coverage::Factor(2.0)
+    }
+}
+
+impl From<ast::CoverageSpec> for Coverage {
+    fn from(spec: ast::CoverageSpec) -> Coverage {
+        match spec {
+            ast::CoverageSpec::Factor(k) => Coverage::Factor(k),
+            ast::CoverageSpec::Percent(p) => Coverage::Probability(p / 100.0),
+        }
+    }
+}
+
 /// A rulebook that passed the static checks.
 #[derive(Clone, Debug)]
 pub struct CheckedRulebook {
@@ -295,6 +321,8 @@ pub struct CheckedRulebook {
     pub effective: ast::Date,
     /// The default decision rule.
     pub decision: DecisionRule,
+    /// How expanded uncertainties are taken for every decision (`coverage`; k = 2 without).
+    pub coverage: Coverage,
     /// The measurement schema, in the order written.
     pub measurements: Vec<Measurement>,
     /// Derived values, in the order written.

@@ -31,7 +31,9 @@ impl<'a> Checker<'a> {
         bulletin_ids: &mut HashMap<&'a str, Span>,
     ) {
         match item {
-            Item::Series(_) | Item::Edition(_) | Item::Decision(_) if !in_root => {
+            Item::Series(_) | Item::Edition(_) | Item::Decision(_) | Item::Coverage(_)
+                if !in_root =>
+            {
                 let at = header_span(item);
                 self.error(CheckError::HeaderInInclude { at }.into());
             }
@@ -56,6 +58,18 @@ impl<'a> Checker<'a> {
                 HeaderLine::Decision,
                 &mut self.problems,
             ),
+            Item::Coverage(c) => {
+                once(
+                    &mut self.coverage,
+                    c,
+                    c.span,
+                    HeaderLine::Coverage,
+                    &mut self.problems,
+                );
+                if let Some(error) = coverage_problem(c) {
+                    self.error(error.into());
+                }
+            }
             Item::Include(_) => {}
             Item::Measure(m) => {
                 if self.unique_value_name(&m.name) {
@@ -148,8 +162,23 @@ fn header_span(item: &Item) -> Span {
         Item::Series(t) => t.span,
         Item::Edition(e) => e.name.span,
         Item::Decision(d) => d.span,
+        Item::Coverage(c) => c.span,
         _ => Span::default(),
     }
+}
+
+/// What is wrong with a `coverage` line, if anything: a factor not above zero, or a
+/// probability not strictly between 0 % and 100 %.
+fn coverage_problem(c: &crate::parse::ast::Coverage) -> Option<CheckError> {
+    use crate::parse::ast::CoverageSpec;
+    let (bad, probability) = match c.spec {
+        CoverageSpec::Factor(k) => (!(k.is_finite() && k > 0.0), false),
+        CoverageSpec::Percent(p) => (!(p > 0.0 && p < 100.0), true),
+    };
+    bad.then_some(CheckError::CoverageOutOfRange {
+        probability,
+        at: c.number,
+    })
 }
 
 fn once<'a, T>(

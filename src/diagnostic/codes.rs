@@ -256,6 +256,8 @@ pub mod check {
     pub const UNUSED_MEASUREMENT: Code = Code::new(Stage::Check, 58, "unused-measurement");
     /// `C59 uncertain-limit`
     pub const UNCERTAIN_LIMIT: Code = Code::new(Stage::Check, 59, "uncertain-limit");
+    /// `C60 coverage-out-of-range`
+    pub const COVERAGE_OUT_OF_RANGE: Code = Code::new(Stage::Check, 60, "coverage-out-of-range");
 }
 
 /// Codes of loading an engine declaration.
@@ -314,6 +316,10 @@ pub mod load {
     pub const TOO_MANY_VALUES: Code = Code::new(Stage::Load, 24, "too-many-values");
     /// `D26 not-whole`
     pub const NOT_WHOLE: Code = Code::new(Stage::Load, 26, "not-whole");
+    /// `D27 too-few-readings`
+    pub const TOO_FEW_READINGS: Code = Code::new(Stage::Load, 27, "too-few-readings");
+    /// `D28 stated-in-readings`
+    pub const STATED_IN_READINGS: Code = Code::new(Stage::Load, 28, "stated-in-readings");
 }
 
 /// Codes of comparing editions and fields.
@@ -428,6 +434,8 @@ pub const ALL: &[Code] = &[
     check::UNKNOWN_UNIT,
     check::UNUSED_DEFINE,
     check::UNUSED_MEASUREMENT,
+    check::UNCERTAIN_LIMIT,
+    check::COVERAGE_OUT_OF_RANGE,
     load::BAD_COVERAGE,
     load::BAD_DATE,
     load::BAD_QUANTITY,
@@ -454,6 +462,8 @@ pub const ALL: &[Code] = &[
     load::TOO_MANY_VALUES,
     load::NO_CLASS,
     load::NOT_WHOLE,
+    load::TOO_FEW_READINGS,
+    load::STATED_IN_READINGS,
     analyze::DIFFERENT_SERIES,
     analyze::NOTHING_TO_COMPARE,
     write::OUTPUT_IS_INPUT,

@@ -30,6 +30,16 @@ impl Dual {
         }
     }
 
+    /// A reading taken with an instrument whose calibration is a shared input: the reading
+    /// plus the calibration's correction (value 0), so ∂/∂calibration is 1 for every reading
+    /// of that instrument and a formula's sensitivity to it is the sum over its readings.
+    pub fn reading(id: InputId, value: f64, calibration: Option<InputId>) -> Dual {
+        match calibration {
+            Some(c) if c != id => Dual::input(id, value).add(&Dual::input(c, 0.0)),
+            _ => Dual::input(id, value),
+        }
+    }
+
     /// Combined standard uncertainty for uncorrelated inputs (GUM eq. 10):
     /// `u_c = √Σ (∂f/∂x_i · u(x_i))²`, with `u(x_i)` looked up by input.
     pub fn combined_uncertainty(&self, u: impl Fn(InputId) -> f64) -> f64 {

@@ -181,7 +181,11 @@ impl<'a> Evaluator<'a> {
         let input = self.declaration.inputs.get(id as usize).ok_or_else(|| {
             Unevaluated::internal(format!("input {id} is not in the declaration"))
         })?;
-        Ok(Dual::input(id, input.value))
+        Ok(Dual::reading(
+            id,
+            input.value,
+            self.declaration.calibration_of(id),
+        ))
     }
 
     /// A literal in SI units; one with a stated uncertainty is an input of its own, numbered

@@ -3,6 +3,7 @@
 //! ([`dual`]), findings and verdicts ([`finding`]), and the data a report renders
 //! ([`outcome`]). The built-in formulas are in the checker's one table, `check::builtins`.
 
+pub mod coverage;
 pub mod dual;
 pub mod exact;
 pub mod expr;
@@ -10,8 +11,6 @@ pub mod finding;
 pub mod outcome;
 mod rule;
 pub mod value;
-
-pub use rule::COVERAGE;
 
 use crate::check::model::{CheckedRulebook, Class, ClassRule};
 use crate::load::Declaration;

@@ -41,6 +41,9 @@ pub struct Numeric {
     pub expanded: f64,
     /// The coverage factor.
     pub k: f64,
+    /// The effective degrees of freedom of the margin's uncertainty (Welch–Satterthwaite,
+    /// GUM G.4); infinite when every component is of Type B.
+    pub degrees_of_freedom: f64,
     /// Probability of conformance.
     pub probability: f64,
     /// The unit to show these in (`None`: a plain number).

@@ -17,9 +17,6 @@ use crate::load::Supplied;
 use crate::parse::ast::DecisionRule;
 use crate::units::Unit;
 
-/// Coverage factor for the expanded uncertainty a finding is judged against (about 95 %).
-pub const COVERAGE: f64 = 2.0;
-
 /// A condition's truth, with doubt.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 enum Truth {
@@ -302,11 +299,8 @@ impl<'a> Evaluator<'a> {
         {
             let (ul, uh) = (self.combined(ml), self.combined(mh));
             let (low_value, high_value) = (ml.value, mh.value);
-            let f = finding(low_value, COVERAGE * ul, false).min(finding(
-                high_value,
-                COVERAGE * uh,
-                false,
-            ));
+            let ((kl, _), (kh, _)) = (self.coverage(ml), self.coverage(mh));
+            let f = finding(low_value, kl * ul, false).min(finding(high_value, kh * uh, false));
             let p = probability_between((low_value, ul), (high_value, uh));
             let value = s.at(i)?.value;
             let (limit, margin, u, near) = if low_value < high_value {
@@ -314,13 +308,15 @@ impl<'a> Evaluator<'a> {
             } else {
                 (value + high_value, high_value, uh, mh)
             };
+            let (k, degrees_of_freedom) = self.coverage(near);
             let numeric = Numeric {
                 value,
                 sensitivities: near.partials.clone(),
                 limit,
                 margin,
-                expanded: COVERAGE * u,
-                k: COVERAGE,
+                expanded: k * u,
+                k,
+                degrees_of_freedom,
                 probability: p,
                 unit,
                 cylinder: cylinder(&low_margins, i),
@@ -367,15 +363,17 @@ impl<'a> Evaluator<'a> {
         range: Option<(f64, f64)>,
     ) -> (Numeric, Finding) {
         let u = self.combined(m);
+        let (k, degrees_of_freedom) = self.coverage(m);
         let margin = m.value;
-        let f = finding(margin, COVERAGE * u, strict);
+        let f = finding(margin, k * u, strict);
         let n = Numeric {
             value,
             sensitivities: m.partials.clone(),
             limit,
             margin,
-            expanded: COVERAGE * u,
-            k: COVERAGE,
+            expanded: k * u,
+            k,
+            degrees_of_freedom,
             probability: probability(margin, u, strict),
             unit,
             cylinder,
@@ -439,6 +437,16 @@ impl<'a> Evaluator<'a> {
                     Some(Supplied::Single(id)) => lines.push(Trace::Input(*id)),
                     Some(Supplied::PerCylinder(ids)) => {
                         lines.extend(ids.iter().map(|id| Trace::Input(*id)))
+                    }
+                }
+                if let Some(supplied) = declaration.supplied(id.index()) {
+                    for shared in declaration.calibrations_of(supplied) {
+                        if !lines
+                            .iter()
+                            .any(|l| matches!(l, Trace::Input(i) if *i == shared))
+                        {
+                            lines.push(Trace::Input(shared));
+                        }
                     }
                 }
             }

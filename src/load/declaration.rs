@@ -1,6 +1,7 @@
 //! An engine declaration once loaded: who, what, when, and every measured value in SI units
 //! with its standard uncertainty and where in the file it came from.
 
+use std::collections::BTreeMap;
 use std::path::PathBuf;
 
 /// Identifies one input of a check: a measured scalar of the declaration (each cylinder's
@@ -41,6 +42,24 @@ pub enum UncertaintySource {
     Rulebook,
     /// None stated: the value is taken as exact.
     None,
+    /// The calibration of an instrument, one correction common to every reading taken with
+    /// it (a shared input of value 0).
+    Calibration {
+        /// The instrument.
+        instrument: String,
+        /// How many readings share it.
+        readings: usize,
+    },
+    /// The mean of repeated readings (Type A, GUM 4.2): u = s/√n with n − 1 degrees of
+    /// freedom, and the named instrument's components beside it.
+    Repeated {
+        /// How many readings, n.
+        count: usize,
+        /// Their experimental standard deviation s, in SI units (GUM eq. 4).
+        spread: f64,
+        /// The instrument they were taken with, if one is named.
+        instrument: Option<String>,
+    },
 }
 
 /// The distribution an uncertainty component is drawn from (JCGM 101:2008, 6.4): what a
@@ -111,6 +130,11 @@ pub enum InputName {
     },
     /// A rulebook literal with a stated uncertainty, as written.
     Literal(String),
+    /// The calibration correction of an instrument, shared by every reading taken with it.
+    Calibration {
+        /// The instrument's name.
+        instrument: String,
+    },
 }
 
 /// One scalar measured input (each cylinder's bore is its own input).
@@ -143,6 +167,7 @@ impl Input {
                 ..
             } => with_cylinder(measurement_name(rulebook, *measurement), *cylinder),
             InputName::Literal(text) => text.clone(),
+            InputName::Calibration { instrument } => format!("{instrument} calibration"),
         }
     }
 
@@ -162,6 +187,9 @@ impl Input {
                 *cylinder,
             ),
             InputName::Literal(_) => "rulebook".to_string(),
+            InputName::Calibration { instrument } => {
+                format!("instruments.{instrument}.calibration")
+            }
         }
     }
 }
@@ -203,6 +231,9 @@ pub struct Declaration {
     /// What was supplied, by position in the rulebook's measurement schema; a measurement
     /// left out or left empty is `None`.
     pub supplied: Vec<Option<Supplied>>,
+    /// For each reading taken with an instrument that has a calibration, the shared
+    /// calibration input added to it (an input of [`InputName::Calibration`]).
+    pub calibrations: BTreeMap<InputId, InputId>,
 }
 
 impl Declaration {
@@ -214,5 +245,27 @@ impl Declaration {
     /// What was supplied for the measurement at this position of the schema.
     pub fn supplied(&self, measurement: usize) -> Option<&Supplied> {
         self.supplied.get(measurement).and_then(Option::as_ref)
+    }
+
+    /// The shared calibration input added to reading `id`, if its instrument has one.
+    pub fn calibration_of(&self, id: InputId) -> Option<InputId> {
+        self.calibrations.get(&id).copied()
+    }
+
+    /// The calibration inputs shared by the readings of what was supplied, each once, in
+    /// the order of the readings.
+    pub fn calibrations_of(&self, supplied: &Supplied) -> Vec<InputId> {
+        let readings: &[InputId] = match supplied {
+            Supplied::Single(id) => std::slice::from_ref(id),
+            Supplied::PerCylinder(ids) => ids,
+            Supplied::Text(..) => &[],
+        };
+        let mut shared: Vec<InputId> = Vec::new();
+        for c in readings.iter().filter_map(|r| self.calibration_of(*r)) {
+            if !shared.contains(&c) {
+                shared.push(c);
+            }
+        }
+        shared
     }
 }

@@ -217,8 +217,21 @@ pub enum LoadError {
     },
     /// A `±` and an instrument for the same value.
     TwoUncertainties,
-    /// Both `value` and `values`.
-    ValueAndValues,
+    /// Two of `value`, `values` and `readings`.
+    ValueAndValues {
+        /// The one written first in the order `value`, `values`, `readings`.
+        first: &'static str,
+        /// The other.
+        second: &'static str,
+    },
+    /// Repeated readings of one quantity that are fewer than two: a Type A standard
+    /// deviation needs at least two (GUM 4.2.2).
+    TooFewReadings {
+        /// How many were given.
+        count: usize,
+    },
+    /// A repeated reading with its own `±`: their spread is their uncertainty.
+    StatedInReadings,
     /// Not YAML, or not the shape a declaration has there.
     Yaml {
         /// serde_yaml's words, without its location.
@@ -261,7 +274,9 @@ impl LoadError {
             LoadError::TooManyValues => codes::load::TOO_MANY_VALUES,
             LoadError::CylinderCount { .. } => codes::load::CYLINDER_COUNT,
             LoadError::TwoUncertainties => codes::load::TWO_UNCERTAINTIES,
-            LoadError::ValueAndValues => codes::load::VALUE_AND_VALUES,
+            LoadError::ValueAndValues { .. } => codes::load::VALUE_AND_VALUES,
+            LoadError::TooFewReadings { .. } => codes::load::TOO_FEW_READINGS,
+            LoadError::StatedInReadings => codes::load::STATED_IN_READINGS,
             LoadError::Yaml { .. } => codes::load::YAML,
             LoadError::TooMany { .. } => codes::load::TOO_MANY,
         }
@@ -358,7 +373,20 @@ impl LoadError {
             LoadError::TwoUncertainties => {
                 "this value has its own `±` and also names an instrument".to_string()
             }
-            LoadError::ValueAndValues => "give `value` or `values`, not both".to_string(),
+            LoadError::ValueAndValues { first, second } => {
+                format!("give `{first}` or `{second}`, not both")
+            }
+            LoadError::TooFewReadings { count } => format!(
+                "repeated readings need at least two, and {}",
+                match count {
+                    0 => "this list has none".to_string(),
+                    _ => "this list has one".to_string(),
+                }
+            ),
+            LoadError::StatedInReadings => {
+                "a repeated reading has its own `±`, but their spread is their uncertainty"
+                    .to_string()
+            }
             LoadError::Yaml { message } => message.clone(),
             LoadError::TooMany { shown } => {
                 format!("reading stopped after {shown} problems")
@@ -394,7 +422,9 @@ impl LoadError {
             LoadError::EmptyList => "empty".to_string(),
             LoadError::TooManyValues => "one value too many".to_string(),
             LoadError::CylinderCount { count, .. } => format!("{count} cylinders"),
-            LoadError::TwoUncertainties | LoadError::ValueAndValues => "here".to_string(),
+            LoadError::TwoUncertainties | LoadError::ValueAndValues { .. } => "here".to_string(),
+            LoadError::TooFewReadings { .. } => "fewer than two readings".to_string(),
+            LoadError::StatedInReadings => "its own uncertainty".to_string(),
             LoadError::Yaml { .. }
             | LoadError::NoClass { .. }
             | LoadError::BeforeEdition { .. }
@@ -497,7 +527,21 @@ impl LoadError {
             LoadError::TwoUncertainties => {
                 "give the uncertainty one way: remove the `±` or the `instrument`".to_string()
             }
-            LoadError::ValueAndValues => "use `values` for a per-cylinder list".to_string(),
+            LoadError::ValueAndValues { second, .. } => match *second {
+                "readings" => {
+                    "keep one: `readings` for repeated readings, else the single value or list"
+                        .to_string()
+                }
+                _ => "use `values` for a per-cylinder list".to_string(),
+            },
+            LoadError::TooFewReadings { .. } => {
+                "write each reading taken, like `[\"72.1 cc\", \"72.4 cc\"]`; for one reading use `value`"
+                    .to_string()
+            }
+            LoadError::StatedInReadings => {
+                "remove the `±`, and name the instrument with `instrument:` for its resolution and calibration"
+                    .to_string()
+            }
             LoadError::Yaml { .. } => {
                 "the README's \"Engine declarations\" section shows the layout of a declaration"
                     .to_string()

@@ -8,6 +8,7 @@ pub mod declaration;
 pub mod error;
 pub mod path;
 mod reading;
+mod repeated;
 mod seed;
 
 use std::cell::RefCell;
@@ -162,6 +163,7 @@ fn read_all(
 /// uses that name no instrument of the file, or one of another dimension, are returned.
 fn resolve_instruments(state: &mut State) -> Vec<(DeclPath, LoadError)> {
     let mut late = Vec::new();
+    let mut calibrations = std::collections::BTreeMap::new();
     if state.instruments_unusable {
         return late;
     }
@@ -184,12 +186,86 @@ fn resolve_instruments(state: &mut State) -> Vec<(DeclPath, LoadError)> {
         };
         for id in &usage.inputs {
             if let Some(input) = state.declaration.inputs.get_mut(*id as usize) {
-                input.standard_uncertainty = instrument.standard_uncertainty;
-                input.components.clone_from(&instrument.components);
+                take_instrument(input, instrument);
             }
+        }
+        if let Some(u) = instrument.calibration {
+            share_calibration(
+                &mut state.declaration,
+                &mut calibrations,
+                &usage.instrument,
+                u,
+                &usage.inputs,
+            );
         }
     }
     late
+}
+
+/// Gives one input its instrument's components: in place of none, or beside the spread of
+/// repeated readings (Type A), which the instrument's resolution and uncertainty add to.
+fn take_instrument(input: &mut Input, instrument: &seed::Instrument) {
+    if matches!(input.source, UncertaintySource::Repeated { .. }) {
+        input.components.extend_from_slice(&instrument.components);
+        input.standard_uncertainty = input
+            .standard_uncertainty
+            .hypot(instrument.standard_uncertainty);
+    } else {
+        input.standard_uncertainty = instrument.standard_uncertainty;
+        input.components.clone_from(&instrument.components);
+    }
+}
+
+/// Adds the readings `inputs` to the shared calibration input of `instrument` (value 0, an
+/// additive correction with a normal distribution), made the first time it is used.
+fn share_calibration(
+    declaration: &mut Declaration,
+    made: &mut std::collections::BTreeMap<String, InputId>,
+    instrument: &str,
+    u: f64,
+    inputs: &[InputId],
+) {
+    let unit = inputs
+        .first()
+        .and_then(|id| declaration.inputs.get(*id as usize))
+        .and_then(|i| i.unit);
+    let id = match made.get(instrument) {
+        Some(id) => *id,
+        None => {
+            let Ok(id) = InputId::try_from(declaration.inputs.len()) else {
+                return;
+            };
+            declaration.inputs.push(Input {
+                name: InputName::Calibration {
+                    instrument: instrument.to_string(),
+                },
+                value: 0.0,
+                standard_uncertainty: u,
+                components: vec![Component::normal(u)],
+                unit,
+                written: Some(match unit {
+                    Some(symbol) => format!("0 {symbol}"),
+                    None => "0".to_string(),
+                }),
+                source: UncertaintySource::Calibration {
+                    instrument: instrument.to_string(),
+                    readings: 0,
+                },
+            });
+            made.insert(instrument.to_string(), id);
+            id
+        }
+    };
+    for reading in inputs {
+        declaration.calibrations.insert(*reading, id);
+    }
+    if let Some(UncertaintySource::Calibration { readings, .. }) = declaration
+        .inputs
+        .get_mut(id as usize)
+        .map(|i| &mut i.source)
+    {
+        *readings += inputs.len();
+    }
 }
 
 /// The YAML syntax error of the file, if it has one, as serde_yaml words it.

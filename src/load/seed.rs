@@ -21,6 +21,7 @@ use super::declaration::{
 use super::error::{CoverageAt, KeyKind, LoadError, Twice};
 use super::path::DeclPath;
 use super::reading::{Reading, read_instrument_quantity, read_number, read_text};
+use super::repeated::{TypeA, combine};
 use crate::check::model::{CheckedRulebook, Measurement, Named, ValueKind};
 use crate::suggest::{closest, find_class};
 use crate::units::Dimension;
@@ -42,10 +43,13 @@ pub const TOP_KEYS: &[&str] = &[
 /// An instrument: what its readings' standard uncertainty is.
 #[derive(Clone, Debug)]
 pub struct Instrument {
-    /// Standard uncertainty in SI units.
+    /// Standard uncertainty in SI units: the components added in quadrature.
     pub standard_uncertainty: f64,
     /// Its components: the resolution (rectangular) and the stated uncertainty (normal).
     pub components: Vec<Component>,
+    /// The standard uncertainty of its calibration in SI units: one error common to every
+    /// reading taken with it, so not among `components` but a shared input of its own.
+    pub calibration: Option<f64>,
     /// The dimension of what it measures.
     pub dimension: Dimension,
 }
@@ -581,15 +585,15 @@ impl<'de> Visitor<'de> for InstrumentSeed<'_> {
     type Value = Option<Instrument>;
 
     fn expecting(&self, f: &mut fmt::Formatter) -> fmt::Result {
-        f.write_str("`resolution`, or `uncertainty` with an optional `k`")
+        f.write_str("`resolution`, `uncertainty` or `calibration`, with an optional `k`")
     }
 
     fn visit_map<A: MapAccess<'de>>(self, mut map: A) -> Result<Option<Instrument>, A::Error> {
-        const KEYS: &[&str] = &["resolution", "uncertainty", "k"];
+        const KEYS: &[&str] = &["resolution", "uncertainty", "calibration", "k"];
         let cx = self.cx;
         let before = cx.collector.skipped();
         let mut seen = Vec::new();
-        let (mut resolution, mut expanded, mut k) = (None, None, None);
+        let (mut resolution, mut expanded, mut calibration, mut k) = (None, None, None, None);
         while let Some(key) = map.next_key_seed(KeySeed {
             cx,
             parent: &self.path,
@@ -607,32 +611,59 @@ impl<'de> Visitor<'de> for InstrumentSeed<'_> {
                 "resolution" => {
                     resolution = map.next_value_seed(InstrumentQuantitySeed { cx, path })?
                 }
+                "calibration" => {
+                    calibration = map.next_value_seed(InstrumentQuantitySeed { cx, path })?
+                }
                 _ => expanded = map.next_value_seed(InstrumentQuantitySeed { cx, path })?,
             }
         }
         if cx.collector.skipped() > before {
             return Ok(None);
         }
-        instrument_from(resolution, expanded, k.unwrap_or(2.0))
+        let stated = Stated {
+            random: expanded,
+            calibration,
+            k: k.unwrap_or(2.0),
+        };
+        instrument_from(resolution, stated)
             .map(Some)
             .map_err(|e| cx.refuse(&self.path, e))
     }
 }
 
+/// An instrument's stated expanded uncertainties, each with its dimension, and the coverage
+/// factor both are stated at.
+struct Stated {
+    /// `uncertainty`: the random part, independent from reading to reading.
+    random: Option<(f64, Dimension)>,
+    /// `calibration`: the systematic part, common to every reading.
+    calibration: Option<(f64, Dimension)>,
+    /// `k`.
+    k: f64,
+}
+
 /// The standard uncertainty of an instrument: a digital resolution δ is a rectangular
 /// distribution of half-width δ/2, so u = δ/(2√3) (GUM JCGM 100:2008, F.2.2.1); an expanded
-/// uncertainty U at coverage factor k gives u = U/k; both together add in quadrature.
+/// uncertainty U at coverage factor k gives u = U/k; both together add in quadrature. A
+/// calibration U gives u = U/k as well, kept apart: it is shared by every reading.
 fn instrument_from(
     resolution: Option<(f64, Dimension)>,
-    expanded: Option<(f64, Dimension)>,
-    k: f64,
+    stated: Stated,
 ) -> Result<Instrument, LoadError> {
     let from_resolution = resolution.map(|(r, d)| (r / (2.0 * 3f64.sqrt()), d));
-    let from_expanded = expanded.map(|(u, d)| (u / k, d));
-    let dimension = match (from_resolution, from_expanded) {
-        (Some((_, a)), Some((_, b))) if a != b => return Err(LoadError::InstrumentMixed),
-        (Some((_, d)), _) | (None, Some((_, d))) => d,
-        (None, None) => return Err(LoadError::InstrumentEmpty),
+    let from_expanded = stated.random.map(|(u, d)| (u / stated.k, d));
+    let from_calibration = stated.calibration.map(|(u, d)| (u / stated.k, d));
+    let dimensions: Vec<Dimension> = [from_resolution, from_expanded, from_calibration]
+        .iter()
+        .flatten()
+        .map(|(_, d)| *d)
+        .collect();
+    let dimension = match dimensions.as_slice() {
+        [] => return Err(LoadError::InstrumentEmpty),
+        [first, rest @ ..] if rest.iter().any(|d| d != first) => {
+            return Err(LoadError::InstrumentMixed);
+        }
+        [first, ..] => *first,
     };
     let u = from_resolution
         .map_or(0.0, |(u, _)| u)
@@ -645,6 +676,7 @@ fn instrument_from(
     Ok(Instrument {
         standard_uncertainty: u,
         components: rectangular.into_iter().chain(normal).collect(),
+        calibration: from_calibration.map(|(u, _)| u),
         dimension,
     })
 }
@@ -953,8 +985,7 @@ impl ValueSeed<'_> {
 
     fn per_cylinder<E: de::Error>(
         &self,
-        readings: Vec<Reading>,
-        source: Option<UncertaintySource>,
+        readings: Vec<(Reading, Option<UncertaintySource>)>,
     ) -> Result<Vec<u32>, E> {
         if !self.measurement.per_cylinder {
             return Err(self.refuse(LoadError::NotAList {
@@ -970,14 +1001,9 @@ impl ValueSeed<'_> {
         let ids: Vec<u32> = readings
             .into_iter()
             .enumerate()
-            .map(|(i, r)| {
-                push_input(
-                    &mut state.declaration,
-                    self.name(Some(i + 1)),
-                    r,
-                    source.clone(),
-                )
-                .ok_or_else(|| self.refuse(LoadError::TooManyValues))
+            .map(|(i, (r, source))| {
+                push_input(&mut state.declaration, self.name(Some(i + 1)), r, source)
+                    .ok_or_else(|| self.refuse(LoadError::TooManyValues))
             })
             .collect::<Result<_, E>>()?;
         self.supply(&mut state, Supplied::PerCylinder(ids.clone()));
@@ -1001,17 +1027,42 @@ fn push_input(
     r: Reading,
     source: Option<UncertaintySource>,
 ) -> Option<InputId> {
-    let (u, source) = match (r.stated, source) {
-        (Some((expanded, k)), _) => (expanded / k, UncertaintySource::Stated { k }),
-        (None, Some(s)) => (0.0, s),
-        (None, None) => (0.0, UncertaintySource::None),
+    let (u, distribution, source) = match (r.stated, source) {
+        (Some((expanded, k)), _) => (
+            expanded / k,
+            Distribution::Normal,
+            UncertaintySource::Stated { k },
+        ),
+        (
+            None,
+            Some(UncertaintySource::Repeated {
+                count,
+                spread,
+                instrument,
+            }),
+        ) => (
+            spread / (count as f64).sqrt(),
+            Distribution::StudentT {
+                degrees_of_freedom: count.saturating_sub(1) as f64,
+            },
+            UncertaintySource::Repeated {
+                count,
+                spread,
+                instrument,
+            },
+        ),
+        (None, Some(s)) => (0.0, Distribution::Normal, s),
+        (None, None) => (0.0, Distribution::Normal, UncertaintySource::None),
     };
     d.inputs.push(Input {
         name,
         value: r.value,
         standard_uncertainty: u,
         components: if u > 0.0 {
-            vec![Component::normal(u)]
+            vec![Component {
+                standard_uncertainty: u,
+                distribution,
+            }]
         } else {
             Vec::new()
         },
@@ -1089,12 +1140,12 @@ impl<'de> Visitor<'de> for ValueSeed<'_> {
         if self.cx.collector.skipped() > before {
             return Ok(());
         }
-        let readings: Vec<Reading> = readings.into_iter().flatten().collect();
-        self.per_cylinder::<A::Error>(readings, None).map(|_| ())
+        let readings = readings.into_iter().flatten().map(|r| (r, None)).collect();
+        self.per_cylinder::<A::Error>(readings).map(|_| ())
     }
 
     fn visit_map<A: MapAccess<'de>>(self, mut map: A) -> Result<(), A::Error> {
-        const KEYS: &[&str] = &["value", "values", "instrument"];
+        const KEYS: &[&str] = &["value", "values", "readings", "instrument"];
         let cx = self.cx;
         let before = cx.collector.skipped();
         let mut seen = Vec::new();
@@ -1122,6 +1173,14 @@ impl<'de> Visitor<'de> for ValueSeed<'_> {
                         measurement: self.measurement,
                     })?;
                 }
+                "readings" => {
+                    given.repeated = map.next_value_seed(RepeatedSeed {
+                        cx,
+                        path: self.path.wrapper("readings"),
+                        measurement: self.measurement,
+                        per_cylinder: self.measurement.per_cylinder,
+                    })?;
+                }
                 _ => {
                     let path = self.path.key("instrument");
                     given.instrument = map
@@ -1146,7 +1205,29 @@ impl<'de> Visitor<'de> for ValueSeed<'_> {
 struct Given {
     single: Option<Reading>,
     list: Option<Vec<Reading>>,
+    /// `readings:`: the mean of each set of repeated readings, one set per cylinder where the
+    /// measurement is per cylinder.
+    repeated: Option<Vec<(Reading, TypeA)>>,
     instrument: Option<(String, DeclPath)>,
+}
+
+impl Given {
+    /// The first two of `value`, `values` and `readings` given, when more than one is.
+    fn two_forms(&self) -> Option<(&'static str, &'static str)> {
+        let given: Vec<&'static str> = [
+            (self.single.is_some(), "value"),
+            (self.list.is_some(), "values"),
+            (self.repeated.is_some(), "readings"),
+        ]
+        .iter()
+        .filter(|(is, _)| *is)
+        .map(|(_, name)| *name)
+        .collect();
+        match given.as_slice() {
+            [first, second, ..] => Some((first, second)),
+            _ => None,
+        }
+    }
 }
 
 impl ValueSeed<'_> {
@@ -1159,15 +1240,18 @@ impl ValueSeed<'_> {
         if stated && given.instrument.is_some() {
             return Err(self.refuse(LoadError::TwoUncertainties));
         }
-        let source = given
-            .instrument
-            .as_ref()
-            .map(|(name, _)| UncertaintySource::Instrument(name.clone()));
-        let ids = match (given.single, given.list) {
-            (Some(_), Some(_)) => return Err(self.refuse(LoadError::ValueAndValues)),
-            (Some(r), None) => self.single::<E>(r, source)?,
-            (None, Some(rs)) => self.per_cylinder::<E>(rs, source)?,
-            (None, None) => return Ok(()),
+        if let Some((first, second)) = given.two_forms() {
+            return Err(self.refuse(LoadError::ValueAndValues { first, second }));
+        }
+        let instrument = given.instrument.as_ref().map(|(name, _)| name.clone());
+        let source = instrument.clone().map(UncertaintySource::Instrument);
+        let ids = match (given.single, given.list, given.repeated) {
+            (Some(r), _, _) => self.single::<E>(r, source)?,
+            (None, Some(rs), _) => {
+                self.per_cylinder::<E>(rs.into_iter().map(|r| (r, source.clone())).collect())?
+            }
+            (None, None, Some(sets)) => self.repeated::<E>(sets, instrument)?,
+            (None, None, None) => return Ok(()),
         };
         if let Some((instrument, path)) = given.instrument {
             self.cx.state.borrow_mut().uses.push(InstrumentUse {
@@ -1179,6 +1263,102 @@ impl ValueSeed<'_> {
             });
         }
         Ok(())
+    }
+}
+
+impl ValueSeed<'_> {
+    /// Inputs for repeated readings: their mean with its Type A uncertainty, one per cylinder
+    /// where the measurement is per cylinder.
+    fn repeated<E: de::Error>(
+        &self,
+        sets: Vec<(Reading, TypeA)>,
+        instrument: Option<String>,
+    ) -> Result<Vec<u32>, E> {
+        let with_source = |(reading, a): (Reading, TypeA)| {
+            let source = UncertaintySource::Repeated {
+                count: a.count,
+                spread: a.spread,
+                instrument: instrument.clone(),
+            };
+            (reading, Some(source))
+        };
+        let mut sets: Vec<_> = sets.into_iter().map(with_source).collect();
+        if self.measurement.per_cylinder {
+            return self.per_cylinder::<E>(sets);
+        }
+        match sets.pop() {
+            Some((reading, source)) if sets.is_empty() => self.single::<E>(reading, source),
+            _ => Err(self.refuse(LoadError::NeedsList {
+                measurement: self.measurement.name.clone(),
+            })),
+        }
+    }
+}
+
+/// `readings:` — repeated readings of one quantity (a list of at least two values), or for a
+/// per-cylinder measurement one such list per cylinder; each list becomes its mean.
+struct RepeatedSeed<'a> {
+    cx: Context<'a>,
+    path: DeclPath,
+    measurement: &'a Measurement,
+    /// Whether this is the outer list of a per-cylinder measurement, whose elements are
+    /// lists of readings.
+    per_cylinder: bool,
+}
+
+impl<'de> DeserializeSeed<'de> for RepeatedSeed<'_> {
+    type Value = Option<Vec<(Reading, TypeA)>>;
+
+    fn deserialize<D: Deserializer<'de>>(self, d: D) -> Result<Self::Value, D::Error> {
+        let path = self.path.clone();
+        self.cx
+            .collector
+            .guard(&path, d, |d| d.deserialize_seq(self))
+    }
+}
+
+impl<'de> Visitor<'de> for RepeatedSeed<'_> {
+    type Value = Vec<(Reading, TypeA)>;
+
+    fn expecting(&self, f: &mut fmt::Formatter) -> fmt::Result {
+        if self.per_cylinder {
+            f.write_str("a list with one list of repeated readings per cylinder")
+        } else {
+            f.write_str("a list of repeated readings, like [\"72.1 cc\", \"72.4 cc\"]")
+        }
+    }
+
+    fn visit_seq<A: SeqAccess<'de>>(self, mut seq: A) -> Result<Self::Value, A::Error> {
+        let before = self.cx.collector.skipped();
+        if self.per_cylinder {
+            let mut sets = Vec::new();
+            let mut count = 0;
+            while let Some(set) = seq.next_element_seed(RepeatedSeed {
+                cx: self.cx,
+                path: self.path.element(count),
+                measurement: self.measurement,
+                per_cylinder: false,
+            })? {
+                count += 1;
+                sets.extend(set.into_iter().flatten());
+            }
+            return Ok(sets);
+        }
+        let mut readings = Vec::new();
+        let mut count = 0;
+        while let Some(r) = seq.next_element_seed(ElementSeed {
+            cx: self.cx,
+            path: self.path.element(count),
+            measurement: self.measurement,
+        })? {
+            count += 1;
+            readings.extend(r);
+        }
+        if self.cx.collector.skipped() > before {
+            return Ok(Vec::new());
+        }
+        let set = combine(&readings).map_err(|e| self.cx.refuse(&self.path, e))?;
+        Ok(vec![set])
     }
 }
 

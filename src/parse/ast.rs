@@ -27,6 +27,8 @@ pub enum Item {
     Edition(Edition),
     /// `decision guarded rejection`
     Decision(Decision),
+    /// `coverage k = 2` or `coverage 95 %`
+    Coverage(Coverage),
     /// `include "file.rules"`
     Include(Text),
     /// `measure ...`
@@ -129,6 +131,31 @@ pub struct Decision {
     /// The rule chosen.
     pub rule: DecisionRule,
     /// Where.
+    #[derive_where(skip)]
+    pub span: Span,
+}
+
+/// How the rulebook's expanded uncertainties are taken, as written.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub enum CoverageSpec {
+    /// `coverage k = 2`: a fixed coverage factor.
+    Factor(f64),
+    /// `coverage 95 %`: a coverage probability in percent, k from the t-distribution.
+    Percent(f64),
+}
+
+/// `coverage k = 2` or `coverage 95 %`
+#[derive(Clone, Debug)]
+#[derive_where(PartialEq)]
+pub struct Coverage {
+    /// The factor or probability.
+    pub spec: CoverageSpec,
+    /// The number as written, for printing it back.
+    pub written: String,
+    /// Where the number is.
+    #[derive_where(skip)]
+    pub number: Span,
+    /// The whole line.
     #[derive_where(skip)]
     pub span: Span,
 }

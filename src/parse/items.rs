@@ -6,28 +6,30 @@ use nom::combinator::{cut, opt};
 use nom::{Err, Parser};
 
 use super::ast::{
-    Bulletin, Class, ClassItem, Decision, DecisionRule, Define, Edition, Item, ListEntry, ListKind,
-    Measure, PartsList, Rule, WhenGroup,
+    Bulletin, Class, ClassItem, Coverage, CoverageSpec, Decision, DecisionRule, Define, Edition,
+    Item, ListEntry, ListKind, Measure, PartsList, Rule, WhenGroup,
 };
 use super::error::{ParseError, SyntaxError};
 use super::expr::{Allowance, condition, expr, test};
 use super::lexical::{
-    Input, PResult, date, dotted_name, identifier, keyword, nested, pattern, section, span_between,
-    string, symbol, ws,
+    Input, PResult, date, dotted_name, identifier, keyword, nested, number_piece, pattern, section,
+    span_between, string, symbol, ws,
 };
 
 /// Keywords that start a top-level item; parsing resumes at one of these after an error.
 pub const ITEM_KEYWORDS: &[&str] = &[
-    "series", "edition", "decision", "include", "measure", "define", "approved", "banned", "class",
-    "bulletin",
+    "series", "edition", "decision", "coverage", "include", "measure", "define", "approved",
+    "banned", "class", "bulletin",
 ];
 
-/// `item = series | edition | decision | include | measure | define | list | class | bulletin`
+/// `item = series | edition | decision | coverage | include | measure | define | list | class
+///        | bulletin`
 pub fn item(input: Input) -> PResult<Item> {
     alt((
         series,
         edition,
         decision,
+        coverage,
         include,
         measure.map(Item::Measure),
         define.map(Item::Define),
@@ -87,6 +89,24 @@ fn decision_rule(input: Input) -> PResult<DecisionRule> {
         .map(|(_, rule)| rule);
     let simple = (keyword("simple"), keyword("acceptance")).map(|_| DecisionRule::SimpleAcceptance);
     alt((guarded, simple)).parse(input)
+}
+
+/// `coverage = "coverage" ( "k" "=" number | number "%" )`
+fn coverage(input: Input) -> PResult<Item> {
+    let (start, _) = ws(input)?;
+    let (rest, _) = keyword("coverage").parse(start)?;
+    let factor = (keyword("k"), symbol("=", "`=`"), number_piece)
+        .map(|(_, _, (value, piece))| (CoverageSpec::Factor(value), piece));
+    let percent = (number_piece, symbol("%", "`%`"))
+        .map(|((value, piece), _)| (CoverageSpec::Percent(value), piece));
+    let (rest, (spec, piece)) = cut(alt((factor, percent))).parse(rest)?;
+    let line = Coverage {
+        spec,
+        written: piece.text.to_string(),
+        number: piece.span,
+        span: span_between(&start, &rest),
+    };
+    Ok((rest, Item::Coverage(line)))
 }
 
 /// `include = "include" string`

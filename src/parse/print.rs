@@ -16,7 +16,11 @@ pub fn canonical(book: &Rulebook) -> String {
     for item in &book.items {
         let header = matches!(
             item,
-            Item::Series(_) | Item::Edition(_) | Item::Decision(_) | Item::Include(_)
+            Item::Series(_)
+                | Item::Edition(_)
+                | Item::Decision(_)
+                | Item::Coverage(_)
+                | Item::Include(_)
         );
         let one_line = header || matches!(item, Item::Measure(_) | Item::Define(_));
         let continues_header_block = one_line && previous_was_header;
@@ -29,6 +33,14 @@ pub fn canonical(book: &Rulebook) -> String {
     out
 }
 
+/// `coverage k = 2` or `coverage 95 %`, the number as written.
+fn coverage_text(c: &super::ast::Coverage) -> String {
+    match c.spec {
+        super::ast::CoverageSpec::Factor(_) => format!("coverage k = {}", c.written),
+        super::ast::CoverageSpec::Percent(_) => format!("coverage {} %", c.written),
+    }
+}
+
 fn item_text(out: &mut String, item: &Item) {
     match item {
         Item::Series(name) => line(out, 0, &format!("series {}", quoted(name))),
@@ -38,6 +50,7 @@ fn item_text(out: &mut String, item: &Item) {
             &format!("edition {} effective {}", quoted(&e.name), e.effective.date),
         ),
         Item::Decision(d) => line(out, 0, &format!("decision {}", d.rule.words())),
+        Item::Coverage(c) => line(out, 0, &coverage_text(c)),
         Item::Include(path) => line(out, 0, &format!("include {}", quoted(path))),
         Item::Measure(m) => line(out, 0, &measure_text(m)),
         Item::Define(d) => line(

@@ -202,6 +202,24 @@ pub enum UncertaintyFrom {
     Instrument(String),
     /// A literal in the rulebook.
     Rulebook,
+    /// The calibration of an instrument, shared by every reading taken with it.
+    Calibration {
+        /// The instrument.
+        instrument: String,
+        /// How many readings share it.
+        readings: usize,
+    },
+    /// The mean of repeated readings (Type A).
+    Repeated {
+        /// How many readings, n.
+        count: usize,
+        /// Their experimental standard deviation s, in the input's unit.
+        standard_deviation: f64,
+        /// Degrees of freedom, n − 1.
+        degrees_of_freedom: usize,
+        /// The instrument they were taken with, if one is named.
+        instrument: Option<String>,
+    },
 }
 
 /// A derived value of the rulebook, with its value(s) for this engine.
@@ -262,6 +280,9 @@ pub struct NumberView {
     pub expanded_uncertainty: f64,
     /// The coverage factor k.
     pub coverage_factor: f64,
+    /// The effective degrees of freedom of the margin's uncertainty (Welch–Satterthwaite);
+    /// `null` when infinite (every component of Type B).
+    pub effective_degrees_of_freedom: Option<f64>,
     /// Probability of conformance, 0 to 1.
     pub probability_of_conformance: f64,
     /// The deciding cylinder (1-based), for per-cylinder values.
@@ -284,6 +305,8 @@ pub struct NumberShown {
     pub margin: String,
     /// `0.000058 in`.
     pub expanded_uncertainty: String,
+    /// `k = 2`, `k = 2.06, ν_eff = 25.5`.
+    pub coverage: String,
     /// `≥ 99.99 %`.
     pub probability_of_conformance: String,
 }
@@ -581,13 +604,13 @@ impl EngineView {
                     standard_uncertainty,
                     uncertainty_from,
                     ..
-                } => Some((
+                } if !matches!(uncertainty_from, UncertaintyFrom::Repeated { .. }) => Some((
                     i.measurement,
                     *unit,
                     standard_uncertainty.to_bits(),
                     uncertainty_from.clone(),
                 )),
-                InputValue::Text { .. } => None,
+                _ => None,
             }
         };
         let Some(first) = trace.first().and_then(key) else {
@@ -847,8 +870,8 @@ impl RuleView {
         lines.push(fact(
             "margin",
             format!(
-                "{}, expanded uncertainty U = {} (k = {})",
-                s.margin, s.expanded_uncertainty, n.coverage_factor
+                "{}, expanded uncertainty U = {} ({})",
+                s.margin, s.expanded_uncertainty, s.coverage
             ),
         ));
         lines.push(fact(
@@ -869,6 +892,10 @@ fn number_view(n: &Numeric, reading: Option<&Input>) -> NumberView {
         margin: n.margin / s,
         expanded_uncertainty: n.expanded / s,
         coverage_factor: n.k,
+        effective_degrees_of_freedom: n
+            .degrees_of_freedom
+            .is_finite()
+            .then_some(n.degrees_of_freedom),
         probability_of_conformance: n.probability,
         cylinder: n.cylinder,
         shown: number_shown(n, reading),
@@ -914,6 +941,7 @@ fn number_shown(n: &Numeric, reading: Option<&Input>) -> NumberShown {
             .map(|(a, b)| [quantity(a, n.unit), quantity(b, n.unit)]),
         margin: format!("{} {side}", margin_digits.quantity(n.margin.abs(), n.unit)),
         expanded_uncertainty: digits.quantity(n.expanded, n.unit),
+        coverage: coverage_of(n),
         probability_of_conformance: probability(n.probability, n.expanded > 0.0),
     }
 }
@@ -1011,6 +1039,27 @@ fn breach_unit(b: &Breach, r: &EngineReport) -> Option<Option<&'static Unit>> {
             [one] if r.input(*one).value == b.value => Some(unit_of(one)),
             _ => None,
         },
+    }
+}
+
+/// The coverage of a finding's numbers in words.
+fn coverage_of(numbers: &Numeric) -> String {
+    coverage_words(numbers.k, numbers.degrees_of_freedom)
+}
+
+/// `k = 2` for a factor as written, `k = 2.06, ν_eff = 25.5` with finite effective degrees of
+/// freedom; a k from the t-distribution to two decimals.
+fn coverage_words(k: f64, nu: f64) -> String {
+    let trim = |t: String| t.trim_end_matches('0').trim_end_matches('.').to_string();
+    let k = if (k * 1000.0).fract() == 0.0 {
+        format!("{k}")
+    } else {
+        trim(format!("{k:.2}"))
+    };
+    if nu.is_finite() {
+        format!("k = {k}, ν_eff = {}", trim(format!("{nu:.1}")))
+    } else {
+        format!("k = {k}")
     }
 }
 
@@ -1112,7 +1161,7 @@ fn input_view(id: usize, input: &Input, r: &EngineReport) -> InputView {
             cylinder,
             ..
         } => (Some(measurement), cylinder),
-        InputName::Literal(_) => (None, None),
+        InputName::Literal(_) | InputName::Calibration { .. } => (None, None),
     };
     InputView {
         id,
@@ -1125,12 +1174,7 @@ fn input_view(id: usize, input: &Input, r: &EngineReport) -> InputView {
             unit: unit.map(|u| u.symbol),
             value: input.value / scale,
             standard_uncertainty: input.standard_uncertainty / scale,
-            uncertainty_from: match &input.source {
-                UncertaintySource::None => UncertaintyFrom::None,
-                UncertaintySource::Stated { k } => UncertaintyFrom::Stated { k: *k },
-                UncertaintySource::Instrument(i) => UncertaintyFrom::Instrument(i.clone()),
-                UncertaintySource::Rulebook => UncertaintyFrom::Rulebook,
-            },
+            uncertainty_from: uncertainty_from(&input.source, scale),
             uncertainty_shown: uncertainty_words(input, unit),
         },
     }
@@ -1141,7 +1185,7 @@ fn input_view(id: usize, input: &Input, r: &EngineReport) -> InputView {
 fn written(input: &Input, unit: Option<&Unit>) -> String {
     let text = match &input.name {
         InputName::Literal(text) => input.written.as_deref().or(Some(text.as_str())),
-        InputName::Measured { .. } => input.written.as_deref(),
+        InputName::Measured { .. } | InputName::Calibration { .. } => input.written.as_deref(),
     };
     let value = text.map(|w| {
         let end = w.find('±').or_else(|| w.find("+/-")).unwrap_or(w.len());
@@ -1153,6 +1197,32 @@ fn written(input: &Input, unit: Option<&Unit>) -> String {
     }
 }
 
+fn uncertainty_from(source: &UncertaintySource, scale: f64) -> UncertaintyFrom {
+    match source {
+        UncertaintySource::None => UncertaintyFrom::None,
+        UncertaintySource::Stated { k } => UncertaintyFrom::Stated { k: *k },
+        UncertaintySource::Instrument(i) => UncertaintyFrom::Instrument(i.clone()),
+        UncertaintySource::Rulebook => UncertaintyFrom::Rulebook,
+        UncertaintySource::Calibration {
+            instrument,
+            readings,
+        } => UncertaintyFrom::Calibration {
+            instrument: instrument.clone(),
+            readings: *readings,
+        },
+        UncertaintySource::Repeated {
+            count,
+            spread,
+            instrument,
+        } => UncertaintyFrom::Repeated {
+            count: *count,
+            standard_deviation: spread / scale,
+            degrees_of_freedom: count.saturating_sub(1),
+            instrument: instrument.clone(),
+        },
+    }
+}
+
 fn uncertainty_words(input: &Input, unit: Option<&Unit>) -> String {
     let u = Digits::supported_in(input.standard_uncertainty, unit)
         .quantity(input.standard_uncertainty, unit);
@@ -1161,6 +1231,25 @@ fn uncertainty_words(input: &Input, unit: Option<&Unit>) -> String {
         UncertaintySource::Instrument(i) => format!("u {u} ({i})"),
         UncertaintySource::Stated { k } => format!("u {u} (stated, k = {k})"),
         UncertaintySource::Rulebook => format!("u {u} (rulebook)"),
+        UncertaintySource::Calibration { readings, .. } => {
+            format!("u {u} (calibration, shared by {readings} readings)")
+        }
+        UncertaintySource::Repeated {
+            count,
+            spread,
+            instrument,
+        } => {
+            let with = instrument
+                .as_ref()
+                .map(|i| format!(" with {i}"))
+                .unwrap_or_default();
+            format!(
+                "mean {}, s {}, n {count} (ν = {}): u {u}{with}",
+                Digits::supported_in(input.standard_uncertainty, unit).quantity(input.value, unit),
+                Digits::supported_in(*spread, unit).quantity(*spread, unit),
+                count.saturating_sub(1)
+            )
+        }
     }
 }
 
@@ -1316,6 +1405,16 @@ mod tests {
             ..input(None, 0.050_000_623, UncertaintySource::Rulebook)
         };
         assert_eq!(written(&literal, mm), "50.000623 mm");
+    }
+
+    #[test]
+fn k_is_shown_as_written_or_to_two_decimals_with_finite_degrees_of_freedom() {
+        assert_eq!(coverage_words(2.0, f64::INFINITY), "k = 2");
+        assert_eq!(coverage_words(1.959_963_985, f64::INFINITY), "k = 1.96");
+        assert_eq!(
+            coverage_words(2.057_451_959, 25.510_204),
+            "k = 2.06, ν_eff = 25.5"
+        );
     }
 
     #[test]
