@@ -30,6 +30,9 @@ pub struct Evaluator<'a> {
     /// The input id of each literal with a stated uncertainty evaluated so far, by
     /// [`LiteralId`].
     literal_inputs: Vec<Option<InputId>>,
+    /// Shifts added to the literals with a stated uncertainty, by [`LiteralId`]: a Monte Carlo
+    /// draw (`evaluate::montecarlo`); empty otherwise.
+    pub literal_shifts: Vec<f64>,
 }
 
 impl<'a> Evaluator<'a> {
@@ -41,6 +44,7 @@ impl<'a> Evaluator<'a> {
             rulebook_inputs: Vec::new(),
             derived: vec![None; rulebook.derived.len()],
             literal_inputs: vec![None; rulebook.literals.len()],
+            literal_shifts: Vec::new(),
         }
     }
 
@@ -183,7 +187,8 @@ impl<'a> Evaluator<'a> {
         let Some(literal) = l.uncertain else {
             return Ok(Dual::constant(l.si));
         };
-        Ok(Dual::input(self.literal_input(literal)?, l.si))
+        let shift = self.literal_shifts.get(literal.index()).copied();
+        Ok(Dual::input(self.literal_input(literal)?, l.si + shift.unwrap_or(0.0)))
     }
 
     fn literal_input(&mut self, literal: LiteralId) -> Evaluated<InputId> {

@@ -259,7 +259,7 @@ impl<'a> Evaluator<'a> {
         let margins = subject.zip(limit, |s, t| if upper { t.sub(s) } else { s.sub(t) });
         let (i, m) = self.worst(margins.numbers(), slack, strict)?;
         let lim = limit.at(i)?.value + if upper { slack } else { -slack };
-        let numeric = self.numeric(
+        let mut numeric = self.numeric(
             subject.at(i)?.value,
             lim,
             &m,
@@ -269,6 +269,8 @@ impl<'a> Evaluator<'a> {
             cylinder(&margins, i),
             None,
         );
+        numeric.0.all_cylinders =
+            super::joint::one_sided(margins.numbers(), slack, strict, |id| self.uncertainty(id));
         Ok(Checked {
             finding: numeric.1,
             numeric: Some(numeric.0),
@@ -319,6 +321,8 @@ impl<'a> Evaluator<'a> {
                 unit,
                 cylinder: cylinder(&low_margins, i),
                 range: Some((value - low_value, value + high_value)),
+                all_cylinders: None,
+                monte_carlo: None,
             };
             let candidate = Checked {
                 finding: f,
@@ -328,6 +332,14 @@ impl<'a> Evaluator<'a> {
             if worst.as_ref().is_none_or(|w| rank(&candidate) < rank(w)) {
                 worst = Some(candidate);
             }
+        }
+        if let Some(n) = worst.as_mut().and_then(|w| w.numeric.as_mut()) {
+            n.all_cylinders = super::joint::between(
+                low_margins.numbers(),
+                high_margins.numbers(),
+                slack,
+                |id| self.uncertainty(id),
+            );
         }
         worst.ok_or_else(no_value)
     }
@@ -374,6 +386,8 @@ impl<'a> Evaluator<'a> {
             unit,
             cylinder,
             range,
+            all_cylinders: None,
+            monte_carlo: None,
         };
         (n, f)
     }
