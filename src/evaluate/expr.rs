@@ -33,6 +33,9 @@ pub struct Evaluator<'a> {
     /// Shifts added to the literals with a stated uncertainty, by [`LiteralId`]: a Monte Carlo
     /// draw (`evaluate::montecarlo`); empty otherwise.
     pub literal_shifts: Vec<f64>,
+    /// Values without sensitivities: every input is taken as a constant (a Monte Carlo draw
+    /// needs the value alone, and is much faster without them).
+    pub values_only: bool,
 }
 
 impl<'a> Evaluator<'a> {
@@ -45,6 +48,7 @@ impl<'a> Evaluator<'a> {
             derived: vec![None; rulebook.derived.len()],
             literal_inputs: vec![None; rulebook.literals.len()],
             literal_shifts: Vec::new(),
+            values_only: false,
         }
     }
 
@@ -178,7 +182,16 @@ impl<'a> Evaluator<'a> {
         let input = self.declaration.inputs.get(id as usize).ok_or_else(|| {
             Unevaluated::internal(format!("input {id} is not in the declaration"))
         })?;
-        Ok(Dual::input(id, input.value))
+        Ok(self.dual(id, input.value))
+    }
+
+    /// An input's number: with its sensitivity, or alone when only values are wanted.
+    fn dual(&self, id: InputId, value: f64) -> Dual {
+        if self.values_only {
+            Dual::constant(value)
+        } else {
+            Dual::input(id, value)
+        }
     }
 
     /// A literal in SI units; one with a stated uncertainty is an input of its own, numbered
@@ -188,7 +201,8 @@ impl<'a> Evaluator<'a> {
             return Ok(Dual::constant(l.si));
         };
         let shift = self.literal_shifts.get(literal.index()).copied();
-        Ok(Dual::input(self.literal_input(literal)?, l.si + shift.unwrap_or(0.0)))
+        let id = self.literal_input(literal)?;
+        Ok(self.dual(id, l.si + shift.unwrap_or(0.0)))
     }
 
     fn literal_input(&mut self, literal: LiteralId) -> Evaluated<InputId> {

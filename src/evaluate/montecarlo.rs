@@ -150,8 +150,8 @@ pub fn attach(report: &mut EngineReport, settings: &Settings) {
     };
     loop {
         let done: usize = batches.iter().map(|b| b.size).sum();
-        let settled = batches.len() >= 2 && (0..jobs.len()).all(|j| settled(j, &batches));
-        if done >= wanted || (settings.draws == Draws::Adaptive && settled) {
+        let finished = batches.len() >= 2 && (0..jobs.len()).all(|j| settled(j, jobs[j].scale, &batches));
+        if done >= wanted || (settings.draws == Draws::Adaptive && finished) {
             break;
         }
         let round = settings.threads.max(1);
@@ -164,7 +164,12 @@ pub fn attach(report: &mut EngineReport, settings: &Settings) {
             })
             .filter(|(_, size)| *size > 0)
             .collect();
-        batches.extend(run_round(&model, report, &jobs, &sizes, settings.seed));
+        // a rule that has settled draws no more (each rule is its own adaptive run); the
+        // inputs are drawn all the same, so every rule sees the same draws in any case
+        let active: Vec<bool> = (0..jobs.len())
+            .map(|j| settings.draws != Draws::Adaptive || batches.len() < 2 || !settled(j, jobs[j].scale, &batches))
+            .collect();
+        batches.extend(run_round(&model, report, &jobs, &active, &sizes, settings.seed));
     }
     let adaptive = settings.draws == Draws::Adaptive;
     for (j, job) in jobs.iter().enumerate() {
@@ -182,6 +187,9 @@ pub fn attach(report: &mut EngineReport, settings: &Settings) {
 /// One numeric rule to draw: its limit, the closest cylinder and the linear estimate.
 struct Job<'a> {
     outcome: usize,
+    /// The size of the unit the limit is written in, SI per unit: the significant digits of
+    /// u(y) are counted in it.
+    scale: f64,
     limit: &'a Limit<Expr>,
     cylinder: usize,
     value: f64,
@@ -199,7 +207,7 @@ fn jobs<'a>(report: &EngineReport<'a>) -> Vec<Job<'a>> {
         let Some(numeric) = &numeric.numeric else {
             continue;
         };
-        let TestKind::Limit { limit, .. } = &outcome.rule.test.kind else {
+        let TestKind::Limit { limit, unit } = &outcome.rule.test.kind else {
             continue;
         };
         if matches!(limit.side, Side::Equal { .. } | Side::NotEqual { .. }) {
@@ -215,6 +223,7 @@ fn jobs<'a>(report: &EngineReport<'a>) -> Vec<Job<'a>> {
         let uncertainty = evaluator.combined(at);
         jobs.push(Job {
             outcome: i,
+            scale: unit.map_or(1.0, |u| u.to_si),
             limit,
             cylinder,
             value: at.value,
@@ -234,6 +243,7 @@ struct Batch {
 /// estimate (kept in single precision: the deviations are of the order of u).
 #[derive(Default)]
 struct Drawn {
+    draws: usize,
     deviations: Vec<f32>,
     /// Mean, u and the interval ends of this batch's deviations.
     summary: Option<Summary>,
@@ -317,13 +327,14 @@ fn run_round(
     model: &Model,
     report: &EngineReport,
     jobs: &[Job],
+    active: &[bool],
     sizes: &[(usize, usize)],
     seed: u64,
 ) -> Vec<Batch> {
     std::thread::scope(|scope| {
         let handles: Vec<_> = sizes
             .iter()
-            .map(|&(index, size)| scope.spawn(move || batch(model, report, jobs, index, size, seed)))
+            .map(|&(index, size)| scope.spawn(move || batch(model, report, jobs, active, index, size, seed)))
             .collect();
         handles
             .into_iter()
@@ -337,6 +348,7 @@ fn batch(
     model: &Model,
     report: &EngineReport,
     jobs: &[Job],
+    active: &[bool],
     index: usize,
     size: usize,
     seed: u64,
@@ -361,7 +373,13 @@ fn batch(
         }
         let mut evaluator = Evaluator::new(report.rulebook, &declaration);
         evaluator.literal_shifts = std::mem::take(&mut shifts);
-        for (job, drawn) in jobs.iter().zip(rules.iter_mut()) {
+        evaluator.values_only = true;
+        for ((job, drawn), _) in jobs
+            .iter()
+            .zip(rules.iter_mut())
+            .zip(active)
+            .filter(|(_, active)| **active)
+        {
             drawn.record(job, draw(&mut evaluator, job));
         }
         shifts = std::mem::take(&mut evaluator.literal_shifts);
@@ -442,6 +460,7 @@ fn inside(
 
 impl Drawn {
     fn record(&mut self, job: &Job, d: Option<Draw>) {
+        self.draws += 1;
         match d {
             Some(d) => {
                 self.deviations.push((d.value - job.value) as f32);
@@ -480,6 +499,11 @@ fn interval(values: &mut [f32]) -> Option<(f64, f64)> {
     let high_index = (r + q).min(m) - 1;
     let high = *values.select_nth_unstable_by(high_index, f32::total_cmp).1;
     Some((f64::from(low), f64::from(high)))
+}
+
+/// δ for u(y) in SI units, its digits counted in a unit of `scale` SI units.
+fn tolerance_in(u: f64, scale: f64) -> f64 {
+    tolerance(u / scale) * scale
 }
 
 /// JCGM 101 7.9.2: u(y) written as c·10ˡ with c of two digits gives δ = 10ˡ/2.
@@ -531,12 +555,12 @@ fn summaries(j: usize, batches: &[Batch]) -> Vec<Summary> {
 /// JCGM 101 7.9.4: twice the standard deviation of the mean of the batch estimates of y, u(y)
 /// and the two interval ends is at most δ, δ from u(y) of every draw so far. A job with no
 /// defined draw has nothing to settle.
-fn settled(j: usize, batches: &[Batch]) -> bool {
+fn settled(j: usize, scale: f64, batches: &[Batch]) -> bool {
     let s = summaries(j, batches);
     if s.is_empty() {
         return true;
     }
-    let delta = tolerance(pooled_uncertainty(j, batches));
+    let delta = tolerance_in(pooled_uncertainty(j, batches), scale);
     [
         spread(&s, |x| x.0),
         spread(&s, |x| x.1),
@@ -552,8 +576,8 @@ impl Job<'_> {
     /// framework (JCGM 101 8.2). An interval end further from the GUM one than δ by more than
     /// twice its own standard deviation shows inadequacy even before the run settles.
     fn result(&self, j: usize, batches: &[Batch], seed: u64, adaptive: bool) -> MonteCarlo {
-        let draws: usize = batches.iter().map(|b| b.size).sum();
         let rules = batches.iter().map(|b| &b.rules[j]);
+        let draws: usize = rules.clone().map(|r| r.draws).sum();
         let undefined: usize = rules.clone().map(|r| r.undefined).sum();
         let conforming: usize = rules.clone().map(|r| r.conforming).sum();
         let all_conforming: usize = rules.clone().map(|r| r.all_conforming).sum();
@@ -565,10 +589,10 @@ impl Job<'_> {
         // both ends as deviations from y, as the draws are kept
         let d_low = (linear_interval.0 - y - low).abs();
         let d_high = (linear_interval.1 - y - high).abs();
-        let delta = tolerance(u);
+        let delta = tolerance_in(u, self.scale);
         let summaries = summaries(j, batches);
         let (s_low, s_high) = (spread(&summaries, |x| x.2), spread(&summaries, |x| x.3));
-        let settled = settled(j, batches) && summaries.len() >= 2;
+        let settled = settled(j, self.scale, batches) && summaries.len() >= 2;
         let validation = if d_low > delta + 2.0 * s_low || d_high > delta + 2.0 * s_high {
             Validation::NotAdequate
         } else if settled && d_low <= delta && d_high <= delta {

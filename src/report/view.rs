@@ -263,6 +263,11 @@ pub struct NumberView {
     pub probability_of_conformance: f64,
     /// The deciding cylinder (1-based), for per-cylinder values.
     pub cylinder: Option<usize>,
+    /// For a limit on every cylinder, the probability that all conform.
+    pub all_cylinders: Option<super::joint::AllCylindersView>,
+    /// The Monte Carlo check, when one was asked for (`check --monte-carlo`).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub monte_carlo: Option<super::montecarlo::MonteCarloView>,
     /// The same numbers with the digits to show (the reports' words; not in the JSON).
     #[serde(skip)]
     pub shown: NumberShown,
@@ -648,7 +653,9 @@ impl RuleView {
             },
             penalty: o.penalty().map(str::to_string),
             note: o.note().map(str::to_string),
-            numeric: checked.and_then(|c| c.numeric.as_ref()).map(number_view),
+            numeric: checked
+                .and_then(|c| c.numeric.as_ref())
+                .map(|n| number_view(n, r)),
             observed: checked.and_then(|c| c.observed.clone()),
             missing: o.missing.clone(),
             not_finite: o.not_finite,
@@ -775,11 +782,17 @@ impl RuleView {
             "conformance probability",
             s.probability_of_conformance.clone(),
         ));
+        if let Some(all) = &n.all_cylinders {
+            lines.push(fact("all cylinders", all.shown.clone()));
+        }
+        if let Some(mc) = &n.monte_carlo {
+            lines.extend(mc.facts.iter().cloned().map(Line::Fact));
+        }
         lines.push(Line::Scale(n));
     }
 }
 
-fn number_view(n: &Numeric) -> NumberView {
+fn number_view(n: &Numeric, r: &EngineReport) -> NumberView {
     let s = n.unit.map_or(1.0, |u| u.to_si);
     let side = if n.margin >= 0.0 { "inside" } else { "outside" };
     NumberView {
@@ -792,6 +805,14 @@ fn number_view(n: &Numeric) -> NumberView {
         coverage_factor: n.k,
         probability_of_conformance: n.probability,
         cylinder: n.cylinder,
+        all_cylinders: n
+            .all_cylinders
+            .as_ref()
+            .map(|a| super::joint::view(a, n.expanded > 0.0, r)),
+        monte_carlo: n
+            .monte_carlo
+            .as_ref()
+            .map(|m| super::montecarlo::view(m, n.unit)),
         shown: NumberShown {
             value: quantity(n.value, n.unit),
             limit: quantity(n.limit, n.unit),
