@@ -66,7 +66,7 @@ pub fn view(all: &AllCylinders, uncertain: bool, r: &EngineReport) -> AllCylinde
     };
     let how = match (&all.method, shared_inputs.as_slice()) {
         (JointMethod::Product, _) | (_, []) => {
-            "no input shared between cylinders: the product of theirs".to_string()
+            "no input shared between cylinders: the product of their probabilities".to_string()
         }
         (JointMethod::Sampled { samples, seed, .. }, names) => format!(
             "{} shared between cylinders: {samples} draws over them, seed {seed}",
