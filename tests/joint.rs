@@ -45,12 +45,16 @@ fn eight_independent_cylinders_each_at_95_2_percent_all_conform_at_about_68_perc
     let z = 1.664_562_861_202_721;
     let u = 0.0003;
     let margins: Vec<Dual> = (0..8).map(|i| margin(z * u, &[(i, -1.0)])).collect();
-    let all = joint::one_sided(&margins, 0.0, false, |_| u).expect("eight cylinders");
+    let all = joint::one_sided(&margins, 0.0, false, |_| u).or_panic("eight cylinders");
     assert_eq!(all.method, JointMethod::Product);
     assert!(all.shared.is_empty());
     assert!((phi(z) - 0.952).abs() < 1e-12);
     assert!((all.probability - phi(z).powi(8)).abs() < 1e-12);
-    assert!((all.probability - 0.674_677).abs() < 1e-6, "{}", all.probability);
+    assert!(
+        (all.probability - 0.674_677).abs() < 1e-6,
+        "{}",
+        all.probability
+    );
 }
 
 #[test]
@@ -59,11 +63,15 @@ fn one_input_in_every_margin_and_nothing_else_gives_the_worst_cylinders_probabil
     let u = 0.0004;
     let values = [0.0010, 0.0004, 0.0008, 0.0012];
     let margins: Vec<Dual> = values.iter().map(|m| margin(*m, &[(0, -1.0)])).collect();
-    let all = joint::one_sided(&margins, 0.0, false, |_| u).expect("four cylinders");
+    let all = joint::one_sided(&margins, 0.0, false, |_| u).or_panic("four cylinders");
     assert_eq!(all.method, JointMethod::Quadrature { dimensions: 1 });
     assert_eq!(all.shared, vec![0]);
     let worst = phi(0.0004 / u);
-    assert!((all.probability - worst).abs() < 1e-9, "{}", all.probability);
+    assert!(
+        (all.probability - worst).abs() < 1e-9,
+        "{}",
+        all.probability
+    );
 }
 
 #[test]
@@ -74,9 +82,13 @@ fn a_range_with_one_shared_input_and_nothing_else_is_the_narrowest_window() {
     let windows = [(1.0, 2.0), (1.5, 0.7), (0.9, 1.4)];
     let low: Vec<Dual> = windows.iter().map(|w| margin(w.0, &[(0, 1.0)])).collect();
     let high: Vec<Dual> = windows.iter().map(|w| margin(w.1, &[(0, -1.0)])).collect();
-    let all = joint::between(&low, &high, 0.0, |_| u).expect("three cylinders");
+    let all = joint::between(&low, &high, 0.0, |_| u).or_panic("three cylinders");
     let expected = phi(0.7 / u) - phi(-0.9 / u);
-    assert!((all.probability - expected).abs() < 1e-9, "{}", all.probability);
+    assert!(
+        (all.probability - expected).abs() < 1e-9,
+        "{}",
+        all.probability
+    );
 }
 
 #[test]
@@ -98,31 +110,31 @@ struct Case {
 
 fn cases() -> Vec<Case> {
     let text = include_str!("vectors/joint.json");
-    let doc: serde_json::Value = serde_json::from_str(text).expect("joint.json");
+    let doc: serde_json::Value = serde_json::from_str(text).or_panic("joint.json");
     let numbers = |v: &serde_json::Value| -> Vec<f64> {
         v.as_array()
-            .expect("array")
+            .or_panic("array")
             .iter()
-            .map(|x| x.as_f64().expect("number"))
+            .map(|x| x.as_f64().or_panic("number"))
             .collect()
     };
     doc["cases"]
         .as_array()
-        .expect("cases")
+        .or_panic("cases")
         .iter()
         .map(|c| Case {
-            name: c["name"].as_str().expect("name").to_string(),
-            kind: c["kind"].as_str().expect("kind").to_string(),
-            margins: c["margins"].as_array().expect("margins").clone(),
+            name: c["name"].as_str().or_panic("name").to_string(),
+            kind: c["kind"].as_str().or_panic("kind").to_string(),
+            margins: c["margins"].as_array().or_panic("margins").clone(),
             own: numbers(&c["own_uncertainties"]),
             shared: c["shared_coefficients"]
                 .as_array()
-                .expect("coefficients")
+                .or_panic("coefficients")
                 .iter()
                 .map(numbers)
                 .collect(),
             u_shared: numbers(&c["shared_uncertainties"]),
-            probability: c["probability"].as_f64().expect("probability"),
+            probability: c["probability"].as_f64().or_panic("probability"),
         })
         .collect()
 }
@@ -152,11 +164,11 @@ fn shared_inputs_agree_with_scipys_multivariate_normal_orthant_probabilities() {
         };
         let all = if case.kind == "one_sided" {
             let margins: Vec<Dual> = (0..n)
-                .map(|i| margin(case.margins[i].as_f64().expect("m"), &partials(i, -1.0)))
+                .map(|i| margin(case.margins[i].as_f64().or_panic("m"), &partials(i, -1.0)))
                 .collect();
             joint::one_sided(&margins, 0.0, false, uncertainty)
         } else {
-            let side = |i: usize, k: usize| case.margins[i][k].as_f64().expect("m");
+            let side = |i: usize, k: usize| case.margins[i][k].as_f64().or_panic("m");
             let low: Vec<Dual> = (0..n)
                 .map(|i| margin(side(i, 0), &partials(i, 1.0)))
                 .collect();
@@ -165,7 +177,7 @@ fn shared_inputs_agree_with_scipys_multivariate_normal_orthant_probabilities() {
                 .collect();
             joint::between(&low, &high, 0.0, uncertainty)
         }
-        .expect("several cylinders");
+        .or_panic("several cylinders");
         let tolerance = match all.method {
             JointMethod::Sampled { standard_error, .. } => 4.0 * standard_error + 1e-5,
             _ => 1e-5,
@@ -235,11 +247,11 @@ fn a_check_reports_every_cylinder_beside_the_closest_and_a_shared_stroke_is_inte
             .checked
             .as_ref()
             .and_then(|c| c.numeric.clone())
-            .expect("numeric")
+            .or_panic("numeric")
     };
     // rule 1: four bores, each its own reading: the product of the four
     let bore = numeric(0);
-    let all = bore.all_cylinders.clone().expect("every cylinder");
+    let all = bore.all_cylinders.clone().or_panic("every cylinder");
     assert_eq!(all.method, JointMethod::Product);
     assert_eq!(all.cylinders, 4);
     // resolution 0.0001 in gives u = 0.0001/√12 in (GUM F.2.2.1); each margin to 4.030 in
@@ -260,7 +272,7 @@ fn a_check_reports_every_cylinder_beside_the_closest_and_a_shared_stroke_is_inte
     // product of their probabilities and less likely than the closest one (Slepian's
     // inequality for normal vectors with non-negative correlations).
     let swept = numeric(1);
-    let all = swept.all_cylinders.clone().expect("every cylinder");
+    let all = swept.all_cylinders.clone().or_panic("every cylinder");
     assert_eq!(all.method, JointMethod::Quadrature { dimensions: 1 });
     assert_eq!(all.shared.len(), 1);
     // V = π/4·B²·S; u² = (π/2·B·S·u_B)² + (π/4·B²·u_S)² (GUM eq. 10), 1 ci = 16.387064 cm³
@@ -277,6 +289,27 @@ fn a_check_reports_every_cylinder_beside_the_closest_and_a_shared_stroke_is_inte
         })
         .product();
     assert!(product < 0.95, "a test that can tell: {product}");
-    assert!(all.probability > product + 1e-3, "{} {product}", all.probability);
+    assert!(
+        all.probability > product + 1e-3,
+        "{} {product}",
+        all.probability
+    );
     assert!(all.probability < swept.probability, "{}", all.probability);
+}
+
+/// `unwrap_or_else(panic!)` with a word on what was wanted, for options and results alike.
+trait OrPanic<T> {
+    fn or_panic(self, what: &str) -> T;
+}
+
+impl<T> OrPanic<T> for Option<T> {
+    fn or_panic(self, what: &str) -> T {
+        self.unwrap_or_else(|| panic!("no {what}"))
+    }
+}
+
+impl<T, E: std::fmt::Debug> OrPanic<T> for Result<T, E> {
+    fn or_panic(self, what: &str) -> T {
+        self.unwrap_or_else(|e| panic!("{what}: {e:?}"))
+    }
 }

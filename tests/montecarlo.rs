@@ -66,8 +66,11 @@ fn run(settings: Settings) -> Vec<(MonteCarlo, f64)> {
         .iter()
         .map(|o| {
             let n = o.checked.as_ref().and_then(|c| c.numeric.clone());
-            let n = n.expect("numeric");
-            (n.monte_carlo.expect("a Monte Carlo result"), n.probability)
+            let n = n.or_panic("numeric");
+            (
+                n.monte_carlo.or_panic("a Monte Carlo result"),
+                n.probability,
+            )
         })
         .collect()
 }
@@ -96,9 +99,21 @@ fn a_square_at_zero_defeats_the_law_of_propagation_and_the_check_says_so() {
         "u {}",
         mc.standard_uncertainty / u2
     );
-    assert!((mc.interval.0 / u2 - 0.000_982).abs() < 0.000_2, "{}", mc.interval.0 / u2);
-    assert!((mc.interval.1 / u2 - 5.0239).abs() < 0.15, "{}", mc.interval.1 / u2);
-    assert!((mc.probability - 0.9545).abs() < 0.005, "p {}", mc.probability);
+    assert!(
+        (mc.interval.0 / u2 - 0.000_982).abs() < 0.000_2,
+        "{}",
+        mc.interval.0 / u2
+    );
+    assert!(
+        (mc.interval.1 / u2 - 5.0239).abs() < 0.15,
+        "{}",
+        mc.interval.1 / u2
+    );
+    assert!(
+        (mc.probability - 0.9545).abs() < 0.005,
+        "p {}",
+        mc.probability
+    );
     assert_eq!(mc.validation, Validation::NotAdequate);
     assert_eq!(mc.draws, 40_000);
     assert!(!mc.adaptive);
@@ -121,10 +136,18 @@ fn a_sum_of_normals_is_propagated_adequately_by_the_law_of_propagation() {
     assert!(mc.adaptive && mc.settled, "{mc:?}");
     assert_eq!(mc.validation, Validation::Adequate, "{mc:?}");
     // δ: u = 0.0014 in is 14 × 10⁻⁴ in, so δ = 0.00005 in (JCGM 101 7.9.2)
-    assert!((mc.tolerance / IN - 0.000_05).abs() < 1e-12, "{}", mc.tolerance / IN);
+    assert!(
+        (mc.tolerance / IN - 0.000_05).abs() < 1e-12,
+        "{}",
+        mc.tolerance / IN
+    );
     assert!((mc.value - 9.0 * IN).abs() <= mc.tolerance);
     assert!((mc.standard_uncertainty - u).abs() <= mc.tolerance);
-    assert!((mc.probability - 0.921_35).abs() < 0.01, "p {}", mc.probability);
+    assert!(
+        (mc.probability - 0.921_35).abs() < 0.01,
+        "p {}",
+        mc.probability
+    );
     assert!(mc.draws >= 20_000 && mc.draws % montecarlo::BATCH == 0);
 }
 
@@ -137,7 +160,14 @@ fn the_same_seed_gives_the_same_figures_on_any_number_of_threads() {
             threads,
         })
         .into_iter()
-        .map(|(mc, _)| (mc.value, mc.standard_uncertainty, mc.interval, mc.probability))
+        .map(|(mc, _)| {
+            (
+                mc.value,
+                mc.standard_uncertainty,
+                mc.interval,
+                mc.probability,
+            )
+        })
         .collect::<Vec<_>>()
     };
     assert_eq!(at(3, 1), at(3, 2));
@@ -157,19 +187,23 @@ fn the_command_line_prints_the_seed_and_its_json_fits_the_schema() {
     ];
     let text = common::gonogo(&args);
     assert_eq!(text.code, 3, "{}", text.stderr);
-    assert!(text.stdout.contains("20000 draws, seed 7, fixed"), "{}", text.stdout);
+    assert!(
+        text.stdout.contains("20000 draws, seed 7, fixed"),
+        "{}",
+        text.stdout
+    );
     assert!(text.stdout.contains("propagation"));
     let mut json_args = args.to_vec();
     json_args.splice(1..1, ["--format", "json"]);
     let run = common::gonogo(&json_args);
-    let doc: serde_json::Value = serde_json::from_str(&run.stdout).expect("json");
+    let doc: serde_json::Value = serde_json::from_str(&run.stdout).or_panic("json");
     let rule = &doc["engines"][0]["rules"][1];
     assert_eq!(rule["numeric"]["monte_carlo"]["seed"], 7);
     assert!(rule["numeric"]["monte_carlo"]["coverage_interval"].is_array());
     let path = format!("{}/schemas/check.schema.json", env!("CARGO_MANIFEST_DIR"));
     let schema: serde_json::Value =
-        serde_json::from_str(&std::fs::read_to_string(path).expect("schema")).expect("schema");
-    let validator = jsonschema::validator_for(&schema).expect("a schema");
+        serde_json::from_str(&std::fs::read_to_string(path).or_panic("schema")).or_panic("schema");
+    let validator = jsonschema::validator_for(&schema).or_panic("a schema");
     let errors: Vec<String> = validator.iter_errors(&doc).map(|e| e.to_string()).collect();
     assert!(errors.is_empty(), "{errors:?}");
     // without --monte-carlo the JSON has no Monte Carlo figures, and --seed alone is refused
@@ -177,4 +211,21 @@ fn the_command_line_prints_the_seed_and_its_json_fits_the_schema() {
     assert!(!plain.stdout.contains("Monte Carlo"));
     let seed_alone = common::gonogo(&[args[0], args[1], args[2], "--seed", "7", args[6]]);
     assert_eq!(seed_alone.code, 2);
+}
+
+/// `unwrap_or_else(panic!)` with a word on what was wanted, for options and results alike.
+trait OrPanic<T> {
+    fn or_panic(self, what: &str) -> T;
+}
+
+impl<T> OrPanic<T> for Option<T> {
+    fn or_panic(self, what: &str) -> T {
+        self.unwrap_or_else(|| panic!("no {what}"))
+    }
+}
+
+impl<T, E: std::fmt::Debug> OrPanic<T> for Result<T, E> {
+    fn or_panic(self, what: &str) -> T {
+        self.unwrap_or_else(|e| panic!("{what}: {e:?}"))
+    }
 }

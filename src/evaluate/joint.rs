@@ -213,9 +213,8 @@ fn term(side: &(&Dual, f64, bool), shared: &[InputId], u: &dyn Fn(InputId) -> f6
 /// Shared dimensions whose coefficients are proportional over every side of every cylinder
 /// merged into one: col·z_s + λ·col·z_t is col·√(1 + λ²)·z′ with z′ standard normal, exactly.
 fn merge_proportional(mut cylinders: Vec<Vec<Term>>) -> Vec<Vec<Term>> {
-    let column = |cs: &[Vec<Term>], s: usize| -> Vec<f64> {
-        cs.iter().flatten().map(|t| t.b[s]).collect()
-    };
+    let column =
+        |cs: &[Vec<Term>], s: usize| -> Vec<f64> { cs.iter().flatten().map(|t| t.b[s]).collect() };
     let mut s = 0;
     while s < dimensions(&cylinders) {
         let mut t = s + 1;
@@ -399,7 +398,10 @@ mod tests {
                 .zip(weights)
                 .map(|(x, w)| w * x.powi(k as i32))
                 .sum();
-            assert!((sum - 2.0 / (k as f64 + 1.0)).abs() < 1e-13, "k = {k}: {sum}");
+            assert!(
+                (sum - 2.0 / (k as f64 + 1.0)).abs() < 1e-13,
+                "k = {k}: {sum}"
+            );
         }
     }
 

@@ -142,7 +142,10 @@ pub fn attach(report: &mut EngineReport, settings: &Settings) {
     if jobs.is_empty() {
         return;
     }
-    let model = Model::new(declaration, rulebook.literals.iter().map(|l| l.standard_uncertainty));
+    let model = Model::new(
+        declaration,
+        rulebook.literals.iter().map(|l| l.standard_uncertainty),
+    );
     let mut batches: Vec<Batch> = Vec::new();
     let wanted = match settings.draws {
         Draws::Fixed(n) => n.max(1),
@@ -150,7 +153,8 @@ pub fn attach(report: &mut EngineReport, settings: &Settings) {
     };
     loop {
         let done: usize = batches.iter().map(|b| b.size).sum();
-        let finished = batches.len() >= 2 && (0..jobs.len()).all(|j| settled(j, jobs[j].scale, &batches));
+        let finished =
+            batches.len() >= 2 && (0..jobs.len()).all(|j| settled(j, jobs[j].scale, &batches));
         if done >= wanted || (settings.draws == Draws::Adaptive && finished) {
             break;
         }
@@ -167,9 +171,20 @@ pub fn attach(report: &mut EngineReport, settings: &Settings) {
         // a rule that has settled draws no more (each rule is its own adaptive run); the
         // inputs are drawn all the same, so every rule sees the same draws in any case
         let active: Vec<bool> = (0..jobs.len())
-            .map(|j| settings.draws != Draws::Adaptive || batches.len() < 2 || !settled(j, jobs[j].scale, &batches))
+            .map(|j| {
+                settings.draws != Draws::Adaptive
+                    || batches.len() < 2
+                    || !settled(j, jobs[j].scale, &batches)
+            })
             .collect();
-        batches.extend(run_round(&model, report, &jobs, &active, &sizes, settings.seed));
+        batches.extend(run_round(
+            &model,
+            report,
+            &jobs,
+            &active,
+            &sizes,
+            settings.seed,
+        ));
     }
     let adaptive = settings.draws == Draws::Adaptive;
     for (j, job) in jobs.iter().enumerate() {
@@ -334,12 +349,11 @@ fn run_round(
     std::thread::scope(|scope| {
         let handles: Vec<_> = sizes
             .iter()
-            .map(|&(index, size)| scope.spawn(move || batch(model, report, jobs, active, index, size, seed)))
+            .map(|&(index, size)| {
+                scope.spawn(move || batch(model, report, jobs, active, index, size, seed))
+            })
             .collect();
-        handles
-            .into_iter()
-            .filter_map(|h| h.join().ok())
-            .collect()
+        handles.into_iter().filter_map(|h| h.join().ok()).collect()
     })
 }
 

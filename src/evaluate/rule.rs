@@ -334,12 +334,10 @@ impl<'a> Evaluator<'a> {
             }
         }
         if let Some(n) = worst.as_mut().and_then(|w| w.numeric.as_mut()) {
-            n.all_cylinders = super::joint::between(
-                low_margins.numbers(),
-                high_margins.numbers(),
-                slack,
-                |id| self.uncertainty(id),
-            );
+            n.all_cylinders =
+                super::joint::between(low_margins.numbers(), high_margins.numbers(), slack, |id| {
+                    self.uncertainty(id)
+                });
         }
         worst.ok_or_else(no_value)
     }

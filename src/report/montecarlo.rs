@@ -69,7 +69,11 @@ pub fn view(mc: &MonteCarlo, unit: Option<&'static Unit>) -> MonteCarloView {
         mc.draws,
         mc.seed,
         if mc.adaptive { "adaptive" } else { "fixed" },
-        if mc.settled { ", settled" } else { ", not settled" }
+        if mc.settled {
+            ", settled"
+        } else {
+            ", not settled"
+        }
     );
     let fact = |label, text: String| Fact {
         label,
