@@ -9,6 +9,7 @@ use gonogo::commands::check::{self, CheckFormat, CheckRequest, Role};
 use gonogo::commands::sheet::{self, SheetFormat};
 use gonogo::commands::{Failure, diff, explain, field, fmt, headroom, impact, lint};
 use gonogo::diagnostic::{Problem, RenderStyle, codes};
+use gonogo::evaluate::montecarlo::{self, Draws};
 use gonogo::exit::Exit;
 use gonogo::output::{Destination, to_stderr};
 use gonogo::report::diff::DiffFormat;
@@ -55,6 +56,14 @@ enum Command {
         /// Threads for a field of declarations (every core by default).
         #[arg(long)]
         jobs: Option<usize>,
+        /// Check the propagation of uncertainty by Monte Carlo (JCGM 101) on every numeric
+        /// rule: `--monte-carlo` alone draws adaptively until the results settle (at most
+        /// 1 000 000 draws), `--monte-carlo=N` makes N draws.
+        #[arg(long, value_name = "DRAWS", num_args = 0..=1, require_equals = true)]
+        monte_carlo: Option<Option<usize>>,
+        /// The seed of the Monte Carlo generator (2027 by default); the report prints it.
+        #[arg(long, requires = "monte_carlo")]
+        seed: Option<u64>,
         /// Engine declarations (YAML), or folders of them (searched recursively).
         #[arg(required = true)]
         declarations: Vec<PathBuf>,
@@ -239,11 +248,14 @@ fn run(cli: Cli) -> Exit {
             role,
             format,
             jobs,
+            monte_carlo,
+            seed,
             declarations,
         } => {
             let Ok(declarations) = walk_field(&declarations) else {
                 return Exit::BadInput;
             };
+            let draws = monte_carlo.map(|n| n.map_or(Draws::Adaptive, Draws::Fixed));
             let request = CheckRequest {
                 rules: &rules,
                 class: class.as_deref(),
@@ -251,6 +263,7 @@ fn run(cli: Cli) -> Exit {
                 format,
                 declarations: &declarations,
                 jobs,
+                monte_carlo: draws.map(|d| (d, seed.unwrap_or(montecarlo::DEFAULT_SEED))),
             };
             finish(check::run(&request), output)
         }

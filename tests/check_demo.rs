@@ -32,6 +32,7 @@ fn run(
         format,
         declarations: &declarations,
         jobs: None,
+        monte_carlo: None,
     };
     check::run(&request).map_err(|failure| failure.render(RenderStyle::PLAIN))
 }
@@ -168,6 +169,7 @@ fn the_verdicts_of_every_demo_engine() {
         format: CheckFormat::Json,
         declarations: &declarations,
         jobs: Some(1),
+        monte_carlo: None,
     };
     let (json, _) =
         check::run(&request).unwrap_or_else(|e| panic!("{}", e.render(RenderStyle::PLAIN)));

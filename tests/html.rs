@@ -24,6 +24,7 @@ fn sheet(declaration: &Path) -> String {
         format: CheckFormat::Html,
         declarations: &declarations,
         jobs: None,
+        monte_carlo: None,
     };
     check::run(&request)
         .map(|(html, _)| html)
@@ -73,6 +74,7 @@ fn the_close_bore_markdown_report() {
         format: CheckFormat::Markdown,
         declarations: &declarations,
         jobs: None,
+        monte_carlo: None,
     };
     let (markdown, _) = check::run(&request).unwrap_or_else(|e| panic!("{e}"));
     assert!(

@@ -316,7 +316,7 @@ fn chamber_and_piston_read_with_one_burette_match_gtc_with_set_correlation() {
     let shared = u32::try_from(order.len()).unwrap_or(0);
     for name in ["chamber", "piston_volume"] {
         let at = order.iter().position(|n| *n == name).unwrap_or(0);
-        x[at] = Dual::reading(at as u32, x[at].value, Some(shared));
+        x[at] = Dual::reading(at as u32, x[at].value, Some((shared, 0.0)));
     }
     us.push(number(&case["shared"]["u"]));
     let y = ours("compression_ratio", &x);

@@ -47,6 +47,7 @@ fn an_unfilled_template_checks_to_not_checked() {
             format: CheckFormat::Json,
             declarations: &declarations,
             jobs: None,
+            monte_carlo: None,
         };
         let result = check::run(&request);
         let _ = std::fs::remove_file(&path);

@@ -8,6 +8,7 @@ use super::{Failure, checked_rulebook};
 use crate::check::model::CheckedRulebook;
 use crate::diagnostic::Problem;
 use crate::evaluate::check_engine;
+use crate::evaluate::montecarlo::{self, Draws, Settings};
 use crate::evaluate::outcome::EngineReport;
 use crate::exit::Exit;
 use crate::load::{Declaration, LoadError, LoadProblem, load_declaration};
@@ -66,6 +67,9 @@ pub struct CheckRequest<'a> {
     pub declarations: &'a [PathBuf],
     /// Threads to use; every core when `None`.
     pub jobs: Option<usize>,
+    /// A Monte Carlo check of every numeric rule (`--monte-carlo`): how many draws, and the
+    /// seed; `None` without one.
+    pub monte_carlo: Option<(Draws, u64)>,
 }
 
 /// Runs `check`: the report and the exit status, or every problem of every declaration.
@@ -93,9 +97,20 @@ pub fn run(request: &CheckRequest) -> Result<(String, Exit), Failure> {
     }
     let engines: Vec<(Declaration, usize)> = loaded.into_iter().filter_map(Result::ok).collect();
     let decision = request.role.map(Role::decision);
-    let reports: Vec<EngineReport> = parallel::map(&engines, threads, |(declaration, class)| {
-        check_engine(&rulebook, &rulebook.classes[*class], declaration, decision)
-    });
+    let mut reports: Vec<EngineReport> =
+        parallel::map(&engines, threads, |(declaration, class)| {
+            check_engine(&rulebook, &rulebook.classes[*class], declaration, decision)
+        });
+    if let Some((draws, seed)) = request.monte_carlo {
+        let settings = Settings {
+            draws,
+            seed,
+            threads,
+        };
+        reports
+            .iter_mut()
+            .for_each(|r| montecarlo::attach(r, &settings));
+    }
     let exit = reports
         .iter()
         .map(EngineReport::exit)

@@ -31,11 +31,14 @@ impl Dual {
     }
 
     /// A reading taken with an instrument whose calibration is a shared input: the reading
-    /// plus the calibration's correction (value 0), so ∂/∂calibration is 1 for every reading
-    /// of that instrument and a formula's sensitivity to it is the sum over its readings.
-    pub fn reading(id: InputId, value: f64, calibration: Option<InputId>) -> Dual {
+    /// plus the calibration's correction (its value: 0 as declared, a draw in a Monte Carlo
+    /// run), so ∂/∂calibration is 1 for every reading of that instrument and a formula's
+    /// sensitivity to it is the sum over its readings.
+    pub fn reading(id: InputId, value: f64, calibration: Option<(InputId, f64)>) -> Dual {
         match calibration {
-            Some(c) if c != id => Dual::input(id, value).add(&Dual::input(c, 0.0)),
+            Some((c, correction)) if c != id => {
+                Dual::input(id, value).add(&Dual::input(c, correction))
+            }
             _ => Dual::input(id, value),
         }
     }

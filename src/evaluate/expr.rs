@@ -32,6 +32,12 @@ pub struct Evaluator<'a> {
     /// The input id of each literal with a stated uncertainty evaluated so far, by
     /// [`LiteralId`].
     literal_inputs: Vec<Option<InputId>>,
+    /// Shifts added to the literals with a stated uncertainty, by [`LiteralId`]: a Monte Carlo
+    /// draw (`evaluate::montecarlo`); empty otherwise.
+    pub literal_shifts: Vec<f64>,
+    /// Values without sensitivities: every input is taken as a constant (a Monte Carlo draw
+    /// needs the value alone, and is much faster without them).
+    pub values_only: bool,
 }
 
 impl<'a> Evaluator<'a> {
@@ -43,6 +49,8 @@ impl<'a> Evaluator<'a> {
             rulebook_inputs: Vec::new(),
             derived: vec![None; rulebook.derived.len()],
             literal_inputs: vec![None; rulebook.literals.len()],
+            literal_shifts: Vec::new(),
+            values_only: false,
         }
     }
 
@@ -181,11 +189,21 @@ impl<'a> Evaluator<'a> {
         let input = self.declaration.inputs.get(id as usize).ok_or_else(|| {
             Unevaluated::internal(format!("input {id} is not in the declaration"))
         })?;
-        Ok(Dual::reading(
-            id,
-            input.value,
-            self.declaration.calibration_of(id),
-        ))
+        let calibration = self.declaration.calibration_of(id).map(|c| {
+            let correction = self.declaration.inputs.get(c as usize).map_or(0.0, |i| i.value);
+            (c, correction)
+        });
+        Ok(self.dual(id, input.value, calibration))
+    }
+
+    /// An input's number, with its instrument's calibration correction: with its
+    /// sensitivities, or alone when only values are wanted.
+    fn dual(&self, id: InputId, value: f64, calibration: Option<(InputId, f64)>) -> Dual {
+        if self.values_only {
+            Dual::constant(value + calibration.map_or(0.0, |(_, c)| c))
+        } else {
+            Dual::reading(id, value, calibration)
+        }
     }
 
     /// A literal in SI units; one with a stated uncertainty is an input of its own, numbered
@@ -194,7 +212,9 @@ impl<'a> Evaluator<'a> {
         let Some(literal) = l.uncertain else {
             return Ok(Dual::constant(l.si));
         };
-        Ok(Dual::input(self.literal_input(literal)?, l.si))
+        let shift = self.literal_shifts.get(literal.index()).copied();
+        let id = self.literal_input(literal)?;
+        Ok(self.dual(id, l.si + shift.unwrap_or(0.0), None))
     }
 
     fn literal_input(&mut self, literal: LiteralId) -> Evaluated<InputId> {

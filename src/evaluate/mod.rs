@@ -1,13 +1,16 @@
 //! Evaluation: a checked rulebook's class applied to a loaded declaration, rule by rule, as a
 //! fold over the resolved tree the checker made ([`expr`]), with exact sensitivities
-//! ([`dual`]), findings and verdicts ([`finding`]), and the data a report renders
-//! ([`outcome`]). The built-in formulas are in the checker's one table, `check::builtins`.
+//! ([`dual`]), findings and verdicts ([`finding`]), the probability that every cylinder
+//! conforms ([`joint`]), a Monte Carlo check of the propagation ([`montecarlo`]), and the data
+//! a report renders ([`outcome`]). The built-in formulas are in the checker's one table, `check::builtins`.
 
 pub mod coverage;
 pub mod dual;
 pub mod exact;
 pub mod expr;
 pub mod finding;
+pub mod joint;
+pub mod montecarlo;
 pub mod outcome;
 mod rule;
 pub mod value;

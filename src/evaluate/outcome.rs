@@ -2,6 +2,8 @@
 //! units; each carries the unit it should be shown in.
 
 use super::finding::{Finding, Verdict};
+use super::joint::AllCylinders;
+use super::montecarlo::MonteCarlo;
 use super::value::{Breach, Evaluated, Unevaluated};
 use crate::check::model::{CheckedRulebook, Class, ClassRule, Derived};
 use crate::load::InputId;
@@ -52,6 +54,11 @@ pub struct Numeric {
     pub cylinder: Option<usize>,
     /// Both limits of a `between`, allowance included.
     pub range: Option<(f64, f64)>,
+    /// For a limit on every cylinder, the probability that all cylinders conform (the finding
+    /// and `probability` are the closest cylinder's).
+    pub all_cylinders: Option<AllCylinders>,
+    /// The Monte Carlo check of this rule, when one was asked for.
+    pub monte_carlo: Option<MonteCarlo>,
 }
 
 /// What was found for one rule's test.

@@ -261,7 +261,7 @@ impl<'a> Evaluator<'a> {
         let margins = self.margins(written, end, subject, limit, slack);
         let (i, m) = self.worst(margins.numbers(), strict)?;
         let lim = limit.at(i)?.value + if upper { slack } else { -slack };
-        let numeric = self.numeric(
+        let mut numeric = self.numeric(
             subject.at(i)?.value,
             lim,
             &m,
@@ -270,6 +270,8 @@ impl<'a> Evaluator<'a> {
             cylinder(&margins, i),
             None,
         );
+        numeric.0.all_cylinders =
+            super::joint::one_sided(margins.numbers(), slack, strict, |id| self.uncertainty(id));
         Ok(Checked {
             finding: numeric.1,
             numeric: Some(numeric.0),
@@ -321,6 +323,8 @@ impl<'a> Evaluator<'a> {
                 unit,
                 cylinder: cylinder(&low_margins, i),
                 range: Some((value - low_value, value + high_value)),
+                all_cylinders: None,
+                monte_carlo: None,
             };
             let candidate = Checked {
                 finding: f,
@@ -330,6 +334,12 @@ impl<'a> Evaluator<'a> {
             if worst.as_ref().is_none_or(|w| rank(&candidate) < rank(w)) {
                 worst = Some(candidate);
             }
+        }
+        if let Some(n) = worst.as_mut().and_then(|w| w.numeric.as_mut()) {
+            n.all_cylinders =
+                super::joint::between(low_margins.numbers(), high_margins.numbers(), slack, |id| {
+                    self.uncertainty(id)
+                });
         }
         worst.ok_or_else(no_value)
     }
@@ -378,6 +388,8 @@ impl<'a> Evaluator<'a> {
             unit,
             cylinder,
             range,
+            all_cylinders: None,
+            monte_carlo: None,
         };
         (n, f)
     }

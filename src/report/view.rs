@@ -287,6 +287,11 @@ pub struct NumberView {
     pub probability_of_conformance: f64,
     /// The deciding cylinder (1-based), for per-cylinder values.
     pub cylinder: Option<usize>,
+    /// For a limit on every cylinder, the probability that all conform.
+    pub all_cylinders: Option<super::joint::AllCylindersView>,
+    /// The Monte Carlo check, when one was asked for (`check --monte-carlo`).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub monte_carlo: Option<super::montecarlo::MonteCarloView>,
     /// The same numbers with the digits to show (the reports' words; not in the JSON).
     #[serde(skip)]
     pub shown: NumberShown,
@@ -720,7 +725,7 @@ impl RuleView {
             note: o.note().map(str::to_string),
             numeric: checked
                 .and_then(|c| c.numeric.as_ref())
-                .map(|n| number_view(n, subject_reading(o, r, n))),
+                .map(|n| number_view(n, subject_reading(o, r, n), r)),
             observed: checked.and_then(|c| c.observed.clone()),
             missing: o.missing.clone(),
             not_finite: o.not_finite,
@@ -878,11 +883,17 @@ impl RuleView {
             "conformance probability",
             s.probability_of_conformance.clone(),
         ));
+        if let Some(all) = &n.all_cylinders {
+            lines.push(fact("all cylinders", all.shown.clone()));
+        }
+        if let Some(mc) = &n.monte_carlo {
+            lines.extend(mc.facts.iter().cloned().map(Line::Fact));
+        }
         lines.push(Line::Scale(n));
     }
 }
 
-fn number_view(n: &Numeric, reading: Option<&Input>) -> NumberView {
+fn number_view(n: &Numeric, reading: Option<&Input>, r: &EngineReport) -> NumberView {
     let s = n.unit.map_or(1.0, |u| u.to_si);
     NumberView {
         unit: n.unit.map(|u| u.symbol),
@@ -898,6 +909,14 @@ fn number_view(n: &Numeric, reading: Option<&Input>) -> NumberView {
             .then_some(n.degrees_of_freedom),
         probability_of_conformance: n.probability,
         cylinder: n.cylinder,
+        all_cylinders: n
+            .all_cylinders
+            .as_ref()
+            .map(|a| super::joint::view(a, n.expanded > 0.0, r)),
+        monte_carlo: n
+            .monte_carlo
+            .as_ref()
+            .map(|m| super::montecarlo::view(m, n.unit)),
         shown: number_shown(n, reading),
     }
 }
