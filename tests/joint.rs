@@ -45,7 +45,7 @@ fn eight_independent_cylinders_each_at_95_2_percent_all_conform_at_about_68_perc
     let z = 1.664_562_861_202_721;
     let u = 0.0003;
     let margins: Vec<Dual> = (0..8).map(|i| margin(z * u, &[(i, -1.0)])).collect();
-    let all = joint::one_sided(&margins, 0.0, false, |_| u).or_panic("eight cylinders");
+    let all = joint::one_sided(&margins, false, |_| u).or_panic("eight cylinders");
     assert_eq!(all.method, JointMethod::Product);
     assert!(all.shared.is_empty());
     assert!((phi(z) - 0.952).abs() < 1e-12);
@@ -63,7 +63,7 @@ fn one_input_in_every_margin_and_nothing_else_gives_the_worst_cylinders_probabil
     let u = 0.0004;
     let values = [0.0010, 0.0004, 0.0008, 0.0012];
     let margins: Vec<Dual> = values.iter().map(|m| margin(*m, &[(0, -1.0)])).collect();
-    let all = joint::one_sided(&margins, 0.0, false, |_| u).or_panic("four cylinders");
+    let all = joint::one_sided(&margins, false, |_| u).or_panic("four cylinders");
     assert_eq!(all.method, JointMethod::Quadrature { dimensions: 1 });
     assert_eq!(all.shared, vec![0]);
     let worst = phi(0.0004 / u);
@@ -82,7 +82,7 @@ fn a_range_with_one_shared_input_and_nothing_else_is_the_narrowest_window() {
     let windows = [(1.0, 2.0), (1.5, 0.7), (0.9, 1.4)];
     let low: Vec<Dual> = windows.iter().map(|w| margin(w.0, &[(0, 1.0)])).collect();
     let high: Vec<Dual> = windows.iter().map(|w| margin(w.1, &[(0, -1.0)])).collect();
-    let all = joint::between(&low, &high, 0.0, |_| u).or_panic("three cylinders");
+    let all = joint::between(&low, &high, |_| u).or_panic("three cylinders");
     let expected = phi(0.7 / u) - phi(-0.9 / u);
     assert!(
         (all.probability - expected).abs() < 1e-9,
@@ -94,7 +94,7 @@ fn a_range_with_one_shared_input_and_nothing_else_is_the_narrowest_window() {
 #[test]
 fn one_cylinder_has_no_every_cylinder_figure() {
     let margins = [margin(1.0, &[(0, -1.0)])];
-    assert!(joint::one_sided(&margins, 0.0, false, |_| 1.0).is_none());
+    assert!(joint::one_sided(&margins, false, |_| 1.0).is_none());
 }
 
 /// One case of tests/vectors/joint.json, read without a JSON crate's derive: the fields named.
@@ -166,7 +166,7 @@ fn shared_inputs_agree_with_scipys_multivariate_normal_orthant_probabilities() {
             let margins: Vec<Dual> = (0..n)
                 .map(|i| margin(case.margins[i].as_f64().or_panic("m"), &partials(i, -1.0)))
                 .collect();
-            joint::one_sided(&margins, 0.0, false, uncertainty)
+            joint::one_sided(&margins, false, uncertainty)
         } else {
             let side = |i: usize, k: usize| case.margins[i][k].as_f64().or_panic("m");
             let low: Vec<Dual> = (0..n)
@@ -175,7 +175,7 @@ fn shared_inputs_agree_with_scipys_multivariate_normal_orthant_probabilities() {
             let high: Vec<Dual> = (0..n)
                 .map(|i| margin(side(i, 1), &partials(i, -1.0)))
                 .collect();
-            joint::between(&low, &high, 0.0, uncertainty)
+            joint::between(&low, &high, uncertainty)
         }
         .or_panic("several cylinders");
         let tolerance = match all.method {
@@ -312,4 +312,44 @@ impl<T, E: std::fmt::Debug> OrPanic<T> for Result<T, E> {
     fn or_panic(self, what: &str) -> T {
         self.unwrap_or_else(|e| panic!("{what}: {e:?}"))
     }
+}
+
+/// Every demo engine as JSON under the 2027 rulebook.
+fn demo_json() -> serde_json::Value {
+    let out = std::process::Command::new(env!("CARGO_BIN_EXE_gonogo"))
+        .args(["check", "--rules", "rulebooks-demo/tamsin-2027.rules"])
+        .args(["--format", "json", "engines-demo"])
+        .output()
+        .or_panic("gonogo runs");
+    serde_json::from_slice(&out.stdout).or_panic("the check is JSON")
+}
+
+#[test]
+fn every_cylinder_together_is_never_likelier_than_the_closest_cylinder_alone() {
+    // P(all conform) ≤ P(the closest conforms), since the event "all conform" lies inside
+    // "the closest conforms" (a property of probability, no source needed). This caught the
+    // allowance counted twice (rule 3.2 of limited2-close-bore: 90.88 % closest, ≥ 99.99 % all).
+    let doc = demo_json();
+    let mut compared = 0;
+    for engine in doc["engines"].as_array().into_iter().flatten() {
+        for rule in engine["rules"].as_array().into_iter().flatten() {
+            let numeric = &rule["numeric"];
+            let (Some(closest), Some(all)) = (
+                numeric["probability_of_conformance"].as_f64(),
+                numeric["all_cylinders"]["probability_of_conformance"].as_f64(),
+            ) else {
+                continue;
+            };
+            compared += 1;
+            let what = format!("{} {}", engine["file"], rule["section"]);
+            assert!(
+                all <= closest + 1e-12,
+                "{what}: all {all}, closest {closest}"
+            );
+        }
+    }
+    assert!(
+        compared >= 20,
+        "only {compared} per-cylinder rules compared"
+    );
 }

@@ -190,7 +190,11 @@ impl<'a> Evaluator<'a> {
             Unevaluated::internal(format!("input {id} is not in the declaration"))
         })?;
         let calibration = self.declaration.calibration_of(id).map(|c| {
-            let correction = self.declaration.inputs.get(c as usize).map_or(0.0, |i| i.value);
+            let correction = self
+                .declaration
+                .inputs
+                .get(c as usize)
+                .map_or(0.0, |i| i.value);
             (c, correction)
         });
         Ok(self.dual(id, input.value, calibration))

@@ -80,31 +80,24 @@ const PANELS: usize = 16;
 /// Gauss–Legendre points per panel.
 const POINTS: usize = 10;
 
-/// For a limit on one side, per cylinder: `margins` without the allowance `slack`.
+/// For a limit on one side, per cylinder: `margins` with the allowance already in them.
 /// `None` with fewer than two cylinders.
 pub fn one_sided(
     margins: &[Dual],
-    slack: f64,
     strict: bool,
     u: impl Fn(InputId) -> f64,
 ) -> Option<AllCylinders> {
-    let sides: Vec<Vec<(&Dual, f64, bool)>> =
-        margins.iter().map(|m| vec![(m, slack, strict)]).collect();
+    let sides: Vec<Vec<(&Dual, bool)>> = margins.iter().map(|m| vec![(m, strict)]).collect();
     all_cylinders(&sides, &u)
 }
 
-/// For a range, per cylinder: the margins to the lower and the upper limit, each without the
-/// allowance `slack`. `None` with fewer than two cylinders.
-pub fn between(
-    low: &[Dual],
-    high: &[Dual],
-    slack: f64,
-    u: impl Fn(InputId) -> f64,
-) -> Option<AllCylinders> {
-    let sides: Vec<Vec<(&Dual, f64, bool)>> = low
+/// For a range, per cylinder: the margins to the lower and the upper limit, each with the
+/// allowance already in it. `None` with fewer than two cylinders.
+pub fn between(low: &[Dual], high: &[Dual], u: impl Fn(InputId) -> f64) -> Option<AllCylinders> {
+    let sides: Vec<Vec<(&Dual, bool)>> = low
         .iter()
         .zip(high)
-        .map(|(l, h)| vec![(l, slack, false), (h, slack, false)])
+        .map(|(l, h)| vec![(l, false), (h, false)])
         .collect();
     all_cylinders(&sides, &u)
 }
@@ -134,10 +127,7 @@ fn conditional(sides: &[Term], z: &[f64]) -> f64 {
     }
 }
 
-fn all_cylinders(
-    sides: &[Vec<(&Dual, f64, bool)>],
-    u: &dyn Fn(InputId) -> f64,
-) -> Option<AllCylinders> {
+fn all_cylinders(sides: &[Vec<(&Dual, bool)>], u: &dyn Fn(InputId) -> f64) -> Option<AllCylinders> {
     if sides.len() < 2 {
         return None;
     }
@@ -168,10 +158,10 @@ fn all_cylinders(
 }
 
 /// Inputs with an uncertainty that appear in more than one cylinder's margin, sorted.
-fn shared_inputs(sides: &[Vec<(&Dual, f64, bool)>], u: &dyn Fn(InputId) -> f64) -> Vec<InputId> {
+fn shared_inputs(sides: &[Vec<(&Dual, bool)>], u: &dyn Fn(InputId) -> f64) -> Vec<InputId> {
     let mut seen: Vec<(InputId, usize)> = Vec::new();
     for (cylinder, c) in sides.iter().enumerate() {
-        for (m, _, _) in c {
+        for (m, _) in c {
             for (id, _) in &m.partials {
                 match seen.iter_mut().find(|(i, _)| i == id) {
                     Some(entry) if entry.1 != cylinder && entry.1 != usize::MAX => {
@@ -192,8 +182,8 @@ fn shared_inputs(sides: &[Vec<(&Dual, f64, bool)>], u: &dyn Fn(InputId) -> f64) 
     shared
 }
 
-fn term(side: &(&Dual, f64, bool), shared: &[InputId], u: &dyn Fn(InputId) -> f64) -> Term {
-    let (m, slack, strict) = *side;
+fn term(side: &(&Dual, bool), shared: &[InputId], u: &dyn Fn(InputId) -> f64) -> Term {
+    let (m, strict) = *side;
     let b = shared.iter().map(|id| m.partial(*id) * u(*id)).collect();
     let own = m
         .partials
@@ -203,7 +193,7 @@ fn term(side: &(&Dual, f64, bool), shared: &[InputId], u: &dyn Fn(InputId) -> f6
         .sum::<f64>()
         .sqrt();
     Term {
-        a: m.value + slack,
+        a: m.value,
         b,
         own,
         strict,
@@ -413,7 +403,7 @@ mod tests {
             partials: vec![(0, 2.0 * c), (1, c), (10 + c as InputId, 1.0)],
         };
         let margins = [margin(1.0, 1.0), margin(1.5, 2.0), margin(2.0, 3.0)];
-        let all = one_sided(&margins, 0.0, false, |_| 0.5);
+        let all = one_sided(&margins, false, |_| 0.5);
         let all = all.as_ref().map(|a| (a.method, a.shared.clone()));
         assert_eq!(
             all,

@@ -271,7 +271,7 @@ impl<'a> Evaluator<'a> {
             None,
         );
         numeric.0.all_cylinders =
-            super::joint::one_sided(margins.numbers(), slack, strict, |id| self.uncertainty(id));
+            super::joint::one_sided(margins.numbers(), strict, |id| self.uncertainty(id));
         Ok(Checked {
             finding: numeric.1,
             numeric: Some(numeric.0),
@@ -337,7 +337,7 @@ impl<'a> Evaluator<'a> {
         }
         if let Some(n) = worst.as_mut().and_then(|w| w.numeric.as_mut()) {
             n.all_cylinders =
-                super::joint::between(low_margins.numbers(), high_margins.numbers(), slack, |id| {
+                super::joint::between(low_margins.numbers(), high_margins.numbers(), |id| {
                     self.uncertainty(id)
                 });
         }

@@ -1427,7 +1427,7 @@ mod tests {
     }
 
     #[test]
-fn k_is_shown_as_written_or_to_two_decimals_with_finite_degrees_of_freedom() {
+    fn k_is_shown_as_written_or_to_two_decimals_with_finite_degrees_of_freedom() {
         assert_eq!(coverage_words(2.0, f64::INFINITY), "k = 2");
         assert_eq!(coverage_words(1.959_963_985, f64::INFINITY), "k = 1.96");
         assert_eq!(
