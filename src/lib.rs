@@ -17,13 +17,15 @@
 //!
 //! [`commands`] runs each subcommand through these stages and returns its document or its
 //! problems, which `main.rs` renders once. Beside the stages: [`units`] the unit table,
-//! [`diagnostic`] the problem type and the table of codes every stage reports with,
+//! [`color`] whether a stream gets colour, [`diagnostic`] the problem type and the table of
+//! codes every stage reports with,
 //! [`suggest`] "did you mean", [`exit`] the exit statuses, [`output`] writing a document
 //! without ever costing an input, [`parallel`] an order-preserving map
 //! over threads for fields of engines.
 
 pub mod analyze;
 pub mod check;
+pub mod color;
 pub mod commands;
 pub mod diagnostic;
 pub mod evaluate;

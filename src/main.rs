@@ -1,10 +1,10 @@
 //! The `gonogo` command line: argument parsing and dispatch to [`gonogo::commands`].
 
-use std::io::IsTerminal;
 use std::path::{Path, PathBuf};
 use std::process::ExitCode;
 
-use clap::{CommandFactory, Parser, Subcommand};
+use clap::{CommandFactory, Parser, Subcommand, ValueEnum};
+use gonogo::color::{self, ColorChoice, Stream};
 use gonogo::commands::check::{self, CheckFormat, CheckRequest, Role};
 use gonogo::commands::sheet::{self, SheetFormat};
 use gonogo::commands::{Failure, diff, explain, field, fmt, headroom, impact, lint};
@@ -29,6 +29,11 @@ struct Cli {
     /// FIFO is written directly. A file the run reads and a read-only file are refused.
     #[arg(long, global = true, value_name = "FILE")]
     output: Option<PathBuf>,
+    /// When to colour diagnostics and help: auto follows the destination and NO_COLOR,
+    /// CLICOLOR, CLICOLOR_FORCE and TERM (a file named by --output is never coloured in auto);
+    /// always and never override them.
+    #[arg(long, global = true, value_enum, default_value_t = ColorChoice::Auto, value_name = "WHEN")]
+    color: ColorChoice,
     #[command(subcommand)]
     command: Command,
 }
@@ -202,45 +207,147 @@ fn main() -> ExitCode {
 }
 
 /// Prints clap's help, version or usage error where clap would, with every write checked:
-/// help that cannot be written is exit 2, not a silent 0.
+/// help that cannot be written is exit 2, not a silent 0. The arguments were not parsed, so
+/// `--color` is looked for in them directly.
 fn clap_message(e: &clap::Error) -> Exit {
     let styled = e.render();
-    if e.use_stderr() {
-        let text = if std::io::stderr().is_terminal() {
-            styled.ansi().to_string()
-        } else {
-            styled.to_string()
-        };
-        to_stderr(&text);
-        return Exit::BadInput;
-    }
-    let text = if std::io::stdout().is_terminal() {
+    let choice = color_in_raw_arguments(std::env::args_os());
+    let stream = if e.use_stderr() {
+        Stream::Stderr
+    } else {
+        Stream::Stdout
+    };
+    let text = if color::enabled(choice, stream) {
         styled.ansi().to_string()
     } else {
         styled.to_string()
     };
+    if e.use_stderr() {
+        to_stderr(&text);
+        return Exit::BadInput;
+    }
     match Destination::Stdout.write(&text) {
         Ok(()) => Exit::Clean,
-        Err(problem) => fail(Failure::one(problem)),
+        Err(problem) => Reply::new(&Destination::Stdout, choice).fail(Failure::one(problem)),
     }
 }
 
-fn style_for(stream_is_terminal: bool) -> RenderStyle {
-    let colour = stream_is_terminal && std::env::var_os("NO_COLOR").is_none_or(|v| v.is_empty());
-    RenderStyle { colour, width: 100 }
+/// The last `--color WHEN` or `--color=WHEN` before `--`, for messages about arguments that
+/// did not parse; `auto` when there is none or it is not a choice.
+fn color_in_raw_arguments(args: impl Iterator<Item = std::ffi::OsString>) -> ColorChoice {
+    let args: Vec<String> = args
+        .map(|a| a.to_string_lossy().into_owned())
+        .take_while(|a| a != "--")
+        .collect();
+    let mut choice = ColorChoice::Auto;
+    for (i, arg) in args.iter().enumerate() {
+        let value = match arg.strip_prefix("--color") {
+            Some("") => args.get(i + 1).map(String::as_str),
+            Some(rest) => rest.strip_prefix('='),
+            None => None,
+        };
+        if let Some(found) = value.and_then(|v| ColorChoice::from_str(v, false).ok()) {
+            choice = found;
+        }
+    }
+    choice
+}
+
+/// Where a command's document and problems go, and how each is coloured.
+struct Reply<'a> {
+    /// Standard output or `--output`.
+    output: &'a Destination,
+    /// The `--color` choice.
+    color: ColorChoice,
+}
+
+impl<'a> Reply<'a> {
+    fn new(output: &'a Destination, color: ColorChoice) -> Reply<'a> {
+        Reply { output, color }
+    }
+
+    /// How problems are rendered for `stream`: colour as [`color::enabled`] decides.
+    fn style(&self, stream: Stream) -> RenderStyle {
+        RenderStyle {
+            colour: color::enabled(self.color, stream),
+            width: 100,
+        }
+    }
+
+    /// The stream the document goes to.
+    fn document_stream(&self) -> Stream {
+        match self.output {
+            Destination::Stdout => Stream::Stdout,
+            Destination::File(_) => Stream::File,
+        }
+    }
+
+    /// Renders a command's problems on standard error (the one place diagnostics are
+    /// rendered); exit 2.
+    fn fail(&self, failure: Failure) -> Exit {
+        to_stderr(&failure.render(self.style(Stream::Stderr)));
+        Exit::BadInput
+    }
+
+    /// Writes a command's document with its exit status, or renders its problems; exit 2.
+    fn finish(&self, result: Result<(String, Exit), Failure>) -> Exit {
+        match result {
+            Ok((text, exit)) => self.write(&text, exit),
+            Err(failure) => self.fail(failure),
+        }
+    }
+
+    /// Writes the document; a failed write is rendered and exit 2.
+    fn write(&self, text: &str, exit: Exit) -> Exit {
+        match self.output.write(text) {
+            Ok(()) => exit,
+            Err(problem) => self.fail(Failure::one(problem)),
+        }
+    }
+
+    /// `lint`'s report: written as any document when it found no error. With errors no file
+    /// is written: to standard output the report goes as before, while for `--output FILE`
+    /// it goes to standard error instead, where the other commands' problems go, coloured
+    /// for standard error.
+    fn lint(&self, linted: &lint::Linted, format: lint::LintFormat) -> Exit {
+        let exit = linted.exit();
+        if exit != Exit::Clean && matches!(self.output, Destination::File(_)) {
+            to_stderr(&linted.render(format, self.style(Stream::Stderr)));
+            return exit;
+        }
+        let text = linted.render(format, self.style(self.document_stream()));
+        self.write(&text, exit)
+    }
+
+    /// The declaration files of a field, each once; what the walk left out is noted on
+    /// standard error. A folder that cannot be read or holds no declaration is rendered and
+    /// refused.
+    fn walk_field(&self, named: &[PathBuf]) -> Result<Vec<PathBuf>, Exit> {
+        match field::walk(named) {
+            Ok(found) => {
+                for note in found.notes() {
+                    to_stderr(&format!("gonogo: note: {note}\n"));
+                }
+                Ok(found.files)
+            }
+            Err(problem) => Err(self.fail(Failure::one(problem))),
+        }
+    }
 }
 
 fn run(cli: Cli) -> Exit {
     let output = match Destination::resolve(cli.output.as_deref()) {
         Ok(destination) => destination,
-        Err(problem) => return fail(Failure::one(problem)),
+        Err(problem) => {
+            return Reply::new(&Destination::Stdout, cli.color).fail(Failure::one(problem));
+        }
     };
+    let reply = Reply::new(&output, cli.color);
     if let Err(problem) = stdin_at_most_once(&cli.command) {
-        return fail(Failure::one(problem));
+        return reply.fail(Failure::one(problem));
     }
-    let output = &output;
     let done =
-        |result: Result<String, Failure>| finish(result.map(|text| (text, Exit::Clean)), output);
+        |result: Result<String, Failure>| reply.finish(result.map(|text| (text, Exit::Clean)));
     match cli.command {
         Command::Check {
             rules,
@@ -252,7 +359,7 @@ fn run(cli: Cli) -> Exit {
             seed,
             declarations,
         } => {
-            let Ok(declarations) = walk_field(&declarations) else {
+            let Ok(declarations) = reply.walk_field(&declarations) else {
                 return Exit::BadInput;
             };
             let draws = monte_carlo.map(|n| n.map_or(Draws::Adaptive, Draws::Fixed));
@@ -265,13 +372,9 @@ fn run(cli: Cli) -> Exit {
                 jobs,
                 monte_carlo: draws.map(|d| (d, seed.unwrap_or(montecarlo::DEFAULT_SEED))),
             };
-            finish(check::run(&request), output)
+            reply.finish(check::run(&request))
         }
-        Command::Lint { files, format } => {
-            let linted = lint::run(&files);
-            let text = linted.render(format, style_for(output.is_terminal()));
-            lint_out(&text, output, linted.exit())
-        }
+        Command::Lint { files, format } => reply.lint(&lint::run(&files), format),
         Command::Diff {
             old,
             new,
@@ -285,7 +388,7 @@ fn run(cli: Cli) -> Exit {
             role,
             format,
         } => {
-            let Ok(declarations) = walk_field(&declarations) else {
+            let Ok(declarations) = reply.walk_field(&declarations) else {
                 return Exit::BadInput;
             };
             done(impact::run(&old, &new, &declarations, role, format))
@@ -297,7 +400,7 @@ fn run(cli: Cli) -> Exit {
             format,
             declarations,
         } => {
-            let Ok(declarations) = walk_field(&declarations) else {
+            let Ok(declarations) = reply.walk_field(&declarations) else {
                 return Exit::BadInput;
             };
             done(headroom::run(
@@ -321,12 +424,12 @@ fn run(cli: Cli) -> Exit {
         Command::Completions { shell } => {
             let mut script = Vec::new();
             clap_complete::generate(shell, &mut Cli::command(), "gonogo", &mut script);
-            write_out(&String::from_utf8_lossy(&script), output, Exit::Clean)
+            reply.write(&String::from_utf8_lossy(&script), Exit::Clean)
         }
         Command::Man => {
             let mut page = Vec::new();
             match clap_mangen::Man::new(Cli::command()).render(&mut page) {
-                Ok(()) => write_out(&String::from_utf8_lossy(&page), output, Exit::Clean),
+                Ok(()) => reply.write(&String::from_utf8_lossy(&page), Exit::Clean),
                 Err(e) => {
                     to_stderr(&format!("gonogo: cannot make the manual page: {e}\n"));
                     Exit::BadInput
@@ -378,54 +481,4 @@ fn stdin_at_most_once(command: &Command) -> Result<(), Problem> {
         .with_help("standard input can be read only once: name files for the others"));
     }
     Ok(())
-}
-
-/// The declaration files of a field, each once; what the walk left out is noted on standard
-/// error. A folder that cannot be read or holds no declaration is rendered and refused.
-fn walk_field(named: &[PathBuf]) -> Result<Vec<PathBuf>, Exit> {
-    match field::walk(named) {
-        Ok(found) => {
-            for note in found.notes() {
-                to_stderr(&format!("gonogo: note: {note}\n"));
-            }
-            Ok(found.files)
-        }
-        Err(problem) => Err(fail(Failure::one(problem))),
-    }
-}
-
-/// Renders a command's problems on standard error (the one place diagnostics are rendered);
-/// exit 2.
-fn fail(failure: Failure) -> Exit {
-    to_stderr(&failure.render(style_for(std::io::stderr().is_terminal())));
-    Exit::BadInput
-}
-
-/// Writes a command's document with its exit status, or renders its problems; exit 2.
-fn finish(result: Result<(String, Exit), Failure>, output: &Destination) -> Exit {
-    match result {
-        Ok((text, exit)) => write_out(&text, output, exit),
-        Err(failure) => fail(failure),
-    }
-}
-
-/// Writes the document; a failed write is rendered and exit 2.
-fn write_out(text: &str, output: &Destination, exit: Exit) -> Exit {
-    match output.write(text) {
-        Ok(()) => exit,
-        Err(problem) => fail(Failure::one(problem)),
-    }
-}
-
-/// `lint`'s report: written as any document when it found no error. With errors no file is
-/// written: to standard output the report goes as before, while for `--output FILE` it
-/// goes to standard error instead, where the other commands' problems go.
-fn lint_out(text: &str, output: &Destination, exit: Exit) -> Exit {
-    match (exit, output) {
-        (Exit::BadInput, Destination::File(_)) => {
-            to_stderr(text);
-            Exit::BadInput
-        }
-        _ => write_out(text, output, exit),
-    }
 }
