@@ -8,13 +8,21 @@ use crate::evaluate::outcome::EngineResult;
 pub enum Exit {
     /// Everything checked out.
     Clean = 0,
-    /// At least one rule is illegal under the decision rule in force.
+    /// At least one rule is illegal under the decision rule in force; for `lint`, a rulebook
+    /// has an error ([`Exit::ERRORS_FOUND`]).
     Illegal = 1,
     /// The input could not be read (usage, syntax, a bad rulebook or declaration), or the
-    /// output could not be written (a full disk, a refused `--output`).
+    /// output could not be written (a full disk, a refused `--output`); for `lint`, a file
+    /// named could not be read at all.
     BadInput = 2,
     /// Nothing illegal, but some finding is conditional or some rule was not checked.
     Uncertain = 3,
+}
+
+impl Exit {
+    /// `lint` ran and found an error in a rulebook: status 1, as an illegal rule is for
+    /// `check` (the run worked and the answer is no); 2 stays for a run that could not work.
+    pub const ERRORS_FOUND: Exit = Exit::Illegal;
 }
 
 impl From<EngineResult> for Exit {

@@ -60,9 +60,9 @@ fn lint_passes_every_demo_rulebook() {
 }
 
 #[test]
-fn an_unknown_unit_exits_2_and_underlines_the_unit() {
+fn an_unknown_unit_exits_1_and_underlines_the_unit() {
     let run = gonogo(&["lint", "tests/malformed/unknown-unit.rules"]);
-    assert_eq!(run.code, 2);
+    assert_eq!(run.code, 1, "lint found an error: exit 1");
     assert!(
         run.stdout.contains("`inch` is not a unit gonogo knows"),
         "{}",
@@ -93,7 +93,7 @@ fn json_output_parses_and_locates_the_problem() {
         "json",
         "tests/malformed/unknown-unit.rules",
     ]);
-    assert_eq!(run.code, 2);
+    assert_eq!(run.code, 1);
     let doc: serde_json::Value = serde_json::from_str(&run.stdout)
         .unwrap_or_else(|e| panic!("not JSON: {e}\n{}", run.stdout));
     assert_eq!(doc["schema"], "gonogo.lint/1");
@@ -141,7 +141,7 @@ fn a_hundred_thousand_open_parentheses_do_not_crash() {
     let text = format!("define x = {}", "(".repeat(100_000));
     let deep = Scratch::new("deep.rules", text.as_bytes());
     let run = gonogo(&["lint", deep.path()]);
-    assert_eq!(run.code, 2, "{}", run.stderr);
+    assert_eq!(run.code, 1, "{}", run.stderr);
     assert!(run.stdout.contains("P10 too-deep"), "{}", run.stdout);
 }
 
@@ -150,7 +150,7 @@ fn deeply_nested_when_groups_do_not_crash() {
     let text = format!("class c\n{}", "when a == 1\n".repeat(100_000));
     let deep = Scratch::new("when.rules", text.as_bytes());
     let run = gonogo(&["lint", deep.path()]);
-    assert_eq!(run.code, 2, "{}", run.stderr);
+    assert_eq!(run.code, 1, "{}", run.stderr);
     assert!(run.stdout.contains("P10 too-deep"), "{}", run.stdout);
 }
 

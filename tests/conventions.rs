@@ -194,3 +194,30 @@ fn lint_output_on_a_terminal_writes_no_escape_into_the_file() {
     assert!(written.contains("warning"), "{written}{shown}");
     assert!(!coloured(&written), "{written}");
 }
+
+#[test]
+fn lint_exits_1_for_errors_found_and_2_when_it_could_not_run() {
+    let found = gonogo_env(&["lint", WITH_ERROR], &[]);
+    assert_eq!(found.code, 1, "errors found: {}", found.stdout);
+    let missing = gonogo_env(&["lint", "rulebooks-demo/no-such-file.rules"], &[]);
+    assert_eq!(missing.code, 2, "could not run: {}", missing.stdout);
+    let folder = gonogo_env(&["lint", "rulebooks-demo"], &[]);
+    assert_eq!(folder.code, 2, "a folder cannot be read: {}", folder.stdout);
+    // a file that could not be read outweighs another file's errors
+    let both = gonogo_env(&["lint", WITH_ERROR, "no-such-file.rules"], &[]);
+    assert_eq!(both.code, 2, "{}", both.stdout);
+    let clean = gonogo_env(&["lint", WITH_WARNING], &[]);
+    assert_eq!(clean.code, 0, "{}", clean.stdout);
+}
+
+#[test]
+fn lint_with_errors_writes_no_output_file_and_exits_1() {
+    let target = Scratch::new("lint-errors.txt");
+    let run = gonogo_env(&["lint", "--output", target.path(), WITH_ERROR], &[]);
+    assert_eq!(run.code, 1, "{}", run.stderr);
+    assert!(
+        !target.0.exists(),
+        "a report was written for a rulebook with errors"
+    );
+    assert!(run.stderr.contains("C56 unknown-unit"), "{}", run.stderr);
+}

@@ -154,7 +154,7 @@ fn a_chain_of_extends_within_the_cap_is_flattened_whole() {
 #[test]
 fn a_chain_of_extends_past_the_cap_is_refused_once() {
     let (report, exit) = lint_text("extends-past", &extends_chain(2_000), &[]);
-    assert_eq!(exit, Exit::BadInput, "{report}");
+    assert_eq!(exit, Exit::ERRORS_FOUND, "{report}");
     assert_eq!(
         report.matches("C27 extends-too-long").count(),
         1,
@@ -205,7 +205,7 @@ fn patterns_up_to_the_cap_across_includes_are_compiled() {
 fn patterns_past_the_cap_across_includes_are_refused_once() {
     let (root, includes) = many_patterns(4, MAX_PATTERNS / 4 + 1);
     let (report, exit) = lint_text("patterns-past", &root, &includes);
-    assert_eq!(exit, Exit::BadInput, "{report}");
+    assert_eq!(exit, Exit::ERRORS_FOUND, "{report}");
     assert_eq!(
         report.matches("C47 too-many-patterns").count(),
         1,
@@ -218,7 +218,7 @@ fn patterns_past_the_cap_across_includes_are_refused_once() {
 #[test]
 fn an_error_at_column_70000_of_a_100k_line_prints_a_few_lines() {
     let (report, exit) = lint_text("long-line", &long_line(100_000, 70_000), &[]);
-    assert_eq!(exit, Exit::BadInput, "{report}");
+    assert_eq!(exit, Exit::ERRORS_FOUND, "{report}");
     assert!(report.contains("C56 unknown-unit"), "{report}");
     assert!(report.contains("furlongs"), "{report}");
     assert!(report.len() < 3_000, "{} bytes", report.len());

@@ -40,7 +40,7 @@ fn malformed_rulebooks_give_their_diagnostics() {
         let expected = if WARNINGS_ONLY.contains(&name) {
             Exit::Clean
         } else {
-            Exit::BadInput
+            Exit::ERRORS_FOUND
         };
         assert_eq!(exit, expected, "{name}:\n{report}");
         insta::assert_snapshot!(report);
@@ -77,7 +77,7 @@ fn an_include_that_is_a_fifo_is_refused_without_blocking() {
     }
     let (report, exit) = lint_text(&[folder.join("book.rules")]);
     let _ = std::fs::remove_dir_all(&folder);
-    assert_eq!(exit, Exit::BadInput, "{report}");
+    assert_eq!(exit, Exit::ERRORS_FOUND, "{report}");
     assert!(
         report.contains("F04 include-not-a-file")
             && report.contains("is a FIFO (named pipe), not a regular file"),
@@ -96,7 +96,7 @@ fn an_include_that_is_a_link_loop_says_so() {
     std::os::unix::fs::symlink("loop-a.rules", &b).unwrap_or_else(|e| panic!("{e}"));
     let (report, exit) = lint_text(&[folder.join("book.rules")]);
     let _ = std::fs::remove_dir_all(&folder);
-    assert_eq!(exit, Exit::BadInput, "{report}");
+    assert_eq!(exit, Exit::ERRORS_FOUND, "{report}");
     assert!(
         report.contains("F02 include-link-loop")
             && report.contains("`loop-a.rules` is a link that leads round in a loop")

@@ -27,6 +27,18 @@ pub struct LintedFile {
 }
 
 impl LintedFile {
+    /// Whether a file (the one named, or one it includes) could not be had as text: the
+    /// operating system refused it (missing, not permitted, a folder), it is over the size
+    /// cap, or it is not UTF-8. A rulebook that was read and is wrong (an include that names
+    /// no file among its mistakes) is an error found, not this.
+    fn unreadable(&self) -> bool {
+        use crate::diagnostic::codes::read;
+        self.found
+            .problems
+            .iter()
+            .any(|p| [read::IO, read::TOO_LARGE, read::NOT_UTF8].contains(&p.code))
+    }
+
     fn errors(&self) -> usize {
         self.found
             .problems
@@ -59,10 +71,13 @@ pub fn run(paths: &[PathBuf]) -> Linted {
 }
 
 impl Linted {
-    /// 0 when no file has an error (warnings allowed), 2 otherwise.
+    /// 2 when a file could not be read at all (lint could not run on it), else 1 when a
+    /// file has an error, else 0 (warnings allowed).
     pub fn exit(&self) -> Exit {
-        if self.0.iter().any(|f| f.errors() > 0) {
+        if self.0.iter().any(LintedFile::unreadable) {
             Exit::BadInput
+        } else if self.0.iter().any(|f| f.errors() > 0) {
+            Exit::ERRORS_FOUND
         } else {
             Exit::Clean
         }
