@@ -20,7 +20,7 @@
 //! [`color`] whether a stream gets colour, [`diagnostic`] the problem type and the table of
 //! codes every stage reports with,
 //! [`suggest`] "did you mean", [`exit`] the exit statuses, [`output`] writing a document
-//! without ever costing an input, [`parallel`] an order-preserving map
+//! without ever costing an input, [`manual`] the manual pages, [`parallel`] an order-preserving map
 //! over threads for fields of engines.
 
 pub mod analyze;
@@ -31,6 +31,7 @@ pub mod diagnostic;
 pub mod evaluate;
 pub mod exit;
 pub mod load;
+pub mod manual;
 pub mod output;
 pub mod parallel;
 pub mod parse;

@@ -3,11 +3,11 @@
 use std::path::{Path, PathBuf};
 use std::process::ExitCode;
 
-use clap::{CommandFactory, Parser, Subcommand, ValueEnum};
+use clap::{CommandFactory, FromArgMatches, Parser, Subcommand, ValueEnum};
 use gonogo::color::{self, ColorChoice, Stream};
 use gonogo::commands::check::{self, CheckFormat, CheckRequest, Role};
 use gonogo::commands::sheet::{self, SheetFormat};
-use gonogo::commands::{Failure, diff, explain, field, fmt, headroom, impact, lint};
+use gonogo::commands::{Failure, diff, explain, field, fmt, headroom, impact, lint, units};
 use gonogo::diagnostic::{Problem, RenderStyle, codes};
 use gonogo::evaluate::montecarlo::{self, Draws};
 use gonogo::exit::Exit;
@@ -15,6 +15,7 @@ use gonogo::output::{Destination, to_stderr};
 use gonogo::report::diff::DiffFormat;
 use gonogo::report::headroom::HeadroomFormat;
 use gonogo::report::impact::ImpactFormat;
+use gonogo::report::units::UnitsFormat;
 
 /// Stack for the worker thread: deep but bounded syntax trees are walked recursively.
 const STACK_BYTES: usize = 256 * 1024 * 1024;
@@ -41,9 +42,6 @@ struct Cli {
 #[derive(Subcommand)]
 enum Command {
     /// Check engine declarations against a class: a verdict for every rule, with its reasons.
-    #[command(
-        after_help = "Examples:\n  gonogo check --rules rulebooks-demo/tamsin-2027.rules engines-demo/limited2-legal.yaml\n  gonogo check --rules rulebooks-demo/tamsin-2027.rules --as builder engines-demo/*.yaml\n  gonogo check --rules season.rules --class open4 --format json car14.yaml\n\nExit status: 0 all legal and certain; 1 a rule is illegal; 3 nothing illegal but a finding is\nconditional or a rule could not be checked; 2 the input could not be read."
-    )]
     Check {
         /// The rulebook.
         #[arg(long)]
@@ -74,9 +72,6 @@ enum Command {
         declarations: Vec<PathBuf>,
     },
     /// Run the static checks on rulebooks: names, units, dimensions, classes, limits.
-    #[command(
-        after_help = "Examples:\n  gonogo lint rulebooks-demo/*.rules\n  gonogo lint --format json season.rules"
-    )]
     Lint {
         /// Rulebook files.
         #[arg(required = true)]
@@ -86,9 +81,6 @@ enum Command {
         format: lint::LintFormat,
     },
     /// Compare two editions rule by rule: added, dropped, tightened, loosened, changed.
-    #[command(
-        after_help = "Examples:\n  gonogo diff rulebooks-demo/tamsin-2027.rules rulebooks-demo/tamsin-2028.rules\n  gonogo diff --class limited2 --format markdown old.rules new.rules"
-    )]
     Diff {
         /// The old edition.
         old: PathBuf,
@@ -102,9 +94,9 @@ enum Command {
         format: DiffFormat,
     },
     /// Check a field of engines under two editions and list the verdicts that change.
-    #[command(
-        after_help = "Examples:\n  gonogo impact rulebooks-demo/tamsin-2027.rules rulebooks-demo/tamsin-2028.rules engines-demo/\n  gonogo impact --as builder --format markdown old.rules new.rules season/\n\nEach edition is applied as published on its effective date, whatever the declarations' dates."
-    )]
+    ///
+    /// Each edition is applied as published on its effective date, whatever the declarations'
+    /// dates.
     Impact {
         /// The old edition.
         old: PathBuf,
@@ -122,9 +114,6 @@ enum Command {
     },
     /// For a builder: the margin on each numeric rule, and how far each input may move before
     /// the limit is reached.
-    #[command(
-        after_help = "Examples:\n  gonogo headroom --rules rulebooks-demo/tamsin-2027.rules engines-demo/limited2-close-bore.yaml\n  gonogo headroom --rules season.rules --format json car14.yaml"
-    )]
     Headroom {
         /// The rulebook.
         #[arg(long)]
@@ -144,9 +133,6 @@ enum Command {
     },
     /// One rule in plain words: what it requires, what is measured, when it applies, where it
     /// is written and how the class came to have it.
-    #[command(
-        after_help = "Examples:\n  gonogo explain --rules rulebooks-demo/tamsin-2027.rules 3.2\n  gonogo explain --rules rulebooks-demo/tamsin-2027.rules --class open4 3.1"
-    )]
     Explain {
         /// The rulebook.
         #[arg(long)]
@@ -158,9 +144,6 @@ enum Command {
         section: String,
     },
     /// The blank measurement sheet of a class: Markdown to print, or a YAML template to fill in.
-    #[command(
-        after_help = "Examples:\n  gonogo sheet --rules rulebooks-demo/tamsin-2027.rules --class limited2\n  gonogo sheet --rules rulebooks-demo/tamsin-2027.rules --class open4 --format yaml > car44.yaml"
-    )]
     Sheet {
         /// The rulebook.
         #[arg(long)]
@@ -173,16 +156,25 @@ enum Command {
         format: SheetFormat,
     },
     /// Print a shell completion script (bash, zsh, fish, elvish or powershell).
-    #[command(after_help = "Example:\n  gonogo completions bash > /etc/bash_completion.d/gonogo")]
     Completions {
         /// The shell.
         shell: clap_complete::Shell,
     },
-    /// Print the manual page (roff), made from these same definitions.
-    #[command(after_help = "Example:\n  gonogo man > gonogo.1 && man ./gonogo.1")]
-    Man,
+    /// Print a manual page (roff), made from these same definitions: gonogo(1), or the page of
+    /// one subcommand.
+    Man {
+        /// The subcommand whose page to print (gonogo-COMMAND(1)); the top page without one.
+        #[arg(value_parser = clap::builder::PossibleValuesParser::new(gonogo::manual::page_names()))]
+        command: Option<String>,
+    },
+    /// List every unit a rulebook or declaration may use, by dimension, with its factor to SI
+    /// as a decimal and as an exact fraction.
+    Units {
+        /// Output format.
+        #[arg(long, value_enum, default_value_t = UnitsFormat::Text)]
+        format: UnitsFormat,
+    },
     /// Print a rulebook in canonical form (comments are not kept).
-    #[command(after_help = "Example:\n  gonogo fmt rulebooks-demo/lakeshore-2027.rules")]
     Fmt {
         /// The rulebook file.
         file: PathBuf,
@@ -190,7 +182,10 @@ enum Command {
 }
 
 fn main() -> ExitCode {
-    let cli = match Cli::try_parse() {
+    let parsed = gonogo::manual::with_help_notes(Cli::command())
+        .try_get_matches()
+        .and_then(|matches| Cli::from_arg_matches(&matches));
+    let cli = match parsed {
         Ok(cli) => cli,
         Err(e) => return clap_message(&e).into(),
     };
@@ -426,16 +421,16 @@ fn run(cli: Cli) -> Exit {
             clap_complete::generate(shell, &mut Cli::command(), "gonogo", &mut script);
             reply.write(&String::from_utf8_lossy(&script), Exit::Clean)
         }
-        Command::Man => {
-            let mut page = Vec::new();
-            match clap_mangen::Man::new(Cli::command()).render(&mut page) {
-                Ok(()) => reply.write(&String::from_utf8_lossy(&page), Exit::Clean),
-                Err(e) => {
-                    to_stderr(&format!("gonogo: cannot make the manual page: {e}\n"));
+        Command::Man { command } => {
+            match gonogo::manual::page(Cli::command(), command.as_deref()) {
+                Some(page) => reply.write(&page, Exit::Clean),
+                None => {
+                    to_stderr("gonogo: cannot make the manual page\n");
                     Exit::BadInput
                 }
             }
         }
+        Command::Units { format } => reply.write(&units::run(format), Exit::Clean),
         Command::Fmt { file } => done(fmt::run(&file)),
     }
 }
@@ -471,7 +466,7 @@ fn stdin_at_most_once(command: &Command) -> Result<(), Problem> {
         Command::Lint { files, .. } => files.iter().map(PathBuf::as_path).collect(),
         Command::Explain { rules, .. } | Command::Sheet { rules, .. } => vec![rules],
         Command::Fmt { file } => vec![file],
-        Command::Completions { .. } | Command::Man => Vec::new(),
+        Command::Completions { .. } | Command::Man { .. } | Command::Units { .. } => Vec::new(),
     };
     if named.iter().filter(|p| gonogo::source::is_stdin(p)).count() > 1 {
         return Err(Problem::unlocated(

@@ -221,3 +221,211 @@ fn lint_with_errors_writes_no_output_file_and_exits_1() {
     );
     assert!(run.stderr.contains("C56 unknown-unit"), "{}", run.stderr);
 }
+
+/// The pages `gonogo man` refers to (`gonogo-check(1)`, …), as subcommand names.
+fn referenced_pages(page: &str) -> Vec<String> {
+    let text = page.replace("\\-", "-");
+    let mut found: Vec<String> = text
+        .match_indices("gonogo-")
+        .filter_map(|(at, _)| {
+            let rest = &text[at + "gonogo-".len()..];
+            let name: String = rest.chars().take_while(char::is_ascii_lowercase).collect();
+            rest[name.len()..].starts_with("(1)").then_some(name)
+        })
+        .collect();
+    found.sort();
+    found.dedup();
+    found
+}
+
+/// Whether a roff page has a section of this name (`.SH NAME` or `.SH "TWO WORDS"`).
+fn has_section(page: &str, name: &str) -> bool {
+    page.lines()
+        .any(|l| l == format!(".SH {name}") || l == format!(".SH \"{name}\""))
+}
+
+#[test]
+fn every_page_the_manual_refers_to_is_generated_with_its_sections() {
+    let top = gonogo_env(&["man"], &[]);
+    assert_eq!(top.code, 0, "{}", top.stderr);
+    let pages = referenced_pages(&top.stdout);
+    for expected in ["check", "lint", "units", "man", "fmt"] {
+        assert!(
+            pages.iter().any(|p| p == expected),
+            "no gonogo-{expected}(1) in {pages:?}"
+        );
+    }
+    for page in std::iter::once(("gonogo".to_string(), top)).chain(
+        pages
+            .iter()
+            .map(|name| (format!("gonogo-{name}"), gonogo_env(&["man", name], &[]))),
+    ) {
+        let (title, run) = page;
+        assert_eq!(run.code, 0, "{title}: {}", run.stderr);
+        assert!(
+            run.stdout.contains(&format!(".TH {title} 1")),
+            "{title}: no title line"
+        );
+        for section in ["NAME", "SYNOPSIS", "EXIT STATUS", "ENVIRONMENT", "EXAMPLES"] {
+            assert!(has_section(&run.stdout, section), "{title}: no {section}");
+        }
+        assert_eq!(
+            run.stdout.matches(".ds Aq \\(aq").count(),
+            1,
+            "{title}: the roff preamble is repeated"
+        );
+    }
+}
+
+#[test]
+fn a_subcommand_page_lists_its_own_exit_statuses_and_examples() {
+    let lint = gonogo_env(&["man", "lint"], &[]).stdout.replace("\\-", "-");
+    assert!(lint.contains("a rulebook has an error"), "{lint}");
+    assert!(
+        lint.contains("gonogo lint rulebooks-demo/*.rules"),
+        "{lint}"
+    );
+    assert!(
+        lint.contains("NO_COLOR") && lint.contains("CLICOLOR_FORCE"),
+        "{lint}"
+    );
+    let check = gonogo_env(&["man", "check"], &[]).stdout;
+    assert!(check.contains("\\fB3\\fR"), "check has exit status 3");
+    assert!(!lint.contains("\\fB3\\fR"), "lint has no exit status 3");
+}
+
+#[test]
+fn help_and_the_manual_page_show_the_same_examples() {
+    let help = gonogo_env(&["sheet", "--help"], &[]);
+    let page = gonogo_env(&["man", "sheet"], &[])
+        .stdout
+        .replace("\\-", "-");
+    let examples: Vec<&str> = help
+        .stdout
+        .lines()
+        .filter_map(|l| l.trim().strip_prefix("gonogo sheet "))
+        .collect();
+    assert_eq!(examples.len(), 2, "{}", help.stdout);
+    for example in examples {
+        assert!(page.contains(example), "`{example}` not on the page");
+    }
+}
+
+#[test]
+fn an_unknown_page_is_a_usage_error() {
+    let run = gonogo_env(&["man", "furlongs"], &[]);
+    assert_eq!(run.code, 2);
+    assert!(run.stderr.contains("furlongs"), "{}", run.stderr);
+}
+
+#[test]
+fn the_units_listing() {
+    let text = gonogo_env(&["units"], &[]);
+    assert_eq!(text.code, 0, "{}", text.stderr);
+    insta::assert_snapshot!("units_text", text.stdout);
+    let json = gonogo_env(&["units", "--format", "json"], &[]);
+    assert_eq!(json.code, 0, "{}", json.stderr);
+    insta::assert_snapshot!("units_json", json.stdout);
+}
+
+#[test]
+fn the_units_listing_states_the_nist_factors_exactly() {
+    let json = gonogo_env(&["units", "--format", "json"], &[]);
+    let doc: serde_json::Value = serde_json::from_str(&json.stdout)
+        .unwrap_or_else(|e| panic!("not JSON: {e}\n{}", json.stdout));
+    let unit = |symbol: &str| {
+        doc["dimensions"]
+            .as_array()
+            .into_iter()
+            .flatten()
+            .flat_map(|d| d["units"].as_array().into_iter().flatten())
+            .find(|u| u["symbol"] == symbol)
+            .cloned()
+            .unwrap_or_else(|| panic!("`{symbol}` not listed"))
+    };
+    // NIST SP 811 (2008) B.8: 1 in = 2.54 × 10⁻² m exactly
+    assert_eq!(unit("in")["exact_decimal"], "0.0254");
+    assert_eq!(unit("in")["exact_fraction"], "127/5000");
+    // NIST SP 811 B.8: 1 lbf = 0.453 592 37 kg × 9.806 65 m/s², a decimal that ends
+    assert_eq!(unit("lbf")["exact_decimal"], "4.4482216152605");
+    // 1 rpm = 1/60 rev/s (common practice, no source): a fraction with no ending decimal
+    assert_eq!(unit("rpm")["exact_fraction"], "1/60");
+    assert!(unit("rpm")["exact_decimal"].is_null());
+    // the degree is π/180 rad: no fraction at all
+    assert!(unit("deg")["exact_fraction"].is_null());
+}
+
+#[test]
+fn the_units_json_fits_its_schema() {
+    let path = concat!(env!("CARGO_MANIFEST_DIR"), "/schemas/units.schema.json");
+    let schema: serde_json::Value =
+        serde_json::from_str(&std::fs::read_to_string(path).unwrap_or_default())
+            .unwrap_or_else(|e| panic!("{path}: {e}"));
+    jsonschema::meta::validate(&schema).unwrap_or_else(|e| panic!("{path} is no JSON Schema: {e}"));
+    let validator = jsonschema::options()
+        .build(&schema)
+        .unwrap_or_else(|e| panic!("{path}: {e}"));
+    let json = gonogo_env(&["units", "--format", "json"], &[]);
+    let doc: serde_json::Value =
+        serde_json::from_str(&json.stdout).unwrap_or_else(|e| panic!("{e}"));
+    let errors: Vec<String> = validator.iter_errors(&doc).map(|e| e.to_string()).collect();
+    assert!(errors.is_empty(), "{errors:?}");
+}
+
+#[test]
+fn an_unknown_unit_points_to_the_units_command() {
+    for file in [
+        WITH_ERROR,
+        "tests/malformed/unknown-unit-no-suggestion.rules",
+    ] {
+        let run = gonogo_env(&["lint", file], &[]);
+        assert!(
+            run.stdout.contains("`gonogo units` lists"),
+            "{}",
+            run.stdout
+        );
+        assert!(!run.stdout.contains("README"), "{}", run.stdout);
+    }
+}
+
+#[test]
+fn an_unknown_unit_in_a_declaration_with_no_near_name_points_to_the_units_command() {
+    let demo = std::fs::read_to_string(concat!(
+        env!("CARGO_MANIFEST_DIR"),
+        "/engines-demo/limited2-legal.yaml"
+    ))
+    .unwrap_or_default();
+    assert!(demo.contains("0.0001 in\""), "the demo changed");
+    let bad = Scratch::new("qqq.yaml");
+    std::fs::write(&bad.0, demo.replacen("0.0001 in\"", "0.0001 qqqq\"", 1))
+        .unwrap_or_else(|e| panic!("{e}"));
+    let run = gonogo_env(
+        &[
+            "check",
+            "--rules",
+            "rulebooks-demo/tamsin-2027.rules",
+            bad.path(),
+        ],
+        &[],
+    );
+    assert_eq!(run.code, 2, "{}", run.stdout);
+    assert!(run.stderr.contains("D20"), "{}", run.stderr);
+    assert!(
+        run.stderr.contains("`gonogo units` lists"),
+        "{}",
+        run.stderr
+    );
+}
+
+#[test]
+fn an_unreadable_include_is_an_error_found_not_a_failure_to_run() {
+    // the include is a statement of the rulebook; its file failing is the rulebook's mistake
+    let run = gonogo_env(&["lint", "tests/malformed/include-not-utf8.rules"], &[]);
+    assert_eq!(run.code, 1, "{}", run.stdout);
+    let named = gonogo_env(&["lint", "tests/malformed/sub/latin1.rules"], &[]);
+    assert_eq!(
+        named.code, 2,
+        "the named file is not text: {}",
+        named.stdout
+    );
+}

@@ -1257,12 +1257,12 @@ impl CheckError {
             CheckError::UnknownUnit { suggestion, .. } => match suggestion {
                 Some(near) => {
                     return format!(
-                        "did you mean `{near}`? The units gonogo knows are listed in README.md"
+                        "did you mean `{near}`? `gonogo units` lists every unit gonogo knows"
                     );
                 }
                 None => {
-                    "use a unit gonogo knows, such as `in`, `mm`, `ci`, `cc`, `lb`, `cfm` or `inHg` \
-                     (README.md lists them all)"
+                    "use a unit gonogo knows, such as `in`, `mm`, `ci` or `lb`: `gonogo units` lists \
+                     them all"
                 }
             },
             CheckError::UnknownName {
@@ -1516,8 +1516,7 @@ mod tests {
         };
         assert_eq!(
             e.help(),
-            "use a unit gonogo knows, such as `in`, `mm`, `ci`, `cc`, `lb`, `cfm` or `inHg` \
-             (README.md lists them all)"
+            "use a unit gonogo knows, such as `in`, `mm`, `ci` or `lb`: `gonogo units` lists them all"
         );
     }
 

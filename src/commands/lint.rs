@@ -27,16 +27,15 @@ pub struct LintedFile {
 }
 
 impl LintedFile {
-    /// Whether a file (the one named, or one it includes) could not be had as text: the
-    /// operating system refused it (missing, not permitted, a folder), it is over the size
-    /// cap, or it is not UTF-8. A rulebook that was read and is wrong (an include that names
-    /// no file among its mistakes) is an error found, not this.
+    /// Whether the file named could not be had as text: the operating system refused it
+    /// (missing, not permitted, a folder), it is over the size cap, or it is not UTF-8. Such
+    /// a problem points into no file. The same failure of an included file is located at
+    /// its `include`, a mistake in the rulebook: an error found, not this.
     fn unreadable(&self) -> bool {
         use crate::diagnostic::codes::read;
-        self.found
-            .problems
-            .iter()
-            .any(|p| [read::IO, read::TOO_LARGE, read::NOT_UTF8].contains(&p.code))
+        self.found.problems.iter().any(|p| {
+            p.labels.is_empty() && [read::IO, read::TOO_LARGE, read::NOT_UTF8].contains(&p.code)
+        })
     }
 
     fn errors(&self) -> usize {

@@ -1,7 +1,7 @@
 //! The subcommands. Each takes its parsed arguments and returns its document, or a
 //! [`Failure`]: every problem found, as data, with the files they point into. Nothing here
 //! renders a diagnostic or prints; `main` does both, once. None of them gives half a report
-//! on bad input.
+//! on bad input. (`units` reads no file: it lists the unit table.)
 
 pub mod check;
 pub mod diff;
@@ -12,6 +12,7 @@ pub mod headroom;
 pub mod impact;
 pub mod lint;
 pub mod sheet;
+pub mod units;
 
 use crate::check::model::CheckedRulebook;
 use crate::diagnostic::codes;

@@ -481,7 +481,7 @@ impl LoadError {
             }
             LoadError::UnknownUnit { suggestion, .. } => match suggestion {
                 Some(near) => format!("did you mean `{near}`?"),
-                None => "the units gonogo knows are listed in README.md".to_string(),
+                None => "`gonogo units` lists the units gonogo knows".to_string(),
             },
             LoadError::NotFinite => "write the measured value".to_string(),
             LoadError::NotWhole { .. } => "write the count as a whole number".to_string(),

@@ -13,4 +13,5 @@ pub mod markdown;
 pub mod montecarlo;
 pub mod sheet;
 pub mod text;
+pub mod units;
 pub mod view;

@@ -112,6 +112,62 @@ pub fn closest_unit(symbol: &str) -> Option<&'static str> {
     crate::suggest::closest(symbol, UNITS.iter().map(|u| u.symbol))
 }
 
+/// The units of one dimension, in the order of the unit table, for `gonogo units`.
+pub struct DimensionUnits {
+    /// The dimension.
+    pub dimension: Dimension,
+    /// Its everyday name (`length`, …; `plain number` for counts and ratios).
+    pub name: &'static str,
+    /// The coherent SI unit every factor converts to.
+    pub si_unit: &'static str,
+    /// Every unit of the dimension, aliases included.
+    pub units: Vec<&'static Unit>,
+}
+
+/// Every unit grouped by dimension, the dimensions in the order the table first uses them.
+pub fn by_dimension() -> Vec<DimensionUnits> {
+    let mut groups: Vec<DimensionUnits> = Vec::new();
+    for unit in UNITS {
+        match groups.iter_mut().find(|g| g.dimension == unit.dimension) {
+            Some(group) => group.units.push(unit),
+            None => groups.push(DimensionUnits {
+                dimension: unit.dimension,
+                name: dimension_label(unit.dimension),
+                si_unit: si_unit(unit.dimension),
+                units: vec![unit],
+            }),
+        }
+    }
+    groups
+}
+
+/// The everyday name of a dimension, `plain number` for counts and ratios.
+fn dimension_label(dimension: Dimension) -> &'static str {
+    if dimension.is_dimensionless() {
+        return "plain number";
+    }
+    dimension.common_name().unwrap_or("other")
+}
+
+/// The coherent SI unit of a dimension of the table (NIST SP 811, section 4); rotational
+/// speed is in revolutions per second, revolutions being counts.
+fn si_unit(dimension: Dimension) -> &'static str {
+    match dimension {
+        d if d == Dimension::LENGTH => "m",
+        d if d == Dimension::AREA => "m²",
+        d if d == Dimension::VOLUME => "m³",
+        d if d == Dimension::MASS => "kg",
+        d if d == Dimension::FORCE => "N",
+        d if d == Dimension::PRESSURE => "Pa",
+        d if d == Dimension::AIRFLOW => "m³/s",
+        d if d == Dimension::ANGLE => "rad",
+        d if d == Dimension::SPEED => "1/s",
+        d if d == Dimension::TIME => "s",
+        d if d == Dimension::POWER => "W",
+        _ => "1",
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -288,5 +344,32 @@ mod tests {
         assert_eq!(closest_unit("cfn"), Some("cfm"));
         assert_eq!(closest_unit("inch"), Some("in"));
         assert_eq!(closest_unit("KG"), Some("kg"));
+    }
+
+    #[test]
+    fn each_dimension_is_listed_once_with_every_unit_and_its_si_unit() {
+        let groups = by_dimension();
+        let listed: usize = groups.iter().map(|g| g.units.len()).sum();
+        assert_eq!(listed, UNITS.len());
+        for group in &groups {
+            assert_eq!(
+                groups
+                    .iter()
+                    .filter(|g| g.dimension == group.dimension)
+                    .count(),
+                1
+            );
+            assert!(group.units.iter().all(|u| u.dimension == group.dimension));
+            // NIST SP 811 section 4: the coherent SI unit has the factor 1
+            if let Some(si) = lookup(group.si_unit) {
+                assert_eq!(si.to_si, 1.0, "{}", group.si_unit);
+                assert_eq!(si.dimension, group.dimension, "{}", group.si_unit);
+            }
+        }
+        let names: Vec<&str> = groups.iter().map(|g| g.name).collect();
+        assert!(
+            names.contains(&"plain number") && names.contains(&"airflow"),
+            "{names:?}"
+        );
     }
 }
