@@ -418,7 +418,7 @@ fn lint_with_errors_writes_no_output_file() {
         "tests/malformed/unknown-unit.rules",
     ])
     .run();
-    assert_eq!(run.code, 2);
+    assert_eq!(run.code, 1, "lint found an error: exit 1");
     assert!(!target.exists(), "lint wrote its report for a failing run");
     assert!(run.stderr.contains("C56 unknown-unit"), "{}", run.stderr);
 }

@@ -257,7 +257,7 @@ fn the_other_schemas_refuse_a_wrong_shape() {
             "json",
             "tests/malformed/bad-pattern.rules",
         ],
-        &[2],
+        &[1],
     );
     assert_refused(
         "lint",
