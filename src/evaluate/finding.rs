@@ -1,8 +1,14 @@
 //! Findings and verdicts: ISO 14253-1 / ILAC-G8 non-binary outcomes from a margin and its
 //! expanded uncertainty, the JCGM 106 probability of conformance, and the decision rules that
-//! turn a finding into legal or illegal.
+//! turn a finding into legal or illegal; and the value an `==` or `!=` finding shows.
 
+use super::dual::Dual;
+use super::expr::Evaluator;
+use crate::check::resolved::{Expr, ExprKind};
+use crate::load::{Input, Supplied};
 use crate::parse::ast::DecisionRule;
+use crate::report::format::Digits;
+use crate::units::Unit;
 
 /// What the measurement shows about one limit, independent of who is asking.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, PartialOrd, Ord, serde::Serialize)]
@@ -120,6 +126,77 @@ pub fn verdict(finding: Finding, rule: DecisionRule) -> Verdict {
     } else {
         Verdict::Illegal
     }
+}
+
+impl Evaluator<'_> {
+    /// The value an `==` or `!=` finding shows for `d`, the subject at `cylinder` (0-based): a
+    /// reading tested as it is, as written (with its value in the limit's unit beside it when
+    /// it was written in another), so `44.4501 mm` is not shown as the `1.75 in` it is not;
+    /// a computed value with the digits its expanded uncertainty supports (GUM 7.2.6).
+    pub fn equality_shown(
+        &self,
+        subject: &Expr,
+        d: &Dual,
+        cylinder: usize,
+        unit: Option<&'static Unit>,
+    ) -> String {
+        let (k, _) = self.coverage(d);
+        let digits = Digits::supported_in(k * self.combined(d), unit);
+        let reading = self
+            .subject_input(subject, cylinder)
+            .filter(|i| i.value.to_bits() == d.value.to_bits());
+        match reading.and_then(|i| Some((i, before_uncertainty(i.written.as_deref()?)?))) {
+            Some((i, text)) if i.unit == unit.map(|u| u.symbol) => text.to_string(),
+            Some((i, text)) => {
+                let from = i.unit.and_then(crate::units::lookup);
+                let digits = match digits {
+                    Digits::Significant => converted_place(text, from, unit),
+                    place => place,
+                };
+                format!("{text} ({})", digits.quantity(d.value, unit))
+            }
+            None => digits.quantity(d.value, unit),
+        }
+    }
+
+    /// The reading a subject is when it is one measurement, at `cylinder` (0-based).
+    fn subject_input(&self, subject: &Expr, cylinder: usize) -> Option<&Input> {
+        let ExprKind::Measurement(m) = &subject.kind else {
+            return None;
+        };
+        let id = match self.declaration.supplied(m.index())? {
+            Supplied::Single(id) => *id,
+            Supplied::PerCylinder(ids) => *ids.get(cylinder)?,
+            Supplied::Text(..) => return None,
+        };
+        self.declaration.inputs.get(id as usize)
+    }
+}
+
+/// The decimal place of a reading written as `text` in `from`, carried to `to` so that the
+/// converted value keeps at least the written resolution (`44.45 mm` has 2 places, 1.7500 in
+/// has 4); six significant digits where the text has no place (a fraction).
+fn converted_place(text: &str, from: Option<&Unit>, to: Option<&Unit>) -> Digits {
+    match (Digits::as_written(text), from, to) {
+        (Digits::Place(p), Some(f), Some(t)) if f.to_si > 0.0 && t.to_si > 0.0 => {
+            let shift = (t.to_si / f.to_si).log10().ceil();
+            if shift.is_finite() {
+                Digits::Place(p + shift as i32)
+            } else {
+                Digits::Significant
+            }
+        }
+        _ => Digits::Significant,
+    }
+}
+
+/// A reading's text without its stated `± U`, or `None` when nothing is left.
+fn before_uncertainty(text: &str) -> Option<&str> {
+    let end = text
+        .find('±')
+        .or_else(|| text.find("+/-"))
+        .unwrap_or(text.len());
+    Some(text[..end].trim()).filter(|t| !t.is_empty())
 }
 
 #[cfg(test)]

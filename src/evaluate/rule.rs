@@ -174,8 +174,8 @@ impl<'a> Evaluator<'a> {
             (Side::Lower { strict, .. }, _) => {
                 self.one_sided(limit, &subject, &first, false, *strict, slack, unit)
             }
-            (Side::Equal { .. }, _) => self.equality(&subject, true, &first, unit),
-            (Side::NotEqual { .. }, _) => self.equality(&subject, false, &first, unit),
+            (Side::Equal { .. }, _) => self.equality(limit, &subject, true, &first, unit),
+            (Side::NotEqual { .. }, _) => self.equality(limit, &subject, false, &first, unit),
             (Side::Between { .. }, Some(high)) => {
                 self.between(limit, &subject, &first, &high, slack, unit)
             }
@@ -195,33 +195,27 @@ impl<'a> Evaluator<'a> {
     }
 
     /// `==` or `!=` of numbers, on every cylinder: any cylinder that breaks it fails the rule.
-    /// The value shown is the first such cylinder's, in the limit's unit, with every cylinder
-    /// that breaks it named; on a pass, the value of cylinder 1 "on every cylinder".
+    /// Equality is exact where both sides are ([`Evaluator::equal`]). The value shown is the
+    /// first such cylinder's ([`Evaluator::equality_shown`]), with every cylinder that breaks
+    /// it named; on a pass, the value of cylinder 1 "on every cylinder".
     fn equality(
         &self,
+        written: &Limit<Expr>,
         l: &Value,
         equal: bool,
         r: &Value,
         unit: Option<&'static Unit>,
     ) -> Evaluated<Checked> {
-        let cylinders = l.numbers().len().max(r.numbers().len());
-        if cylinders == 0 {
+        let same = self.equal(written, l, r);
+        if same.is_empty() {
             return Err(no_value());
         }
-        let mut breaking = Vec::new();
-        for i in 0..cylinders {
-            let (a, b) = (l.at(i)?.value, r.at(i)?.value);
-            let same = (a - b).abs() <= 1e-9 * a.abs().max(b.abs()).max(1e-300);
-            if same != equal {
-                breaking.push(i);
-            }
-        }
+        let breaking: Vec<usize> = (same.iter().enumerate())
+            .filter_map(|(i, s)| (*s != equal).then_some(i))
+            .collect();
         let shown_at = breaking.first().copied().unwrap_or(0);
-        let value = l.at(shown_at)?.value / unit.map_or(1.0, |u| u.to_si);
-        let mut shown = crate::report::format::number(value);
-        if let Some(u) = unit {
-            shown = format!("{shown} {}", u.symbol);
-        }
+        let at = l.at(shown_at)?;
+        let mut shown = self.equality_shown(&written.subject, at, shown_at, unit);
         if l.is_per_cylinder() || r.is_per_cylinder() {
             shown = match breaking.as_slice() {
                 [] => format!("{shown} on every cylinder"),
