@@ -382,7 +382,10 @@ fn per_cylinder_equality_holds_on_every_cylinder_and_names_the_deciding_one() {
         DecisionRule::GuardedRejection,
     );
     assert_eq!(rows[8].verdict, Verdict::Legal, "{:?}", rows[8]);
-    assert_eq!(rows[8].observed.as_deref(), Some("4.000 in on every cylinder"));
+    assert_eq!(
+        rows[8].observed.as_deref(),
+        Some("4.000 in on every cylinder")
+    );
     assert_eq!(rows[9].verdict, Verdict::Illegal, "{:?}", rows[9]);
     assert_eq!(
         rows[9].observed.as_deref(),
