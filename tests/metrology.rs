@@ -168,3 +168,47 @@ fn equality_that_needs_pi_falls_back_to_the_float_with_its_tolerance() {
     );
     assert_eq!(finding, Finding::Fail);
 }
+
+/// The finding's probability of conformance and effective degrees of freedom of one rule.
+fn probability(measure: &str, test: &str, reading: &str) -> (f64, f64) {
+    let rulebook = rulebook(measure, test);
+    let yaml = format!("class: one\nmeasurements:\n  {reading}\n");
+    let declaration = declaration_from_text(
+        Path::new("one.yaml"),
+        yaml,
+        &rulebook,
+        &mut SourceMap::default(),
+    )
+    .unwrap_or_else(|p| panic!("{reading}: {p:?}"));
+    let class = rulebook.class("one").unwrap_or_else(|| panic!("no class"));
+    let report = check_engine(&rulebook, class, &declaration, None);
+    let n = report.outcomes[0]
+        .checked
+        .as_ref()
+        .and_then(|c| c.numeric.as_ref())
+        .unwrap_or_else(|| panic!("{test} on {reading}: no number"));
+    (n.probability, n.degrees_of_freedom)
+}
+
+#[test]
+fn three_readings_give_the_probability_of_the_t_distribution_not_the_normal() {
+    // REFERENCES.md (GUM 4.2): 72.1, 72.4, 72.2 cc → mean 72.2333 cc, u = s/√3 = 0.08819 cc,
+    // ν = 2. Against <= 72.5 cc the margin is 3.024 u. The measurand is a t with 2 degrees of
+    // freedom (JCGM 101 6.4.9; JCGM 106 7.5, from memory), whose distribution function has the
+    // closed form F(t) = 1/2 + t / (2√(2 + t²)): p = 95.29 %, where Φ(3.024) = 99.88 %
+    let readings = "chamber: {readings: [\"72.1 cc\", \"72.4 cc\", \"72.2 cc\"]}";
+    let (p, nu) = probability(CHAMBER, "chamber <= 72.5 cc", readings);
+    assert_eq!(nu, 2.0);
+    let (mean, s) = (72.233_333, 0.152_753);
+    let u = s / 3f64.sqrt();
+    let z = (72.5 - mean) / u;
+    let t2 = 0.5 + z / (2.0 * (2.0 + z * z).sqrt());
+    assert!((z - 3.024).abs() < 5e-4, "z {z}");
+    assert!((p - t2).abs() < 1e-6, "p {p}, t₂ gives {t2}");
+    assert!((p - 0.9529).abs() < 5e-4, "p {p}");
+    // the same margin from a Type B uncertainty keeps the normal figure: Φ(3.024) = 0.99875
+    let stated = format!("chamber: \"{mean} cc ± {u} cc (k = 1)\"");
+    let (p, nu) = probability(CHAMBER, "chamber <= 72.5 cc", &stated);
+    assert_eq!(nu, f64::INFINITY);
+    assert!((p - 0.998_75).abs() < 5e-5, "p {p}");
+}

@@ -295,9 +295,9 @@ impl<'a> Evaluator<'a> {
         {
             let (ul, uh) = (self.combined(ml), self.combined(mh));
             let (low_value, high_value) = (ml.value, mh.value);
-            let ((kl, _), (kh, _)) = (self.coverage(ml), self.coverage(mh));
+            let ((kl, nl), (kh, nh)) = (self.coverage(ml), self.coverage(mh));
             let f = finding(low_value, kl * ul, false).min(finding(high_value, kh * uh, false));
-            let p = probability_between((low_value, ul), (high_value, uh));
+            let p = probability_between((low_value, ul, nl), (high_value, uh, nh));
             let value = s.at(i)?.value;
             let (limit, margin, u, near) = if low_value < high_value {
                 (value - low_value, low_value, ul, ml)
@@ -343,7 +343,7 @@ impl<'a> Evaluator<'a> {
     fn worst(&self, margins: &[Dual], strict: bool) -> Evaluated<(usize, Dual)> {
         let mut best = (0, f64::INFINITY, f64::INFINITY);
         for (i, m) in margins.iter().enumerate() {
-            let p = probability(m.value, self.combined(m), strict);
+            let p = probability(m.value, self.combined(m), self.coverage(m).1, strict);
             if (p, m.value) < (best.1, best.2) {
                 best = (i, p, m.value);
             }
@@ -378,7 +378,7 @@ impl<'a> Evaluator<'a> {
             expanded: k * u,
             k,
             degrees_of_freedom,
-            probability: probability(margin, u, strict),
+            probability: probability(margin, u, degrees_of_freedom, strict),
             unit,
             cylinder,
             range,
