@@ -212,3 +212,70 @@ fn three_readings_give_the_probability_of_the_t_distribution_not_the_normal() {
     assert_eq!(nu, f64::INFINITY);
     assert!((p - 0.998_75).abs() < 5e-5, "p {p}");
 }
+
+/// The limit (or the two limits of a range) as the reports show it, for one rule on one
+/// reading.
+fn limit_shown(measure: &str, test: &str, reading: &str) -> Vec<String> {
+    let rulebook = rulebook(measure, test);
+    let yaml = format!("class: one\nmeasurements:\n  {reading}\n");
+    let declaration = declaration_from_text(
+        Path::new("one.yaml"),
+        yaml,
+        &rulebook,
+        &mut SourceMap::default(),
+    )
+    .unwrap_or_else(|p| panic!("{reading}: {p:?}"));
+    let class = rulebook.class("one").unwrap_or_else(|| panic!("no class"));
+    let report = check_engine(&rulebook, class, &declaration, None);
+    let view = gonogo::report::view::EngineView::new(&report);
+    let n = view.rules[0]
+        .numeric
+        .as_ref()
+        .unwrap_or_else(|| panic!("{test}: no numbers"));
+    match &n.shown.range {
+        Some([low, high]) => vec![low.clone(), high.clone()],
+        None => vec![n.shown.limit.clone()],
+    }
+}
+
+#[test]
+fn a_limit_is_shown_as_the_rulebook_wrote_it() {
+    const STROKE: &str = "measure stroke: length \"Dial indicator\"";
+    const RATIO: &str = "measure ratio: ratio \"Computed\"";
+    let stroke = "stroke: \"3.480 in\"";
+    // the digits written say how the limit was set: 3.470 in is not 3.47 in to a reader
+    assert_eq!(
+        limit_shown(STROKE, "stroke between 3.470 in and 3.490 in", stroke),
+        ["3.470 in", "3.490 in"]
+    );
+    assert_eq!(
+        limit_shown(STROKE, "stroke <= 3-1/2 in", stroke),
+        ["3-1/2 in"]
+    );
+    assert_eq!(
+        limit_shown(STROKE, "stroke >= -0.010 in", stroke),
+        ["-0.010 in"]
+    );
+    assert_eq!(
+        limit_shown(RATIO, "ratio <= 10.0", "ratio: \"8.6\""),
+        ["10.0"]
+    );
+    // with an allowance, the sum to the finer place of the two (4.030 + 0.0050 = 4.0350)
+    assert_eq!(
+        limit_shown(STROKE, "stroke <= 3.490 in allowing 0.0050 in", stroke),
+        ["3.4950 in"]
+    );
+    assert_eq!(
+        limit_shown(
+            STROKE,
+            "stroke between 3.47 in and 3.49 in allowing 0.005 in",
+            stroke
+        ),
+        ["3.465 in", "3.495 in"]
+    );
+    // a limit in another unit than the numbers are shown in, or computed, keeps six digits
+    assert_eq!(
+        limit_shown(STROKE, "stroke <= 2 * 1.745 in", stroke),
+        ["3.49 in"]
+    );
+}
