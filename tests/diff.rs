@@ -178,3 +178,38 @@ fn a_limit_that_now_excludes_its_value_is_tightened() {
     let out = diff_of(&["max(bore) <= 4.030 in"], &["max(bore) < 4.030 in"]);
     assert!(out.contains("1.1 Rule 1: tightened"), "{out}");
 }
+
+#[test]
+fn a_rule_whose_decision_rule_changed_is_reported() {
+    // 1.1 drops its own simple acceptance (the rulebook's guarded rejection decides it now),
+    // 1.2 takes one, 1.3 keeps its own and 1.4 writes out the rulebook's own: no change there
+    let simple = "car.weight >= 3000 lb\n    decision simple acceptance";
+    let guarded = "car.weight >= 3000 lb\n    decision guarded rejection";
+    let plain = "car.weight >= 3000 lb";
+    let out = diff_of(
+        &[simple, plain, simple, plain],
+        &[plain, simple, simple, guarded],
+    );
+    assert!(
+        out.contains("1.1 Rule 1: changed (decision changed)"),
+        "{out}"
+    );
+    assert!(
+        out.contains(
+            "decided by simple acceptance, this rule's own → guarded rejection, the rulebook's"
+        ),
+        "{out}"
+    );
+    assert!(
+        out.contains("1.2 Rule 2: changed (decision changed)"),
+        "{out}"
+    );
+    assert!(
+        out.contains(
+            "decided by guarded rejection, the rulebook's → simple acceptance, this rule's own"
+        ),
+        "{out}"
+    );
+    assert!(!out.contains("1.3 Rule 3"), "{out}");
+    assert!(!out.contains("1.4 Rule 4"), "{out}");
+}

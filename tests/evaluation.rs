@@ -353,7 +353,8 @@ fn a_value_that_is_not_a_number_decides_nothing() {
 #[test]
 fn per_cylinder_equality_holds_on_every_cylinder_and_names_the_deciding_one() {
     // issue 8: `bore == 4.000 in` with 4.000, 4.200, 4.300, 4.100 in was LEGAL, because only
-    // cylinder 1 was compared; cylinder 2 is the first that is not 4.000 in
+    // cylinder 1 was compared; cylinder 2 is the first that is not 4.000 in. Each reading is
+    // shown as written (issue 9)
     let case = Case::new();
     let bores = "\"4.000 in\", \"4.200 in\", \"4.300 in\", \"4.100 in\"";
     let rows = case.run(
@@ -364,7 +365,7 @@ fn per_cylinder_equality_holds_on_every_cylinder_and_names_the_deciding_one() {
     assert_eq!(rows[8].verdict, Verdict::Illegal);
     assert_eq!(
         rows[8].observed.as_deref(),
-        Some("4.2 in on cylinder 2; cylinders 2, 3, 4 break the rule")
+        Some("4.200 in on cylinder 2; cylinders 2, 3, 4 break the rule")
     );
     // `!=` likewise: cylinder 3 is the stock bore, so the rule fails there
     let bores = "\"4.100 in\", \"4.200 in\", \"4.000 in\", \"4.300 in\"";
@@ -373,7 +374,7 @@ fn per_cylinder_equality_holds_on_every_cylinder_and_names_the_deciding_one() {
         DecisionRule::GuardedRejection,
     );
     assert_eq!(rows[9].verdict, Verdict::Illegal, "{:?}", rows[9]);
-    assert_eq!(rows[9].observed.as_deref(), Some("4 in on cylinder 3"));
+    assert_eq!(rows[9].observed.as_deref(), Some("4.000 in on cylinder 3"));
     // every cylinder at 4.000 in: `==` passes, `!=` fails at cylinder 1
     let bores = "\"4.000 in\", \"4.000 in\", \"4.000 in\", \"4.000 in\"";
     let rows = case.run(
@@ -381,11 +382,14 @@ fn per_cylinder_equality_holds_on_every_cylinder_and_names_the_deciding_one() {
         DecisionRule::GuardedRejection,
     );
     assert_eq!(rows[8].verdict, Verdict::Legal, "{:?}", rows[8]);
-    assert_eq!(rows[8].observed.as_deref(), Some("4 in on every cylinder"));
+    assert_eq!(
+        rows[8].observed.as_deref(),
+        Some("4.000 in on every cylinder")
+    );
     assert_eq!(rows[9].verdict, Verdict::Illegal, "{:?}", rows[9]);
     assert_eq!(
         rows[9].observed.as_deref(),
-        Some("4 in on cylinder 1; cylinders 1, 2, 3, 4 break the rule")
+        Some("4.000 in on cylinder 1; cylinders 1, 2, 3, 4 break the rule")
     );
 }
 

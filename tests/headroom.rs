@@ -5,7 +5,7 @@ mod common;
 
 use std::path::Path;
 
-use gonogo::analyze::headroom::headroom as compute;
+use gonogo::analyze::headroom::{Move, headroom as compute};
 use gonogo::commands::headroom;
 use gonogo::commands::load_rulebook;
 use gonogo::load::load_declaration;
@@ -152,4 +152,78 @@ fn a_limit_written_first_has_the_same_headroom() {
     let original = run(Path::new(RULES)).unwrap_or_else(|e| panic!("{e}"));
     assert!(original.contains("3.2 "), "{original}");
     assert_eq!(limit_first, original);
+}
+
+/// The headroom of one input of one rule of a demo engine, with the input's value.
+fn move_of(file: &str, class: &str, section: &str, label: &str) -> (Move, f64) {
+    let loaded = load_rulebook(Path::new(RULES));
+    let rulebook = loaded.checked.unwrap_or_else(|| panic!("demo rulebook"));
+    let mut sources = SourceMap::default();
+    let d = load_declaration(Path::new(file), &rulebook, &mut sources)
+        .unwrap_or_else(|p| panic!("{p:?}"));
+    let class = rulebook.class(class).unwrap_or_else(|| panic!("class"));
+    let rules = compute(&rulebook, class, &d, None);
+    let rule = rules
+        .iter()
+        .find(|r| r.rule.rule.section.text == section)
+        .unwrap_or_else(|| panic!("{section}"));
+    let m = rule
+        .moves
+        .iter()
+        .find(|m| d.inputs[m.input as usize].label(&rulebook) == label)
+        .unwrap_or_else(|| panic!("{label} moves"));
+    (m.clone(), d.inputs[m.input as usize].value)
+}
+
+#[test]
+fn a_move_whose_first_estimate_leaves_the_domain_is_still_found_inside_it() {
+    // the stroker's gasket may thin to 0.00277 in before its compression ratio reaches 10.0;
+    // the first-order estimate overshoots below zero thickness, where compression_ratio is not
+    // defined, and headroom said the limit was not reached at all
+    let (m, value) = move_of(
+        "engines-demo/open4-stroker.yaml",
+        "open4",
+        "3.4",
+        "gasket.thickness",
+    );
+    assert!(
+        value + m.estimate < 0.0,
+        "the estimate stays inside the domain: no test"
+    );
+    let moved = value + m.confirmed.unwrap_or_else(|| panic!("no move found"));
+    assert!(moved > 0.0 && moved < value, "{moved}");
+    let (v, limit) = m
+        .at_limit
+        .unwrap_or_else(|| panic!("no value at the limit"));
+    assert!(((v - limit) / limit).abs() <= 1e-9, "{v} against {limit}");
+    assert_eq!(m.domain_ends, None);
+}
+
+#[test]
+fn a_limit_beyond_the_domain_is_reported_where_the_domain_ends() {
+    // the close bore's gasket would have to be thinner than nothing to reach the limit: it may
+    // fall to exactly 0 in, where compression_ratio's domain ends, without reaching it
+    let (m, value) = move_of(
+        "engines-demo/limited2-close-bore.yaml",
+        "limited2",
+        "3.4",
+        "gasket.thickness",
+    );
+    assert_eq!(m.confirmed, None);
+    assert_eq!(m.domain_ends, Some(-value));
+    let text = headroom::run(
+        Path::new(RULES),
+        None,
+        None,
+        &["engines-demo/limited2-close-bore.yaml".into()],
+        HeadroomFormat::Text,
+    )
+    .unwrap_or_else(|e| panic!("{e}"));
+    assert!(
+        text.contains(
+            "gasket.thickness may fall 0.041 in, to 0 in, where the formula's domain ends, \
+             without reaching the limit"
+        ),
+        "{text}"
+    );
 }

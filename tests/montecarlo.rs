@@ -213,6 +213,75 @@ fn the_command_line_prints_the_seed_and_its_json_fits_the_schema() {
     assert_eq!(seed_alone.code, 2);
 }
 
+const REPEATED_RULES: &str = r#"
+series "Brackenfold Oval Club"
+edition "2027" effective 2027-04-01
+decision guarded rejection
+coverage 95 %
+
+measure chamber: volume "Burette, re-cc'd ten times"
+
+class hobby "Hobby"
+  rule 1 "Chamber" require chamber <= 72.6 cc end
+end
+"#;
+
+const REPEATED: &str = r#"
+engine: "BF-0734"
+class: hobby
+date: "2027-05-01"
+measurements:
+  chamber:
+    readings: ["72.1 cc", "72.4 cc", "72.2 cc", "72.3 cc", "72.5 cc", "72.0 cc", "72.2 cc", "72.4 cc", "72.3 cc", "72.1 cc"]
+"#;
+
+#[test]
+fn repeated_readings_are_compared_with_the_gum_interval_from_the_t_distribution() {
+    // The mean of ten readings alone: u = s/√10 with ν = 9 (GUM 4.2, G.3.3). The GUM
+    // framework's 95 % interval is y ± t₀.₉₇₅(9)·u = y ± 2.26 u (GUM Table G.2), and the
+    // draws, from the scaled and shifted t₉ (JCGM 101 6.4.9), have that very interval. The
+    // normal y ± 1.96 u the check used before is narrower by 0.30 u, far beyond δ: it called
+    // the law of propagation inadequate for a straight line.
+    let (book, problems) = parse_rulebook(0, REPEATED_RULES);
+    assert!(problems.is_empty(), "{problems:?}");
+    let (rulebook, problems) = check(&RulebookFiles {
+        files: vec![(0, book)],
+    });
+    let rulebook = rulebook.unwrap_or_else(|| panic!("{problems:?}"));
+    let declaration = declaration_from_text(
+        std::path::Path::new("bf-0734.yaml"),
+        REPEATED.to_string(),
+        &rulebook,
+        &mut SourceMap::default(),
+    )
+    .or_panic("the declaration");
+    let mut report = check_engine(&rulebook, &rulebook.classes[0], &declaration, None);
+    montecarlo::attach(
+        &mut report,
+        &Settings {
+            draws: Draws::Adaptive,
+            seed: 9,
+            threads: 2,
+        },
+    );
+    let numeric = report.outcomes[0]
+        .checked
+        .as_ref()
+        .and_then(|c| c.numeric.clone());
+    let numeric = numeric.or_panic("numbers");
+    let mc = numeric.monte_carlo.or_panic("a Monte Carlo result");
+    let u = mc.linear_uncertainty;
+    assert_ne!(mc.validation, Validation::NotAdequate, "{mc:?}");
+    assert!(mc.distance <= mc.tolerance, "{mc:?}");
+    assert!((numeric.degrees_of_freedom - 9.0).abs() < 1e-9);
+    assert!((mc.linear_k - 2.26).abs() < 0.005, "k {}", mc.linear_k);
+    assert!((mc.linear_interval.1 - mc.linear_value - mc.linear_k * u).abs() < 1e-12);
+    // the normal interval's upper end misses the draws' by about 0.30 u
+    let normal_end = mc.linear_value + montecarlo::K95 * u;
+    assert!((mc.interval.1 - normal_end) > 0.25 * u, "{mc:?}");
+    assert!((mc.interval.1 - normal_end) > 10.0 * mc.tolerance, "{mc:?}");
+}
+
 /// `unwrap_or_else(panic!)` with a word on what was wanted, for options and results alike.
 trait OrPanic<T> {
     fn or_panic(self, what: &str) -> T;

@@ -56,8 +56,12 @@ pub struct RuleDiff {
     pub new: Option<String>,
     /// The limits compared, for tightened and loosened rules.
     pub limits: Option<Limits>,
-    /// What else differs, in words (`condition`, `penalty`, ...).
+    /// What else differs, in words (`condition`, `penalty`, `decision`, ...).
     pub notes: Vec<String>,
+    /// The decision rule that decides the rule, old and new, when the rule's own changed it
+    /// (`simple acceptance, this rule's own` → `guarded rejection, the rulebook's`). A change of
+    /// the rulebook's decision rule alone is [`EditionDiff::decision`].
+    pub decision: Option<(String, String)>,
 }
 
 /// What happened to one measurement of the schema.
@@ -247,6 +251,7 @@ fn rule_diff(
         new,
         limits,
         notes: Vec::new(),
+        decision: None,
     }
 }
 
@@ -298,9 +303,43 @@ fn compare_rule(
             _ => notes.push("requirement".to_string()),
         }
     }
+    let decision = decision_change(old_book, new_book, o, n);
+    if decision.is_some() {
+        notes.push("decision".to_string());
+    }
     let mut diff = rule_diff(class, n, limits, change, Some(words(o)), Some(words(n)));
     diff.notes = notes;
+    diff.decision = decision;
     diff
+}
+
+/// The decision rule that decides a matched pair in each edition, in words, when the rule's
+/// own `decision` line changed and with it the decision rule in force; `None` when the same
+/// decision rule decides it in both (a rule that now states the rulebook's own decision rule
+/// is decided as before).
+fn decision_change(
+    old_book: &CheckedRulebook,
+    new_book: &CheckedRulebook,
+    o: &ClassRule,
+    n: &ClassRule,
+) -> Option<(String, String)> {
+    let own = |r: &ClassRule| r.rule.decision.as_ref().map(|d| d.rule);
+    let in_force = |r: &ClassRule, book: &CheckedRulebook| r.decision_in_force(None, book.decision);
+    let (before, after) = (in_force(o, old_book), in_force(n, new_book));
+    if own(o) == own(n) || before == after {
+        return None;
+    }
+    let whose = |r: &ClassRule| {
+        if own(r).is_some() {
+            "this rule's own"
+        } else {
+            "the rulebook's"
+        }
+    };
+    Some((
+        format!("{}, {}", before.words(), whose(o)),
+        format!("{}, {}", after.words(), whose(n)),
+    ))
 }
 
 /// A numeric limit on a subject: the values it allows in SI units, allowance included.

@@ -2,11 +2,18 @@
 //! limit is reached. The move is first estimated from the margin's exact sensitivity
 //! coefficient (margin / ∂margin/∂input), then confirmed by re-evaluating the rule with the
 //! input moved, refining by secant steps and, where those do not settle, by bisection.
+//!
+//! Every step stays inside the domain of the rule's formulas: a step that leaves it (the
+//! first-order estimate of a gasket thickness that overshoots below zero) is pulled back by
+//! bisection toward the last point computed, so a limit that lies inside the domain is still
+//! found, and a limit that lies beyond the domain's edge is reported as that edge: the input
+//! may move that far, and no further, without reaching the limit.
 
 use crate::check::model::{CheckedRulebook, Class, ClassRule};
 use crate::evaluate::expr::Evaluator;
 use crate::evaluate::finding::Finding;
 use crate::evaluate::outcome::{Applies, Numeric};
+use crate::evaluate::value::Unevaluated;
 use crate::load::InputId;
 use crate::load::{Declaration, InputName};
 use crate::parse::ast::DecisionRule;
@@ -25,6 +32,10 @@ pub struct Move {
     /// The rule's tested value and its limit with the confirmed move made (they are equal; the
     /// limit moves too when it is computed from the engine, like an airflow demand).
     pub at_limit: Option<(f64, f64)>,
+    /// When the limit lies beyond the domain of the rule's formulas: the move, SI units, at
+    /// which the domain ends (a gasket thickness of zero), the input still inside the limit
+    /// there (or still outside it).
+    pub domain_ends: Option<f64>,
 }
 
 /// One numeric rule's headroom.
@@ -104,22 +115,127 @@ fn movable(rulebook: &CheckedRulebook, declaration: &Declaration, id: InputId) -
     }
 }
 
-/// The rule's margin, tested value and limit with input `id` moved by `delta` (SI units).
+/// The rule evaluated with one input moved.
+#[derive(Clone, Copy, Debug, PartialEq)]
+enum Probe {
+    /// Computed: the margin.
+    At(f64),
+    /// Not computed: the moved value is outside a formula's domain.
+    Outside,
+    /// Not computed for another reason, or not a finite number.
+    Failed,
+}
+
+/// The rule's margin, tested value and limit with input `id` moved by `delta` (SI units);
+/// `Err(true)` when the move leaves a formula's domain, `Err(false)` for any other failure.
 fn margin_after(
     rulebook: &CheckedRulebook,
     declaration: &Declaration,
     rule: &ClassRule,
     id: InputId,
     delta: f64,
-) -> Option<(f64, f64, f64)> {
+) -> Result<(f64, f64, f64), bool> {
     let mut moved = declaration.clone();
-    moved.inputs.get_mut(id as usize)?.value += delta;
-    let checked = Evaluator::new(rulebook, &moved).test(&rule.test).ok()?;
-    checked.numeric.map(|n| (n.margin, n.value, n.limit))
+    moved.inputs.get_mut(id as usize).ok_or(false)?.value += delta;
+    match Evaluator::new(rulebook, &moved).test(&rule.test) {
+        Ok(checked) => checked
+            .numeric
+            .map(|n| (n.margin, n.value, n.limit))
+            .filter(|(m, _, _)| m.is_finite())
+            .ok_or(false),
+        Err(Unevaluated::Domain(_)) => Err(true),
+        Err(_) => Err(false),
+    }
+}
+
+/// Whether margin `m` has reached or crossed the limit from the side of margin `from`.
+fn crossed(from: f64, m: f64) -> bool {
+    m == 0.0 || m.signum() != from.signum()
+}
+
+/// Where a step from a computed point `inside` toward `outside`, a move beyond the domain,
+/// lands: the first point found by bisection that reaches the limit, or the domain's edge.
+enum Landing {
+    /// A computed point at or beyond the limit: the move and its margin.
+    Crossed(f64, f64),
+    /// The domain ends before the limit: the last move computed.
+    Edge(f64),
+    /// Nothing could be computed.
+    Failed,
+}
+
+/// Bisection between a computed move `inside` (margin on the side of `from`) and a move
+/// `outside` the domain, to within the float's resolution. A move that brings the input to
+/// exactly zero is tried as the edge, where a formula needs a value of at least zero.
+fn land(
+    g: &dyn Fn(f64) -> Probe,
+    (mut inside, mut outside): (f64, f64),
+    from: f64,
+    zero: f64,
+) -> Landing {
+    for _ in 0..MAX_BISECTIONS {
+        let mid = 0.5 * (inside + outside);
+        if mid == inside || mid == outside {
+            break;
+        }
+        match g(mid) {
+            Probe::At(m) if crossed(from, m) => return Landing::Crossed(mid, m),
+            Probe::At(_) => inside = mid,
+            Probe::Outside => outside = mid,
+            Probe::Failed => return Landing::Failed,
+        }
+    }
+    // the edge of an "at least zero" requirement is the input at zero, exactly
+    let near = (zero - inside).abs() <= 1e-9 * zero.abs().max(f64::MIN_POSITIVE);
+    match g(zero) {
+        Probe::At(m) if near && !crossed(from, m) => Landing::Edge(zero),
+        _ => Landing::Edge(inside),
+    }
+}
+
+/// Bisections allowed to find the edge of a formula's domain: enough for a double's 53 bits
+/// over any range a reading can have.
+const MAX_BISECTIONS: usize = 200;
+
+/// A step of the search: to a computed point, to the domain's edge, or nowhere.
+enum Step {
+    /// A computed move and its margin.
+    To(f64, f64),
+    /// The domain ends before the limit, at this move.
+    Edge(f64),
+    /// The search cannot go on.
+    Stop,
+}
+
+/// One step of the search from the computed move `from` to `target`: the target itself when
+/// it is computed, else, outside a bracket, where [`land`] lands between the two. Inside a
+/// bracket both ends are computed, and a point between them outside the domain is a domain
+/// this search does not follow.
+fn advance(
+    g: &dyn Fn(f64) -> Probe,
+    (from, target): (f64, f64),
+    margin: f64,
+    zero: f64,
+    bracketed: bool,
+) -> Step {
+    if !target.is_finite() {
+        return Step::Stop;
+    }
+    match g(target) {
+        Probe::At(m) => Step::To(target, m),
+        Probe::Outside if !bracketed => match land(g, (from, target), margin, zero) {
+            Landing::Crossed(x, m) => Step::To(x, m),
+            Landing::Edge(edge) => Step::Edge(edge),
+            Landing::Failed => Step::Stop,
+        },
+        Probe::Outside | Probe::Failed => Step::Stop,
+    }
 }
 
 /// Finds the move that brings the margin to zero: secant steps from the linear estimate until
-/// the limit is bracketed, then the Illinois variant of regula falsi, which cannot stall.
+/// the limit is bracketed, then the Illinois variant of regula falsi, which cannot stall. A
+/// step outside a formula's domain is pulled back inside it ([`advance`]); where the domain
+/// ends before the limit, the move records where.
 fn confirm(
     rulebook: &CheckedRulebook,
     declaration: &Declaration,
@@ -136,23 +252,47 @@ fn confirm(
         estimate,
         confirmed: None,
         at_limit: None,
+        domain_ends: None,
     };
     let tolerance = 1e-13 * limit.abs().max(f64::MIN_POSITIVE);
-    let g = |delta: f64| {
-        margin_after(rulebook, declaration, rule, id, delta)
-            .map(|(m, v, _)| (m, v))
-            .filter(|(m, _)| m.is_finite())
+    let g = |delta: f64| match margin_after(rulebook, declaration, rule, id, delta) {
+        Ok((m, _, _)) => Probe::At(m),
+        Err(true) => Probe::Outside,
+        Err(false) => Probe::Failed,
+    };
+    // the move that brings the input to zero, where many domains end
+    let zero = declaration
+        .inputs
+        .get(id as usize)
+        .map_or(f64::NAN, |i| -i.value);
+    let mut stepped = |from: f64, target: f64, bracketed: bool| match advance(
+        &g,
+        (from, target),
+        margin,
+        zero,
+        bracketed,
+    ) {
+        Step::To(x, m) => Some((x, m)),
+        Step::Edge(edge) => {
+            // an edge the way the estimate points is where the domain ends; the other way,
+            // the secant has wandered, and nothing is said
+            if edge.signum() == estimate.signum() {
+                result.domain_ends = Some(edge);
+            }
+            None
+        }
+        Step::Stop => None,
     };
     let (mut a, mut ga) = (0.0, margin);
-    let Some((mut gb, _)) = g(estimate) else {
+    let Some((mut b, mut gb)) = stepped(0.0, estimate, false) else {
         return result;
     };
-    let mut b = estimate;
     let mut kept_a = false;
     for _ in 0..MAX_STEPS {
         if gb.abs() <= tolerance {
             result.confirmed = Some(b);
             result.at_limit = margin_after(rulebook, declaration, rule, id, b)
+                .ok()
                 .map(|(_, value, limit)| (value, limit));
             return result;
         }
@@ -160,11 +300,12 @@ fn confirm(
             return result;
         }
         let next = b - gb * (b - a) / (gb - ga);
-        let Some((gn, _)) = g(next).filter(|_| next.is_finite()) else {
+        let bracketed = ga.signum() != gb.signum();
+        let Some((next, gn)) = stepped(b, next, bracketed) else {
             return result;
         };
-        if ga.signum() != gb.signum() {
-            // bracketed: keep the end whose sign differs from the new point's
+        if bracketed {
+            // keep the end whose sign differs from the new point's
             if gn.signum() == gb.signum() {
                 if kept_a {
                     ga *= 0.5; // Illinois: the same end kept twice counts for half

@@ -126,6 +126,41 @@ impl Evaluator<'_> {
     }
 }
 
+impl Evaluator<'_> {
+    /// Whether the subject of an `==` or `!=` limit equals its value, cylinder by cylinder.
+    /// Two values apart by more than rounding differ. Two within rounding of each other are
+    /// equal when their exact difference is zero, where both are exact (`44.45 mm` and
+    /// `1-3/4 in`, NIST SP 811 B.8), and unequal when it is not (`44.450000001 mm`); where
+    /// one is not exact (π, a square root, a formula), they are taken as equal by the float.
+    pub fn equal(&self, written: &Limit<Expr>, subject: &Value, value: &Value) -> Vec<bool> {
+        let close: Vec<bool> = (0..cylinders(subject, value))
+            .map(|i| match (subject.at(i), value.at(i)) {
+                (Ok(a), Ok(b)) => {
+                    let scale = a.value.abs().max(b.value.abs()).max(f64::MIN_POSITIVE);
+                    (a.value - b.value).abs() <= WINDOW * scale
+                }
+                _ => false,
+            })
+            .collect();
+        if !close.contains(&true) {
+            return close;
+        }
+        let Some(exact) = Folder::new(self).difference(written) else {
+            return close;
+        };
+        close
+            .iter()
+            .enumerate()
+            .map(|(i, near)| *near && exact.at(i).is_none_or(Zero::is_zero))
+            .collect()
+    }
+}
+
+/// How many cylinders two values cover together: a single value stands for every cylinder.
+fn cylinders(a: &Value, b: &Value) -> usize {
+    a.numbers().len().max(b.numbers().len())
+}
+
 /// An exact value: one, or one per cylinder.
 #[derive(Clone, Debug, PartialEq)]
 enum Exact {
@@ -287,6 +322,13 @@ impl<'e, 'a> Folder<'e, 'a> {
         } else {
             subject.zip(&limit, |s, l| Some(s - l))
         }
+    }
+
+    /// The exact difference of an `==` or `!=` limit: the subject less the value.
+    fn difference(&mut self, written: &Limit<Expr>) -> Option<Exact> {
+        let subject = self.expr(&written.subject)?;
+        let value = self.expr(written.limits().0)?;
+        subject.zip(&value, |s, v| Some(s - v))
     }
 
     fn expr(&mut self, e: &Expr) -> Option<Exact> {

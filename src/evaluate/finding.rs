@@ -1,8 +1,16 @@
 //! Findings and verdicts: ISO 14253-1 / ILAC-G8 non-binary outcomes from a margin and its
-//! expanded uncertainty, the JCGM 106 probability of conformance, and the decision rules that
-//! turn a finding into legal or illegal.
+//! expanded uncertainty, the JCGM 106 probability of conformance (normal, or Student's t with
+//! finite effective degrees of freedom), and the decision rules that
+//! turn a finding into legal or illegal; and the value an `==` or `!=` finding shows.
 
+use super::dual::Dual;
+use super::expr::Evaluator;
+use crate::check::resolved::{Expr, ExprKind};
+use crate::load::{Input, Supplied};
 use crate::parse::ast::DecisionRule;
+use crate::report::format::Digits;
+use crate::units::Unit;
+use statrs::distribution::{ContinuousCDF, StudentsT};
 
 /// What the measurement shows about one limit, independent of who is asking.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, PartialOrd, Ord, serde::Serialize)]
@@ -55,11 +63,27 @@ fn phi(z: f64) -> f64 {
     0.5 * libm::erfc(-z / std::f64::consts::SQRT_2)
 }
 
-/// Probability of conformance for a one-sided limit, JCGM 106:2012 with a normal
-/// distribution: Φ(margin / u). With no uncertainty it is 1 inside and 0 outside.
-pub fn probability(margin: f64, u: f64, strict: bool) -> f64 {
+/// The distribution function of Student's t with `nu` degrees of freedom; Φ when `nu` is
+/// infinite (or not a number of degrees of freedom).
+fn student(z: f64, nu: f64) -> f64 {
+    if nu.is_finite()
+        && let Ok(t) = StudentsT::new(0.0, 1.0, nu)
+    {
+        return t.cdf(z);
+    }
+    phi(z)
+}
+
+/// Probability of conformance for a one-sided limit (JCGM 106:2012): the probability that the
+/// measurand lies inside the limit, `margin` away with standard uncertainty `u`. With infinite
+/// effective degrees of freedom `nu` (every component of Type B) the measurand is normal and
+/// p = Φ(margin / u); with finite ones (repeated readings) it is the scaled and shifted
+/// t-distribution with ν_eff degrees of freedom (JCGM 101 6.4.9; JCGM 106 7.5, from memory),
+/// p = F_ν(margin / u), so three re-cc'd readings 3.9 u inside give 97 %, not 99.99 %. With no
+/// uncertainty it is 1 inside and 0 outside.
+pub fn probability(margin: f64, u: f64, nu: f64, strict: bool) -> f64 {
     if u > 0.0 {
-        phi(margin / u)
+        student(margin / u, nu)
     } else if margin > 0.0 || (margin == 0.0 && !strict) {
         1.0
     } else {
@@ -68,12 +92,13 @@ pub fn probability(margin: f64, u: f64, strict: bool) -> f64 {
 }
 
 /// Probability of conformance for a two-sided limit (JCGM 106:2012):
-/// Φ((T_U − y)/u) − Φ((T_L − y)/u), written with the margin and standard uncertainty at each
-/// limit (they differ only when a limit itself carries an uncertainty).
-pub fn probability_between(low: (f64, f64), high: (f64, f64)) -> f64 {
-    let ((margin_low, u_low), (margin_high, u_high)) = (low, high);
-    let upper = probability(margin_high, u_high, false);
-    let below_lower = 1.0 - probability(margin_low, u_low, false);
+/// F((T_U − y)/u) − F((T_L − y)/u), written with the margin, standard uncertainty and effective
+/// degrees of freedom at each limit (they differ only when a limit itself carries an
+/// uncertainty).
+pub fn probability_between(low: (f64, f64, f64), high: (f64, f64, f64)) -> f64 {
+    let ((margin_low, u_low, nu_low), (margin_high, u_high, nu_high)) = (low, high);
+    let upper = probability(margin_high, u_high, nu_high, false);
+    let below_lower = 1.0 - probability(margin_low, u_low, nu_low, false);
     (upper - below_lower).max(0.0)
 }
 
@@ -122,6 +147,77 @@ pub fn verdict(finding: Finding, rule: DecisionRule) -> Verdict {
     }
 }
 
+impl Evaluator<'_> {
+    /// The value an `==` or `!=` finding shows for `d`, the subject at `cylinder` (0-based): a
+    /// reading tested as it is, as written (with its value in the limit's unit beside it when
+    /// it was written in another), so `44.4501 mm` is not shown as the `1.75 in` it is not;
+    /// a computed value with the digits its expanded uncertainty supports (GUM 7.2.6).
+    pub fn equality_shown(
+        &self,
+        subject: &Expr,
+        d: &Dual,
+        cylinder: usize,
+        unit: Option<&'static Unit>,
+    ) -> String {
+        let (k, _) = self.coverage(d);
+        let digits = Digits::supported_in(k * self.combined(d), unit);
+        let reading = self
+            .subject_input(subject, cylinder)
+            .filter(|i| i.value.to_bits() == d.value.to_bits());
+        match reading.and_then(|i| Some((i, before_uncertainty(i.written.as_deref()?)?))) {
+            Some((i, text)) if i.unit == unit.map(|u| u.symbol) => text.to_string(),
+            Some((i, text)) => {
+                let from = i.unit.and_then(crate::units::lookup);
+                let digits = match digits {
+                    Digits::Significant => converted_place(text, from, unit),
+                    place => place,
+                };
+                format!("{text} ({})", digits.quantity(d.value, unit))
+            }
+            None => digits.quantity(d.value, unit),
+        }
+    }
+
+    /// The reading a subject is when it is one measurement, at `cylinder` (0-based).
+    fn subject_input(&self, subject: &Expr, cylinder: usize) -> Option<&Input> {
+        let ExprKind::Measurement(m) = &subject.kind else {
+            return None;
+        };
+        let id = match self.declaration.supplied(m.index())? {
+            Supplied::Single(id) => *id,
+            Supplied::PerCylinder(ids) => *ids.get(cylinder)?,
+            Supplied::Text(..) => return None,
+        };
+        self.declaration.inputs.get(id as usize)
+    }
+}
+
+/// The decimal place of a reading written as `text` in `from`, carried to `to` so that the
+/// converted value keeps at least the written resolution (`44.45 mm` has 2 places, 1.7500 in
+/// has 4); six significant digits where the text has no place (a fraction).
+fn converted_place(text: &str, from: Option<&Unit>, to: Option<&Unit>) -> Digits {
+    match (Digits::as_written(text), from, to) {
+        (Digits::Place(p), Some(f), Some(t)) if f.to_si > 0.0 && t.to_si > 0.0 => {
+            let shift = (t.to_si / f.to_si).log10().ceil();
+            if shift.is_finite() {
+                Digits::Place(p + shift as i32)
+            } else {
+                Digits::Significant
+            }
+        }
+        _ => Digits::Significant,
+    }
+}
+
+/// A reading's text without its stated `± U`, or `None` when nothing is left.
+fn before_uncertainty(text: &str) -> Option<&str> {
+    let end = text
+        .find('±')
+        .or_else(|| text.find("+/-"))
+        .unwrap_or(text.len());
+    Some(text[..end].trim()).filter(|t| !t.is_empty())
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -140,7 +236,7 @@ mod tests {
         for &(y, expected, p) in VECTORS {
             let margin = 10.000 - y;
             assert_eq!(finding(margin, 0.020, false), expected, "y = {y}");
-            let got = probability(margin, 0.010, false);
+            let got = probability(margin, 0.010, f64::INFINITY, false);
             assert!((got - p).abs() < 5e-5, "y = {y}: p = {got}, expected {p}");
         }
     }
@@ -148,13 +244,34 @@ mod tests {
     #[test]
     fn on_the_limit_the_probability_is_one_half() {
         // JCGM 106:2012: at y = T_U, p_c = 50 %
-        assert!((probability(0.0, 0.01, false) - 0.5).abs() < 1e-15);
+        assert!((probability(0.0, 0.01, f64::INFINITY, false) - 0.5).abs() < 1e-15);
+        assert!((probability(0.0, 0.01, 2.0, false) - 0.5).abs() < 1e-15);
     }
 
     #[test]
     fn two_sided_probability_subtracts_both_tails() {
         // ±1 u from each limit: Φ(1) − Φ(−1) = 0.6827 (the normal distribution's 1σ mass)
-        assert!((probability_between((0.01, 0.01), (0.01, 0.01)) - 0.682_689).abs() < 1e-6);
+        let inf = f64::INFINITY;
+        let p = probability_between((0.01, 0.01, inf), (0.01, 0.01, inf));
+        assert!((p - 0.682_689).abs() < 1e-6);
+    }
+
+    #[test]
+    fn with_few_degrees_of_freedom_the_probability_follows_the_t_table() {
+        // Student's t table, one-sided 95 %: t = 2.920 for ν = 2, 2.353 for ν = 3, 1.833 for
+        // ν = 9 (GUM Table G.2's two-sided 90 % column, from memory); two-sided 95 % for ν = 9
+        // is 2.262 (GUM Table G.2)
+        assert!((probability(2.920, 1.0, 2.0, false) - 0.95).abs() < 1e-4);
+        assert!((probability(2.353, 1.0, 3.0, false) - 0.95).abs() < 1e-4);
+        assert!((probability(1.833, 1.0, 9.0, false) - 0.95).abs() < 1e-4);
+        let p = probability_between((2.262, 1.0, 9.0), (2.262, 1.0, 9.0));
+        assert!((p - 0.95).abs() < 1e-4, "{p}");
+        // ν = 2 has the closed form F(t) = 1/2 + t / (2√(2 + t²)): 3.9 u inside is 97.0 %,
+        // where the normal distribution says 99.995 %
+        let closed = 0.5 + 3.9 / (2.0 * (2.0 + 3.9f64 * 3.9).sqrt());
+        assert!((probability(3.9, 1.0, 2.0, false) - closed).abs() < 1e-9);
+        assert!((closed - 0.970).abs() < 5e-4);
+        assert!(probability(3.9, 1.0, f64::INFINITY, false) > 0.9999);
     }
 
     #[test]

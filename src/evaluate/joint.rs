@@ -65,6 +65,10 @@ pub enum JointMethod {
     },
 }
 
+/// The degrees of freedom every cylinder's own part is taken with: infinite, a normal
+/// distribution, even where a cylinder's finding uses Student's t for its repeated readings.
+const NORMAL: f64 = f64::INFINITY;
+
 /// Draws for more than two shared dimensions.
 pub const SAMPLES: usize = 20_000;
 
@@ -121,8 +125,10 @@ impl Term {
 /// A cylinder's probability of conformance given the shared dimensions.
 fn conditional(sides: &[Term], z: &[f64]) -> f64 {
     match sides {
-        [one] => probability(one.at(z), one.own, one.strict),
-        [low, high] => probability_between((low.at(z), low.own), (high.at(z), high.own)),
+        [one] => probability(one.at(z), one.own, NORMAL, one.strict),
+        [low, high] => {
+            probability_between((low.at(z), low.own, NORMAL), (high.at(z), high.own, NORMAL))
+        }
         _ => 0.0,
     }
 }

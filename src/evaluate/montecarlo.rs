@@ -9,8 +9,12 @@
 //! probabilistically symmetric 95 % coverage interval (JCGM 101 7.7) and the probability of
 //! conformance (the fraction of draws inside the limit, at the closest cylinder and on every
 //! cylinder), and the GUM uncertainty framework is validated against them (JCGM 101 8.2):
-//! the ends of its interval y ± 1.96·u(y) must lie within the numerical tolerance δ of the
-//! Monte Carlo ends, δ being half a unit in the last of the two significant digits of u.
+//! the ends of its coverage interval y ± k₉₅·u(y) must lie within the numerical tolerance δ of
+//! the Monte Carlo ends, δ being half a unit in the last of the two significant digits of u.
+//! k₉₅ is the interval the GUM framework itself gives for 95 % (JCGM 101 5.11.3 and 8.1, GUM
+//! G.3 and G.6.4): the t-distribution's quantile at the effective degrees of freedom of u(y)
+//! (Welch–Satterthwaite), 1.96 when every component is of Type B. So the mean of three
+//! re-cc'd readings is compared with y ± 4.30·u, not with a normal interval it cannot match.
 //!
 //! The draws come in batches of 10 000 (JCGM 101 7.9.4: max(100/(1 − p), 10⁴)), each from its
 //! own stream of a ChaCha8 generator seeded with the run's seed, so the result is the same on
@@ -25,10 +29,12 @@ use rand::{RngExt, SeedableRng};
 use rand_chacha::ChaCha8Rng;
 use rand_distr::{Distribution as _, StandardNormal, StudentT};
 
+use super::coverage::coverage_factor;
 use super::expr::Evaluator;
 use super::outcome::EngineReport;
 use super::value::Value;
 use crate::check::limit::{Limit, Side};
+use crate::check::model::Coverage;
 use crate::check::resolved::{Expr, TestKind};
 use crate::load::{Component, Declaration, Distribution};
 
@@ -45,8 +51,19 @@ pub const DEFAULT_SEED: u64 = 2027;
 pub const COVERAGE_PROBABILITY: f64 = 0.95;
 
 /// The coverage factor of the GUM framework's 95 % interval for a normal distribution,
-/// Φ⁻¹(0.975) (JCGM 100:2008 G.3.2, Table G.1 gives 1.960).
+/// Φ⁻¹(0.975) (JCGM 100:2008 G.3.2, Table G.1 gives 1.960): k₉₅ at infinite degrees of freedom.
 pub const K95: f64 = 1.959_963_984_540_054;
+
+/// The coverage factor of the GUM framework's 95 % interval for a combined uncertainty of
+/// `nu` effective degrees of freedom: t₀.₉₇₅(ν) (GUM G.3.4, Table G.2), [`K95`] when ν is
+/// infinite.
+pub fn linear_k(nu: f64) -> f64 {
+    if nu.is_finite() {
+        coverage_factor(Coverage::Probability(COVERAGE_PROBABILITY), nu)
+    } else {
+        K95
+    }
+}
 
 /// Significant digits of u(y) regarded as meaningful (JCGM 101 7.9.2, the usual choice).
 pub const SIGNIFICANT_DIGITS: i32 = 2;
@@ -123,7 +140,10 @@ pub struct MonteCarlo {
     pub linear_value: f64,
     /// Its standard uncertainty.
     pub linear_uncertainty: f64,
-    /// Its 95 % interval, y ± 1.96·u(y).
+    /// The coverage factor of its 95 % interval: t₀.₉₇₅ at the effective degrees of freedom,
+    /// 1.96 when they are infinite ([`linear_k`]).
+    pub linear_k: f64,
+    /// Its 95 % interval, y ± k·u(y) with k = [`MonteCarlo::linear_k`].
     pub linear_interval: (f64, f64),
     /// The numerical tolerance δ.
     pub tolerance: f64,
@@ -209,6 +229,8 @@ struct Job<'a> {
     cylinder: usize,
     value: f64,
     uncertainty: f64,
+    /// The coverage factor of the GUM framework's 95 % interval ([`linear_k`]).
+    k: f64,
 }
 
 /// The rules checked with a numeric limit on one side or a range, with the linear figures.
@@ -236,6 +258,7 @@ fn jobs<'a>(report: &EngineReport<'a>) -> Vec<Job<'a>> {
             continue;
         };
         let uncertainty = evaluator.combined(at);
+        let (_, nu) = evaluator.coverage(at);
         jobs.push(Job {
             outcome: i,
             scale: unit.map_or(1.0, |u| u.to_si),
@@ -243,6 +266,7 @@ fn jobs<'a>(report: &EngineReport<'a>) -> Vec<Job<'a>> {
             cylinder,
             value: at.value,
             uncertainty,
+            k: linear_k(nu),
         });
     }
     jobs
@@ -599,7 +623,8 @@ impl Job<'_> {
         let mut values: Vec<f32> = rules.flat_map(|r| r.deviations.iter().copied()).collect();
         let (mean, u, low, high) = statistics(&mut values).unwrap_or((0.0, 0.0, 0.0, 0.0));
         let y = self.value;
-        let linear_interval = (y - K95 * self.uncertainty, y + K95 * self.uncertainty);
+        let half = self.k * self.uncertainty;
+        let linear_interval = (y - half, y + half);
         // both ends as deviations from y, as the draws are kept
         let d_low = (linear_interval.0 - y - low).abs();
         let d_high = (linear_interval.1 - y - high).abs();
@@ -630,6 +655,7 @@ impl Job<'_> {
             all_cylinders: (cylinders > 1).then(|| share(all_conforming)),
             linear_value: y,
             linear_uncertainty: self.uncertainty,
+            linear_k: self.k,
             linear_interval,
             tolerance: delta,
             distance: d_low.max(d_high),
@@ -641,6 +667,14 @@ impl Job<'_> {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn the_linear_interval_takes_k_from_the_t_table() {
+        // GUM JCGM 100:2008 Table G.2, p = 95 %: ν = 2 → 4.30, 9 → 2.26, ∞ → 1.960
+        assert!((linear_k(2.0) - 4.30).abs() < 0.005);
+        assert!((linear_k(9.0) - 2.26).abs() < 0.005);
+        assert_eq!(linear_k(f64::INFINITY), K95);
+    }
 
     #[test]
     fn the_tolerance_is_half_a_unit_in_the_second_significant_digit_of_u() {

@@ -174,8 +174,8 @@ impl<'a> Evaluator<'a> {
             (Side::Lower { strict, .. }, _) => {
                 self.one_sided(limit, &subject, &first, false, *strict, slack, unit)
             }
-            (Side::Equal { .. }, _) => self.equality(&subject, true, &first, unit),
-            (Side::NotEqual { .. }, _) => self.equality(&subject, false, &first, unit),
+            (Side::Equal { .. }, _) => self.equality(limit, &subject, true, &first, unit),
+            (Side::NotEqual { .. }, _) => self.equality(limit, &subject, false, &first, unit),
             (Side::Between { .. }, Some(high)) => {
                 self.between(limit, &subject, &first, &high, slack, unit)
             }
@@ -195,33 +195,27 @@ impl<'a> Evaluator<'a> {
     }
 
     /// `==` or `!=` of numbers, on every cylinder: any cylinder that breaks it fails the rule.
-    /// The value shown is the first such cylinder's, in the limit's unit, with every cylinder
-    /// that breaks it named; on a pass, the value of cylinder 1 "on every cylinder".
+    /// Equality is exact where both sides are ([`Evaluator::equal`]). The value shown is the
+    /// first such cylinder's ([`Evaluator::equality_shown`]), with every cylinder that breaks
+    /// it named; on a pass, the value of cylinder 1 "on every cylinder".
     fn equality(
         &self,
+        written: &Limit<Expr>,
         l: &Value,
         equal: bool,
         r: &Value,
         unit: Option<&'static Unit>,
     ) -> Evaluated<Checked> {
-        let cylinders = l.numbers().len().max(r.numbers().len());
-        if cylinders == 0 {
+        let same = self.equal(written, l, r);
+        if same.is_empty() {
             return Err(no_value());
         }
-        let mut breaking = Vec::new();
-        for i in 0..cylinders {
-            let (a, b) = (l.at(i)?.value, r.at(i)?.value);
-            let same = (a - b).abs() <= 1e-9 * a.abs().max(b.abs()).max(1e-300);
-            if same != equal {
-                breaking.push(i);
-            }
-        }
+        let breaking: Vec<usize> = (same.iter().enumerate())
+            .filter_map(|(i, s)| (*s != equal).then_some(i))
+            .collect();
         let shown_at = breaking.first().copied().unwrap_or(0);
-        let value = l.at(shown_at)?.value / unit.map_or(1.0, |u| u.to_si);
-        let mut shown = crate::report::format::number(value);
-        if let Some(u) = unit {
-            shown = format!("{shown} {}", u.symbol);
-        }
+        let at = l.at(shown_at)?;
+        let mut shown = self.equality_shown(&written.subject, at, shown_at, unit);
         if l.is_per_cylinder() || r.is_per_cylinder() {
             shown = match breaking.as_slice() {
                 [] => format!("{shown} on every cylinder"),
@@ -301,9 +295,9 @@ impl<'a> Evaluator<'a> {
         {
             let (ul, uh) = (self.combined(ml), self.combined(mh));
             let (low_value, high_value) = (ml.value, mh.value);
-            let ((kl, _), (kh, _)) = (self.coverage(ml), self.coverage(mh));
+            let ((kl, nl), (kh, nh)) = (self.coverage(ml), self.coverage(mh));
             let f = finding(low_value, kl * ul, false).min(finding(high_value, kh * uh, false));
-            let p = probability_between((low_value, ul), (high_value, uh));
+            let p = probability_between((low_value, ul, nl), (high_value, uh, nh));
             let value = s.at(i)?.value;
             let (limit, margin, u, near) = if low_value < high_value {
                 (value - low_value, low_value, ul, ml)
@@ -349,7 +343,7 @@ impl<'a> Evaluator<'a> {
     fn worst(&self, margins: &[Dual], strict: bool) -> Evaluated<(usize, Dual)> {
         let mut best = (0, f64::INFINITY, f64::INFINITY);
         for (i, m) in margins.iter().enumerate() {
-            let p = probability(m.value, self.combined(m), strict);
+            let p = probability(m.value, self.combined(m), self.coverage(m).1, strict);
             if (p, m.value) < (best.1, best.2) {
                 best = (i, p, m.value);
             }
@@ -384,7 +378,7 @@ impl<'a> Evaluator<'a> {
             expanded: k * u,
             k,
             degrees_of_freedom,
-            probability: probability(margin, u, strict),
+            probability: probability(margin, u, degrees_of_freedom, strict),
             unit,
             cylinder,
             range,

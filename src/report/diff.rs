@@ -148,6 +148,9 @@ fn lines(d: &EditionDiff, markdown: bool) -> String {
         } else if let Some(text) = r.new.as_ref().or(r.old.as_ref()) {
             let _ = writeln!(out, "{sub}{}", code(text, markdown));
         }
+        if let Some((old, new)) = &r.decision {
+            let _ = writeln!(out, "{sub}decided by {old} → {new}");
+        }
     }
     if d.rules.is_empty() && d.measurements.is_empty() && d.lists.is_empty() && d.decision.is_none()
     {
@@ -199,6 +202,7 @@ struct Rule<'a> {
     old_limit: Option<[Option<f64>; 2]>,
     new_limit: Option<[Option<f64>; 2]>,
     also_changed: &'a [String],
+    decision: Option<[&'a str; 2]>,
 }
 
 fn json(d: &EditionDiff) -> String {
@@ -239,6 +243,7 @@ fn json(d: &EditionDiff) -> String {
                 old_limit: r.limits.as_ref().map(|l| scale(l, l.old)),
                 new_limit: r.limits.as_ref().map(|l| scale(l, l.new)),
                 also_changed: &r.notes,
+                decision: r.decision.as_ref().map(|(a, b)| [a.as_str(), b.as_str()]),
             })
             .collect(),
     };

@@ -88,6 +88,9 @@ fn move_words(rulebook: &CheckedRulebook, d: &Declaration, m: &Move, inside: boo
     };
     let unit = input_unit(d, m);
     let label = input.label(rulebook);
+    if let (None, Some(edge)) = (m.confirmed, m.domain_ends) {
+        return domain_words(&label, input.value, (edge, m.estimate), unit, inside);
+    }
     let Some(delta) = m.confirmed else {
         return format!(
             "{label}: the limit is not reached by moving it alone (first-order estimate {})",
@@ -119,6 +122,39 @@ fn move_words(rulebook: &CheckedRulebook, d: &Declaration, m: &Move, inside: boo
         quantity(delta.abs(), unit),
         quantity(moved, unit)
     )
+}
+
+/// The words for an input whose limit lies beyond the domain of the rule's formulas: it may
+/// move as far as the domain goes (a gasket thickness to 0 in) and the limit is still not
+/// reached; outside the limit, no value the formula is defined for brings it back alone.
+fn domain_words(
+    label: &str,
+    value: f64,
+    (edge, estimate): (f64, f64),
+    unit: Option<&Unit>,
+    inside: bool,
+) -> String {
+    let verb = if estimate >= 0.0 { "rise" } else { "fall" };
+    let to = quantity(value + edge, unit);
+    if edge == 0.0 {
+        return format!(
+            "{label} is where the formula's domain ends ({to}): it cannot {verb}, and no value \
+             the formula is defined for reaches the limit by moving it alone"
+        );
+    }
+    if inside {
+        format!(
+            "{label} may {verb} {}, to {to}, where the formula's domain ends, without reaching \
+             the limit",
+            quantity(edge.abs(), unit)
+        )
+    } else {
+        format!(
+            "{label}: moving it alone does not reach the limit before the formula's domain ends \
+             (at {to}, a {verb} of {})",
+            quantity(edge.abs(), unit)
+        )
+    }
 }
 
 /// The words for an input that is exactly on the limit: inside when the limit includes its
@@ -175,6 +211,7 @@ struct MoveJson {
     value: f64,
     estimate: f64,
     confirmed: Option<f64>,
+    domain_ends_at: Option<f64>,
     value_at_limit: Option<f64>,
     limit_there: Option<f64>,
 }
@@ -213,6 +250,7 @@ pub fn json(
                             value: input.value / scale(u),
                             estimate: m.estimate / scale(u),
                             confirmed: m.confirmed.map(|c| c / scale(u)),
+                            domain_ends_at: m.domain_ends.map(|e| e / scale(u)),
                             value_at_limit: m.at_limit.map(|(v, _)| v / s),
                             limit_there: m.at_limit.map(|(_, l)| l / s),
                         })

@@ -36,7 +36,10 @@ pub struct MonteCarloView {
     pub linear_value: f64,
     /// Its standard uncertainty.
     pub linear_standard_uncertainty: f64,
-    /// Its 95 % interval, y ± 1.96·u(y).
+    /// The coverage factor of its 95 % interval: t₀.₉₇₅ at the effective degrees of freedom,
+    /// 1.96 when they are infinite.
+    pub linear_coverage_factor: f64,
+    /// Its 95 % interval, y ± k·u(y).
     pub linear_coverage_interval: [f64; 2],
     /// The numerical tolerance δ (JCGM 101 7.9.2, two significant digits of u).
     pub tolerance: f64,
@@ -95,11 +98,12 @@ pub fn view(mc: &MonteCarlo, unit: Option<&'static Unit>) -> MonteCarloView {
         fact(
             "linear",
             format!(
-                "{}, u {}, 95 % interval {} to {} (y ± 1.96 u)",
+                "{}, u {}, 95 % interval {} to {} (y ± {:.2} u)",
                 q(mc.linear_value),
                 u(mc.linear_uncertainty),
                 q(mc.linear_interval.0),
-                q(mc.linear_interval.1)
+                q(mc.linear_interval.1),
+                mc.linear_k
             ),
         ),
         fact(
@@ -126,6 +130,7 @@ pub fn view(mc: &MonteCarlo, unit: Option<&'static Unit>) -> MonteCarloView {
         all_cylinders_probability: mc.all_cylinders,
         linear_value: mc.linear_value / s,
         linear_standard_uncertainty: mc.linear_uncertainty / s,
+        linear_coverage_factor: mc.linear_k,
         linear_coverage_interval: [mc.linear_interval.0 / s, mc.linear_interval.1 / s],
         tolerance: mc.tolerance / s,
         largest_difference: mc.distance / s,

@@ -725,7 +725,7 @@ impl RuleView {
             note: o.note().map(str::to_string),
             numeric: checked
                 .and_then(|c| c.numeric.as_ref())
-                .map(|n| number_view(n, subject_reading(o, r, n), r)),
+                .map(|n| number_view(n, subject_reading(o, r, n), limits_written(o, n), r)),
             observed: checked.and_then(|c| c.observed.clone()),
             missing: o.missing.clone(),
             not_finite: o.not_finite,
@@ -893,7 +893,12 @@ impl RuleView {
     }
 }
 
-fn number_view(n: &Numeric, reading: Option<&Input>, r: &EngineReport) -> NumberView {
+fn number_view(
+    n: &Numeric,
+    reading: Option<&Input>,
+    limits: [Option<String>; 2],
+    r: &EngineReport,
+) -> NumberView {
     let s = n.unit.map_or(1.0, |u| u.to_si);
     NumberView {
         unit: n.unit.map(|u| u.symbol),
@@ -917,18 +922,25 @@ fn number_view(n: &Numeric, reading: Option<&Input>, r: &EngineReport) -> Number
             .monte_carlo
             .as_ref()
             .map(|m| super::montecarlo::view(m, n.unit)),
-        shown: number_shown(n, reading),
+        shown: number_shown(n, reading, limits),
     }
 }
 
 /// A limit's numbers in words: a reading tested as it is as written (with its value in the
 /// limit's unit beside it when it was written in another); a computed value, the margin and
 /// U with the digits U supports (GUM 7.2.6); without an uncertainty the margin to the decimal
-/// place of the finer of value and limit shown; the limit to six significant digits.
-fn number_shown(n: &Numeric, reading: Option<&Input>) -> NumberShown {
+/// place of the finer of value and limit shown; a limit as written ([`limits_written`]), else
+/// to six significant digits.
+fn number_shown(n: &Numeric, reading: Option<&Input>, limits: [Option<String>; 2]) -> NumberShown {
     let digits = Digits::supported_in(n.expanded, n.unit);
     let computed = digits.quantity(n.value, n.unit);
-    let limit = quantity(n.limit, n.unit);
+    let [first, second] = limits;
+    let limit = match (n.range, &first, &second) {
+        (None, Some(written), _) => written.clone(),
+        (Some((low, _)), Some(written), _) if low == n.limit => written.clone(),
+        (Some((_, high)), _, Some(written)) if high == n.limit => written.clone(),
+        _ => quantity(n.limit, n.unit),
+    };
     let (value, margin_digits) = match reading {
         Some(input) => {
             let written = written(input, input.unit.and_then(units::lookup));
@@ -955,14 +967,68 @@ fn number_shown(n: &Numeric, reading: Option<&Input>) -> NumberShown {
     NumberShown {
         value,
         limit,
-        range: n
-            .range
-            .map(|(a, b)| [quantity(a, n.unit), quantity(b, n.unit)]),
+        range: n.range.map(|(a, b)| {
+            [
+                first.unwrap_or_else(|| quantity(a, n.unit)),
+                second.unwrap_or_else(|| quantity(b, n.unit)),
+            ]
+        }),
         margin: format!("{} {side}", margin_digits.quantity(n.margin.abs(), n.unit)),
         expanded_uncertainty: digits.quantity(n.expanded, n.unit),
         coverage: coverage_of(n),
         probability_of_conformance: probability(n.probability, n.expanded > 0.0),
     }
+}
+
+/// Each limit of a rule as the rulebook wrote it, where it is a number in the unit its
+/// numbers are shown in (`3.470 in`, `10.0`): without an allowance, its digits and unit; with
+/// one, the limit and allowance together to the finer decimal place of the two (`4.030 in`
+/// allowing `0.0050 in` is `4.0350 in`). `None` for a limit computed from anything else.
+fn limits_written(o: &Outcome, n: &Numeric) -> [Option<String>; 2] {
+    let TestKind::Limit { limit, .. } = &o.rule.test.kind else {
+        return [None, None];
+    };
+    let allowance = match &limit.allowance {
+        None => None,
+        Some(a) => match literal_text(a, n.unit) {
+            Some((text, _)) => Some(Digits::as_written(&text)),
+            None => return [None, None],
+        },
+    };
+    let shown = |e: &Expr, value: Option<f64>| {
+        let (text, si) = literal_text(e, n.unit)?;
+        match (allowance, value) {
+            (None, Some(v)) if (v - si).abs() <= 1e-12 * si.abs() => Some(text),
+            (Some(a), Some(v)) => Some(a.finer(Digits::as_written(&text)).quantity(v, n.unit)),
+            _ => None,
+        }
+    };
+    let (first, second) = limit.limits();
+    match (n.range, second) {
+        (Some((low, high)), Some(second)) => [shown(first, Some(low)), shown(second, Some(high))],
+        _ => [shown(first, Some(n.limit)), None],
+    }
+}
+
+/// A literal (or a negated one) written in `unit`, exactly as written, with its value (SI).
+fn literal_text(e: &Expr, unit: Option<&Unit>) -> Option<(String, f64)> {
+    let (negative, l) = match &e.kind {
+        ExprKind::Literal(l) => (false, l),
+        ExprKind::Negate(inner) => match &inner.kind {
+            ExprKind::Literal(l) => (true, l),
+            _ => return None,
+        },
+        _ => return None,
+    };
+    if l.uncertain.is_some() || l.unit.map(|u| u.symbol) != unit.map(|u| u.symbol) {
+        return None;
+    }
+    let sign = if negative { "-" } else { "" };
+    let text = match l.unit {
+        Some(u) => format!("{sign}{} {}", l.written, u.symbol),
+        None => format!("{sign}{}", l.written),
+    };
+    Some((text, if negative { -l.si } else { l.si }))
 }
 
 /// The reading a limit tests when its subject is a reading itself (`bore`, `max(bore)`):
