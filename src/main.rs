@@ -62,7 +62,8 @@ enum Command {
         /// Check the propagation of uncertainty by Monte Carlo (JCGM 101) on every numeric
         /// rule: `--monte-carlo` alone draws adaptively until the results settle (at most
         /// 1 000 000 draws), `--monte-carlo=N` makes N draws.
-        #[arg(long, value_name = "DRAWS", num_args = 0..=1, require_equals = true)]
+        #[arg(long, value_name = "DRAWS", num_args = 0..=1, require_equals = true,
+              value_parser = draws)]
         monte_carlo: Option<Option<usize>>,
         /// The seed of the Monte Carlo generator (2027 by default); the report prints it.
         #[arg(long, requires = "monte_carlo")]
@@ -179,6 +180,20 @@ enum Command {
         /// The rulebook file.
         file: PathBuf,
     },
+}
+
+/// `--monte-carlo=N`: a whole number of draws, at least [`montecarlo::MIN_DRAWS`].
+fn draws(text: &str) -> Result<usize, String> {
+    let n: usize = text
+        .parse()
+        .map_err(|_| format!("`{text}` is not a whole number of draws"))?;
+    if n < montecarlo::MIN_DRAWS {
+        return Err(format!(
+            "{n} draws are too few for a 95 % coverage interval; give at least {}",
+            montecarlo::MIN_DRAWS
+        ));
+    }
+    Ok(n)
 }
 
 fn main() -> ExitCode {

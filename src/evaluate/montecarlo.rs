@@ -41,6 +41,25 @@ use crate::load::{Component, Declaration, Distribution};
 /// Draws in one batch (JCGM 101 7.9.4 for p = 95 %).
 pub const BATCH: usize = 10_000;
 
+/// The size of each batch: [`BATCH`] for an adaptive run; a fixed run of N draws is cut into
+/// at least [`MIN_BATCHES`] batches, so its validation can tell noise from a difference.
+fn batch_size(draws: Draws) -> usize {
+    match draws {
+        Draws::Adaptive => BATCH,
+        Draws::Fixed(n) => n.div_ceil(MIN_BATCHES).clamp(1, BATCH),
+    }
+}
+
+/// The fewest draws `--monte-carlo=N` accepts: below it a 95 % interval rests on a handful of
+/// draws in each tail (JCGM 101 7.2.2 asks for M much larger than 1/(1 − p); from memory).
+pub const MIN_DRAWS: usize = 1_000;
+
+/// The batches a run needs before its spread is trusted: the standard deviation of the batch
+/// estimates (JCGM 101 7.9.4) from fewer has too few degrees of freedom to say the run has
+/// settled or that an interval end differs from the GUM one (from two batches it is a guess
+/// with one degree of freedom, which let sampling noise read as "not adequate").
+pub const MIN_BATCHES: usize = 10;
+
 /// The most draws an adaptive run makes.
 pub const ADAPTIVE_CAP: usize = 1_000_000;
 
@@ -173,8 +192,7 @@ pub fn attach(report: &mut EngineReport, settings: &Settings) {
     };
     loop {
         let done: usize = batches.iter().map(|b| b.size).sum();
-        let finished =
-            batches.len() >= 2 && (0..jobs.len()).all(|j| settled(j, jobs[j].scale, &batches));
+        let finished = (0..jobs.len()).all(|j| jobs[j].decided(j, &batches));
         if done >= wanted || (settings.draws == Draws::Adaptive && finished) {
             break;
         }
@@ -182,7 +200,7 @@ pub fn attach(report: &mut EngineReport, settings: &Settings) {
         let sizes: Vec<(usize, usize)> = (0..round)
             .map(|i| batches.len() + i)
             .scan(done, |start, index| {
-                let size = BATCH.min(wanted.saturating_sub(*start));
+                let size = batch_size(settings.draws).min(wanted.saturating_sub(*start));
                 *start += size;
                 Some((index, size))
             })
@@ -191,11 +209,7 @@ pub fn attach(report: &mut EngineReport, settings: &Settings) {
         // a rule that has settled draws no more (each rule is its own adaptive run); the
         // inputs are drawn all the same, so every rule sees the same draws in any case
         let active: Vec<bool> = (0..jobs.len())
-            .map(|j| {
-                settings.draws != Draws::Adaptive
-                    || batches.len() < 2
-                    || !settled(j, jobs[j].scale, &batches)
-            })
+            .map(|j| settings.draws != Draws::Adaptive || !jobs[j].decided(j, &batches))
             .collect();
         batches.extend(run_round(
             &model,
@@ -598,6 +612,9 @@ fn settled(j: usize, scale: f64, batches: &[Batch]) -> bool {
     if s.is_empty() {
         return true;
     }
+    if s.len() < MIN_BATCHES {
+        return false;
+    }
     let delta = tolerance_in(pooled_uncertainty(j, batches), scale);
     [
         spread(&s, |x| x.0),
@@ -610,9 +627,20 @@ fn settled(j: usize, scale: f64, batches: &[Batch]) -> bool {
 }
 
 impl Job<'_> {
+    /// Whether an adaptive run may stop drawing for job `j`: settled, and its validation
+    /// decided either way (a difference within the sampling noise of δ needs more draws).
+    fn decided(&self, j: usize, batches: &[Batch]) -> bool {
+        batches.len() >= MIN_BATCHES
+            && settled(j, self.scale, batches)
+            && self.result(j, batches, 0, true).validation != Validation::Unsettled
+    }
+
     /// The Monte Carlo figures of job `j` from every batch, with the validation of the GUM
-    /// framework (JCGM 101 8.2). An interval end further from the GUM one than δ by more than
-    /// twice its own standard deviation shows inadequacy even before the run settles.
+    /// framework (JCGM 101 8.2). An interval end is shown to differ only when it is further
+    /// from the GUM one than δ by more than twice its own standard deviation (sampling noise
+    /// is not a difference), and only once at least [`MIN_BATCHES`] batches say how large
+    /// that deviation is; it agrees when the run has settled and both ends are within δ;
+    /// anything between is not yet decided.
     fn result(&self, j: usize, batches: &[Batch], seed: u64, adaptive: bool) -> MonteCarlo {
         let rules = batches.iter().map(|b| &b.rules[j]);
         let draws: usize = rules.clone().map(|r| r.draws).sum();
@@ -631,16 +659,16 @@ impl Job<'_> {
         let delta = tolerance_in(u, self.scale);
         let summaries = summaries(j, batches);
         let (s_low, s_high) = (spread(&summaries, |x| x.2), spread(&summaries, |x| x.3));
-        let settled = settled(j, self.scale, batches) && summaries.len() >= 2;
-        let validation = if d_low > delta + 2.0 * s_low || d_high > delta + 2.0 * s_high {
-            Validation::NotAdequate
-        } else if settled && d_low <= delta && d_high <= delta {
-            Validation::Adequate
-        } else if settled {
-            Validation::NotAdequate
-        } else {
-            Validation::Unsettled
-        };
+        let settled = settled(j, self.scale, batches);
+        let trusted = summaries.len() >= MIN_BATCHES;
+        let validation =
+            if trusted && (d_low > delta + 2.0 * s_low || d_high > delta + 2.0 * s_high) {
+                Validation::NotAdequate
+            } else if settled && d_low <= delta && d_high <= delta {
+                Validation::Adequate
+            } else {
+                Validation::Unsettled
+            };
         let share = |n: usize| n as f64 / draws.max(1) as f64;
         MonteCarlo {
             draws,
