@@ -17,6 +17,7 @@ use miette::{
     Severity, SourceCode, SourceSpan, SpanContents,
 };
 
+use crate::report::format::count;
 use crate::source::{SourceMap, Span};
 use window::Window;
 
@@ -266,17 +267,9 @@ pub fn summary(problems: &[Problem]) -> String {
     let warnings = problems.len() - errors;
     format!(
         "{}, {}",
-        plural(errors, "error"),
-        plural(warnings, "warning")
+        count(errors, "error", "errors"),
+        count(warnings, "warning", "warnings")
     )
-}
-
-fn plural(n: usize, word: &str) -> String {
-    if n == 1 {
-        format!("1 {word}")
-    } else {
-        format!("{n} {word}s")
-    }
 }
 
 #[cfg(test)]

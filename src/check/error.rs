@@ -6,6 +6,7 @@
 use crate::diagnostic::codes;
 use crate::diagnostic::{Level, Problem};
 use crate::parse::ast::{CompareOp, Date};
+use crate::report::format::count;
 use crate::source::Span;
 use crate::units::{self, Dimension};
 
@@ -900,7 +901,10 @@ impl CheckError {
                 takes,
                 given,
                 ..
-            } => format!("`{function}` takes {takes} arguments, not {given}"),
+            } => format!(
+                "`{function}` takes {}, not {given}",
+                count(*takes, "argument", "arguments")
+            ),
             CheckError::ArgumentMissing {
                 function, missing, ..
             } => {

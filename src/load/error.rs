@@ -8,7 +8,9 @@ use std::path::PathBuf;
 
 use super::path::DeclPath;
 use crate::diagnostic::Problem;
+use crate::parse::QuantityFault;
 use crate::parse::ast::Date;
+use crate::report::format::count as count_of;
 use crate::source::Span;
 use crate::suggest::UnknownClass;
 use crate::units::Dimension;
@@ -107,8 +109,8 @@ pub enum LoadError {
     },
     /// Text that is not a quantity.
     BadQuantity {
-        /// What the literal parser expected.
-        reason: String,
+        /// What is wrong with the text.
+        fault: QuantityFault,
         /// An example of a good one, in backticks.
         example: String,
     },
@@ -304,7 +306,7 @@ impl LoadError {
                 file.display()
             ),
             LoadError::BadDate { written } => format!("`{written}` is not a calendar date"),
-            LoadError::BadQuantity { reason, .. } => reason.clone(),
+            LoadError::BadQuantity { fault, .. } => fault.message(),
             LoadError::BadCoverage(_) => "the coverage factor must be above zero".to_string(),
             LoadError::MissingUnit {
                 measurement,
@@ -369,7 +371,10 @@ impl LoadError {
                 count,
                 earlier,
                 from,
-            } => format!("this gives {count} cylinders, but `{from}` gives {earlier}"),
+            } => format!(
+                "this gives {}, but `{from}` gives {earlier}",
+                count_of(*count, "cylinder", "cylinders")
+            ),
             LoadError::TwoUncertainties => {
                 "this value has its own `±` and also names an instrument".to_string()
             }
@@ -389,7 +394,10 @@ impl LoadError {
             }
             LoadError::Yaml { message } => message.clone(),
             LoadError::TooMany { shown } => {
-                format!("reading stopped after {shown} problems")
+                format!(
+                    "reading stopped after {}",
+                    count_of(*shown, "problem", "problems")
+                )
             }
         }
     }
@@ -401,7 +409,7 @@ impl LoadError {
             LoadError::DuplicateKey { .. } => "given again here".to_string(),
             LoadError::UnknownClass(_) => "unknown class".to_string(),
             LoadError::BadDate { .. } => "not a date".to_string(),
-            LoadError::BadQuantity { .. } => "not a quantity".to_string(),
+            LoadError::BadQuantity { fault, .. } => fault.label().to_string(),
             LoadError::BadCoverage(_) => "coverage factor".to_string(),
             LoadError::MissingUnit { .. } => "no unit".to_string(),
             LoadError::WrongUnit { found, .. } => format!("a {found}"),
@@ -421,7 +429,7 @@ impl LoadError {
             LoadError::NotAList { .. } => "a list".to_string(),
             LoadError::EmptyList => "empty".to_string(),
             LoadError::TooManyValues => "one value too many".to_string(),
-            LoadError::CylinderCount { count, .. } => format!("{count} cylinders"),
+            LoadError::CylinderCount { count, .. } => count_of(*count, "cylinder", "cylinders"),
             LoadError::TwoUncertainties | LoadError::ValueAndValues { .. } => "here".to_string(),
             LoadError::TooFewReadings { .. } => "fewer than two readings".to_string(),
             LoadError::StatedInReadings => "its own uncertainty".to_string(),
@@ -460,9 +468,7 @@ impl LoadError {
             LoadError::BadDate { .. } => {
                 "write the date as year-month-day, like `2027-07-19`".to_string()
             }
-            LoadError::BadQuantity { example, .. } => {
-                format!("write a number and its unit, like {example}")
-            }
+            LoadError::BadQuantity { fault, example } => fault.help(example),
             LoadError::BadCoverage(CoverageAt::Literal) => {
                 "write `(k = 2)` for about 95 % coverage".to_string()
             }

@@ -1,0 +1,65 @@
+//! Messages in the user's terms (issue 10): each case the issue names, run through the binary,
+//! says what was wrong in words a builder or an official uses, with plurals right.
+
+mod common;
+
+use common::gonogo;
+
+const RULES: &str = "rulebooks-demo/tamsin-2027.rules";
+const NEXT: &str = "rulebooks-demo/tamsin-2028.rules";
+const LEGAL: &str = "engines-demo/limited2-legal.yaml";
+
+/// A scratch file under the system's temporary folder, removed when dropped.
+struct Scratch(std::path::PathBuf);
+
+impl Scratch {
+    fn new(name: &str, bytes: &[u8]) -> Scratch {
+        let path = std::env::temp_dir().join(format!("gonogo-msg-{}-{name}", std::process::id()));
+        std::fs::write(&path, bytes)
+            .unwrap_or_else(|e| panic!("cannot write {}: {e}", path.display()));
+        Scratch(path)
+    }
+
+    fn path(&self) -> &str {
+        self.0.to_str().unwrap_or_default()
+    }
+}
+
+impl Drop for Scratch {
+    fn drop(&mut self) {
+        let _ = std::fs::remove_file(&self.0);
+    }
+}
+
+#[test]
+fn one_engine_is_counted_in_the_singular() {
+    let run = gonogo(&["impact", RULES, NEXT, LEGAL]);
+    assert_eq!(run.code, 0, "{}", run.stderr);
+    assert!(run.stdout.contains("on 1 engine ("), "{}", run.stdout);
+    let two = gonogo(&[
+        "impact",
+        RULES,
+        NEXT,
+        LEGAL,
+        "engines-demo/open4-legal.yaml",
+    ]);
+    assert!(two.stdout.contains("on 2 engines ("), "{}", two.stdout);
+}
+
+#[test]
+fn a_field_summary_counts_its_engines() {
+    let run = gonogo(&[
+        "check",
+        "--rules",
+        RULES,
+        LEGAL,
+        "engines-demo/open4-legal.yaml",
+    ]);
+    assert!(
+        run.stdout
+            .lines()
+            .any(|l| l.starts_with("2 engines: 2 legal")),
+        "{}",
+        run.stdout
+    );
+}
