@@ -31,16 +31,29 @@ pub enum KeyKind {
 }
 
 impl KeyKind {
-    /// How a message names a key of this mapping.
+    /// How a message names a key of this mapping, with its article.
     pub fn words(self) -> &'static str {
         match self {
-            KeyKind::Declaration => "declaration key",
-            KeyKind::Measurement => "measurement",
-            KeyKind::Component => "component",
-            KeyKind::Value => "value key",
-            KeyKind::Instrument => "instrument key",
+            KeyKind::Declaration => "a declaration key",
+            KeyKind::Measurement => "a measurement",
+            KeyKind::Component => "a component",
+            KeyKind::Value => "a value key",
+            KeyKind::Instrument => "an instrument key",
         }
     }
+}
+
+/// A YAML feature a declaration may not use, because its meaning would be hidden from the
+/// reader of the declaration (or from gonogo).
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub enum YamlFeature {
+    /// A merge key `<<:`.
+    MergeKey,
+    /// A tag such as `!foo`.
+    Tag {
+        /// The tag as written.
+        tag: String,
+    },
 }
 
 /// What was given twice.
@@ -77,6 +90,8 @@ pub enum LoadError {
         /// Every allowed key.
         allowed: Vec<String>,
     },
+    /// A YAML feature declarations do not use: a merge key or a tag.
+    Unsupported(YamlFeature),
     /// A key given twice.
     DuplicateKey {
         /// The name, in full.
@@ -251,6 +266,7 @@ impl LoadError {
     pub fn code(&self) -> codes::Code {
         match self {
             LoadError::UnknownKey { .. } => codes::load::UNKNOWN_KEY,
+            LoadError::Unsupported(_) => codes::load::YAML_UNSUPPORTED,
             LoadError::DuplicateKey { .. } => codes::load::DUPLICATE_KEY,
             LoadError::UnknownClass(e) => e.code(),
             LoadError::NoClass { .. } => codes::load::NO_CLASS,
@@ -288,7 +304,13 @@ impl LoadError {
     pub fn message(&self) -> String {
         match self {
             LoadError::UnknownKey { key, kind, .. } => {
-                format!("`{key}` is not a {} gonogo knows here", kind.words())
+                format!("`{key}` is not {} gonogo knows here", kind.words())
+            }
+            LoadError::Unsupported(YamlFeature::MergeKey) => {
+                "merge keys (`<<`) are not supported in a declaration".to_string()
+            }
+            LoadError::Unsupported(YamlFeature::Tag { tag }) => {
+                format!("YAML tags like `{tag}` are not supported in a declaration")
             }
             LoadError::DuplicateKey { name, what } => match what {
                 Twice::Instrument => format!("instrument `{name}` is given twice"),
@@ -406,6 +428,8 @@ impl LoadError {
     pub fn label(&self) -> String {
         match self {
             LoadError::UnknownKey { .. } => "unknown key".to_string(),
+            LoadError::Unsupported(YamlFeature::MergeKey) => "merge key".to_string(),
+            LoadError::Unsupported(YamlFeature::Tag { .. }) => "tag".to_string(),
             LoadError::DuplicateKey { .. } => "given again here".to_string(),
             LoadError::UnknownClass(_) => "unknown class".to_string(),
             LoadError::BadDate { .. } => "not a date".to_string(),
@@ -457,6 +481,12 @@ impl LoadError {
                 }
                 Twice::Key | Twice::Instrument => "keep one of the two entries".to_string(),
             },
+            LoadError::Unsupported(YamlFeature::MergeKey) => {
+                "write out each key the merge would bring in".to_string()
+            }
+            LoadError::Unsupported(YamlFeature::Tag { .. }) => {
+                "remove the tag; write the value as plain text or a number".to_string()
+            }
             LoadError::UnknownClass(e) => e.help(),
             LoadError::NoClass { .. } => {
                 "add `class: NAME` to the declaration, or pass `--class NAME`".to_string()
@@ -560,10 +590,31 @@ impl LoadError {
     fn is_about_a_key(&self) -> bool {
         matches!(
             self,
-            LoadError::UnknownKey { .. } | LoadError::DuplicateKey { .. }
+            LoadError::UnknownKey { .. }
+                | LoadError::DuplicateKey { .. }
+                | LoadError::Unsupported(YamlFeature::MergeKey)
         )
     }
 }
+
+impl LoadError {
+    /// serde_yaml's refusal of the node whose text starts `node`, in the user's terms where
+    /// gonogo knows them better: a tag (`!foo`) reaches a reader as an "enum".
+    pub fn from_yaml(message: String, node: &str) -> LoadError {
+        if node.starts_with('!') {
+            let tag: String = node
+                .chars()
+                .take_while(|c| !c.is_whitespace())
+                .take(40)
+                .collect();
+            return LoadError::Unsupported(YamlFeature::Tag { tag });
+        }
+        LoadError::Yaml { message }
+    }
+}
+
+/// The merge key of YAML, `<<`, which declarations do not use.
+pub const MERGE_KEY: &str = "<<";
 
 fn backticked(items: &[String]) -> String {
     let shown: Vec<String> = items.iter().take(12).map(|i| format!("`{i}`")).collect();
