@@ -63,3 +63,16 @@ fn a_field_summary_counts_its_engines() {
         run.stdout
     );
 }
+
+#[test]
+fn a_section_no_class_has_is_worded_as_a_sentence() {
+    let run = gonogo(&["explain", "--rules", RULES, "99"]);
+    assert_eq!(run.code, 2, "{}", run.stdout);
+    assert!(
+        run.stderr
+            .contains("no class of this rulebook has a rule 99"),
+        "{}",
+        run.stderr
+    );
+    assert!(!run.stderr.contains("any class"), "{}", run.stderr);
+}
