@@ -76,3 +76,24 @@ fn a_section_no_class_has_is_worded_as_a_sentence() {
     );
     assert!(!run.stderr.contains("any class"), "{}", run.stderr);
 }
+
+#[test]
+fn a_declaration_that_is_not_utf8_names_the_line_and_column_of_its_bad_byte() {
+    let text = std::fs::read_to_string(LEGAL).unwrap_or_default();
+    // "Oona Fennick" sits on line 8 of the demo declaration, after `measured_by: "`
+    let bad = text.replacen("Oona", "O\u{1}ona", 1).into_bytes();
+    let bad: Vec<u8> = bad
+        .into_iter()
+        .map(|b| if b == 1 { 0xe9 } else { b })
+        .collect();
+    let file = Scratch::new("latin1.yaml", &bad);
+    let run = gonogo(&["check", "--rules", RULES, file.path()]);
+    assert_eq!(run.code, 2, "{}", run.stdout);
+    assert!(
+        run.stderr
+            .contains("is not UTF-8 text: line 8, column 16 holds the byte 0xE9"),
+        "{}",
+        run.stderr
+    );
+    assert!(!run.stderr.contains("offset"), "{}", run.stderr);
+}

@@ -11,7 +11,7 @@ use nom::error::{ErrorKind, ParseError as NomParseError};
 
 use super::lexical::{Input, MAX_CHAIN, MAX_DEPTH};
 use crate::diagnostic::Problem;
-use crate::source::{FileId, MAX_FILE_BYTES, ReadFailure, Span};
+use crate::source::{BadByte, FileId, MAX_FILE_BYTES, ReadFailure, Span};
 
 /// What went wrong in a rulebook's text. Where it went wrong travels beside it (in a
 /// [`SyntaxError`]) and is given to [`ParseError::problem`].
@@ -322,8 +322,8 @@ pub enum ReadError {
     NotUtf8 {
         /// The file, as given.
         path: String,
-        /// Byte offset of the first bad byte.
-        offset: usize,
+        /// The first bad byte and where it is.
+        at: BadByte,
         /// The `include` that named it, if an include did.
         included_at: Option<Span>,
     },
@@ -385,9 +385,9 @@ impl ReadError {
                 included_at,
             },
             ReadFailure::TooLarge => ReadError::TooLarge { path, included_at },
-            ReadFailure::NotUtf8(offset) => ReadError::NotUtf8 {
+            ReadFailure::NotUtf8(at) => ReadError::NotUtf8 {
                 path,
-                offset,
+                at,
                 included_at,
             },
         }
@@ -416,9 +416,10 @@ impl ReadError {
             ReadError::TooLarge { path, .. } => {
                 format!("`{path}` is over the limit of {MAX_FILE_BYTES} bytes (8 MiB)")
             }
-            ReadError::NotUtf8 { path, offset, .. } => {
-                format!("`{path}` is not UTF-8 text (first bad byte at offset {offset})")
-            }
+            ReadError::NotUtf8 { path, at, .. } => format!(
+                "`{path}` is not UTF-8 text: line {}, column {} holds the byte 0x{:02X}",
+                at.line, at.column, at.value
+            ),
             ReadError::IncludeOutside { include, .. } => {
                 format!("`{include}` is not in this file's folder or below it")
             }
@@ -462,7 +463,9 @@ impl ReadError {
             ReadError::TooLarge { .. } => {
                 "a rulebook or declaration this large is not a real one; split it or check the file"
             }
-            ReadError::NotUtf8 { .. } => "save the file as UTF-8",
+            ReadError::NotUtf8 { .. } => {
+                "save the file as UTF-8 (an editor's \"encoding\" setting), or retype the character there"
+            }
             ReadError::IncludeOutside { .. } => {
                 "an include names a file beside this one or in a folder below it, like `parts/heads.rules`"
             }
@@ -768,8 +771,17 @@ mod tests {
             "`big.rules` is over the limit of 8388608 bytes (8 MiB)"
         );
         assert_eq!(p.primary_span(), Some(at));
+        let bad = BadByte::find(b"ab\nc\xffd", 4);
+        assert_eq!(
+            bad,
+            BadByte {
+                value: 0xff,
+                line: 2,
+                column: 2
+            }
+        );
         let unlocated: Problem =
-            ReadError::unreadable(Path::new("big.rules"), ReadFailure::NotUtf8(3), None).into();
+            ReadError::unreadable(Path::new("big.rules"), ReadFailure::NotUtf8(bad), None).into();
         assert_eq!(unlocated.primary_span(), None);
     }
 
