@@ -97,3 +97,39 @@ fn a_declaration_that_is_not_utf8_names_the_line_and_column_of_its_bad_byte() {
     );
     assert!(!run.stderr.contains("offset"), "{}", run.stderr);
 }
+
+#[test]
+fn a_value_of_a_hundred_thousand_characters_gives_a_short_message() {
+    let text = std::fs::read_to_string(LEGAL).unwrap_or_default();
+    let long_unit = format!("car.weight: \"3080 l{}\"", "b".repeat(100_000));
+    let file = Scratch::new(
+        "long-unit.yaml",
+        text.replace("car.weight: \"3080 lb\"", &long_unit)
+            .as_bytes(),
+    );
+    let run = gonogo(&["check", "--rules", RULES, file.path()]);
+    assert_eq!(run.code, 2, "{}", run.stdout);
+    assert!(run.stderr.contains("D20 unknown-unit"), "{}", run.stderr);
+    assert!(run.stderr.len() < 2_000, "{} bytes", run.stderr.len());
+}
+
+#[test]
+fn a_loop_of_ten_thousand_classes_is_named_by_its_first_few() {
+    let mut text = String::from(
+        "series \"Tamsin Valley Stock Car Club\"\nedition \"2027\" effective 2027-03-06\n\
+         decision guarded rejection\nmeasure stroke: length \"Dial indicator\"\n",
+    );
+    for i in 0..10_000 {
+        text.push_str(&format!(
+            "class c{i} \"Loop\" extends c{}\nend\n",
+            (i + 1) % 10_000
+        ));
+    }
+    let file = Scratch::new("loop.rules", text.as_bytes());
+    let run = gonogo(&["lint", file.path()]);
+    assert_eq!(run.code, 2, "{}", run.stdout);
+    let all = format!("{}{}", run.stdout, run.stderr);
+    assert!(all.contains("C26 extends-cycle"), "{all}");
+    assert!(all.contains("… and 9989 more"), "{all}");
+    assert!(all.len() < 3_000, "{} bytes", all.len());
+}

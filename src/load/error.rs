@@ -7,7 +7,7 @@ use crate::diagnostic::codes;
 use std::path::PathBuf;
 
 use super::path::DeclPath;
-use crate::diagnostic::Problem;
+use crate::diagnostic::{Problem, first_few};
 use crate::parse::QuantityFault;
 use crate::parse::ast::Date;
 use crate::report::format::count as count_of;
@@ -617,9 +617,8 @@ impl LoadError {
 pub const MERGE_KEY: &str = "<<";
 
 fn backticked(items: &[String]) -> String {
-    let shown: Vec<String> = items.iter().take(12).map(|i| format!("`{i}`")).collect();
-    let more = if items.len() > 12 { ", ..." } else { "" };
-    format!("{}{more}", shown.join(", "))
+    let quoted: Vec<String> = items.iter().map(|i| format!("`{i}`")).collect();
+    first_few(&quoted, ", ")
 }
 
 /// A load error, where it is in the declaration, and where in the file.
