@@ -133,3 +133,21 @@ fn a_loop_of_ten_thousand_classes_is_named_by_its_first_few() {
     assert!(all.contains("… and 9989 more"), "{all}");
     assert!(all.len() < 3_000, "{} bytes", all.len());
 }
+
+#[test]
+fn impact_finds_a_declarations_class_as_check_does() {
+    let text = std::fs::read_to_string(LEGAL).unwrap_or_default();
+    let no_class = Scratch::new(
+        "no-class.yaml",
+        text.replace("class: limited2\n", "").as_bytes(),
+    );
+    let check = gonogo(&["check", "--rules", RULES, no_class.path()]);
+    assert!(check.stderr.contains("names no class"), "{}", check.stderr);
+    let impact = gonogo(&["impact", RULES, NEXT, no_class.path(), LEGAL]);
+    assert_eq!(impact.code, 0, "{}", impact.stderr);
+    assert!(
+        impact.stdout.contains("names no class (D25 no-class)"),
+        "{}",
+        impact.stdout
+    );
+}
