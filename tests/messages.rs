@@ -151,3 +151,20 @@ fn impact_finds_a_declarations_class_as_check_does() {
         impact.stdout
     );
 }
+
+#[test]
+fn a_declaration_error_on_a_line_of_a_hundred_thousand_characters_echoes_a_window() {
+    let text = std::fs::read_to_string(LEGAL).unwrap_or_default();
+    // the bad value (a list for a single value) stands after 100,000 spaces
+    let padded = format!("lifter.kind: {}[\"flat\"]", " ".repeat(100_000));
+    let file = Scratch::new(
+        "long-line.yaml",
+        text.replace("lifter.kind: \"flat hydraulic\"", &padded)
+            .as_bytes(),
+    );
+    let run = gonogo(&["check", "--rules", RULES, file.path()]);
+    assert_eq!(run.code, 2, "{}", run.stdout);
+    assert!(run.stderr.contains("D11 not-a-list"), "{}", run.stderr);
+    assert!(run.stderr.contains(":42:100016]"), "{}", run.stderr);
+    assert!(run.stderr.len() < 2_000, "{} bytes", run.stderr.len());
+}
