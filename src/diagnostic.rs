@@ -17,6 +17,7 @@ use miette::{
     Severity, SourceCode, SourceSpan, SpanContents,
 };
 
+use crate::report::format::count;
 use crate::source::{SourceMap, Span};
 use window::Window;
 
@@ -50,8 +51,8 @@ impl Problem {
         Problem {
             code,
             level: Level::Error,
-            message: message.into(),
-            labels: vec![(span, label.to_string())],
+            message: shortened(message.into()),
+            labels: vec![(span, shortened(label.to_string()))],
             help: None,
         }
     }
@@ -69,7 +70,7 @@ impl Problem {
         Problem {
             code,
             level: Level::Error,
-            message: message.into(),
+            message: shortened(message.into()),
             labels: Vec::new(),
             help: None,
         }
@@ -77,13 +78,13 @@ impl Problem {
 
     /// Adds the help line.
     pub fn with_help(mut self, help: impl Into<String>) -> Self {
-        self.help = Some(help.into());
+        self.help = Some(shortened(help.into()));
         self
     }
 
     /// Adds a secondary label.
     pub fn with_label(mut self, span: Span, label: impl Into<String>) -> Self {
-        self.labels.push((span, label.into()));
+        self.labels.push((span, shortened(label.into())));
         self
     }
 
@@ -91,6 +92,54 @@ impl Problem {
     pub fn primary_span(&self) -> Option<Span> {
         self.labels.first().map(|(s, _)| *s)
     }
+}
+
+/// Most characters of the user's words a message quotes in backticks; a longer quote keeps
+/// its start and its end around `…`.
+const MAX_QUOTED: usize = 60;
+
+/// Most characters of a message, a label or a help line, whatever they quote.
+const MAX_TEXT: usize = 2_000;
+
+/// `text` with each backticked quote cut to [`MAX_QUOTED`] characters and the whole to
+/// [`MAX_TEXT`]: a 100,000-character value named in a message gives a message of one line.
+pub fn shortened(text: String) -> String {
+    let long_quote = text
+        .split('`')
+        .skip(1)
+        .step_by(2)
+        .any(|q| q.chars().count() > MAX_QUOTED);
+    let mut text = if long_quote {
+        text.split('`')
+            .enumerate()
+            .map(|(i, part)| {
+                if i % 2 == 1 {
+                    cut_middle(part)
+                } else {
+                    part.to_string()
+                }
+            })
+            .collect::<Vec<_>>()
+            .join("`")
+    } else {
+        text
+    };
+    if text.chars().count() > MAX_TEXT {
+        text = text.chars().take(MAX_TEXT).collect::<String>() + "…";
+    }
+    text
+}
+
+/// A quote of more than [`MAX_QUOTED`] characters as its first and last few around `…`.
+fn cut_middle(quote: &str) -> String {
+    let count = quote.chars().count();
+    if count <= MAX_QUOTED {
+        return quote.to_string();
+    }
+    let keep = MAX_QUOTED / 2;
+    let head: String = quote.chars().take(keep).collect();
+    let tail: String = quote.chars().skip(count - keep).collect();
+    format!("{head}…{tail}")
 }
 
 /// A problem together with the source text it points into: what miette renders.
@@ -260,28 +309,60 @@ pub fn render(problem: &Problem, sources: &SourceMap, style: RenderStyle) -> Str
     out
 }
 
+/// Most items a message lists; the rest are counted, so that a list of a million entries
+/// gives a message of one line.
+pub const MAX_LISTED: usize = 12;
+
+/// `items` joined by `separator`, the first [`MAX_LISTED`] of them and a count of the rest:
+/// `` `a`, `b`, `c` `` or `` `a`, `b` … and 98 more ``.
+pub fn first_few(items: &[String], separator: &str) -> String {
+    let shown = items.len().min(MAX_LISTED);
+    let mut text = items[..shown].join(separator);
+    if items.len() > shown {
+        text.push_str(&format!(" … and {} more", items.len() - shown));
+    }
+    text
+}
+
 /// Counts of errors and warnings, as a closing line (`2 errors, 1 warning`).
 pub fn summary(problems: &[Problem]) -> String {
     let errors = problems.iter().filter(|p| p.level == Level::Error).count();
     let warnings = problems.len() - errors;
     format!(
         "{}, {}",
-        plural(errors, "error"),
-        plural(warnings, "warning")
+        count(errors, "error", "errors"),
+        count(warnings, "warning", "warnings")
     )
-}
-
-fn plural(n: usize, word: &str) -> String {
-    if n == 1 {
-        format!("1 {word}")
-    } else {
-        format!("{n} {word}s")
-    }
 }
 
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn a_long_list_shows_its_first_few_and_counts_the_rest() {
+        let items: Vec<String> = (0..1_000_000).map(|i| format!("`k{i}`")).collect();
+        let text = first_few(&items, ", ");
+        assert!(text.starts_with("`k0`, `k1`, "), "{text}");
+        assert!(text.ends_with("`k11` … and 999988 more"), "{text}");
+        assert_eq!(first_few(&items[..2], " → "), "`k0` → `k1`");
+    }
+
+    #[test]
+    fn a_long_quote_keeps_its_ends_and_a_long_message_is_cut() {
+        let quote = format!("a{}z", "m".repeat(100_000));
+        let p = Problem::unlocated(
+            codes::load::UNKNOWN_UNIT,
+            format!("`{quote}` is not a unit"),
+        );
+        assert!(p.message.starts_with("`ammm"), "{}", p.message);
+        assert!(p.message.ends_with("mmz` is not a unit"), "{}", p.message);
+        assert!(p.message.chars().count() < 100, "{}", p.message);
+        let plain = Problem::unlocated(codes::load::YAML, "x".repeat(100_000));
+        assert_eq!(plain.message.chars().count(), MAX_TEXT + 1);
+        let short = Problem::unlocated(codes::load::YAML, "`bore` is short");
+        assert_eq!(short.message, "`bore` is short");
+    }
 
     /// A problem on a line of 100,000 characters, labelled at column 70,000.
     fn far_along() -> (SourceMap, Problem) {

@@ -89,8 +89,34 @@ pub enum ReadFailure {
     Io(std::io::Error),
     /// Longer than [`MAX_FILE_BYTES`]: more bytes than that could be read from it.
     TooLarge,
-    /// Not UTF-8; the byte offset of the first bad byte.
-    NotUtf8(usize),
+    /// Not UTF-8: where the first bad byte is.
+    NotUtf8(BadByte),
+}
+
+/// The first byte of a file that is not UTF-8, placed as a person finds it in an editor.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub struct BadByte {
+    /// Its value.
+    pub value: u8,
+    /// Its line, from 1.
+    pub line: usize,
+    /// Its column, from 1, counted in characters of the valid text before it.
+    pub column: usize,
+}
+
+impl BadByte {
+    /// The first bad byte of `bytes`, which are valid UTF-8 up to `valid_up_to`.
+    pub fn find(bytes: &[u8], valid_up_to: usize) -> BadByte {
+        let valid = bytes.get(..valid_up_to).unwrap_or_default();
+        let text = std::str::from_utf8(valid).unwrap_or_default();
+        let line = text.matches('\n').count() + 1;
+        let column = text.rsplit('\n').next().map_or(0, |l| l.chars().count()) + 1;
+        BadByte {
+            value: bytes.get(valid_up_to).copied().unwrap_or_default(),
+            line,
+            column,
+        }
+    }
 }
 
 /// Every byte of `reader`, or [`ReadFailure::TooLarge`] once more than [`MAX_FILE_BYTES`]
@@ -266,8 +292,9 @@ impl SourceMap {
             note_read(path, &file);
             read_capped(file)?
         };
-        let text = String::from_utf8(bytes)
-            .map_err(|e| ReadFailure::NotUtf8(e.utf8_error().valid_up_to()))?;
+        let text = String::from_utf8(bytes).map_err(|e| {
+            ReadFailure::NotUtf8(BadByte::find(e.as_bytes(), e.utf8_error().valid_up_to()))
+        })?;
         Ok(self.add(path.to_path_buf(), text))
     }
 

@@ -124,13 +124,13 @@ fn a_file_over_8_mib_is_refused() {
 }
 
 #[test]
-fn invalid_utf8_is_refused_with_the_offset() {
+fn invalid_utf8_is_refused_with_its_line_and_column() {
     let bad = Scratch::new("latin1.rules", b"series \"Caf\xe9\"\n");
     let run = gonogo(&["lint", bad.path()]);
     assert_eq!(run.code, 2);
     assert!(
         run.stdout
-            .contains("is not UTF-8 text (first bad byte at offset 11)"),
+            .contains("is not UTF-8 text: line 1, column 12 holds the byte 0xE9"),
         "{}",
         run.stdout
     );

@@ -62,7 +62,7 @@ fn an_unreadable_file_is_listed_and_does_not_stop_the_run() {
     let out = run(std::slice::from_ref(&dir), ImpactFormat::Text);
     let _ = std::fs::remove_dir_all(&dir);
     let out = out.unwrap_or_else(|e| panic!("{e}"));
-    assert!(out.contains("on 1 engines"), "{out}");
+    assert!(out.contains("on 1 engine ("), "{out}");
     assert!(out.contains("could not be compared"), "{out}");
     assert!(out.contains("bad.yaml"), "{out}");
 }

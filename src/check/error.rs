@@ -4,8 +4,9 @@
 //! [`Problem`] that miette renders.
 
 use crate::diagnostic::codes;
-use crate::diagnostic::{Level, Problem};
+use crate::diagnostic::{Level, Problem, first_few, shortened};
 use crate::parse::ast::{CompareOp, Date};
+use crate::report::format::count;
 use crate::source::Span;
 use crate::units::{self, Dimension};
 
@@ -784,10 +785,13 @@ impl CheckError {
                 "bulletin `{id}` takes effect on {date}, before the edition it amends ({edition_date})"
             ),
             CheckError::EmptyBulletin { id, .. } => format!("bulletin `{id}` changes nothing"),
-            CheckError::ExtendsCycle { chain, .. } => format!(
-                "classes extend each other in a loop: `{}`",
-                chain.join("` → `")
-            ),
+            CheckError::ExtendsCycle { chain, .. } => {
+                let quoted: Vec<String> = chain.iter().map(|c| format!("`{c}`")).collect();
+                format!(
+                    "classes extend each other in a loop: {}",
+                    first_few(&quoted, " → ")
+                )
+            }
             CheckError::ExtendsTooLong { class, root, .. } => format!(
                 "`{class}` stands more than {MAX_EXTENDS} `extends` below its root class `{root}`"
             ),
@@ -900,12 +904,15 @@ impl CheckError {
                 takes,
                 given,
                 ..
-            } => format!("`{function}` takes {takes} arguments, not {given}"),
+            } => format!(
+                "`{function}` takes {}, not {given}",
+                count(*takes, "argument", "arguments")
+            ),
             CheckError::ArgumentMissing {
                 function, missing, ..
             } => {
                 let quoted: Vec<String> = missing.iter().map(|n| format!("`{n}`")).collect();
-                format!("`{function}` is missing {}", quoted.join(", "))
+                format!("`{function}` is missing {}", first_few(&quoted, ", "))
             }
             CheckError::MixedDimensions { function, .. } => {
                 format!("the values of `{function}` must all have one dimension")
@@ -1426,9 +1433,13 @@ impl From<CheckError> for Problem {
         Problem {
             code: e.code(),
             level: e.level(),
-            message: e.message(),
-            labels: e.labels(),
-            help: Some(e.help()),
+            message: shortened(e.message()),
+            labels: e
+                .labels()
+                .into_iter()
+                .map(|(span, label)| (span, shortened(label)))
+                .collect(),
+            help: Some(shortened(e.help())),
         }
     }
 }

@@ -20,14 +20,11 @@ pub fn run(rules: &Path, class: Option<&str>, section: &str) -> Result<String, F
     }
     let found = explain::find(&rulebook, class, section);
     if found.is_empty() {
-        let place = class
-            .map(|c| format!("class `{c}`"))
-            .unwrap_or_else(|| "any class".to_string());
-        let problem = Problem::unlocated(
-            codes::check::UNKNOWN_SECTION,
-            format!("{place} has no rule {section}"),
-        )
-        .with_help(
+        let message = match class {
+            Some(c) => format!("class `{c}` has no rule {section}"),
+            None => format!("no class of this rulebook has a rule {section}"),
+        };
+        let problem = Problem::unlocated(codes::check::UNKNOWN_SECTION, message).with_help(
             "check the section number; `gonogo sheet` lists the rules each measurement feeds",
         );
         return Err(Failure::one(problem));

@@ -12,6 +12,7 @@ use std::path::{Path, PathBuf};
 
 use crate::diagnostic::Problem;
 use crate::diagnostic::codes;
+use crate::report::format::count;
 use crate::source::{FileKey, is_stdin};
 
 /// The declaration files of a run, and what the walk left out.
@@ -57,10 +58,6 @@ impl Field {
         }
         notes
     }
-}
-
-fn count(n: usize, one: &str, many: &str) -> String {
-    format!("{n} {}", if n == 1 { one } else { many })
 }
 
 /// Walks the named paths into the field, or says which folder could not be read or held no

@@ -3,12 +3,12 @@
 use crate::diagnostic::codes;
 use std::path::PathBuf;
 
-use super::check::{Role, declaration_files};
+use super::check::{Role, class_of, declaration_files};
 use super::{Failure, load_editions};
 use crate::analyze::impact::{Engine, impact};
 use crate::check::model::CheckedRulebook;
 use crate::diagnostic::Problem;
-use crate::load::{Declaration, load_declaration};
+use crate::load::{Declaration, LoadProblem, load_declaration};
 use crate::report::impact::{Heading, ImpactFormat, render};
 use crate::source::SourceMap;
 
@@ -66,7 +66,6 @@ pub fn run(
     Ok(render(&heading, &result, &unreadable, format))
 }
 
-/// The declaration read against each edition's schema, and its class (in both editions).
 /// Every problem of a declaration on one line each, with its line and column and code:
 /// `15:40 \`bore\` is a length, … (D22 wrong-dimension)`.
 fn every_problem(problems: &[Problem], sources: &SourceMap) -> String {
@@ -86,6 +85,9 @@ fn every_problem(problems: &[Problem], sources: &SourceMap) -> String {
     lines.join("; ")
 }
 
+/// The declaration read against each edition's schema, and its class (in both editions),
+/// found as `check` finds it. It is not dated against the editions: the field is checked
+/// under each edition as published, whatever season its declarations were measured in.
 fn load_both(
     path: &std::path::Path,
     old: &CheckedRulebook,
@@ -94,11 +96,9 @@ fn load_both(
     let mut sources = SourceMap::default();
     let o = load_declaration(path, old, &mut sources).map_err(|p| every_problem(&p, &sources))?;
     let n = load_declaration(path, new, &mut sources).map_err(|p| every_problem(&p, &sources))?;
-    let class = n
-        .identity
-        .class
-        .clone()
-        .ok_or_else(|| "the declaration names no class".to_string())?;
+    let (_, found) = class_of(path, &n, new, None)
+        .map_err(|e| every_problem(&[LoadProblem::unlocated(e).problem()], &sources))?;
+    let class = found.name.clone();
     if old.class(&class).is_none() {
         return Err(format!("class `{class}` is not in edition {}", old.edition));
     }

@@ -7,8 +7,10 @@ use crate::diagnostic::codes;
 use std::path::PathBuf;
 
 use super::path::DeclPath;
-use crate::diagnostic::Problem;
+use crate::diagnostic::{Problem, first_few};
+use crate::parse::QuantityFault;
 use crate::parse::ast::Date;
+use crate::report::format::count as count_of;
 use crate::source::Span;
 use crate::suggest::UnknownClass;
 use crate::units::Dimension;
@@ -29,16 +31,29 @@ pub enum KeyKind {
 }
 
 impl KeyKind {
-    /// How a message names a key of this mapping.
+    /// How a message names a key of this mapping, with its article.
     pub fn words(self) -> &'static str {
         match self {
-            KeyKind::Declaration => "declaration key",
-            KeyKind::Measurement => "measurement",
-            KeyKind::Component => "component",
-            KeyKind::Value => "value key",
-            KeyKind::Instrument => "instrument key",
+            KeyKind::Declaration => "a declaration key",
+            KeyKind::Measurement => "a measurement",
+            KeyKind::Component => "a component",
+            KeyKind::Value => "a value key",
+            KeyKind::Instrument => "an instrument key",
         }
     }
+}
+
+/// A YAML feature a declaration may not use, because its meaning would be hidden from the
+/// reader of the declaration (or from gonogo).
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub enum YamlFeature {
+    /// A merge key `<<:`.
+    MergeKey,
+    /// A tag such as `!foo`.
+    Tag {
+        /// The tag as written.
+        tag: String,
+    },
 }
 
 /// What was given twice.
@@ -75,6 +90,8 @@ pub enum LoadError {
         /// Every allowed key.
         allowed: Vec<String>,
     },
+    /// A YAML feature declarations do not use: a merge key or a tag.
+    Unsupported(YamlFeature),
     /// A key given twice.
     DuplicateKey {
         /// The name, in full.
@@ -107,8 +124,8 @@ pub enum LoadError {
     },
     /// Text that is not a quantity.
     BadQuantity {
-        /// What the literal parser expected.
-        reason: String,
+        /// What is wrong with the text.
+        fault: QuantityFault,
         /// An example of a good one, in backticks.
         example: String,
     },
@@ -249,6 +266,7 @@ impl LoadError {
     pub fn code(&self) -> codes::Code {
         match self {
             LoadError::UnknownKey { .. } => codes::load::UNKNOWN_KEY,
+            LoadError::Unsupported(_) => codes::load::YAML_UNSUPPORTED,
             LoadError::DuplicateKey { .. } => codes::load::DUPLICATE_KEY,
             LoadError::UnknownClass(e) => e.code(),
             LoadError::NoClass { .. } => codes::load::NO_CLASS,
@@ -286,7 +304,13 @@ impl LoadError {
     pub fn message(&self) -> String {
         match self {
             LoadError::UnknownKey { key, kind, .. } => {
-                format!("`{key}` is not a {} gonogo knows here", kind.words())
+                format!("`{key}` is not {} gonogo knows here", kind.words())
+            }
+            LoadError::Unsupported(YamlFeature::MergeKey) => {
+                "merge keys (`<<`) are not supported in a declaration".to_string()
+            }
+            LoadError::Unsupported(YamlFeature::Tag { tag }) => {
+                format!("YAML tags like `{tag}` are not supported in a declaration")
             }
             LoadError::DuplicateKey { name, what } => match what {
                 Twice::Instrument => format!("instrument `{name}` is given twice"),
@@ -304,7 +328,7 @@ impl LoadError {
                 file.display()
             ),
             LoadError::BadDate { written } => format!("`{written}` is not a calendar date"),
-            LoadError::BadQuantity { reason, .. } => reason.clone(),
+            LoadError::BadQuantity { fault, .. } => fault.message(),
             LoadError::BadCoverage(_) => "the coverage factor must be above zero".to_string(),
             LoadError::MissingUnit {
                 measurement,
@@ -369,7 +393,10 @@ impl LoadError {
                 count,
                 earlier,
                 from,
-            } => format!("this gives {count} cylinders, but `{from}` gives {earlier}"),
+            } => format!(
+                "this gives {}, but `{from}` gives {earlier}",
+                count_of(*count, "cylinder", "cylinders")
+            ),
             LoadError::TwoUncertainties => {
                 "this value has its own `±` and also names an instrument".to_string()
             }
@@ -389,7 +416,10 @@ impl LoadError {
             }
             LoadError::Yaml { message } => message.clone(),
             LoadError::TooMany { shown } => {
-                format!("reading stopped after {shown} problems")
+                format!(
+                    "reading stopped after {}",
+                    count_of(*shown, "problem", "problems")
+                )
             }
         }
     }
@@ -398,10 +428,12 @@ impl LoadError {
     pub fn label(&self) -> String {
         match self {
             LoadError::UnknownKey { .. } => "unknown key".to_string(),
+            LoadError::Unsupported(YamlFeature::MergeKey) => "merge key".to_string(),
+            LoadError::Unsupported(YamlFeature::Tag { .. }) => "tag".to_string(),
             LoadError::DuplicateKey { .. } => "given again here".to_string(),
             LoadError::UnknownClass(_) => "unknown class".to_string(),
             LoadError::BadDate { .. } => "not a date".to_string(),
-            LoadError::BadQuantity { .. } => "not a quantity".to_string(),
+            LoadError::BadQuantity { fault, .. } => fault.label().to_string(),
             LoadError::BadCoverage(_) => "coverage factor".to_string(),
             LoadError::MissingUnit { .. } => "no unit".to_string(),
             LoadError::WrongUnit { found, .. } => format!("a {found}"),
@@ -421,7 +453,7 @@ impl LoadError {
             LoadError::NotAList { .. } => "a list".to_string(),
             LoadError::EmptyList => "empty".to_string(),
             LoadError::TooManyValues => "one value too many".to_string(),
-            LoadError::CylinderCount { count, .. } => format!("{count} cylinders"),
+            LoadError::CylinderCount { count, .. } => count_of(*count, "cylinder", "cylinders"),
             LoadError::TwoUncertainties | LoadError::ValueAndValues { .. } => "here".to_string(),
             LoadError::TooFewReadings { .. } => "fewer than two readings".to_string(),
             LoadError::StatedInReadings => "its own uncertainty".to_string(),
@@ -449,6 +481,12 @@ impl LoadError {
                 }
                 Twice::Key | Twice::Instrument => "keep one of the two entries".to_string(),
             },
+            LoadError::Unsupported(YamlFeature::MergeKey) => {
+                "write out each key the merge would bring in".to_string()
+            }
+            LoadError::Unsupported(YamlFeature::Tag { .. }) => {
+                "remove the tag; write the value as plain text or a number".to_string()
+            }
             LoadError::UnknownClass(e) => e.help(),
             LoadError::NoClass { .. } => {
                 "add `class: NAME` to the declaration, or pass `--class NAME`".to_string()
@@ -460,9 +498,7 @@ impl LoadError {
             LoadError::BadDate { .. } => {
                 "write the date as year-month-day, like `2027-07-19`".to_string()
             }
-            LoadError::BadQuantity { example, .. } => {
-                format!("write a number and its unit, like {example}")
-            }
+            LoadError::BadQuantity { fault, example } => fault.help(example),
             LoadError::BadCoverage(CoverageAt::Literal) => {
                 "write `(k = 2)` for about 95 % coverage".to_string()
             }
@@ -554,15 +590,35 @@ impl LoadError {
     fn is_about_a_key(&self) -> bool {
         matches!(
             self,
-            LoadError::UnknownKey { .. } | LoadError::DuplicateKey { .. }
+            LoadError::UnknownKey { .. }
+                | LoadError::DuplicateKey { .. }
+                | LoadError::Unsupported(YamlFeature::MergeKey)
         )
     }
 }
 
+impl LoadError {
+    /// serde_yaml's refusal of the node whose text starts `node`, in the user's terms where
+    /// gonogo knows them better: a tag (`!foo`) reaches a reader as an "enum".
+    pub fn from_yaml(message: String, node: &str) -> LoadError {
+        if node.starts_with('!') {
+            let tag: String = node
+                .chars()
+                .take_while(|c| !c.is_whitespace())
+                .take(40)
+                .collect();
+            return LoadError::Unsupported(YamlFeature::Tag { tag });
+        }
+        LoadError::Yaml { message }
+    }
+}
+
+/// The merge key of YAML, `<<`, which declarations do not use.
+pub const MERGE_KEY: &str = "<<";
+
 fn backticked(items: &[String]) -> String {
-    let shown: Vec<String> = items.iter().take(12).map(|i| format!("`{i}`")).collect();
-    let more = if items.len() > 12 { ", ..." } else { "" };
-    format!("{}{more}", shown.join(", "))
+    let quoted: Vec<String> = items.iter().map(|i| format!("`{i}`")).collect();
+    first_few(&quoted, ", ")
 }
 
 /// A load error, where it is in the declaration, and where in the file.

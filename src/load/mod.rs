@@ -123,19 +123,18 @@ fn read_all(
             }
             Err(e) => {
                 let span = location(&e, file, text);
+                let node = span.and_then(|s| text.get(s.start..)).unwrap_or_default();
                 let syntax = syntax.get_or_insert_with(|| syntax_error(text));
                 let pending = collector.take_pending();
                 let (error, path) = match pending {
                     Some(Pending { path, error }) if syntax.as_ref() != Some(&e.to_string()) => {
-                        let error = error.unwrap_or_else(|| LoadError::Yaml {
-                            message: yaml_message(&e),
-                        });
+                        let error =
+                            error.unwrap_or_else(|| LoadError::from_yaml(yaml_message(&e), node));
                         (error, path)
                     }
                     _ => {
-                        let message = yaml_message(&e);
                         found.push(LoadProblem {
-                            error: LoadError::Yaml { message },
+                            error: LoadError::from_yaml(yaml_message(&e), node),
                             path: DeclPath::root(),
                             span,
                         });

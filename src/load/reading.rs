@@ -4,7 +4,7 @@
 use super::error::{CoverageAt, LoadError};
 use crate::check::model::Measurement;
 use crate::check::model::ValueKind;
-use crate::parse::quantity_literal;
+use crate::parse::{QuantityFault, quantity_literal};
 use crate::units::{self, Dimension};
 
 /// A number as read, before its uncertainty is settled.
@@ -22,10 +22,7 @@ pub struct Reading {
 
 /// Reads a string such as `4.031 in` or `76.2 cc ± 0.2 cc (k = 2)` for `m`.
 pub fn read_text(text: &str, m: &Measurement) -> Result<Reading, LoadError> {
-    let (negative, q) = quantity_literal(text).map_err(|reason| LoadError::BadQuantity {
-        reason,
-        example: example(m),
-    })?;
+    let (negative, q) = quantity_literal(text).map_err(|fault| bad_quantity(fault, example(m)))?;
     let value_unit = q
         .unit
         .or(q.uncertainty.and_then(|u| u.unit))
@@ -77,10 +74,8 @@ pub fn read_number(value: f64, m: &Measurement) -> Result<Reading, LoadError> {
 
 /// Reads an instrument's resolution or uncertainty (any dimension; matched to its use later).
 pub fn read_instrument_quantity(text: &str) -> Result<(f64, Dimension, f64), LoadError> {
-    let (negative, q) = quantity_literal(text).map_err(|reason| LoadError::BadQuantity {
-        reason,
-        example: "`\"0.0001 in\"`".to_string(),
-    })?;
+    let (negative, q) = quantity_literal(text)
+        .map_err(|fault| bad_quantity(fault, "`\"0.0001 in\"`".to_string()))?;
     let (dimension, factor) = match q.unit {
         Some(u) => match units::lookup(u.text) {
             Some(unit) => (unit.dimension, unit.to_si),
@@ -97,6 +92,15 @@ pub fn read_instrument_quantity(text: &str) -> Result<(f64, Dimension, f64), Loa
         .and_then(|u| u.coverage)
         .map_or(2.0, |(k, _)| k);
     Ok((value, dimension, k))
+}
+
+/// The refusal of a text that is not a quantity; a coverage factor below zero is refused as
+/// one of zero is.
+fn bad_quantity(fault: QuantityFault, example: String) -> LoadError {
+    match fault {
+        QuantityFault::CoverageNotPositive => LoadError::BadCoverage(CoverageAt::Literal),
+        fault => LoadError::BadQuantity { fault, example },
+    }
 }
 
 fn dimension(m: &Measurement) -> Dimension {

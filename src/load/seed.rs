@@ -18,7 +18,7 @@ use super::declaration::{
     Component, Declaration, Distribution, Identity, Input, InputId, InputName, Place, Supplied,
     UncertaintySource,
 };
-use super::error::{CoverageAt, KeyKind, LoadError, Twice};
+use super::error::{CoverageAt, KeyKind, LoadError, MERGE_KEY, Twice, YamlFeature};
 use super::path::DeclPath;
 use super::reading::{Reading, read_instrument_quantity, read_number, read_text};
 use super::repeated::{TypeA, combine};
@@ -307,7 +307,7 @@ impl<'de> Visitor<'de> for KeySeed<'_, '_> {
     type Value = Option<usize>;
 
     fn expecting(&self, f: &mut fmt::Formatter) -> fmt::Result {
-        write!(f, "a {}", self.kind.words())
+        f.write_str(self.kind.words())
     }
 
     fn visit_str<E: de::Error>(self, key: &str) -> Result<Option<usize>, E> {
@@ -315,6 +315,10 @@ impl<'de> Visitor<'de> for KeySeed<'_, '_> {
         if self.cx.collector.skips(&path) {
             self.cx.collector.note_skipped();
             return Ok(None);
+        }
+        if key == MERGE_KEY {
+            let error = LoadError::Unsupported(YamlFeature::MergeKey);
+            return Err(self.cx.refuse(&path, error));
         }
         let Some(at) = self.keys.find(key) else {
             let allowed = self.keys.all();
@@ -552,6 +556,10 @@ impl Visitor<'_> for InstrumentNameKey<'_, '_> {
         if self.cx.collector.skips(&path) {
             self.cx.collector.note_skipped();
             return Ok((name.to_string(), true));
+        }
+        if name == MERGE_KEY {
+            let error = LoadError::Unsupported(YamlFeature::MergeKey);
+            return Err(self.cx.refuse(&path, error));
         }
         if !self.seen.insert(name.to_string()) {
             let error = LoadError::DuplicateKey {

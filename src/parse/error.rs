@@ -11,7 +11,7 @@ use nom::error::{ErrorKind, ParseError as NomParseError};
 
 use super::lexical::{Input, MAX_CHAIN, MAX_DEPTH};
 use crate::diagnostic::Problem;
-use crate::source::{FileId, MAX_FILE_BYTES, ReadFailure, Span};
+use crate::source::{BadByte, FileId, MAX_FILE_BYTES, ReadFailure, Span};
 
 /// What went wrong in a rulebook's text. Where it went wrong travels beside it (in a
 /// [`SyntaxError`]) and is given to [`ParseError::problem`].
@@ -176,6 +176,129 @@ impl ParseError {
     }
 }
 
+/// Why a declaration's text is not a quantity literal, in the user's terms: each says what is
+/// wrong with the text rather than only what was expected.
+#[derive(Clone, Debug, PartialEq)]
+pub enum QuantityFault {
+    /// Not the shape of a quantity at all.
+    NotAQuantity,
+    /// A quantity followed by text that is not part of it.
+    Trailing {
+        /// The text left over.
+        rest: String,
+    },
+    /// A number beyond what a double holds, like `1e400`.
+    TooLarge {
+        /// The number as written.
+        number: String,
+    },
+    /// A fraction over zero, like `5/0`.
+    FractionOverZero {
+        /// The fraction as written.
+        number: String,
+    },
+    /// A word that stands for no number, like `NaN` or `inf`.
+    NotANumber {
+        /// The word as written.
+        word: String,
+    },
+    /// A minus sign after `±`.
+    NegativeUncertainty,
+    /// A minus sign in `(k = ...)`.
+    CoverageNotPositive,
+}
+
+impl QuantityFault {
+    /// The fault in `text` where the quantity parser stopped with `error`.
+    pub fn diagnose(text: &str, error: &SyntaxError) -> QuantityFault {
+        let at = text.get(error.offset..).unwrap_or_default();
+        let written = || at.get(..error.len).unwrap_or(at).to_string();
+        if let SyntaxKind::Specific(specific) = &error.kind {
+            match **specific {
+                ParseError::NumberTooLarge => return QuantityFault::TooLarge { number: written() },
+                ParseError::BadFraction => {
+                    return QuantityFault::FractionOverZero { number: written() };
+                }
+                _ => {}
+            }
+        }
+        let before = text.get(..error.offset).unwrap_or_default().trim_end();
+        let negative = at.starts_with('-') || at.starts_with('\u{2212}');
+        if negative && (before.ends_with('±') || before.ends_with("+/-")) {
+            return QuantityFault::NegativeUncertainty;
+        }
+        if negative && before.ends_with('=') {
+            return QuantityFault::CoverageNotPositive;
+        }
+        let word: String = at.chars().take_while(char::is_ascii_alphabetic).collect();
+        let not_numbers = ["nan", "inf", "infinity"];
+        if not_numbers.contains(&word.to_ascii_lowercase().as_str()) {
+            return QuantityFault::NotANumber { word };
+        }
+        QuantityFault::NotAQuantity
+    }
+
+    /// What is wrong.
+    pub fn message(&self) -> String {
+        match self {
+            QuantityFault::NotAQuantity => {
+                "expected a number and its unit, like `4.030 in` or `76.2 cc ± 0.2 cc`".to_string()
+            }
+            QuantityFault::Trailing { rest } => {
+                format!("unexpected `{}` after the quantity", visible(rest))
+            }
+            QuantityFault::TooLarge { number } => {
+                format!("`{number}` is too large to be a number")
+            }
+            QuantityFault::FractionOverZero { number } => {
+                format!("the fraction `{number}` divides by zero")
+            }
+            QuantityFault::NotANumber { word } => format!("`{}` is not a number", visible(word)),
+            QuantityFault::NegativeUncertainty => "an uncertainty cannot be negative".to_string(),
+            QuantityFault::CoverageNotPositive => {
+                "the coverage factor must be above zero".to_string()
+            }
+        }
+    }
+
+    /// The label under the text.
+    pub fn label(&self) -> &'static str {
+        match self {
+            QuantityFault::NotAQuantity | QuantityFault::Trailing { .. } => "not a quantity",
+            QuantityFault::TooLarge { .. } => "too large",
+            QuantityFault::FractionOverZero { .. } => "divides by zero",
+            QuantityFault::NotANumber { .. } => "not a number",
+            QuantityFault::NegativeUncertainty => "a negative uncertainty",
+            QuantityFault::CoverageNotPositive => "coverage factor",
+        }
+    }
+
+    /// How to fix it, given an example of a good literal (in backticks).
+    pub fn help(&self, example: &str) -> String {
+        match self {
+            QuantityFault::NotAQuantity | QuantityFault::Trailing { .. } => {
+                format!("write a number and its unit, like {example}")
+            }
+            QuantityFault::TooLarge { .. } => {
+                format!("write the value as measured, below 1e300, like {example}")
+            }
+            QuantityFault::FractionOverZero { .. } => {
+                "a fraction is written like `5/8` or `1-5/8`, with a denominator above zero"
+                    .to_string()
+            }
+            QuantityFault::NotANumber { .. } => {
+                format!("write the value as measured, like {example}")
+            }
+            QuantityFault::NegativeUncertainty => {
+                "write the `±` part without a sign, like `4.030 in ± 0.002 in`".to_string()
+            }
+            QuantityFault::CoverageNotPositive => {
+                "write `(k = 2)` for about 95 % coverage".to_string()
+            }
+        }
+    }
+}
+
 /// Why a rulebook file, or a file it includes, could not be read.
 #[derive(Clone, Debug, PartialEq)]
 pub enum ReadError {
@@ -199,8 +322,8 @@ pub enum ReadError {
     NotUtf8 {
         /// The file, as given.
         path: String,
-        /// Byte offset of the first bad byte.
-        offset: usize,
+        /// The first bad byte and where it is.
+        at: BadByte,
         /// The `include` that named it, if an include did.
         included_at: Option<Span>,
     },
@@ -262,9 +385,9 @@ impl ReadError {
                 included_at,
             },
             ReadFailure::TooLarge => ReadError::TooLarge { path, included_at },
-            ReadFailure::NotUtf8(offset) => ReadError::NotUtf8 {
+            ReadFailure::NotUtf8(at) => ReadError::NotUtf8 {
                 path,
-                offset,
+                at,
                 included_at,
             },
         }
@@ -293,9 +416,10 @@ impl ReadError {
             ReadError::TooLarge { path, .. } => {
                 format!("`{path}` is over the limit of {MAX_FILE_BYTES} bytes (8 MiB)")
             }
-            ReadError::NotUtf8 { path, offset, .. } => {
-                format!("`{path}` is not UTF-8 text (first bad byte at offset {offset})")
-            }
+            ReadError::NotUtf8 { path, at, .. } => format!(
+                "`{path}` is not UTF-8 text: line {}, column {} holds the byte 0x{:02X}",
+                at.line, at.column, at.value
+            ),
             ReadError::IncludeOutside { include, .. } => {
                 format!("`{include}` is not in this file's folder or below it")
             }
@@ -339,7 +463,9 @@ impl ReadError {
             ReadError::TooLarge { .. } => {
                 "a rulebook or declaration this large is not a real one; split it or check the file"
             }
-            ReadError::NotUtf8 { .. } => "save the file as UTF-8",
+            ReadError::NotUtf8 { .. } => {
+                "save the file as UTF-8 (an editor's \"encoding\" setting), or retype the character there"
+            }
             ReadError::IncludeOutside { .. } => {
                 "an include names a file beside this one or in a folder below it, like `parts/heads.rules`"
             }
@@ -645,8 +771,17 @@ mod tests {
             "`big.rules` is over the limit of 8388608 bytes (8 MiB)"
         );
         assert_eq!(p.primary_span(), Some(at));
+        let bad = BadByte::find(b"ab\nc\xffd", 4);
+        assert_eq!(
+            bad,
+            BadByte {
+                value: 0xff,
+                line: 2,
+                column: 2
+            }
+        );
         let unlocated: Problem =
-            ReadError::unreadable(Path::new("big.rules"), ReadFailure::NotUtf8(3), None).into();
+            ReadError::unreadable(Path::new("big.rules"), ReadFailure::NotUtf8(bad), None).into();
         assert_eq!(unlocated.primary_span(), None);
     }
 

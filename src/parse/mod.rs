@@ -10,7 +10,7 @@ mod items;
 mod lexical;
 pub mod print;
 
-pub use error::{Expected, ParseError, ReadError, SyntaxError, SyntaxKind};
+pub use error::{Expected, ParseError, QuantityFault, ReadError, SyntaxError, SyntaxKind};
 pub use lexical::{KEYWORDS, MAX_DEPTH, NumberPiece, Piece, QuantityParts, UncertaintyParts};
 
 use ast::Rulebook;
@@ -101,25 +101,24 @@ mod tests;
 
 /// Parses a whole string as one quantity literal, as a declaration writes it: an optional
 /// leading `-`, a number, its unit, and an optional `± U [unit] [(k = K)]`. Returns whether
-/// it was negated and the parts, borrowed from `text`, or what was expected.
-pub fn quantity_literal(text: &str) -> Result<(bool, lexical::QuantityParts<'_>), String> {
+/// it was negated and the parts, borrowed from `text`, or what is wrong with it.
+pub fn quantity_literal(text: &str) -> Result<(bool, lexical::QuantityParts<'_>), QuantityFault> {
     let input = Input::new_extra(text, Context::default());
-    let (input, _) = ws(input).map_err(|_| expected_literal())?;
+    let fault = |e: nom::Err<SyntaxError>| match e {
+        nom::Err::Error(e) | nom::Err::Failure(e) => QuantityFault::diagnose(text, &e),
+        nom::Err::Incomplete(_) => QuantityFault::NotAQuantity,
+    };
+    let (input, _) = ws(input).map_err(fault)?;
     let negative = input.fragment().starts_with('-');
     let input = lexical::advance(input, usize::from(negative));
-    let (rest, parts) = lexical::quantity_parts(input).map_err(|_| expected_literal())?;
-    let (rest, _) = ws(rest).map_err(|_| expected_literal())?;
+    let (rest, parts) = lexical::quantity_parts(input).map_err(fault)?;
+    let (rest, _) = ws(rest).map_err(fault)?;
     if !rest.fragment().is_empty() {
-        return Err(format!(
-            "unexpected `{}` after the quantity",
-            rest.fragment().trim()
-        ));
+        return Err(QuantityFault::Trailing {
+            rest: rest.fragment().trim().to_string(),
+        });
     }
     Ok((negative, parts))
-}
-
-fn expected_literal() -> String {
-    "expected a number and its unit, like `4.030 in` or `76.2 cc ± 0.2 cc`".to_string()
 }
 
 /// Parses a date written `YYYY-MM-DD`, if it is one on the calendar.

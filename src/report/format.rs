@@ -2,9 +2,16 @@
 //! text); a value computed from readings is shown with the digits its uncertainty supports
 //! (GUM 7.2.6, [`Digits::supported_by`]): the uncertainty to two significant digits and the
 //! value rounded to the same decimal place. A value without an uncertainty keeps six
-//! significant digits, trailing zeros trimmed. Probabilities are percentages.
+//! significant digits, trailing zeros trimmed. Probabilities are percentages. A count is
+//! printed with its noun in the singular or the plural ([`count`]).
 
 use crate::units::Unit;
+
+/// `n` and its noun, singular for one and plural otherwise: `1 engine`, `0 engines`,
+/// `3 classes`. The plural is given, since English forms it in more than one way.
+pub fn count(n: usize, one: &str, many: &str) -> String {
+    format!("{n} {}", if n == 1 { one } else { many })
+}
 
 /// How many digits to show of a value.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
@@ -197,6 +204,13 @@ pub fn probability(p: f64, uncertain: bool) -> String {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn a_count_takes_the_singular_for_one_only() {
+        assert_eq!(count(1, "engine", "engines"), "1 engine");
+        assert_eq!(count(0, "engine", "engines"), "0 engines");
+        assert_eq!(count(3, "class", "classes"), "3 classes");
+    }
 
     #[test]
     fn gum_7_2_6_two_significant_digits_of_u_and_the_value_to_the_same_place() {

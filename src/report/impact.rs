@@ -125,8 +125,12 @@ fn text(h: &Heading, impact: &Impact, unreadable: &[(String, String)], markdown:
     let top = if markdown { "# " } else { "" };
     let _ = writeln!(
         out,
-        "{top}{}: edition {} → edition {}, on {} engines (each edition as published; decision rule {})",
-        h.series, h.old, h.new, impact.engines, h.decision
+        "{top}{}: edition {} → edition {}, on {} (each edition as published; decision rule {})",
+        h.series,
+        h.old,
+        h.new,
+        super::format::count(impact.engines, "engine", "engines"),
+        h.decision
     );
     let old_label = format!("edition {}", h.old);
     let new_label = format!("edition {}", h.new);

@@ -105,8 +105,8 @@ pub fn field_summary(reports: &[EngineReport]) -> String {
     rows.iter().for_each(|r| out.push_str(&line(r)));
     let count = |e: EngineResult| reports.iter().filter(|r| r.result() == e).count();
     out.push_str(&format!(
-        "{} engines: {} legal, {} illegal, {} not all clear\n",
-        reports.len(),
+        "{}: {} legal, {} illegal, {} not all clear\n",
+        super::format::count(reports.len(), "engine", "engines"),
         count(EngineResult::Legal),
         count(EngineResult::Illegal),
         count(EngineResult::NotAllClear)

@@ -1317,7 +1317,8 @@ fn uncertainty_words(input: &Input, unit: Option<&Unit>) -> String {
         UncertaintySource::Stated { k } => format!("u {u} (stated, k = {k})"),
         UncertaintySource::Rulebook => format!("u {u} (rulebook)"),
         UncertaintySource::Calibration { readings, .. } => {
-            format!("u {u} (calibration, shared by {readings} readings)")
+            let readings = super::format::count(*readings, "reading", "readings");
+            format!("u {u} (calibration, shared by {readings})")
         }
         UncertaintySource::Repeated {
             count,
