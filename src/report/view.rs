@@ -958,7 +958,12 @@ fn number_shown(n: &Numeric, reading: Option<&Input>) -> NumberShown {
         range: n
             .range
             .map(|(a, b)| [quantity(a, n.unit), quantity(b, n.unit)]),
-        margin: format!("{} {side}", margin_digits.quantity(n.margin.abs(), n.unit)),
+        margin: format!(
+            "{} {side}",
+            margin_digits
+                .showing(n.margin / n.unit.map_or(1.0, |u| u.to_si))
+                .quantity(n.margin.abs(), n.unit)
+        ),
         expanded_uncertainty: digits.quantity(n.expanded, n.unit),
         coverage: coverage_of(n),
         probability_of_conformance: probability(n.probability, n.expanded > 0.0),
