@@ -275,15 +275,11 @@ fn division_by_zero_roots_of_negatives_and_fractional_powers_are_not_computed() 
     // missing measurement, rather than held uncertain
     assert_eq!(rule(&doc, "1.4")["verdict"], "not_checked");
     assert_eq!(rule(&doc, "1.4")["applies"], "always");
-    // the root of 0 lb² is 0 lb, at the edge of its domain, but its sensitivity there has no
-    // bound, so the law of propagation gives no uncertainty (GUM 5.1.2 needs a derivative):
-    // not checked either, and said so
-    assert_eq!(rule(&doc, "1.2")["verdict"], "not_checked");
-    assert_eq!(
-        reason(&doc, "1.2"),
-        "the test needs a finite value and uncertainty; ballast 0 lb gives an uncertainty of \
-         the value tested that is not a finite number"
-    );
+    // the root of 0 lb² is 0 lb, at the edge of its domain; its sensitivity there has no
+    // bound, but a ballast of exactly 0 lb has no uncertainty to propagate: 0 lb, u = 0
+    // (an uncertain ballast at 0 is not checked: tests/edges.rs)
+    assert_eq!(rule(&doc, "1.2")["verdict"], "legal");
+    assert_eq!(rule(&doc, "1.2")["numeric"]["value"], 0.0);
     assert_eq!(doc["engines"][0]["exit_status"], 3);
 
     let doc = arithmetic("-10 lb", "-0.25");

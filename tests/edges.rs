@@ -135,3 +135,75 @@ end
         "{text}"
     );
 }
+
+/// Two readings of the same deck height, one each side, and an exact pair; `abs` and `sqrt`
+/// of what they give.
+const DERIVATIVE_RULES: &str = r#"series "Tamsin Valley Stock Car Club"
+edition "2027" effective 2027-03-06
+decision guarded rejection
+measure deck.left: length "Depth gauge"
+measure deck.right: length "Depth gauge"
+measure plate.a: length "Caliper"
+measure plate.b: length "Caliper"
+define deck_skew = abs(deck.left - deck.right)
+define plate_root = sqrt(plate.a * 1 in - plate.b * plate.b)
+define plate_power = ((plate.a - plate.b) / 1 in) ^ 0.5
+class street_stock "Street Stock"
+  rule 3.1 "Deck skew"
+    require deck_skew <= 0 in
+  end
+  rule 3.2 "Plate root"
+    require plate_root <= 1 in
+  end
+  rule 3.3 "Plate power"
+    require plate_power <= 1
+  end
+end
+"#;
+
+#[test]
+fn a_function_without_a_derivative_at_an_uncertain_point_is_never_a_proven_pass() {
+    let case = Case::new(
+        "no-derivative",
+        DERIVATIVE_RULES,
+        "engine: \"TV-0414\"\nclass: street_stock\ndate: \"2027-05-01\"\nmeasurements:\n  \
+         deck.left: \"1.0000 in ± 0.0010 in\"\n  deck.right: \"1.0000 in ± 0.0010 in\"\n  \
+         plate.a: \"1 in ± 0.001 in\"\n  plate.b: \"1 in\"\n",
+    );
+    let text = case.check("text");
+    // |a − b| at a = b has no derivative, and a − b is uncertain: the first-order law gives
+    // u = 0 (GUM JCGM 100:2008, 5.1.2 needs a derivative); the rule is not checked
+    for rule in ["3.1  Deck skew", "3.2  Plate root", "3.3  Plate power"] {
+        let b = block(&text, rule);
+        assert!(b.contains("NOT CHECKED"), "{b}");
+        assert!(b.contains("a Monte Carlo propagation (JCGM 101)"), "{b}");
+    }
+    assert!(!text.contains("LEGAL · pass"), "{text}");
+    let json = case.check("json");
+    assert!(!json.contains("\"pass\""), "{json}");
+}
+
+#[test]
+fn a_function_at_an_exact_point_with_exact_inputs_is_computed() {
+    let case = Case::new(
+        "exact-zero",
+        DERIVATIVE_RULES,
+        "engine: \"TV-0415\"\nclass: street_stock\ndate: \"2027-05-01\"\nmeasurements:\n  \
+         deck.left: \"1.0000 in\"\n  deck.right: \"25.4 mm\"\n  \
+         plate.a: \"1 in\"\n  plate.b: \"25.4 mm\"\n",
+    );
+    let text = case.check("text");
+    // 1 in = 25.4 mm exactly (NIST SP 811 B.8): every value is exactly 0 with no uncertainty
+    for rule in ["3.1  Deck skew", "3.2  Plate root", "3.3  Plate power"] {
+        let b = block(&text, rule);
+        assert!(b.contains("LEGAL · pass"), "{b}");
+        assert!(b.contains("value      0"), "{b}");
+    }
+    for format in ["text", "markdown", "html", "json"] {
+        let out = case.check(format);
+        assert!(
+            !out.contains("-0 ") && !out.contains("-0.0,"),
+            "{format}: {out}"
+        );
+    }
+}
