@@ -207,3 +207,57 @@ fn a_function_at_an_exact_point_with_exact_inputs_is_computed() {
         );
     }
 }
+
+/// A rule whose condition divides by a measurement, and one whose condition reads a part
+/// number given and whose test reads an optional measurement not given.
+const CONDITION_RULES: &str = r#"series "Tamsin Valley Stock Car Club"
+edition "2027" effective 2027-03-06
+decision guarded rejection
+measure car.weight: mass "Club scale"
+measure ballast: mass range -500 lb to 500 lb "Ballast"
+measure carburetor.part: text "Casting number"
+measure carburetor.spacer: length optional "Caliper"
+define per_ballast = car.weight / ballast
+class street_stock "Street Stock"
+  rule 5.1 "Weight with heavy ballast"
+    when per_ballast < 10
+    require car.weight >= 2800 lb
+  end
+  rule 5.2 "Spacer"
+    when carburetor.part matches /^TVC-5/
+    require carburetor.spacer <= 1 in
+  end
+end
+"#;
+
+#[test]
+fn a_condition_that_could_not_be_computed_is_not_known_in_every_format() {
+    let case = Case::new(
+        "condition",
+        CONDITION_RULES,
+        "engine: \"TV-0416\"\nclass: street_stock\ndate: \"2027-05-01\"\ncomponents:\n  \
+         carburetor:\n    part: \"TVC-512\"\nmeasurements:\n  car.weight: \"3000 lb\"\n  \
+         ballast: \"0 lb\"\n",
+    );
+    let json: serde_json::Value =
+        serde_json::from_str(&case.check("json")).unwrap_or_else(|e| panic!("{e}"));
+    let rules = &json["engines"][0]["rules"];
+    assert_eq!(rules[0]["applies"], "not_computed", "{rules}");
+    assert_eq!(rules[0]["verdict"], "not_checked");
+    for format in ["text", "markdown", "html"] {
+        let out = case.check(format);
+        assert!(
+            out.contains("(not known: it could not be computed)"),
+            "{format}: {out}"
+        );
+    }
+    // the condition of 5.2 reads only the part number, which is given: the words are of the
+    // rule, which reads the optional spacer
+    assert_eq!(rules[1]["applies"], "not_measured");
+    let text = case.check("text");
+    let spacer = block(&text, "5.2  Spacer");
+    assert!(
+        spacer.contains("(not judged: the rule reads an optional measurement that is not given)"),
+        "{spacer}"
+    );
+}

@@ -762,15 +762,20 @@ impl RuleView {
         format!("{}{why}{finding}", self.verdict.words())
     }
 
-    /// The state of the rule's conditions: `holds`, `does not hold`, uncertain, or not known
-    /// (a rule with conditions is left `always` only when they could not be computed).
+    /// The state of the rule's conditions: `holds`, `does not hold`, uncertain, not known
+    /// (they could not be computed), or not judged (the rule reads an optional measurement
+    /// that is not given, in its conditions or its test).
     pub fn condition_state(&self) -> &'static str {
         match self.applies {
             Applies::DoesNotHold => "does not hold",
             Applies::Uncertain => "uncertain: inside the uncertainty band",
             Applies::Holds => "holds",
-            Applies::Always => "not known: it could not be computed",
-            Applies::NotMeasured => "not judged: an optional measurement is not given",
+            Applies::NotComputed => "not known: it could not be computed",
+            Applies::NotMeasured => {
+                "not judged: the rule reads an optional measurement that is not given"
+            }
+            // a rule without conditions shows no condition
+            Applies::Always => "no condition",
         }
     }
 
