@@ -18,7 +18,11 @@ fn temp(name: &str, text: &str) -> PathBuf {
     if let Some(parent) = path.parent() {
         std::fs::create_dir_all(parent).unwrap_or_else(|e| panic!("{}: {e}", parent.display()));
     }
-    std::fs::write(&path, text).unwrap_or_else(|e| panic!("{}: {e}", path.display()));
+    // tests running at once write the same file: each writes its own and renames it into
+    // place, so none reads a file another is halfway through writing
+    let own = dir.join(format!("{name}.{:?}", std::thread::current().id()));
+    std::fs::write(&own, text).unwrap_or_else(|e| panic!("{}: {e}", own.display()));
+    std::fs::rename(&own, &path).unwrap_or_else(|e| panic!("{}: {e}", path.display()));
     path
 }
 

@@ -261,3 +261,62 @@ fn a_condition_that_could_not_be_computed_is_not_known_in_every_format() {
         "{spacer}"
     );
 }
+
+const CHAMBER_RULES: &str = r#"series "Tamsin Valley Stock Car Club"
+edition "2027" effective 2027-03-06
+decision guarded rejection
+coverage 95 %
+measure chamber: volume "Burette"
+class street_stock "Street Stock"
+  rule 4.1 "Chamber"
+    require chamber <= 72.5 cc
+  end
+end
+"#;
+
+#[test]
+fn repeated_readings_show_their_mean_with_the_digits_its_uncertainty_supports() {
+    let case = Case::new(
+        "mean",
+        CHAMBER_RULES,
+        "engine: \"TV-0417\"\nclass: street_stock\ndate: \"2027-05-01\"\nmeasurements:\n  \
+         chamber:\n    readings: [\"72.1 cc\", \"72.4 cc\", \"72.2 cc\"]\n",
+    );
+    let text = case.check("text");
+    // REFERENCES.md [computed from GUM 4.2]: mean 72.2333 cc, u = 0.08819 cc, ν = 2,
+    // k = t_95(2) = 4.30 (GUM G.3.4 table G.2), U = 0.38 cc: the mean to hundredths (GUM 7.2.6)
+    let b = block(&text, "4.1  Chamber");
+    assert!(
+        b.contains("value      72.23 cc (the mean of 3 readings)\n"),
+        "{b}"
+    );
+    // the readings themselves stay in the trace
+    assert!(b.contains("chamber = 72.1 cc, 72.4 cc, 72.2 cc"), "{b}");
+}
+
+#[test]
+fn identical_readings_without_an_instrument_are_refused() {
+    let yaml = |instrument: &str| {
+        format!(
+            "engine: \"TV-0418\"\nclass: street_stock\ndate: \"2027-05-01\"\n{instrument}\
+             measurements:\n  chamber:\n    readings: [\"72.1 cc\", \"72.1 cc\", \"72.1 cc\"]\n"
+        )
+    };
+    let case = Case::new("identical", CHAMBER_RULES, &yaml(""));
+    let run = case.run("check", &[]);
+    // a spread of zero says nothing of the resolution (GUM JCGM 100:2008, F.2.2.1): not a
+    // proven pass with u = 0
+    assert_eq!(run.code, 2, "{}{}", run.stdout, run.stderr);
+    assert!(
+        run.stderr.contains("D29 identical-readings"),
+        "{}",
+        run.stderr
+    );
+    assert!(run.stderr.contains("resolution"), "{}", run.stderr);
+    // with the burette named, its resolution gives the uncertainty
+    let named = yaml("instruments:\n  burette: {resolution: \"0.1 cc\"}\n")
+        .replace("72.1 cc\"]\n", "72.1 cc\"]\n    instrument: burette\n");
+    let case = Case::new("identical-named", CHAMBER_RULES, &named);
+    let text = case.check("text");
+    assert!(text.contains("LEGAL"), "{text}");
+}

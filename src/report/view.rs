@@ -935,6 +935,22 @@ fn number_shown(n: &Numeric, reading: Option<&Input>) -> NumberShown {
     let computed = digits.quantity(n.value, n.unit);
     let limit = quantity(n.limit, n.unit);
     let (value, margin_digits) = match reading {
+        Some(
+            input @ Input {
+                source: UncertaintySource::Repeated { count, .. },
+                ..
+            },
+        ) => {
+            // the value tested is the readings' mean, not any one of them (they stay in the
+            // trace): with the digits its uncertainty supports, or with those of the readings
+            let digits = match digits {
+                Digits::Significant => Digits::as_written(&written(input, None)),
+                place => place,
+            };
+            let mean = digits.quantity(n.value, n.unit);
+            let shown = format!("{mean} (the mean of {count} readings)");
+            (shown, margin_digits(n.expanded, n.unit, &mean, &limit))
+        }
         Some(input) => {
             let written = written(input, input.unit.and_then(units::lookup));
             if input.unit == n.unit.map(|u| u.symbol) {
