@@ -320,3 +320,33 @@ fn identical_readings_without_an_instrument_are_refused() {
     let text = case.check("text");
     assert!(text.contains("LEGAL"), "{text}");
 }
+
+#[test]
+fn a_plus_minus_in_a_condition_is_not_told_to_become_an_allowance() {
+    let rules = format!(
+        r#"{HEADER}
+measure car.weight: mass "Club scale"
+measure header.primary_od: length "Caliper"
+define scale_weight = car.weight + 0 lb ± 4 lb
+class street_stock "Street Stock"
+  rule 6.5 "Headers on heavy cars"
+    when scale_weight > 3000 lb ± 1 lb
+    require header.primary_od <= 1-3/4 in
+  end
+end
+"#
+    );
+    let case = Case::new("condition-pm", &rules, "");
+    let rules = case.dir.join("r.rules");
+    let run = gonogo(&["lint", rules.to_str().unwrap_or_default()]);
+    assert_ne!(run.code, 0);
+    let out = format!("{}{}", run.stdout, run.stderr);
+    assert!(out.contains("C59 uncertain-limit"), "{out}");
+    // `allowing` is a parse error in a condition (P01)
+    assert!(!out.contains("allowing"), "{out}");
+    assert!(out.contains("remove `± 1 lb`"), "{out}");
+    assert!(
+        out.contains("the value a condition compares with cannot carry an uncertainty"),
+        "{out}"
+    );
+}
