@@ -1102,9 +1102,24 @@ fn coverage_words(k: f64, nu: f64) -> String {
         trim(format!("{k:.2}"))
     };
     if nu.is_finite() {
-        format!("k = {k}, ν_eff = {}", trim(format!("{nu:.1}")))
+        format!("k = {k}, {}", degrees_of_freedom_words(nu))
     } else {
         format!("k = {k}")
+    }
+}
+
+/// From this many effective degrees of freedom on, the t-distribution is the normal one to
+/// the digits k is shown with (t₉₅(1000) = 1.962, GUM Table G.2 from memory): ν_eff is shown
+/// as at least this.
+const MANY_DEGREES_OF_FREEDOM: f64 = 1000.0;
+
+/// `ν_eff = 25` for 25.5: truncated to the integer below, as the GUM takes it for Table G.2
+/// (JCGM 100:2008, G.4.1 and G.6.4, from memory); `ν_eff ≥ 1000` for more.
+fn degrees_of_freedom_words(nu: f64) -> String {
+    if nu >= MANY_DEGREES_OF_FREEDOM {
+        format!("ν_eff ≥ {MANY_DEGREES_OF_FREEDOM}")
+    } else {
+        format!("ν_eff = {}", nu.floor().max(0.0))
     }
 }
 
@@ -1458,8 +1473,13 @@ mod tests {
         assert_eq!(coverage_words(1.959_963_985, f64::INFINITY), "k = 1.96");
         assert_eq!(
             coverage_words(2.057_451_959, 25.510_204),
-            "k = 2.06, ν_eff = 25.5"
+            "k = 2.06, ν_eff = 25"
         );
+        // GUM G.4.1, G.6.4 (from memory): a ν_eff that is not an integer is truncated
+        assert_eq!(coverage_words(4.3, 2.0), "k = 4.3, ν_eff = 2");
+        assert_eq!(coverage_words(2.01, 49.7), "k = 2.01, ν_eff = 49");
+        assert_eq!(coverage_words(1.96, 999.9), "k = 1.96, ν_eff = 999");
+        assert_eq!(coverage_words(1.96, 1_002_785.7), "k = 1.96, ν_eff ≥ 1000");
     }
 
     #[test]
