@@ -58,6 +58,8 @@ pub enum LimitPart {
     Equality,
     /// The amount after `allowing`.
     Allowance,
+    /// The value a `when` condition compares with (where `allowing` has no place).
+    Condition,
 }
 
 /// A kind of named definition that must be unique in a rulebook.
@@ -978,6 +980,10 @@ impl CheckError {
                 ..
             } => "an allowance cannot carry an uncertainty".to_string(),
             CheckError::UncertainLimit {
+                part: LimitPart::Condition,
+                ..
+            } => "the value a condition compares with cannot carry an uncertainty".to_string(),
+            CheckError::UncertainLimit {
                 through: Some(name),
                 ..
             } => format!("`{name}` is used as a limit, and a limit cannot carry an uncertainty"),
@@ -1128,13 +1134,16 @@ impl CheckError {
                 literal,
             } => {
                 let written = format!("`± {uncertainty}`");
-                let on = match part {
-                    LimitPart::Allowance => "on the allowance",
-                    LimitPart::Limit | LimitPart::Equality => "on the limit",
+                let (on, used) = match part {
+                    LimitPart::Allowance => ("on the allowance", "used as a limit here"),
+                    LimitPart::Limit | LimitPart::Equality => {
+                        ("on the limit", "used as a limit here")
+                    }
+                    LimitPart::Condition => ("in the condition", "compared with here"),
                 };
                 return match through {
                     Some(_) => vec![
-                        (*at, "used as a limit here".to_string()),
+                        (*at, used.to_string()),
                         (*literal, format!("{written} written here")),
                     ],
                     None => vec![(*at, format!("{written} {on}"))],
@@ -1390,6 +1399,12 @@ impl CheckError {
                     LimitPart::Allowance => {
                         "an allowance is an exact amount: write it without `±`".to_string()
                     }
+                    LimitPart::Condition => format!(
+                        "the value a condition compares with is exact: remove `± {uncertainty}`; \
+                         the value tested keeps its own uncertainty (from the declaration, or a \
+                         `±` in the rulebook's `define`), and a condition within it is reported \
+                         as uncertain"
+                    ),
                 };
             }
             CheckError::NeverFails { .. } => {

@@ -854,7 +854,7 @@ impl<'a> Checker<'a> {
         allowance: Option<&Expr>,
         place: Place,
     ) -> Option<resolved::TestKind> {
-        self.check_exact_limit(Limit::compare(left, op, right, allowance));
+        self.check_exact_limit(Limit::compare(left, op, right, allowance), place);
         let (l, r) = (self.resolve(left), self.resolve(right));
         let ((lt, lterm), (rt, rterm)) = (l?, r?);
         let ok = self.check_comparison(left, op, right, lt, rt, place);
@@ -885,7 +885,7 @@ impl<'a> Checker<'a> {
         allowance: Option<&Expr>,
         place: Place,
     ) -> Option<resolved::TestKind> {
-        self.check_exact_limit(Limit::between(subject, low, high, allowance));
+        self.check_exact_limit(Limit::between(subject, low, high, allowance), place);
         let typed = [self.resolve(subject), self.resolve(low), self.resolve(high)];
         let [Some((st, s)), Some((lt, l)), Some((ht, h))] = typed else {
             return None;
@@ -1018,8 +1018,9 @@ impl<'a> Checker<'a> {
     /// Reports every `±` written on a limit or its allowance, directly or inside a `define`
     /// the limit names: a limit is exact (ISO 14253-1), and `±` there would widen the
     /// measurement's uncertainty instead of the limit.
-    fn check_exact_limit(&mut self, limit: Limit<&Expr>) {
+    fn check_exact_limit(&mut self, limit: Limit<&Expr>, place: Place) {
         let part = match limit.kind() {
+            _ if place == Place::Condition => LimitPart::Condition,
             SideKind::Equal | SideKind::NotEqual => LimitPart::Equality,
             _ => LimitPart::Limit,
         };

@@ -322,6 +322,8 @@ pub mod load {
     pub const STATED_IN_READINGS: Code = Code::new(Stage::Load, 28, "stated-in-readings");
     /// `D29 yaml-unsupported`
     pub const YAML_UNSUPPORTED: Code = Code::new(Stage::Load, 29, "yaml-unsupported");
+    /// `D30 identical-readings`
+    pub const IDENTICAL_READINGS: Code = Code::new(Stage::Load, 30, "identical-readings");
 }
 
 /// Codes of comparing editions and fields.
@@ -467,6 +469,7 @@ pub const ALL: &[Code] = &[
     load::TOO_FEW_READINGS,
     load::STATED_IN_READINGS,
     load::YAML_UNSUPPORTED,
+    load::IDENTICAL_READINGS,
     analyze::DIFFERENT_SERIES,
     analyze::NOTHING_TO_COMPARE,
     write::OUTPUT_IS_INPUT,

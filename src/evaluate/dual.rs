@@ -44,12 +44,13 @@ impl Dual {
     }
 
     /// Combined standard uncertainty for uncorrelated inputs (GUM eq. 10):
-    /// `u_c = √Σ (∂f/∂x_i · u(x_i))²`, with `u(x_i)` looked up by input.
+    /// `u_c = √Σ (∂f/∂x_i · u(x_i))²`, with `u(x_i)` looked up by input; never `-0` (a float
+    /// sum of nothing is `-0.0`, and its root too).
     pub fn combined_uncertainty(&self, u: impl Fn(InputId) -> f64) -> f64 {
         self.partials
             .iter()
             .map(|(id, c)| (c * u(*id)).powi(2))
-            .sum::<f64>()
+            .fold(0.0, |sum, term| sum + term)
             .sqrt()
     }
 
@@ -193,6 +194,13 @@ mod tests {
         let d = x().sub(&x());
         assert!(d.partials.is_empty());
         assert_eq!(d.combined_uncertainty(|_| 1.0), 0.0);
+        // a sum of no terms is +0, so no report shows an uncertainty of `-0`
+        assert!(d.combined_uncertainty(|_| 1.0).is_sign_positive());
+        assert!(
+            Dual::constant(2.0)
+                .combined_uncertainty(|_| 1.0)
+                .is_sign_positive()
+        );
     }
 
     #[test]

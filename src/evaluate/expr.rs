@@ -105,6 +105,14 @@ impl<'a> Evaluator<'a> {
             ExprKind::Binary { op, left, right } => {
                 let (l, r) = both(self.number(left), self.number(right))?;
                 operands_in_domain(*op, &l, &r)?;
+                if *op == BinaryOp::Power {
+                    let root = r.numbers().iter().any(|e| e.value > 0.0 && e.value < 1.0);
+                    self.differentiable(&l, |d| root && d.value == 0.0, POWER_AT_ZERO)?;
+                    return Ok(l.zip(&r, |a, b| match a.value {
+                        0.0 if b.value > 0.0 && b.value < 1.0 => Dual::constant(0.0),
+                        _ => a.powf(b.value),
+                    }));
+                }
                 Ok(binary(*op, &l, &r))
             }
             ExprKind::Formula(call) => self.formula(call),
@@ -124,13 +132,37 @@ impl<'a> Evaluator<'a> {
                     acc.zip(v, |a, b| extreme(*greater, a.clone(), b))
                 }))
             }
-            ExprKind::Abs(inner) => Ok(self.number(inner)?.map(Dual::abs)),
+            ExprKind::Abs(inner) => {
+                let value = self.number(inner)?;
+                self.differentiable(&value, |d| d.value == 0.0, ABS_AT_ZERO)?;
+                Ok(value.map(Dual::abs))
+            }
             ExprKind::Sqrt(inner) => {
                 let value = self.number(inner)?;
                 each_in_domain(&value, |d| (d.value < 0.0).then_some(SQRT))?;
-                Ok(value.map(Dual::sqrt))
+                self.differentiable(&value, |d| d.value == 0.0, SQRT_AT_ZERO)?;
+                // at an exact 0 the slope has no bound but no input is uncertain: the root is
+                // exactly 0, with no uncertainty
+                Ok(value.map(|d| match d.value {
+                    0.0 => Dual::constant(0.0),
+                    _ => d.sqrt(),
+                }))
             }
         }
+    }
+
+    /// Where a function has no derivative (`at`) and its argument is uncertain, the law of
+    /// propagation (GUM JCGM 100:2008, 5.1.2) cannot give the uncertainty: the value is not
+    /// computed, cylinder by cylinder, rather than given a first-order uncertainty of 0 or
+    /// without bound. Where no input of the argument is uncertain the function is applied.
+    fn differentiable(
+        &self,
+        value: &Value,
+        at: impl Fn(&Dual) -> bool,
+        needs: Needs,
+    ) -> Evaluated<()> {
+        let uncertain = |d: &Dual| d.partials.iter().any(|(id, _)| self.uncertainty(*id) > 0.0);
+        each_in_domain(value, |d| (at(d) && uncertain(d)).then_some(needs))
     }
 
     /// Evaluates a text expression.
@@ -354,6 +386,33 @@ const SQRT: Needs = Needs {
     by: "sqrt",
     needs: "a value of at least zero",
     quantity: "value under the root",
+};
+/// The words of a function with no derivative at 0, where its argument is uncertain.
+macro_rules! no_derivative_at_zero {
+    ($what:literal) => {
+        concat!(
+            $what,
+            " other than 0 where it is uncertain: at 0 there is no derivative, so the law of ",
+            "propagation of uncertainty (GUM JCGM 100:2008, 5.1.2) gives no uncertainty and ",
+            "a Monte Carlo propagation (JCGM 101) is needed"
+        )
+    };
+}
+
+const ABS_AT_ZERO: Needs = Needs {
+    by: "abs",
+    needs: no_derivative_at_zero!("an argument"),
+    quantity: "argument",
+};
+const SQRT_AT_ZERO: Needs = Needs {
+    by: "sqrt",
+    needs: no_derivative_at_zero!("a value"),
+    quantity: "value under the root",
+};
+const POWER_AT_ZERO: Needs = Needs {
+    by: "^",
+    needs: no_derivative_at_zero!("a base for a power between 0 and 1"),
+    quantity: "base",
 };
 const FRACTIONAL_POWER: Needs = Needs {
     by: "^",

@@ -26,6 +26,9 @@ pub enum Applies {
     /// It reads an `optional` measurement the declaration does not give, and no required
     /// one is missing: it does not apply to this engine.
     NotMeasured,
+    /// Its condition could not be computed (a measurement it reads is missing, or a value
+    /// outside its domain): whether the rule applies is not known.
+    NotComputed,
 }
 
 /// A numeric limit checked.

@@ -45,6 +45,7 @@ impl<'a> Evaluator<'a> {
         outcome.trace = self.trace(r);
         match self.conditions(&r.when, decision) {
             Err(why) => {
+                outcome.applies = Applies::NotComputed;
                 outcome.record(why, self.rulebook);
                 return outcome;
             }

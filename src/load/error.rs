@@ -259,6 +259,13 @@ pub enum LoadError {
         /// How many were reported.
         shown: usize,
     },
+    /// Repeated readings that are all the same, with no instrument named: their spread is
+    /// zero, which says nothing of the resolution (GUM JCGM 100:2008, F.2.2.1), and would be
+    /// taken as an uncertainty of zero.
+    IdenticalReadings {
+        /// How many readings there are.
+        count: usize,
+    },
 }
 
 impl LoadError {
@@ -297,6 +304,7 @@ impl LoadError {
             LoadError::StatedInReadings => codes::load::STATED_IN_READINGS,
             LoadError::Yaml { .. } => codes::load::YAML,
             LoadError::TooMany { .. } => codes::load::TOO_MANY,
+            LoadError::IdenticalReadings { .. } => codes::load::IDENTICAL_READINGS,
         }
     }
 
@@ -421,6 +429,11 @@ impl LoadError {
                     count_of(*shown, "problem", "problems")
                 )
             }
+            LoadError::IdenticalReadings { count } => format!(
+                "these {count} readings are all the same and name no instrument: a spread of \
+                 zero says nothing of the resolution (GUM F.2.2.1), and would give an \
+                 uncertainty of zero"
+            ),
         }
     }
 
@@ -461,6 +474,7 @@ impl LoadError {
             | LoadError::NoClass { .. }
             | LoadError::BeforeEdition { .. }
             | LoadError::TooMany { .. } => "here".to_string(),
+            LoadError::IdenticalReadings { .. } => "no spread".to_string(),
         }
     }
 
@@ -583,6 +597,12 @@ impl LoadError {
                     .to_string()
             }
             LoadError::TooMany { .. } => "fix these and run again to see the rest".to_string(),
+            LoadError::IdenticalReadings { .. } => {
+                "name the instrument they were read with and its resolution, so that it gives \
+                 their uncertainty: like `burette: {resolution: \"0.1 cc\"}` under \
+                 `instruments:` and `instrument: burette` beside `readings:`"
+                    .to_string()
+            }
         }
     }
 

@@ -37,6 +37,15 @@ pub fn type_a(values: &[f64]) -> Option<TypeA> {
     })
 }
 
+impl TypeA {
+    /// Whether the readings are all the same (to a part in 10⁹ of their mean, so that the
+    /// same length written in two units counts as the same): a spread of zero, which says
+    /// nothing of the instrument's resolution (GUM JCGM 100:2008, F.2.2.1).
+    pub fn has_no_spread(&self) -> bool {
+        self.spread <= 1e-9 * self.mean.abs()
+    }
+}
+
 /// Repeated readings as one reading of their mean, written as the readings were (`72.1 cc,
 /// 72.4 cc, 72.2 cc`) in the first one's unit, with their Type A evaluation.
 pub fn combine(readings: &[Reading]) -> Result<(Reading, TypeA), LoadError> {
@@ -86,6 +95,16 @@ mod tests {
         assert!((a.spread - 1.489).abs() < 1e-12);
         assert!((a.standard_uncertainty - 0.333).abs() < 5e-4);
         assert_eq!(a.count - 1, 19);
+    }
+
+    #[test]
+    fn readings_all_the_same_have_no_spread() {
+        let same = |values: &[f64]| type_a(values).is_some_and(|a| a.has_no_spread());
+        assert!(same(&[72.1e-6, 72.1e-6, 72.1e-6]));
+        // 1.600 in and 40.64 mm are the same length (1 in = 25.4 mm exactly, NIST SP 811 B.8)
+        assert!(same(&[1.6 * 0.0254, 40.64 * 0.001]));
+        assert!(same(&[0.0, 0.0]));
+        assert!(!same(&[72.1e-6, 72.2e-6, 72.1e-6]));
     }
 
     #[test]

@@ -1282,6 +1282,11 @@ impl ValueSeed<'_> {
         sets: Vec<(Reading, TypeA)>,
         instrument: Option<String>,
     ) -> Result<Vec<u32>, E> {
+        if instrument.is_none()
+            && let Some((_, a)) = sets.iter().find(|(_, a)| a.has_no_spread())
+        {
+            return Err(self.refuse(LoadError::IdenticalReadings { count: a.count }));
+        }
         let with_source = |(reading, a): (Reading, TypeA)| {
             let source = UncertaintySource::Repeated {
                 count: a.count,

@@ -26,6 +26,49 @@ pub enum Digits {
 /// No value is shown with more significant digits than this: a double holds about 15.
 const MAX_SIGNIFICANT: i32 = 15;
 
+/// The most decimal places a fraction as written is given: `1/3` has no end, and `1/64`
+/// (0.015625) is the finest fraction the trade writes.
+pub const FRACTION_PLACES: i32 = 6;
+
+/// The decimal places of a fraction `N/D` or mixed fraction `W-N/D` as written: those of its
+/// exact decimal expansion, at most [`FRACTION_PLACES`]; `None` when it is not a fraction.
+fn fraction_places(number: &str) -> Option<i32> {
+    let (whole, fraction) = number.split_once('-').unwrap_or(("0", number));
+    let (numerator, denominator) = fraction.split_once('/')?;
+    let digits = |s: &str| !s.is_empty() && s.chars().all(|c| c.is_ascii_digit());
+    if !digits(whole) || !digits(numerator) || !digits(denominator) {
+        return None;
+    }
+    let (numerator, mut denominator) = (
+        numerator.parse::<u64>().ok()?,
+        denominator.parse::<u64>().ok()?,
+    );
+    if denominator == 0 {
+        return None;
+    }
+    denominator /= gcd(numerator, denominator);
+    // 1/D ends after max(a, b) places when D = 2^a 5^b, and never otherwise
+    let (mut twos, mut fives) = (0, 0);
+    while denominator % 2 == 0 {
+        denominator /= 2;
+        twos += 1;
+    }
+    while denominator % 5 == 0 {
+        denominator /= 5;
+        fives += 1;
+    }
+    let places = if denominator == 1 {
+        twos.max(fives)
+    } else {
+        FRACTION_PLACES
+    };
+    Some(places.min(FRACTION_PLACES))
+}
+
+fn gcd(a: u64, b: u64) -> u64 {
+    if b == 0 { a } else { gcd(b, a % b) }
+}
+
 impl Digits {
     /// The digits an uncertainty `u` supports (GUM JCGM 100:2008, 7.2.6): `u` to two
     /// significant digits, and every value it belongs to rounded to the same decimal place.
@@ -51,16 +94,33 @@ impl Digits {
     }
 
     /// The decimal places of a number as written (`4.0346 in` has 4, `3200 lb` has 0); a
-    /// fraction (`1-3/4 in`) or a number in exponent form gives six significant digits.
+    /// fraction is exact, so it has the places of its decimal expansion (`1-3/4 in` has 2,
+    /// `5/64 in` 6), at most [`FRACTION_PLACES`]; a number in exponent form gives six
+    /// significant digits.
     pub fn as_written(text: &str) -> Digits {
         let number = text.split_whitespace().next().unwrap_or_default();
         let number = number.trim_start_matches(['-', '+', '−']);
+        if let Some(places) = fraction_places(number) {
+            return Digits::Place(places);
+        }
         let (whole, fraction) = number.split_once('.').unwrap_or((number, ""));
         let all_digits = |s: &str| s.chars().all(|c| c.is_ascii_digit());
         if whole.is_empty() && fraction.is_empty() || !all_digits(whole) || !all_digits(fraction) {
             return Digits::Significant;
         }
         Digits::Place(fraction.len() as i32)
+    }
+
+    /// These digits, made finer where `v` would round to zero, so that a nonzero `v` shows
+    /// at least one significant digit (a fail by 0.0000039 in is never `0.000 in`).
+    pub fn showing(self, v: f64) -> Digits {
+        let Digits::Place(place) = self else {
+            return self;
+        };
+        if v == 0.0 || !v.is_finite() || v.abs() >= 0.5 * 10f64.powi(-place) {
+            return self;
+        }
+        Digits::Place(place.max(-(v.abs().log10().floor() as i32)))
     }
 
     /// The finer of two: the one that shows more decimal places.
@@ -163,7 +223,11 @@ pub fn uncertainty(v: f64) -> String {
 }
 
 fn significant(v: f64, digits: i32) -> String {
-    if v == 0.0 || !v.is_finite() {
+    if v == 0.0 {
+        // `-0` is zero: never printed with a sign
+        return "0".to_string();
+    }
+    if !v.is_finite() {
         return if v.is_nan() {
             "n/a".to_string()
         } else {
@@ -282,13 +346,46 @@ mod tests {
         assert_eq!(Digits::as_written("1.6200 in"), Digits::Place(4));
         assert_eq!(Digits::as_written("3200 lb"), Digits::Place(0));
         assert_eq!(Digits::as_written("-0.012 in"), Digits::Place(3));
-        assert_eq!(Digits::as_written("1-3/4 in"), Digits::Significant);
+        // a fraction is exact: the places of its decimal expansion (1-3/4 = 1.75)
+        assert_eq!(Digits::as_written("1-3/4 in"), Digits::Place(2));
+        assert_eq!(Digits::as_written("2-1/4 in"), Digits::Place(2));
+        assert_eq!(Digits::as_written("5/8 in"), Digits::Place(3));
+        assert_eq!(Digits::as_written("2/4 in"), Digits::Place(1));
+        assert_eq!(Digits::as_written("1/64 in"), Digits::Place(6));
+        assert_eq!(
+            Digits::as_written("1-1/3 in"),
+            Digits::Place(FRACTION_PLACES)
+        );
+        assert_eq!(Digits::as_written("1/0 in"), Digits::Significant);
         assert_eq!(Digits::as_written("1e3"), Digits::Significant);
         assert_eq!(Digits::Place(3).finer(Digits::Place(5)), Digits::Place(5));
         assert_eq!(
             Digits::Significant.finer(Digits::Place(1)),
             Digits::Place(1)
         );
+    }
+
+    #[test]
+    fn a_nonzero_value_shows_at_least_one_significant_digit() {
+        // a fail by 0.0000039 in, written to thousandths, is not `0.000`
+        assert_eq!(
+            Digits::Place(3).showing(0.000_003_9).number(0.000_003_9),
+            "0.000004"
+        );
+        assert_eq!(Digits::Place(1).showing(-0.02).number(-0.02), "-0.02");
+        assert_eq!(Digits::Place(3).showing(0.0005), Digits::Place(3));
+        assert_eq!(Digits::Place(3).showing(0.0), Digits::Place(3));
+        assert_eq!(Digits::Place(-1).showing(120.0), Digits::Place(-1));
+        assert_eq!(Digits::Significant.showing(1e-9), Digits::Significant);
+    }
+
+    #[test]
+    fn zero_is_never_negative() {
+        assert_eq!(number(-0.0), "0");
+        assert_eq!(uncertainty(-0.0), "0");
+        assert_eq!(Digits::Place(2).number(-0.0), "0.00");
+        assert_eq!(Digits::Place(2).number(-0.001), "0.00");
+        assert_eq!(quantity(-0.0, crate::units::lookup("in")), "0 in");
     }
 
     #[test]

@@ -762,15 +762,20 @@ impl RuleView {
         format!("{}{why}{finding}", self.verdict.words())
     }
 
-    /// The state of the rule's conditions: `holds`, `does not hold`, uncertain, or not known
-    /// (a rule with conditions is left `always` only when they could not be computed).
+    /// The state of the rule's conditions: `holds`, `does not hold`, uncertain, not known
+    /// (they could not be computed), or not judged (the rule reads an optional measurement
+    /// that is not given, in its conditions or its test).
     pub fn condition_state(&self) -> &'static str {
         match self.applies {
             Applies::DoesNotHold => "does not hold",
             Applies::Uncertain => "uncertain: inside the uncertainty band",
             Applies::Holds => "holds",
-            Applies::Always => "not known: it could not be computed",
-            Applies::NotMeasured => "not judged: an optional measurement is not given",
+            Applies::NotComputed => "not known: it could not be computed",
+            Applies::NotMeasured => {
+                "not judged: the rule reads an optional measurement that is not given"
+            }
+            // a rule without conditions shows no condition
+            Applies::Always => "no condition",
         }
     }
 
@@ -942,6 +947,22 @@ fn number_shown(n: &Numeric, reading: Option<&Input>, limits: [Option<String>; 2
         _ => quantity(n.limit, n.unit),
     };
     let (value, margin_digits) = match reading {
+        Some(
+            input @ Input {
+                source: UncertaintySource::Repeated { count, .. },
+                ..
+            },
+        ) => {
+            // the value tested is the readings' mean, not any one of them (they stay in the
+            // trace): with the digits its uncertainty supports, or with those of the readings
+            let digits = match digits {
+                Digits::Significant => Digits::as_written(&written(input, None)),
+                place => place,
+            };
+            let mean = digits.quantity(n.value, n.unit);
+            let shown = format!("{mean} (the mean of {count} readings)");
+            (shown, margin_digits(n.expanded, n.unit, &mean, &limit))
+        }
         Some(input) => {
             let written = written(input, input.unit.and_then(units::lookup));
             if input.unit == n.unit.map(|u| u.symbol) {
@@ -973,7 +994,12 @@ fn number_shown(n: &Numeric, reading: Option<&Input>, limits: [Option<String>; 2
                 second.unwrap_or_else(|| quantity(b, n.unit)),
             ]
         }),
-        margin: format!("{} {side}", margin_digits.quantity(n.margin.abs(), n.unit)),
+        margin: format!(
+            "{} {side}",
+            margin_digits
+                .showing(n.margin / n.unit.map_or(1.0, |u| u.to_si))
+                .quantity(n.margin.abs(), n.unit)
+        ),
         expanded_uncertainty: digits.quantity(n.expanded, n.unit),
         coverage: coverage_of(n),
         probability_of_conformance: probability(n.probability, n.expanded > 0.0),
@@ -1142,9 +1168,24 @@ fn coverage_words(k: f64, nu: f64) -> String {
         trim(format!("{k:.2}"))
     };
     if nu.is_finite() {
-        format!("k = {k}, ν_eff = {}", trim(format!("{nu:.1}")))
+        format!("k = {k}, {}", degrees_of_freedom_words(nu))
     } else {
         format!("k = {k}")
+    }
+}
+
+/// From this many effective degrees of freedom on, the t-distribution is the normal one to
+/// the digits k is shown with (t₉₅(1000) = 1.962, GUM Table G.2 from memory): ν_eff is shown
+/// as at least this.
+const MANY_DEGREES_OF_FREEDOM: f64 = 1000.0;
+
+/// `ν_eff = 25` for 25.5: truncated to the integer below, as the GUM takes it for Table G.2
+/// (JCGM 100:2008, G.4.1 and G.6.4, from memory); `ν_eff ≥ 1000` for more.
+fn degrees_of_freedom_words(nu: f64) -> String {
+    if nu >= MANY_DEGREES_OF_FREEDOM {
+        format!("ν_eff ≥ {MANY_DEGREES_OF_FREEDOM}")
+    } else {
+        format!("ν_eff = {}", nu.floor().max(0.0))
     }
 }
 
@@ -1499,8 +1540,13 @@ mod tests {
         assert_eq!(coverage_words(1.959_963_985, f64::INFINITY), "k = 1.96");
         assert_eq!(
             coverage_words(2.057_451_959, 25.510_204),
-            "k = 2.06, ν_eff = 25.5"
+            "k = 2.06, ν_eff = 25"
         );
+        // GUM G.4.1, G.6.4 (from memory): a ν_eff that is not an integer is truncated
+        assert_eq!(coverage_words(4.3, 2.0), "k = 4.3, ν_eff = 2");
+        assert_eq!(coverage_words(2.01, 49.7), "k = 2.01, ν_eff = 49");
+        assert_eq!(coverage_words(1.96, 999.9), "k = 1.96, ν_eff = 999");
+        assert_eq!(coverage_words(1.96, 1_002_785.7), "k = 1.96, ν_eff ≥ 1000");
     }
 
     #[test]
