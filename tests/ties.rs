@@ -509,8 +509,9 @@ fn the_header_on_the_limit_is_legal_and_headroom_says_it_needs_no_move() {
     }
     let run = gonogo(&["headroom", "--rules", rules, engine]);
     assert_eq!(run.code, 0, "{}{}", run.stdout, run.stderr);
+    // worded as `check` words it (the review found "0.00000 in inside the limit")
     assert!(
-        run.stdout.contains("0 in inside the limit"),
+        run.stdout.contains("pass, on the limit of 1.75 in"),
         "{}",
         run.stdout
     );
@@ -533,7 +534,7 @@ fn a_value_on_a_strict_limit_is_outside_and_headroom_says_which_way_to_go() {
     assert!(run.stdout.contains("ILLEGAL · fail"), "{}", run.stdout);
     let run = gonogo(&["headroom", "--rules", rules, engine]);
     assert!(
-        run.stdout.contains("0 in outside the limit"),
+        run.stdout.contains("fail, on the limit of 1.75 in"),
         "{}",
         run.stdout
     );

@@ -57,16 +57,24 @@ pub fn text(
     );
     for r in rules {
         let n = &r.numeric;
-        let side = if r.inside { "inside" } else { "outside" };
         let limit = quantity(n.limit, n.unit);
         let digits = margin_digits(n.expanded, n.unit, &quantity(n.value, n.unit), &limit);
+        let side = if r.inside { "inside" } else { "outside" };
+        // a value exactly on the limit is "on" it, as `check` says; the finding says which side
+        let place = if n.margin == 0.0 {
+            format!("on the limit of {limit}")
+        } else {
+            let margin = digits
+                .showing(n.margin / n.unit.map_or(1.0, |u| u.to_si))
+                .quantity(n.margin.abs(), n.unit);
+            format!("{margin} {side} the limit of {limit}")
+        };
         let _ = writeln!(
             out,
-            "\n{} {} — {}, {} {side} the limit of {limit} (U = {})",
+            "\n{} {} — {}, {place} (U = {})",
             r.rule.rule.section.text,
             r.rule.rule.title.value,
             r.finding,
-            digits.quantity(n.margin.abs(), n.unit),
             Digits::supported_in(n.expanded, n.unit).quantity(n.expanded, n.unit)
         );
         if r.moves.is_empty() {
