@@ -320,6 +320,8 @@ pub mod load {
     pub const TOO_FEW_READINGS: Code = Code::new(Stage::Load, 27, "too-few-readings");
     /// `D28 stated-in-readings`
     pub const STATED_IN_READINGS: Code = Code::new(Stage::Load, 28, "stated-in-readings");
+    /// `D29 too-deep`
+    pub const TOO_DEEP: Code = Code::new(Stage::Load, 29, "too-deep");
 }
 
 /// Codes of comparing editions and fields.
@@ -464,6 +466,7 @@ pub const ALL: &[Code] = &[
     load::NOT_WHOLE,
     load::TOO_FEW_READINGS,
     load::STATED_IN_READINGS,
+    load::TOO_DEEP,
     analyze::DIFFERENT_SERIES,
     analyze::NOTHING_TO_COMPARE,
     write::OUTPUT_IS_INPUT,

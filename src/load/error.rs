@@ -242,6 +242,12 @@ pub enum LoadError {
         /// How many were reported.
         shown: usize,
     },
+    /// Flow collections (`[ … ]`, `{ … }`) nested deeper than the cap, found before the
+    /// YAML parser reads the file.
+    TooDeep {
+        /// The deepest nesting allowed.
+        limit: usize,
+    },
 }
 
 impl LoadError {
@@ -279,6 +285,7 @@ impl LoadError {
             LoadError::StatedInReadings => codes::load::STATED_IN_READINGS,
             LoadError::Yaml { .. } => codes::load::YAML,
             LoadError::TooMany { .. } => codes::load::TOO_MANY,
+            LoadError::TooDeep { .. } => codes::load::TOO_DEEP,
         }
     }
 
@@ -391,6 +398,9 @@ impl LoadError {
             LoadError::TooMany { shown } => {
                 format!("reading stopped after {shown} problems")
             }
+            LoadError::TooDeep { limit } => {
+                format!("brackets are nested more than {limit} deep")
+            }
         }
     }
 
@@ -429,6 +439,7 @@ impl LoadError {
             | LoadError::NoClass { .. }
             | LoadError::BeforeEdition { .. }
             | LoadError::TooMany { .. } => "here".to_string(),
+            LoadError::TooDeep { limit } => format!("level {}", limit + 1),
         }
     }
 
@@ -547,6 +558,10 @@ impl LoadError {
                     .to_string()
             }
             LoadError::TooMany { .. } => "fix these and run again to see the rest".to_string(),
+            LoadError::TooDeep { .. } => {
+                "a declaration needs a list of values at most, like `values: [\"4.030 in\", \"4.031 in\"]`; look for brackets left open"
+                    .to_string()
+            }
         }
     }
 

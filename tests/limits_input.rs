@@ -1,0 +1,98 @@
+//! Inputs at the size of the limits that hold while reading, through the binary: each is
+//! generated here, at full size where the refusal is cheap, and the test checks the
+//! diagnostic (never the time: performance is measured by hand, see DEVELOPERS.md).
+
+mod common;
+
+use std::fmt::Write as _;
+use std::path::PathBuf;
+
+use common::gonogo;
+
+/// `MAX_FLOW_DEPTH` of `gonogo::load::depth`.
+const MAX_FLOW_DEPTH: usize = 64;
+
+const RULES: &str = "rulebooks-demo/tamsin-2027.rules";
+
+/// A file of its own under the system's temporary folder, removed when dropped.
+struct Scratch(PathBuf);
+
+impl Scratch {
+    fn new(name: &str, text: &str) -> Scratch {
+        let path = std::env::temp_dir().join(format!(
+            "gonogo-limits-input-{}-{name}",
+            std::process::id()
+        ));
+        std::fs::write(&path, text).unwrap_or_else(|e| panic!("{}: {e}", path.display()));
+        Scratch(path)
+    }
+
+    fn path(&self) -> &str {
+        self.0.to_str().unwrap_or_default()
+    }
+}
+
+impl Drop for Scratch {
+    fn drop(&mut self) {
+        let _ = std::fs::remove_file(&self.0);
+    }
+}
+
+/// A declaration of the demo's Limited class whose bore is `bore`, written on line 9.
+fn declaration(bore: &str) -> String {
+    format!(
+        "engine: \"TV-27-091\"\ncar: \"91\"\nclass: limited2\nevent: \"Odenmoor Oval, round 2\"\n\
+date: \"2027-06-12\"\nmeasured_by: \"Oona Fennick\"\nmeasurements:\n  cylinders: 8\n  bore: {bore}\n"
+    )
+}
+
+#[test]
+fn a_hundred_thousand_nested_brackets_are_refused_at_the_first_past_the_cap() {
+    let n = 100_000;
+    let text = declaration(&format!("{}{}", "[".repeat(n), "]".repeat(n)));
+    let file = Scratch::new("nested.yaml", &text);
+    let run = gonogo(&["check", "--rules", RULES, file.path()]);
+    assert_eq!(run.code, 2, "{}{}", run.stdout, run.stderr);
+    assert!(run.stderr.contains("D29 too-deep"), "{}", run.stderr);
+    assert!(
+        run.stderr.contains("brackets are nested more than 64 deep"),
+        "{}",
+        run.stderr
+    );
+    // `  bore: ` is 8 characters, so bracket 65 stands at column 8 + 65
+    let at = format!("nested.yaml:9:{}]", 8 + MAX_FLOW_DEPTH + 1);
+    assert!(run.stderr.contains(&at), "no `{at}` in {}", run.stderr);
+    assert_eq!(run.stderr.matches("D29").count(), 1, "{}", run.stderr);
+    assert!(run.stderr.len() < 3_000, "{} bytes", run.stderr.len());
+}
+
+#[test]
+fn braces_nested_past_the_cap_are_refused_and_at_the_cap_are_read_by_the_parser() {
+    let n = MAX_FLOW_DEPTH + 1;
+    let deep = declaration(&format!("{}\"4.030 in\"{}", "{a: ".repeat(n), "}".repeat(n)));
+    let file = Scratch::new("braces.yaml", &deep);
+    let run = gonogo(&["check", "--rules", RULES, file.path()]);
+    assert_eq!(run.code, 2, "{}", run.stderr);
+    assert!(run.stderr.contains("D29 too-deep"), "{}", run.stderr);
+    // one level less is the parser's to read: wrong for a bore, but not too deep
+    let n = MAX_FLOW_DEPTH;
+    let within = declaration(&format!("{}\"4.030 in\"{}", "[".repeat(n), "]".repeat(n)));
+    let file = Scratch::new("within.yaml", &within);
+    let run = gonogo(&["check", "--rules", RULES, file.path()]);
+    assert_eq!(run.code, 2, "{}", run.stderr);
+    assert!(!run.stderr.contains("D29"), "{}", run.stderr);
+}
+
+#[test]
+fn brackets_inside_strings_and_comments_are_not_nesting() {
+    let many = "[".repeat(1_000);
+    let mut text = declaration(&format!(
+        "{{values: [\"4.0302 in\", \"4.0305 in\", \"4.0301 in\", \"4.0306 in\", \"4.0303 in\", \"4.0304 in\", \"4.0302 in\", \"4.0305 in\"]}} # {many}"
+    ));
+    let _ = writeln!(text, "# {many}\n  head.casting: \"{many}\"");
+    let file = Scratch::new("strings.yaml", &text);
+    let run = gonogo(&["check", "--rules", RULES, file.path()]);
+    assert!(!run.stderr.contains("D29"), "{}", run.stderr);
+    // the declaration reads, and is checked (the measurements it lacks are not checked)
+    assert!(run.stdout.contains("result: ILLEGAL"), "{}{}", run.stdout, run.stderr);
+}
