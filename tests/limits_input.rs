@@ -96,3 +96,50 @@ fn brackets_inside_strings_and_comments_are_not_nesting() {
     // the declaration reads, and is checked (the measurements it lacks are not checked)
     assert!(run.stdout.contains("result: ILLEGAL"), "{}{}", run.stdout, run.stderr);
 }
+
+/// `MAX_DEFINE_DEPTH` of `gonogo::check`.
+const MAX_DEFINE_DEPTH: usize = 64;
+
+const HEADER: &str = "series \"Tamsin Valley Stock Car Club\"\n\
+edition \"2027\" effective 2027-04-01\n\
+decision guarded rejection\n\
+measure bore: length per cylinder \"Bore gauge\"\n";
+
+/// `n` derived values, `d(i)` read by `d(i + 1)` and the last by the one rule; written from
+/// the first or, `reversed`, from the last.
+fn define_chain(n: usize, reversed: bool) -> String {
+    let mut lines: Vec<String> = (1..n)
+        .map(|i| format!("define d{i} = d{} + 0.001 in", i - 1))
+        .collect();
+    lines.insert(0, "define d0 = max(bore)".to_string());
+    if reversed {
+        lines.reverse();
+    }
+    format!(
+        "{HEADER}{}\nclass hobby \"Hobby\"\n  rule 1 \"Bore\"\n    require d{} <= 4.1 in\n  end\nend\n",
+        lines.join("\n"),
+        n - 1
+    )
+}
+
+#[test]
+fn a_long_chain_of_defines_is_refused_once_in_either_order() {
+    for reversed in [false, true] {
+        let file = Scratch::new("chain.rules", &define_chain(20_000, reversed));
+        let run = gonogo(&["lint", file.path()]);
+        assert_eq!(run.code, 2, "{}", run.stdout);
+        assert_eq!(run.stdout.matches("C61 define-too-deep").count(), 1, "{}", run.stdout);
+        // d0 stands 1 deep, so d64 is the first past the cap
+        let first = format!("`d{MAX_DEFINE_DEPTH}` is derived through a chain of 65 definitions");
+        assert!(run.stdout.contains(&first), "{}", run.stdout);
+        assert!(run.stdout.contains("(1 error, 0 warnings)"), "{}", run.stdout);
+    }
+}
+
+#[test]
+fn a_chain_of_defines_at_the_cap_is_checked_whole() {
+    let file = Scratch::new("chain-within.rules", &define_chain(MAX_DEFINE_DEPTH, true));
+    let run = gonogo(&["lint", file.path()]);
+    assert_eq!(run.code, 0, "{}", run.stdout);
+    assert!(run.stdout.contains("ok (0 errors, 0 warnings)"), "{}", run.stdout);
+}

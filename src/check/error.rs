@@ -642,6 +642,25 @@ pub enum CheckError {
         /// Where, when there is a place to point at.
         at: Span,
     },
+    /// A derived value standing on a chain of more than `MAX_DEFINE_DEPTH` (64) others.
+    DefineTooDeep {
+        /// The first derived value past the cap.
+        name: String,
+        /// The cap.
+        limit: usize,
+        /// Its definition.
+        at: Span,
+    },
+    /// A division whose divisor is a constant zero.
+    DivisionByZero {
+        /// The divisor.
+        at: Span,
+    },
+    /// Arithmetic on constants whose result is not a finite number (it overflows).
+    NotFinite {
+        /// The expression.
+        at: Span,
+    },
 }
 
 /// What joins two sides whose dimensions differ.
@@ -728,6 +747,9 @@ impl CheckError {
             CheckError::FormulaTableMismatch { .. } | CheckError::Internal { .. } => {
                 codes::check::INTERNAL
             }
+            CheckError::DefineTooDeep { .. } => codes::check::DEFINE_TOO_DEEP,
+            CheckError::DivisionByZero { .. } => codes::check::DIVISION_BY_ZERO,
+            CheckError::NotFinite { .. } => codes::check::NOT_FINITE,
         }
     }
 
@@ -996,6 +1018,16 @@ impl CheckError {
             CheckError::Internal { what, .. } => {
                 format!("the checked rulebook could not be built: {what}")
             }
+            CheckError::DefineTooDeep { name, limit, .. } => {
+                format!(
+                    "`{name}` is derived through a chain of {} definitions, more than the {limit} allowed",
+                    limit + 1
+                )
+            }
+            CheckError::DivisionByZero { .. } => "this divides by zero".to_string(),
+            CheckError::NotFinite { .. } => {
+                "this arithmetic overflows: its result is too large to be a number".to_string()
+            }
         }
     }
 
@@ -1145,6 +1177,9 @@ impl CheckError {
             }
             CheckError::FormulaTableMismatch { at, .. } => vec![(*at, "this call")],
             CheckError::Internal { at, .. } => vec![(*at, "here")],
+            CheckError::DefineTooDeep { at, .. } => vec![(*at, "one derived value too many")],
+            CheckError::DivisionByZero { at } => vec![(*at, "always zero")],
+            CheckError::NotFinite { at } => vec![(*at, "not a finite number")],
         };
         fixed
             .into_iter()
@@ -1402,6 +1437,15 @@ impl CheckError {
             }
             CheckError::Internal { .. } => {
                 "this is a mistake in gonogo, not in the rulebook; please report it"
+            }
+            CheckError::DefineTooDeep { .. } => {
+                "write this value from measurements or from values nearer them, not through every step"
+            }
+            CheckError::DivisionByZero { .. } => {
+                "correct the divisor: no value can come of dividing by zero"
+            }
+            CheckError::NotFinite { .. } => {
+                "correct the numbers or their units so that the result is a number a measurement can be compared with"
             }
         };
         fixed.to_string()

@@ -258,6 +258,12 @@ pub mod check {
     pub const UNCERTAIN_LIMIT: Code = Code::new(Stage::Check, 59, "uncertain-limit");
     /// `C60 coverage-out-of-range`
     pub const COVERAGE_OUT_OF_RANGE: Code = Code::new(Stage::Check, 60, "coverage-out-of-range");
+    /// `C61 define-too-deep`
+    pub const DEFINE_TOO_DEEP: Code = Code::new(Stage::Check, 61, "define-too-deep");
+    /// `C62 division-by-zero`
+    pub const DIVISION_BY_ZERO: Code = Code::new(Stage::Check, 62, "division-by-zero");
+    /// `C63 not-finite`
+    pub const NOT_FINITE: Code = Code::new(Stage::Check, 63, "not-finite");
 }
 
 /// Codes of loading an engine declaration.
@@ -438,6 +444,9 @@ pub const ALL: &[Code] = &[
     check::UNUSED_MEASUREMENT,
     check::UNCERTAIN_LIMIT,
     check::COVERAGE_OUT_OF_RANGE,
+    check::DEFINE_TOO_DEEP,
+    check::DIVISION_BY_ZERO,
+    check::NOT_FINITE,
     load::BAD_COVERAGE,
     load::BAD_DATE,
     load::BAD_QUANTITY,
