@@ -19,10 +19,8 @@ struct Scratch(PathBuf);
 
 impl Scratch {
     fn new(name: &str, text: &str) -> Scratch {
-        let path = std::env::temp_dir().join(format!(
-            "gonogo-limits-input-{}-{name}",
-            std::process::id()
-        ));
+        let path =
+            std::env::temp_dir().join(format!("gonogo-limits-input-{}-{name}", std::process::id()));
         std::fs::write(&path, text).unwrap_or_else(|e| panic!("{}: {e}", path.display()));
         Scratch(path)
     }
@@ -69,7 +67,11 @@ fn a_hundred_thousand_nested_brackets_are_refused_at_the_first_past_the_cap() {
 #[test]
 fn braces_nested_past_the_cap_are_refused_and_at_the_cap_are_read_by_the_parser() {
     let n = MAX_FLOW_DEPTH + 1;
-    let deep = declaration(&format!("{}\"4.030 in\"{}", "{a: ".repeat(n), "}".repeat(n)));
+    let deep = declaration(&format!(
+        "{}\"4.030 in\"{}",
+        "{a: ".repeat(n),
+        "}".repeat(n)
+    ));
     let file = Scratch::new("braces.yaml", &deep);
     let run = gonogo(&["check", "--rules", RULES, file.path()]);
     assert_eq!(run.code, 2, "{}", run.stderr);
@@ -94,7 +96,12 @@ fn brackets_inside_strings_and_comments_are_not_nesting() {
     let run = gonogo(&["check", "--rules", RULES, file.path()]);
     assert!(!run.stderr.contains("D29"), "{}", run.stderr);
     // the declaration reads, and is checked (the measurements it lacks are not checked)
-    assert!(run.stdout.contains("result: ILLEGAL"), "{}{}", run.stdout, run.stderr);
+    assert!(
+        run.stdout.contains("result: ILLEGAL"),
+        "{}{}",
+        run.stdout,
+        run.stderr
+    );
 }
 
 /// `MAX_DEFINE_DEPTH` of `gonogo::check`.
@@ -128,11 +135,20 @@ fn a_long_chain_of_defines_is_refused_once_in_either_order() {
         let file = Scratch::new("chain.rules", &define_chain(20_000, reversed));
         let run = gonogo(&["lint", file.path()]);
         assert_eq!(run.code, 2, "{}", run.stdout);
-        assert_eq!(run.stdout.matches("C61 define-too-deep").count(), 1, "{}", run.stdout);
+        assert_eq!(
+            run.stdout.matches("C61 define-too-deep").count(),
+            1,
+            "{}",
+            run.stdout
+        );
         // d0 stands 1 deep, so d64 is the first past the cap
         let first = format!("`d{MAX_DEFINE_DEPTH}` is derived through a chain of 65 definitions");
         assert!(run.stdout.contains(&first), "{}", run.stdout);
-        assert!(run.stdout.contains("(1 error, 0 warnings)"), "{}", run.stdout);
+        assert!(
+            run.stdout.contains("(1 error, 0 warnings)"),
+            "{}",
+            run.stdout
+        );
     }
 }
 
@@ -141,5 +157,80 @@ fn a_chain_of_defines_at_the_cap_is_checked_whole() {
     let file = Scratch::new("chain-within.rules", &define_chain(MAX_DEFINE_DEPTH, true));
     let run = gonogo(&["lint", file.path()]);
     assert_eq!(run.code, 0, "{}", run.stdout);
-    assert!(run.stdout.contains("ok (0 errors, 0 warnings)"), "{}", run.stdout);
+    assert!(
+        run.stdout.contains("ok (0 errors, 0 warnings)"),
+        "{}",
+        run.stdout
+    );
+}
+
+/// `MAX_RULES` of `gonogo::check`: rules in every class together, inherited ones counted.
+const MAX_RULES: usize = 25_000;
+
+/// A class `big` of `rules` rules and `siblings` classes that extend it and add none.
+fn wide_classes(rules: usize, siblings: usize) -> String {
+    let mut text = format!("{HEADER}class big \"Big\"\n");
+    for i in 1..=rules {
+        let _ = writeln!(
+            text,
+            "  rule {i} \"Bore {i}\"\n    require max(bore) <= {}.1 in\n  end",
+            4 + i % 3
+        );
+    }
+    text.push_str("end\n");
+    for i in 1..=siblings {
+        let _ = writeln!(text, "class s{i} \"Sibling {i}\" extends big\nend");
+    }
+    text
+}
+
+#[test]
+fn rules_written_past_the_cap_are_refused_at_the_first_past_it() {
+    let file = Scratch::new("many-rules.rules", &wide_classes(MAX_RULES + 1, 0));
+    let run = gonogo(&["lint", file.path()]);
+    assert_eq!(run.code, 2, "{}", run.stdout);
+    assert_eq!(
+        run.stdout.matches("C64 too-many-rules").count(),
+        1,
+        "{}",
+        run.stdout
+    );
+    assert!(
+        run.stdout
+            .contains("the rulebook's classes and bulletins hold more than 25000 rules"),
+        "{}",
+        run.stdout
+    );
+    // each rule takes three lines after the header's four and the class line
+    let at = format!("many-rules.rules:{}:", 4 + 1 + 3 * MAX_RULES + 1);
+    assert!(run.stdout.contains(&at), "no `{at}` in {}", run.stdout);
+    assert!(
+        run.stdout.contains("(1 error, 0 warnings)"),
+        "{}",
+        run.stdout
+    );
+}
+
+#[test]
+fn classes_extending_a_large_one_are_counted_with_what_they_inherit() {
+    // 1,000 rules and 24 classes inheriting them: 25,000 rules, at the cap
+    let file = Scratch::new("wide-within.rules", &wide_classes(1_000, 24));
+    let run = gonogo(&["lint", file.path()]);
+    assert_eq!(run.code, 0, "{}", run.stdout);
+    // one class more passes it, at that class
+    let file = Scratch::new("wide-past.rules", &wide_classes(1_000, 25));
+    let run = gonogo(&["lint", file.path()]);
+    assert_eq!(run.code, 2, "{}", run.stdout);
+    assert_eq!(
+        run.stdout.matches("C64 too-many-rules").count(),
+        1,
+        "{}",
+        run.stdout
+    );
+    assert!(
+        run.stdout
+            .contains("with `s25`, the classes hold more than 25000 rules"),
+        "{}",
+        run.stdout
+    );
 }

@@ -552,7 +552,10 @@ fn sum(values: &[Dual]) -> Dual {
         Some((first, rest)) => rest.iter().fold(first.value, |a, d| a + d.value),
         None => 0.0,
     };
-    let mut all: Vec<_> = values.iter().flat_map(|d| d.partials.iter().copied()).collect();
+    let mut all: Vec<_> = values
+        .iter()
+        .flat_map(|d| d.partials.iter().copied())
+        .collect();
     all.sort_by_key(|(id, _)| *id); // stable: equal inputs keep the values' order
     let mut partials: Vec<(crate::load::InputId, f64)> = Vec::with_capacity(all.len());
     for (id, c) in all {
@@ -995,7 +998,9 @@ mod tests {
             .rev()
             .map(|i| Dual::reading(i, 4.0 + f64::from(i) * 1e-4, Some((1000, 0.0))))
             .collect();
-        let mean = Reduce::Mean.apply(&values).unwrap_or_else(|| panic!("no mean"));
+        let mean = Reduce::Mean
+            .apply(&values)
+            .unwrap_or_else(|| panic!("no mean"));
         let one_at_a_time = values[1..]
             .iter()
             .fold(values[0].clone(), |acc, d| acc.add(d))

@@ -65,7 +65,10 @@ impl<'a> Checker<'a> {
 
 /// The depth of every derived value, `reads` giving the derived values each one reads. A
 /// value read back inside a loop counts as 0 deep there (the loop is reported by typing).
-fn depths<'a>(order: &[&'a str], reads: &HashMap<&'a str, Vec<&'a str>>) -> HashMap<&'a str, usize> {
+fn depths<'a>(
+    order: &[&'a str],
+    reads: &HashMap<&'a str, Vec<&'a str>>,
+) -> HashMap<&'a str, usize> {
     let none = Vec::new();
     let mut depth: HashMap<&'a str, usize> = HashMap::with_capacity(order.len());
     let mut open: HashSet<&'a str> = HashSet::new();

@@ -661,6 +661,17 @@ pub enum CheckError {
         /// The expression.
         at: Span,
     },
+    /// More rules in the classes together, once flattened, than `MAX_RULES` (25,000).
+    TooManyRules {
+        /// The class whose rules passed the limit.
+        class: String,
+        /// The limit.
+        limit: usize,
+        /// Whether the limit is passed only by counting inherited rules (else as written).
+        inherited: bool,
+        /// The class's name, or the first rule written past the limit.
+        at: Span,
+    },
 }
 
 /// What joins two sides whose dimensions differ.
@@ -750,6 +761,7 @@ impl CheckError {
             CheckError::DefineTooDeep { .. } => codes::check::DEFINE_TOO_DEEP,
             CheckError::DivisionByZero { .. } => codes::check::DIVISION_BY_ZERO,
             CheckError::NotFinite { .. } => codes::check::NOT_FINITE,
+            CheckError::TooManyRules { .. } => codes::check::TOO_MANY_RULES,
         }
     }
 
@@ -1028,6 +1040,17 @@ impl CheckError {
             CheckError::NotFinite { .. } => {
                 "this arithmetic overflows: its result is too large to be a number".to_string()
             }
+            CheckError::TooManyRules {
+                class,
+                limit,
+                inherited: true,
+                ..
+            } => format!(
+                "with `{class}`, the classes hold more than {limit} rules, counting every rule each inherits"
+            ),
+            CheckError::TooManyRules { limit, .. } => {
+                format!("the rulebook's classes and bulletins hold more than {limit} rules")
+            }
         }
     }
 
@@ -1180,6 +1203,7 @@ impl CheckError {
             CheckError::DefineTooDeep { at, .. } => vec![(*at, "one derived value too many")],
             CheckError::DivisionByZero { at } => vec![(*at, "always zero")],
             CheckError::NotFinite { at } => vec![(*at, "not a finite number")],
+            CheckError::TooManyRules { at, .. } => vec![(*at, "past the limit")],
         };
         fixed
             .into_iter()
@@ -1446,6 +1470,14 @@ impl CheckError {
             }
             CheckError::NotFinite { .. } => {
                 "correct the numbers or their units so that the result is a number a measurement can be compared with"
+            }
+            CheckError::TooManyRules {
+                inherited: true, ..
+            } => {
+                "a class holds a copy of every rule it inherits: let fewer classes extend a large one, or keep one rulebook per group of classes"
+            }
+            CheckError::TooManyRules { .. } => {
+                "a series needs a few hundred rules a class; keep one rulebook per group of classes"
             }
         };
         fixed.to_string()

@@ -44,11 +44,16 @@ pub fn check(files: &RulebookFiles) -> (Option<CheckedRulebook>, Vec<Problem>) {
     checker.compile_lists();
     checker.check_approved_against_banned();
     checker.check_class_graph();
-    checker.check_rules();
-    let classes = checker.flatten_all();
-    checker.check_bounds(&classes);
-    checker.check_ranges(&classes);
-    checker.report_unused();
+    let classes = if checker.rules_within_cap() {
+        checker.check_rules();
+        let classes = checker.flatten_all();
+        checker.check_bounds(&classes);
+        checker.check_ranges(&classes);
+        checker.report_unused();
+        classes
+    } else {
+        Vec::new() // too many rules: reported, and nothing more is worth checking
+    };
     let problems = dedupe(std::mem::take(&mut checker.problems));
     if problems.iter().any(|p| p.level == Level::Error) {
         return (None, problems);

@@ -82,7 +82,8 @@ impl<'a> Checker<'a> {
             Item::Define(d) => {
                 if self.unique_value_name(&d.name) {
                     self.defines.insert(&d.name.text, d);
-                    self.define_ids.insert(&d.name.text, self.define_order.len());
+                    self.define_ids
+                        .insert(&d.name.text, self.define_order.len());
                     self.define_order.push(&d.name.text);
                 }
             }

@@ -264,6 +264,8 @@ pub mod check {
     pub const DIVISION_BY_ZERO: Code = Code::new(Stage::Check, 62, "division-by-zero");
     /// `C63 not-finite`
     pub const NOT_FINITE: Code = Code::new(Stage::Check, 63, "not-finite");
+    /// `C64 too-many-rules`
+    pub const TOO_MANY_RULES: Code = Code::new(Stage::Check, 64, "too-many-rules");
 }
 
 /// Codes of loading an engine declaration.
@@ -447,6 +449,7 @@ pub const ALL: &[Code] = &[
     check::DEFINE_TOO_DEEP,
     check::DIVISION_BY_ZERO,
     check::NOT_FINITE,
+    check::TOO_MANY_RULES,
     load::BAD_COVERAGE,
     load::BAD_DATE,
     load::BAD_QUANTITY,

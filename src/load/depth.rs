@@ -69,7 +69,8 @@ impl Scan {
                     i = block_scalar_end(bytes, i, line_indent);
                     continue;
                 }
-                b'-' | b'?' if self.depth == 0 && self.node_start && blank_or_end(bytes, i + 1) => {}
+                b'-' | b'?' if self.depth == 0 && self.node_start && blank_or_end(bytes, i + 1) => {
+                }
                 b':' if self.depth == 0 && blank_or_end(bytes, i + 1) => self.node_start = true,
                 b'&' | b'!' if self.depth == 0 && self.node_start => {
                     i = word_end(bytes, i); // an anchor or tag: the node starts after it
@@ -88,7 +89,11 @@ impl Scan {
         if self.depth == 0 {
             return self.node_start;
         }
-        i == 0 || matches!(bytes[i - 1], b' ' | b'\t' | b'\n' | b'\r' | b'[' | b'{' | b',' | b':')
+        i == 0
+            || matches!(
+                bytes[i - 1],
+                b' ' | b'\t' | b'\n' | b'\r' | b'[' | b'{' | b',' | b':'
+            )
     }
 }
 
