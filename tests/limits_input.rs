@@ -234,3 +234,16 @@ fn classes_extending_a_large_one_are_counted_with_what_they_inherit() {
         run.stdout
     );
 }
+
+#[test]
+fn a_declaration_with_a_byte_order_mark_reads_as_without_one() {
+    let path = "engines-demo/limited2-legal.yaml";
+    let text = std::fs::read_to_string(path).unwrap_or_else(|e| panic!("{path}: {e}"));
+    let plain = gonogo(&["check", "--rules", RULES, path]);
+    let file = Scratch::new("bom.yaml", &format!("\u{feff}{text}"));
+    let marked = gonogo(&["check", "--rules", RULES, file.path()]);
+    assert_eq!(marked.code, plain.code, "{}", marked.stderr);
+    assert!(marked.stdout.contains("result: LEGAL"), "{}{}", marked.stdout, marked.stderr);
+    let verdicts = |out: &str| out.lines().skip(5).map(str::to_string).collect::<Vec<_>>();
+    assert_eq!(verdicts(&marked.stdout), verdicts(&plain.stdout));
+}

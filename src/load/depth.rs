@@ -16,7 +16,9 @@ pub const MAX_FLOW_DEPTH: usize = 64;
 
 /// The byte offset of the first flow bracket nested deeper than [`MAX_FLOW_DEPTH`], if any.
 pub fn too_deep(text: &str) -> Option<usize> {
-    Scan::default().run(text.as_bytes())
+    let body = text.strip_prefix('\u{feff}').unwrap_or(text); // a byte-order mark
+    let skipped = text.len() - body.len();
+    Scan::default().run(body.as_bytes()).map(|at| at + skipped)
 }
 
 /// The state of one scan.
@@ -178,6 +180,16 @@ mod tests {
         assert_eq!(too_deep(&text), Some("bore: ".len() + MAX_FLOW_DEPTH));
         let text = nested("{a: ", "}", MAX_FLOW_DEPTH + 1);
         assert_eq!(too_deep(&text), Some("bore: ".len() + 4 * MAX_FLOW_DEPTH));
+    }
+
+    #[test]
+    fn a_byte_order_mark_is_not_text() {
+        // a flow sequence at the root, right after the mark: its first bracket counts
+        let n = MAX_FLOW_DEPTH + 1;
+        let text = format!("\u{feff}{}4{}\n", "[".repeat(n), "]".repeat(n));
+        assert_eq!(too_deep(&text), Some('\u{feff}'.len_utf8() + MAX_FLOW_DEPTH));
+        let text = format!("\u{feff}{}", nested("[", "]", MAX_FLOW_DEPTH));
+        assert_eq!(too_deep(&text), None);
     }
 
     #[test]
