@@ -243,7 +243,12 @@ fn a_declaration_with_a_byte_order_mark_reads_as_without_one() {
     let file = Scratch::new("bom.yaml", &format!("\u{feff}{text}"));
     let marked = gonogo(&["check", "--rules", RULES, file.path()]);
     assert_eq!(marked.code, plain.code, "{}", marked.stderr);
-    assert!(marked.stdout.contains("result: LEGAL"), "{}{}", marked.stdout, marked.stderr);
+    assert!(
+        marked.stdout.contains("result: LEGAL"),
+        "{}{}",
+        marked.stdout,
+        marked.stderr
+    );
     let verdicts = |out: &str| out.lines().skip(5).map(str::to_string).collect::<Vec<_>>();
     assert_eq!(verdicts(&marked.stdout), verdicts(&plain.stdout));
 }

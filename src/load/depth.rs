@@ -187,7 +187,10 @@ mod tests {
         // a flow sequence at the root, right after the mark: its first bracket counts
         let n = MAX_FLOW_DEPTH + 1;
         let text = format!("\u{feff}{}4{}\n", "[".repeat(n), "]".repeat(n));
-        assert_eq!(too_deep(&text), Some('\u{feff}'.len_utf8() + MAX_FLOW_DEPTH));
+        assert_eq!(
+            too_deep(&text),
+            Some('\u{feff}'.len_utf8() + MAX_FLOW_DEPTH)
+        );
         let text = format!("\u{feff}{}", nested("[", "]", MAX_FLOW_DEPTH));
         assert_eq!(too_deep(&text), None);
     }
