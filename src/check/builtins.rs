@@ -539,12 +539,33 @@ impl Reduce {
         Some(match self {
             Reduce::Max => rest.iter().fold(first.clone(), |a, b| extreme(true, a, b)),
             Reduce::Min => rest.iter().fold(first.clone(), |a, b| extreme(false, a, b)),
-            Reduce::Mean => rest
-                .iter()
-                .fold(first.clone(), |acc, d| acc.add(d))
-                .scale(1.0 / values.len() as f64),
+            Reduce::Mean => sum(values).scale(1.0 / values.len() as f64),
         })
     }
+}
+
+/// The sum of many values in one pass: their values added in order, and each input's
+/// partials gathered, sorted by input and added in the order the values came. Adding one
+/// at a time would merge an ever longer list of partials, quadratic in the cylinders.
+fn sum(values: &[Dual]) -> Dual {
+    let value = match values.split_first() {
+        Some((first, rest)) => rest.iter().fold(first.value, |a, d| a + d.value),
+        None => 0.0,
+    };
+    let mut all: Vec<_> = values
+        .iter()
+        .flat_map(|d| d.partials.iter().copied())
+        .collect();
+    all.sort_by_key(|(id, _)| *id); // stable: equal inputs keep the values' order
+    let mut partials: Vec<(crate::load::InputId, f64)> = Vec::with_capacity(all.len());
+    for (id, c) in all {
+        match partials.last_mut() {
+            Some((last, total)) if *last == id => *total += c,
+            _ => partials.push((id, c)),
+        }
+    }
+    partials.retain(|(_, c)| *c != 0.0);
+    Dual { value, partials }
 }
 
 /// The larger (`greater`) or smaller of two values; the first when they are equal.
@@ -966,5 +987,27 @@ mod tests {
         let mean = Reduce::Mean.apply(&values).map(|d| d.value);
         assert!(mean.is_some_and(|m| (m - 8.0 / 3.0).abs() < 1e-15));
         assert_eq!(Reduce::Max.apply(&[]), None);
+    }
+
+    #[test]
+    fn the_mean_gathers_every_inputs_partials_as_adding_one_at_a_time_would() {
+        // readings 0..n, each with a shared calibration input 1000: ∂mean/∂reading = 1/n and
+        // ∂mean/∂calibration = 1 (the mean of n readings each shifted by it), by hand
+        let n = 500_u32;
+        let values: Vec<Dual> = (0..n)
+            .rev()
+            .map(|i| Dual::reading(i, 4.0 + f64::from(i) * 1e-4, Some((1000, 0.0))))
+            .collect();
+        let mean = Reduce::Mean
+            .apply(&values)
+            .unwrap_or_else(|| panic!("no mean"));
+        let one_at_a_time = values[1..]
+            .iter()
+            .fold(values[0].clone(), |acc, d| acc.add(d))
+            .scale(1.0 / f64::from(n));
+        assert_eq!(mean, one_at_a_time);
+        assert_eq!(mean.partials.len(), n as usize + 1);
+        assert!((mean.partial(7) - 1.0 / f64::from(n)).abs() < 1e-15);
+        assert!((mean.partial(1000) - 1.0).abs() < 1e-12);
     }
 }

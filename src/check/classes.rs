@@ -1,7 +1,7 @@
 //! Classes: `extends` resolved (unknown and cyclic parents reported), and each class's rules
 //! flattened through inheritance, `override`, `drop`, `when` groups and bulletins.
 
-use std::collections::HashMap;
+use std::collections::{BTreeMap, HashMap};
 
 use super::Checker;
 use super::error::{CheckError, ClassReference};
@@ -13,6 +13,22 @@ use crate::suggest::closest;
 /// copies every rule of the classes above it, so a longer chain would make the work grow
 /// with the square of its length; real series nest classes two or three deep.
 pub const MAX_EXTENDS: usize = 64;
+
+/// Most rules the classes may hold together once flattened: every class at the edition's date
+/// and at each later bulletin's date, each counting the rules it inherits. A class copies
+/// every rule it inherits, so many classes extending one large class multiply its rules
+/// (2,000 classes extending one of 5,000 rules took 71 s and 24 GB); a real series holds a
+/// few thousand.
+pub const MAX_RULES: usize = 25_000;
+
+/// The classes flattened so far, by class and date, so that each is flattened once however
+/// many classes extend it, and the count of their rules against [`MAX_RULES`].
+#[derive(Default)]
+struct Flattened<'a> {
+    done: BTreeMap<(&'a str, Option<Date>), Vec<ClassRule>>,
+    rules: usize,
+    over: bool,
+}
 
 /// What the walk up a class's `extends` found.
 #[derive(Clone, Copy, Debug)]
@@ -222,10 +238,47 @@ impl<'a> Checker<'a> {
         closest(name, self.classes.keys().copied()).map(str::to_string)
     }
 
+    /// Whether the rules as written, in every class and bulletin, are within [`MAX_RULES`];
+    /// if not, the first past it is reported and nothing is typed or flattened, so the work
+    /// stops at a cost linear in the text.
+    pub(super) fn rules_within_cap(&mut self) -> bool {
+        let bodies = self
+            .classes
+            .values()
+            .map(|c| (c.name.text.as_str(), c.body.as_slice()))
+            .chain(
+                self.bulletins
+                    .iter()
+                    .map(|b| (b.amends.text.as_str(), b.body.as_slice())),
+            );
+        let mut count = 0;
+        let mut past = None;
+        for (class, body) in bodies {
+            past = past_the_cap(class, body, &mut count);
+            if past.is_some() {
+                break;
+            }
+        }
+        let Some((class, at)) = past else {
+            return true;
+        };
+        self.error(
+            CheckError::TooManyRules {
+                class: class.to_string(),
+                limit: MAX_RULES,
+                inherited: false,
+                at,
+            }
+            .into(),
+        );
+        false
+    }
+
     /// Every sound class flattened at the edition's date and at each later bulletin's date.
     pub(super) fn flatten_all(&mut self) -> Vec<ClassState> {
         let edition_date = self.edition.map(|e| e.effective.date);
         let mut states = Vec::new();
+        let mut flattened = Flattened::default();
         for name in self.class_order.clone() {
             if !self.sound_classes.contains(name) {
                 continue;
@@ -241,7 +294,7 @@ impl<'a> Checker<'a> {
             dates.sort();
             dates.dedup();
             for from in dates {
-                let rules = self.flatten(name, from);
+                let rules = self.flatten(name, from, &mut flattened);
                 states.push(ClassState {
                     class: name.to_string(),
                     from,
@@ -286,21 +339,63 @@ impl<'a> Checker<'a> {
         false
     }
 
-    /// The rules of `name` in force from `date` (the edition's date when `None`).
-    fn flatten(&mut self, name: &'a str, date: Option<Date>) -> Vec<ClassRule> {
+    /// The rules of `name` in force from `date` (the edition's date when `None`), flattened
+    /// once and remembered in `flattened`; none once the classes hold more than [`MAX_RULES`].
+    fn flatten(
+        &mut self,
+        name: &'a str,
+        date: Option<Date>,
+        flattened: &mut Flattened<'a>,
+    ) -> Vec<ClassRule> {
+        if let Some(done) = flattened.done.get(&(name, date)) {
+            return done.clone();
+        }
         let Some(class) = self.classes.get(name).copied() else {
             return Vec::new();
         };
+        if flattened.over {
+            return Vec::new();
+        }
         let inherited = match class.extends.as_ref() {
             Some(parent) => match self.classes.get_key_value(parent.text.as_str()) {
                 Some((key, _)) => {
                     let key = *key;
-                    self.flatten(key, date)
+                    self.flatten(key, date, flattened)
                 }
                 None => Vec::new(),
             },
             None => Vec::new(),
         };
+        let rules = self.flatten_own(name, class, date, inherited);
+        flattened.rules += rules.len();
+        if flattened.rules > MAX_RULES {
+            if !flattened.over {
+                self.error(
+                    CheckError::TooManyRules {
+                        class: name.to_string(),
+                        limit: MAX_RULES,
+                        inherited: true,
+                        at: class.name.span,
+                    }
+                    .into(),
+                );
+            }
+            flattened.over = true;
+            return Vec::new();
+        }
+        flattened.done.insert((name, date), rules.clone());
+        rules
+    }
+
+    /// The rules of one class from `date` on: what it inherits, then its body, then its
+    /// bulletins in force by then.
+    fn flatten_own(
+        &mut self,
+        name: &'a str,
+        class: &'a crate::parse::ast::Class,
+        date: Option<Date>,
+        inherited: Vec<ClassRule>,
+    ) -> Vec<ClassRule> {
         let mut rules = Flat::new(inherited);
         let own = Source {
             origin: Origin::Class(name.to_string()),
@@ -437,6 +532,32 @@ fn same_rule(a: &ClassRule, b: &ClassRule) -> bool {
         && x.decision == y.decision
         && x.penalty == y.penalty
         && x.note == y.note
+}
+
+/// Counts the rules of `body` (in `when` groups too) into `count`; the class and section of
+/// the first that brings it past [`MAX_RULES`].
+fn past_the_cap<'b>(
+    class: &'b str,
+    body: &'b [ClassItem],
+    count: &mut usize,
+) -> Option<(&'b str, crate::source::Span)> {
+    for item in body {
+        match item {
+            ClassItem::Rule(rule) => {
+                *count += 1;
+                if *count > MAX_RULES {
+                    return Some((class, rule.section.span));
+                }
+            }
+            ClassItem::When(group) => {
+                if let Some(past) = past_the_cap(class, &group.body, count) {
+                    return Some(past);
+                }
+            }
+            ClassItem::Drop(_) => {}
+        }
+    }
+    None
 }
 
 /// A class's rules while its body and bulletins are applied: in order, with each found by

@@ -645,6 +645,36 @@ pub enum CheckError {
         /// Where, when there is a place to point at.
         at: Span,
     },
+    /// A derived value standing on a chain of more than `MAX_DEFINE_DEPTH` (64) others.
+    DefineTooDeep {
+        /// The first derived value past the cap.
+        name: String,
+        /// The cap.
+        limit: usize,
+        /// Its definition.
+        at: Span,
+    },
+    /// A division whose divisor is a constant zero.
+    DivisionByZero {
+        /// The divisor.
+        at: Span,
+    },
+    /// Arithmetic on constants whose result is not a finite number (it overflows).
+    NotFinite {
+        /// The expression.
+        at: Span,
+    },
+    /// More rules in the classes together, once flattened, than `MAX_RULES` (25,000).
+    TooManyRules {
+        /// The class whose rules passed the limit.
+        class: String,
+        /// The limit.
+        limit: usize,
+        /// Whether the limit is passed only by counting inherited rules (else as written).
+        inherited: bool,
+        /// The class's name, or the first rule written past the limit.
+        at: Span,
+    },
 }
 
 /// What joins two sides whose dimensions differ.
@@ -731,6 +761,10 @@ impl CheckError {
             CheckError::FormulaTableMismatch { .. } | CheckError::Internal { .. } => {
                 codes::check::INTERNAL
             }
+            CheckError::DefineTooDeep { .. } => codes::check::DEFINE_TOO_DEEP,
+            CheckError::DivisionByZero { .. } => codes::check::DIVISION_BY_ZERO,
+            CheckError::NotFinite { .. } => codes::check::NOT_FINITE,
+            CheckError::TooManyRules { .. } => codes::check::TOO_MANY_RULES,
         }
     }
 
@@ -1009,6 +1043,27 @@ impl CheckError {
             CheckError::Internal { what, .. } => {
                 format!("the checked rulebook could not be built: {what}")
             }
+            CheckError::DefineTooDeep { name, limit, .. } => {
+                format!(
+                    "`{name}` is derived through a chain of {} definitions, more than the {limit} allowed",
+                    limit + 1
+                )
+            }
+            CheckError::DivisionByZero { .. } => "this divides by zero".to_string(),
+            CheckError::NotFinite { .. } => {
+                "this arithmetic overflows: its result is too large to be a number".to_string()
+            }
+            CheckError::TooManyRules {
+                class,
+                limit,
+                inherited: true,
+                ..
+            } => format!(
+                "with `{class}`, the classes hold more than {limit} rules, counting every rule each inherits"
+            ),
+            CheckError::TooManyRules { limit, .. } => {
+                format!("the rulebook's classes and bulletins hold more than {limit} rules")
+            }
         }
     }
 
@@ -1161,6 +1216,10 @@ impl CheckError {
             }
             CheckError::FormulaTableMismatch { at, .. } => vec![(*at, "this call")],
             CheckError::Internal { at, .. } => vec![(*at, "here")],
+            CheckError::DefineTooDeep { at, .. } => vec![(*at, "one derived value too many")],
+            CheckError::DivisionByZero { at } => vec![(*at, "always zero")],
+            CheckError::NotFinite { at } => vec![(*at, "not a finite number")],
+            CheckError::TooManyRules { at, .. } => vec![(*at, "past the limit")],
         };
         fixed
             .into_iter()
@@ -1424,6 +1483,23 @@ impl CheckError {
             }
             CheckError::Internal { .. } => {
                 "this is a mistake in gonogo, not in the rulebook; please report it"
+            }
+            CheckError::DefineTooDeep { .. } => {
+                "write this value from measurements or from values nearer them, not through every step"
+            }
+            CheckError::DivisionByZero { .. } => {
+                "correct the divisor: no value can come of dividing by zero"
+            }
+            CheckError::NotFinite { .. } => {
+                "correct the numbers or their units so that the result is a number a measurement can be compared with"
+            }
+            CheckError::TooManyRules {
+                inherited: true, ..
+            } => {
+                "a class holds a copy of every rule it inherits: let fewer classes extend a large one, or keep one rulebook per group of classes"
+            }
+            CheckError::TooManyRules { .. } => {
+                "a series needs a few hundred rules a class; keep one rulebook per group of classes"
             }
         };
         fixed.to_string()

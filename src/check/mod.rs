@@ -11,6 +11,7 @@
 
 mod bounds;
 pub mod builtins;
+mod chains;
 mod classes;
 mod constants;
 pub mod error;
@@ -38,15 +39,21 @@ pub fn check(files: &RulebookFiles) -> (Option<CheckedRulebook>, Vec<Problem>) {
     let mut checker = Checker::default();
     checker.collect(files);
     checker.resolve_measurements();
+    checker.measure_define_chains();
     checker.type_defines();
     checker.compile_lists();
     checker.check_approved_against_banned();
     checker.check_class_graph();
-    checker.check_rules();
-    let classes = checker.flatten_all();
-    checker.check_bounds(&classes);
-    checker.check_ranges(&classes);
-    checker.report_unused();
+    let classes = if checker.rules_within_cap() {
+        checker.check_rules();
+        let classes = checker.flatten_all();
+        checker.check_bounds(&classes);
+        checker.check_ranges(&classes);
+        checker.report_unused();
+        classes
+    } else {
+        Vec::new() // too many rules: reported, and nothing more is worth checking
+    };
     let problems = dedupe(std::mem::take(&mut checker.problems));
     if problems.iter().any(|p| p.level == Level::Error) {
         return (None, problems);
@@ -110,6 +117,12 @@ struct Checker<'a> {
     test_patterns: HashMap<(u32, usize), regex::Regex>,
     /// Patterns compiled so far, across every file (see [`patterns::MAX_PATTERNS`]).
     patterns_compiled: usize,
+    /// How deep each derived value stands on others (see [`chains::MAX_DEFINE_DEPTH`]).
+    define_depths: HashMap<&'a str, usize>,
+    /// The position of each measurement in `measure_order`.
+    measure_ids: HashMap<&'a str, usize>,
+    /// The position of each derived value in `define_order`.
+    define_ids: HashMap<&'a str, usize>,
 }
 
 impl<'a> Checker<'a> {

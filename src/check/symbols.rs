@@ -74,12 +74,16 @@ impl<'a> Checker<'a> {
             Item::Measure(m) => {
                 if self.unique_value_name(&m.name) {
                     self.measures.insert(&m.name.text, m);
+                    self.measure_ids
+                        .insert(&m.name.text, self.measure_order.len());
                     self.measure_order.push(&m.name.text);
                 }
             }
             Item::Define(d) => {
                 if self.unique_value_name(&d.name) {
                     self.defines.insert(&d.name.text, d);
+                    self.define_ids
+                        .insert(&d.name.text, self.define_order.len());
                     self.define_order.push(&d.name.text);
                 }
             }

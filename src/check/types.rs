@@ -142,6 +142,10 @@ impl<'a> Checker<'a> {
             return *ty;
         }
         let define = *self.defines.get(name)?;
+        if self.too_deep(name) {
+            self.define_types.insert(name, None); // refused where the chain passed the cap
+            return None;
+        }
         if self.typing.contains(&name) {
             self.error(
                 CheckError::DefineCycle {
@@ -319,7 +323,7 @@ impl<'a> Checker<'a> {
                 kind: m.kind,
                 per_cylinder: m.per_cylinder,
             };
-            let id = MeasurementId::new(self.measure_order.iter().position(|n| *n == name)?);
+            let id = MeasurementId::new(*self.measure_ids.get(name)?);
             return Some(match ty.kind {
                 ValueKind::Number(_) => numeric(ty, R::Measurement(id), span),
                 ValueKind::Text => (ty, text_term(TextKind::Measurement(id), span)),
@@ -333,7 +337,7 @@ impl<'a> Checker<'a> {
             self.used.insert(name.to_string());
             let key = *key;
             let ty = self.define_type(key, span)?;
-            let id = DerivedId::new(self.define_order.iter().position(|n| *n == key)?);
+            let id = DerivedId::new(*self.define_ids.get(key)?);
             return Some(match ty.kind {
                 ValueKind::Number(_) => numeric(ty, R::Derived(id), span),
                 ValueKind::Text => (ty, text_term(TextKind::Derived(id), span)),
@@ -374,6 +378,7 @@ impl<'a> Checker<'a> {
         };
         let (ld, le) = self.expect_number(lt, lterm, left.span, what)?;
         let (rd, re) = self.expect_number(rt, rterm, right.span, what)?;
+        self.check_constant_arithmetic(op, left, right, span);
         let per_cylinder = lt.per_cylinder || rt.per_cylinder;
         let dim = match op {
             BinaryOp::Add | BinaryOp::Subtract => {
@@ -398,6 +403,28 @@ impl<'a> Checker<'a> {
             right: Box::new(re),
         };
         Some(numeric(number(dim, per_cylinder), kind, span))
+    }
+
+    /// Refuses a division by a constant zero, and arithmetic on constants that overflows.
+    fn check_constant_arithmetic(&mut self, op: BinaryOp, left: &Expr, right: &Expr, span: Span) {
+        let divisor = self.constant(right);
+        if op == BinaryOp::Divide && divisor == Some(0.0) {
+            self.error(CheckError::DivisionByZero { at: right.span }.into());
+            return;
+        }
+        let (Some(a), Some(b)) = (self.constant(left), divisor) else {
+            return;
+        };
+        let result = match op {
+            BinaryOp::Add => a + b,
+            BinaryOp::Subtract => a - b,
+            BinaryOp::Multiply => a * b,
+            BinaryOp::Divide => a / b,
+            BinaryOp::Power => a.powf(b),
+        };
+        if !result.is_finite() {
+            self.error(CheckError::NotFinite { at: span }.into());
+        }
     }
 
     fn power_dimension(

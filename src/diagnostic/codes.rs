@@ -258,6 +258,14 @@ pub mod check {
     pub const UNCERTAIN_LIMIT: Code = Code::new(Stage::Check, 59, "uncertain-limit");
     /// `C60 coverage-out-of-range`
     pub const COVERAGE_OUT_OF_RANGE: Code = Code::new(Stage::Check, 60, "coverage-out-of-range");
+    /// `C61 define-too-deep`
+    pub const DEFINE_TOO_DEEP: Code = Code::new(Stage::Check, 61, "define-too-deep");
+    /// `C62 division-by-zero`
+    pub const DIVISION_BY_ZERO: Code = Code::new(Stage::Check, 62, "division-by-zero");
+    /// `C63 not-finite`
+    pub const NOT_FINITE: Code = Code::new(Stage::Check, 63, "not-finite");
+    /// `C64 too-many-rules`
+    pub const TOO_MANY_RULES: Code = Code::new(Stage::Check, 64, "too-many-rules");
 }
 
 /// Codes of loading an engine declaration.
@@ -324,6 +332,8 @@ pub mod load {
     pub const YAML_UNSUPPORTED: Code = Code::new(Stage::Load, 29, "yaml-unsupported");
     /// `D30 identical-readings`
     pub const IDENTICAL_READINGS: Code = Code::new(Stage::Load, 30, "identical-readings");
+    /// `D31 too-deep`
+    pub const TOO_DEEP: Code = Code::new(Stage::Load, 31, "too-deep");
 }
 
 /// Codes of comparing editions and fields.
@@ -440,6 +450,10 @@ pub const ALL: &[Code] = &[
     check::UNUSED_MEASUREMENT,
     check::UNCERTAIN_LIMIT,
     check::COVERAGE_OUT_OF_RANGE,
+    check::DEFINE_TOO_DEEP,
+    check::DIVISION_BY_ZERO,
+    check::NOT_FINITE,
+    check::TOO_MANY_RULES,
     load::BAD_COVERAGE,
     load::BAD_DATE,
     load::BAD_QUANTITY,
@@ -470,6 +484,7 @@ pub const ALL: &[Code] = &[
     load::STATED_IN_READINGS,
     load::YAML_UNSUPPORTED,
     load::IDENTICAL_READINGS,
+    load::TOO_DEEP,
     analyze::DIFFERENT_SERIES,
     analyze::NOTHING_TO_COMPARE,
     write::OUTPUT_IS_INPUT,

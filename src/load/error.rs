@@ -266,6 +266,12 @@ pub enum LoadError {
         /// How many readings there are.
         count: usize,
     },
+    /// Flow collections (`[ … ]`, `{ … }`) nested deeper than the cap, found before the
+    /// YAML parser reads the file.
+    TooDeep {
+        /// The deepest nesting allowed.
+        limit: usize,
+    },
 }
 
 impl LoadError {
@@ -305,6 +311,7 @@ impl LoadError {
             LoadError::Yaml { .. } => codes::load::YAML,
             LoadError::TooMany { .. } => codes::load::TOO_MANY,
             LoadError::IdenticalReadings { .. } => codes::load::IDENTICAL_READINGS,
+            LoadError::TooDeep { .. } => codes::load::TOO_DEEP,
         }
     }
 
@@ -434,6 +441,9 @@ impl LoadError {
                  zero says nothing of the resolution (GUM F.2.2.1), and would give an \
                  uncertainty of zero"
             ),
+            LoadError::TooDeep { limit } => {
+                format!("brackets are nested more than {limit} deep")
+            }
         }
     }
 
@@ -475,6 +485,7 @@ impl LoadError {
             | LoadError::BeforeEdition { .. }
             | LoadError::TooMany { .. } => "here".to_string(),
             LoadError::IdenticalReadings { .. } => "no spread".to_string(),
+            LoadError::TooDeep { limit } => format!("level {}", limit + 1),
         }
     }
 
@@ -601,6 +612,10 @@ impl LoadError {
                 "name the instrument they were read with and its resolution, so that it gives \
                  their uncertainty: like `burette: {resolution: \"0.1 cc\"}` under \
                  `instruments:` and `instrument: burette` beside `readings:`"
+                    .to_string()
+            }
+            LoadError::TooDeep { .. } => {
+                "a declaration needs a list of values at most, like `values: [\"4.030 in\", \"4.031 in\"]`; look for brackets left open"
                     .to_string()
             }
         }

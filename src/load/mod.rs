@@ -5,6 +5,7 @@
 
 mod collect;
 pub mod declaration;
+pub mod depth;
 pub mod error;
 pub mod path;
 mod reading;
@@ -65,6 +66,14 @@ fn read_declaration(
     sources: &SourceMap,
 ) -> Result<Declaration, Vec<Problem>> {
     let text: &str = &sources.file(id).text;
+    if let Some(at) = depth::too_deep(text) {
+        let error = LoadError::TooDeep {
+            limit: depth::MAX_FLOW_DEPTH,
+        };
+        let span = Some(Span::new(id, at, at + 1));
+        let path = DeclPath::root();
+        return Err(vec![LoadProblem { error, path, span }.problem()]);
+    }
     match read_all(text, id, rulebook) {
         Ok(mut declaration) => {
             declaration.path = path.to_path_buf();
