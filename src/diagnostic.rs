@@ -5,20 +5,21 @@
 //! miette diagnostic only when it is rendered, together with the source it points into.
 
 pub mod codes;
+mod excerpt;
 mod window;
 
 pub use codes::Code;
 
 use std::fmt;
-use std::sync::Arc;
 
 use miette::{
-    Diagnostic, GraphicalReportHandler, GraphicalTheme, LabeledSpan, MietteError, NamedSource,
-    Severity, SourceCode, SourceSpan, SpanContents,
+    Diagnostic, GraphicalReportHandler, GraphicalTheme, LabeledSpan, MietteError, Severity,
+    SourceCode, SourceSpan, SpanContents,
 };
 
 use crate::report::format::count;
 use crate::source::{SourceMap, Span};
+use excerpt::Excerpt;
 use window::Window;
 
 /// How bad a problem is.
@@ -150,19 +151,20 @@ pub struct Located {
     notes: Vec<String>,
 }
 
-/// The source a problem echoes: the file as it is, or cut around the labels when it has a
-/// long line (see [`window`]).
+/// The source a problem echoes: the lines of its file around the labels, as they are or cut
+/// around the labels when one is long (see [`window`]).
 #[derive(Debug)]
-enum Shown {
-    Whole(NamedSource<Arc<str>>),
-    Cut(Window),
+struct Shown {
+    excerpt: Excerpt,
+    cut: Option<Window>,
 }
 
 impl Shown {
     fn span(&self, span: Span) -> SourceSpan {
-        match self {
-            Shown::Whole(_) => span.source_span(),
-            Shown::Cut(window) => window.span(span.start, span.end),
+        let at = self.excerpt.span(span.start, span.end);
+        match &self.cut {
+            None => at,
+            Some(window) => window.span(at.offset(), at.offset() + at.len()),
         }
     }
 }
@@ -174,9 +176,12 @@ impl SourceCode for Shown {
         before: usize,
         after: usize,
     ) -> Result<Box<dyn SpanContents<'a> + 'a>, MietteError> {
-        match self {
-            Shown::Whole(source) => source.read_span(span, before, after),
-            Shown::Cut(window) => window.read_span(span, before, after),
+        match &self.cut {
+            None => self.excerpt.read_span(span, before, after),
+            Some(window) => {
+                let contents = window.read_span(span, before, after)?;
+                Ok(self.excerpt.renumbered(contents.as_ref()))
+            }
         }
     }
 }
@@ -209,11 +214,14 @@ impl Located {
             .filter(|(s, _)| s.file == primary.file)
             .map(|(s, _)| (s.start, s.end))
             .collect();
+        let excerpt = Excerpt::new(file, &here);
+        let shifted: Vec<(usize, usize)> = here
+            .iter()
+            .map(|&(a, b)| (a - excerpt.base.min(a), b - excerpt.base.min(b)))
+            .collect();
         let name = file.path.display().to_string();
-        let source = match Window::new(name, file.text.clone(), &here) {
-            Some(window) => Shown::Cut(window),
-            None => Shown::Whole(file.named_source()),
-        };
+        let cut = Window::new(name, excerpt.text.clone(), &shifted);
+        let source = Shown { excerpt, cut };
         Located {
             problem,
             source: Some(source),

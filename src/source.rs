@@ -56,6 +56,8 @@ pub struct SourceFile {
     pub path: PathBuf,
     /// The text, valid UTF-8.
     pub text: Arc<str>,
+    /// Where each line starts, found once when a diagnostic first needs it.
+    line_starts: std::sync::OnceLock<Vec<usize>>,
 }
 
 impl SourceFile {
@@ -64,12 +66,45 @@ impl SourceFile {
         NamedSource::new(self.path.display().to_string(), self.text.clone())
     }
 
+    /// A file of this text under this path.
+    pub fn new(path: PathBuf, text: Arc<str>) -> SourceFile {
+        SourceFile {
+            path,
+            text,
+            line_starts: std::sync::OnceLock::new(),
+        }
+    }
+
     /// One-based line and column of a byte offset.
     pub fn line_column(&self, offset: usize) -> (usize, usize) {
-        let before = &self.text[..floor_char_boundary(&self.text, offset)];
-        let line = before.matches('\n').count() + 1;
-        let column = before.rsplit('\n').next().map_or(0, |l| l.chars().count()) + 1;
-        (line, column)
+        let at = floor_char_boundary(&self.text, offset);
+        let line = self.line_of(at);
+        let start = self.line_start(line);
+        let column = self.text[start..at].chars().count() + 1;
+        (line + 1, column)
+    }
+
+    /// The zero-based line a byte offset is on. The line index is built once per file, so a
+    /// rulebook with thousands of diagnostics is not scanned from its start for each one.
+    pub fn line_of(&self, offset: usize) -> usize {
+        let starts = self.line_starts();
+        starts.partition_point(|&s| s <= offset).saturating_sub(1)
+    }
+
+    /// Where the zero-based line `line` starts (the end of the text past the last line).
+    pub fn line_start(&self, line: usize) -> usize {
+        self.line_starts()
+            .get(line)
+            .copied()
+            .unwrap_or(self.text.len())
+    }
+
+    fn line_starts(&self) -> &[usize] {
+        self.line_starts.get_or_init(|| {
+            std::iter::once(0)
+                .chain(self.text.match_indices('\n').map(|(i, _)| i + 1))
+                .collect()
+        })
     }
 }
 
@@ -271,10 +306,7 @@ pub struct SourceMap {
 impl SourceMap {
     /// Adds text under a path and returns its id.
     pub fn add(&mut self, path: PathBuf, text: String) -> FileId {
-        self.files.push(SourceFile {
-            path,
-            text: text.into(),
-        });
+        self.files.push(SourceFile::new(path, text.into()));
         FileId::try_from(self.files.len() - 1).unwrap_or(FileId::MAX)
     }
 
