@@ -169,3 +169,25 @@ fn a_declaration_error_on_a_line_of_a_hundred_thousand_characters_echoes_a_windo
     assert!(run.stderr.contains(":42:100016]"), "{}", run.stderr);
     assert!(run.stderr.len() < 2_000, "{} bytes", run.stderr.len());
 }
+
+#[test]
+fn lint_shows_at_most_a_hundred_problems_errors_first_and_counts_the_rest() {
+    // issue 10: 2,000 errors printed 710 KB. 150 unused defines (warnings) come before one
+    // error in the file; the error must still be shown, and the rest counted
+    let mut text = String::from(
+        "series \"Tamsin Valley Stock Car Club\"\nedition \"2027\" effective 2027-03-06\n\
+         decision guarded rejection\nmeasure stroke: length \"Dial indicator\"\n",
+    );
+    for i in 0..150 {
+        text.push_str(&format!("define d{i} = stroke * 2\n"));
+    }
+    text.push_str("class a \"A\"\n  rule 1 \"S\" require stroke <= 4 cc end\nend\n");
+    let file = Scratch::new("many-warnings.rules", text.as_bytes());
+    let run = gonogo(&["lint", file.path()]);
+    assert_eq!(run.code, 1, "{}", run.stdout);
+    let all = format!("{}{}", run.stdout, run.stderr);
+    assert!(all.contains("C17 dimension-mismatch"), "{all}");
+    assert!(all.contains("… and 51 more problems not shown"), "{all}");
+    assert_eq!(all.matches("C57 unused-define").count(), 99, "{all}");
+    assert!(all.contains("(1 error, 150 warnings)"), "{all}");
+}

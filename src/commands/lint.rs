@@ -97,12 +97,26 @@ impl Linted {
     }
 }
 
+/// The most problems the text report renders for one file: errors first, so none hides
+/// behind warnings; the rest are counted (and all are in `--format json`).
+pub const MOST_SHOWN: usize = 100;
+
 fn text(file: &LintedFile, style: RenderStyle) -> String {
     let found = &file.found;
     let mut out = String::new();
     if !found.problems.is_empty() {
-        out.push_str(&render_all(&found.problems, &found.sources, style));
+        let mut shown: Vec<Problem> = found.problems.clone();
+        shown.sort_by_key(|p| p.level != Level::Error);
+        let hidden = shown.len().saturating_sub(MOST_SHOWN);
+        shown.truncate(MOST_SHOWN);
+        out.push_str(&render_all(&shown, &found.sources, style));
         out.push('\n');
+        if hidden > 0 {
+            out.push_str(&format!(
+                "… and {} not shown; `gonogo lint --format json` lists every one\n",
+                crate::report::format::count(hidden, "more problem", "more problems")
+            ));
+        }
     }
     let verdict = if file.errors() > 0 {
         "has errors"
