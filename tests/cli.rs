@@ -3,29 +3,7 @@
 
 mod common;
 
-use common::gonogo;
-
-/// A scratch file under the system's temporary folder, removed when dropped.
-struct Scratch(std::path::PathBuf);
-
-impl Scratch {
-    fn new(name: &str, bytes: &[u8]) -> Scratch {
-        let path = std::env::temp_dir().join(format!("gonogo-{}-{name}", std::process::id()));
-        std::fs::write(&path, bytes)
-            .unwrap_or_else(|e| panic!("cannot write {}: {e}", path.display()));
-        Scratch(path)
-    }
-
-    fn path(&self) -> &str {
-        self.0.to_str().unwrap_or_default()
-    }
-}
-
-impl Drop for Scratch {
-    fn drop(&mut self) {
-        let _ = std::fs::remove_file(&self.0);
-    }
-}
+use common::{Scratch, gonogo};
 
 fn demo_rulebooks() -> Vec<String> {
     let files: Vec<String> =

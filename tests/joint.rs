@@ -4,6 +4,9 @@
 //! probabilities of the multivariate normal distribution from scipy (tests/vectors/joint.json,
 //! made once by tests/vectors/make_joint_vectors.py); and one rulebook checked end to end.
 
+mod common;
+
+use common::OrPanic;
 use gonogo::check::check;
 use gonogo::evaluate::check_engine;
 use gonogo::evaluate::dual::Dual;
@@ -297,31 +300,17 @@ fn a_check_reports_every_cylinder_beside_the_closest_and_a_shared_stroke_is_inte
     assert!(all.probability < swept.probability, "{}", all.probability);
 }
 
-/// `unwrap_or_else(panic!)` with a word on what was wanted, for options and results alike.
-trait OrPanic<T> {
-    fn or_panic(self, what: &str) -> T;
-}
-
-impl<T> OrPanic<T> for Option<T> {
-    fn or_panic(self, what: &str) -> T {
-        self.unwrap_or_else(|| panic!("no {what}"))
-    }
-}
-
-impl<T, E: std::fmt::Debug> OrPanic<T> for Result<T, E> {
-    fn or_panic(self, what: &str) -> T {
-        self.unwrap_or_else(|e| panic!("{what}: {e:?}"))
-    }
-}
-
 /// Every demo engine as JSON under the 2027 rulebook.
 fn demo_json() -> serde_json::Value {
-    let out = std::process::Command::new(env!("CARGO_BIN_EXE_gonogo"))
-        .args(["check", "--rules", "rulebooks-demo/tamsin-2027.rules"])
-        .args(["--format", "json", "engines-demo"])
-        .output()
-        .or_panic("gonogo runs");
-    serde_json::from_slice(&out.stdout).or_panic("the check is JSON")
+    let run = common::gonogo(&[
+        "check",
+        "--rules",
+        "rulebooks-demo/tamsin-2027.rules",
+        "--format",
+        "json",
+        "engines-demo",
+    ]);
+    serde_json::from_str(&run.stdout).or_panic("the check is JSON")
 }
 
 #[test]

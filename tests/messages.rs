@@ -3,33 +3,11 @@
 
 mod common;
 
-use common::gonogo;
+use common::{Scratch, gonogo};
 
 const RULES: &str = "rulebooks-demo/tamsin-2027.rules";
 const NEXT: &str = "rulebooks-demo/tamsin-2028.rules";
 const LEGAL: &str = "engines-demo/limited2-legal.yaml";
-
-/// A scratch file under the system's temporary folder, removed when dropped.
-struct Scratch(std::path::PathBuf);
-
-impl Scratch {
-    fn new(name: &str, bytes: &[u8]) -> Scratch {
-        let path = std::env::temp_dir().join(format!("gonogo-msg-{}-{name}", std::process::id()));
-        std::fs::write(&path, bytes)
-            .unwrap_or_else(|e| panic!("cannot write {}: {e}", path.display()));
-        Scratch(path)
-    }
-
-    fn path(&self) -> &str {
-        self.0.to_str().unwrap_or_default()
-    }
-}
-
-impl Drop for Scratch {
-    fn drop(&mut self) {
-        let _ = std::fs::remove_file(&self.0);
-    }
-}
 
 #[test]
 fn one_engine_is_counted_in_the_singular() {

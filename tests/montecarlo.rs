@@ -5,6 +5,8 @@
 
 mod common;
 
+use common::OrPanic;
+
 use gonogo::check::check;
 use gonogo::check::model::CheckedRulebook;
 use gonogo::evaluate::check_engine;
@@ -317,21 +319,4 @@ fn repeated_readings_are_compared_with_the_gum_interval_from_the_t_distribution(
     let normal_end = mc.linear_value + montecarlo::K95 * u;
     assert!((mc.interval.1 - normal_end) > 0.25 * u, "{mc:?}");
     assert!((mc.interval.1 - normal_end) > 10.0 * mc.tolerance, "{mc:?}");
-}
-
-/// `unwrap_or_else(panic!)` with a word on what was wanted, for options and results alike.
-trait OrPanic<T> {
-    fn or_panic(self, what: &str) -> T;
-}
-
-impl<T> OrPanic<T> for Option<T> {
-    fn or_panic(self, what: &str) -> T {
-        self.unwrap_or_else(|| panic!("no {what}"))
-    }
-}
-
-impl<T, E: std::fmt::Debug> OrPanic<T> for Result<T, E> {
-    fn or_panic(self, what: &str) -> T {
-        self.unwrap_or_else(|e| panic!("{what}: {e:?}"))
-    }
 }

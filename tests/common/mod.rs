@@ -56,3 +56,47 @@ fn collect(dir: &Path, ending: &str, found: &mut Vec<PathBuf>) {
         }
     }
 }
+
+/// A scratch file under the system's temporary folder, removed when dropped. Its name carries
+/// the process id, so test binaries running at once do not share it; tests in one binary give
+/// different names.
+pub struct Scratch(PathBuf);
+
+impl Scratch {
+    /// Writes `bytes` to a new scratch file named after `name`.
+    pub fn new(name: &str, bytes: &[u8]) -> Scratch {
+        let path = std::env::temp_dir().join(format!("gonogo-{}-{name}", std::process::id()));
+        std::fs::write(&path, bytes)
+            .unwrap_or_else(|e| panic!("cannot write {}: {e}", path.display()));
+        Scratch(path)
+    }
+
+    /// Its path, as an argument for the binary.
+    pub fn path(&self) -> &str {
+        self.0.to_str().unwrap_or_default()
+    }
+}
+
+impl Drop for Scratch {
+    fn drop(&mut self) {
+        let _ = std::fs::remove_file(&self.0);
+    }
+}
+
+/// `unwrap_or_else(panic!)` with a word on what was wanted, for options and results alike.
+pub trait OrPanic<T> {
+    /// The value, or a panic naming what was wanted.
+    fn or_panic(self, what: &str) -> T;
+}
+
+impl<T> OrPanic<T> for Option<T> {
+    fn or_panic(self, what: &str) -> T {
+        self.unwrap_or_else(|| panic!("no {what}"))
+    }
+}
+
+impl<T, E: std::fmt::Debug> OrPanic<T> for Result<T, E> {
+    fn or_panic(self, what: &str) -> T {
+        self.unwrap_or_else(|e| panic!("{what}: {e:?}"))
+    }
+}
