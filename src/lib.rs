@@ -19,7 +19,7 @@
 //! problems, which `main.rs` renders once. Beside the stages: [`units`] the unit table,
 //! [`color`] whether a stream gets colour, [`diagnostic`] the problem type and the table of
 //! codes every stage reports with,
-//! [`suggest`] "did you mean", [`exit`] the exit statuses, [`output`] writing a document
+//! [`digest`] the SHA-256 fingerprints of a check's inputs, [`suggest`] "did you mean", [`exit`] the exit statuses, [`output`] writing a document
 //! without ever costing an input, [`manual`] the manual pages, [`parallel`] an order-preserving map
 //! over threads for fields of engines.
 
@@ -28,6 +28,7 @@ pub mod check;
 pub mod color;
 pub mod commands;
 pub mod diagnostic;
+pub mod digest;
 pub mod evaluate;
 pub mod exit;
 pub mod load;

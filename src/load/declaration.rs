@@ -234,6 +234,8 @@ pub struct Declaration {
     /// For each reading taken with an instrument that has a calibration, the shared
     /// calibration input added to it (an input of [`InputName::Calibration`]).
     pub calibrations: BTreeMap<InputId, InputId>,
+    /// Why it was inspected, what the inspection covered and the seals on it.
+    pub inspection: super::inspection::Inspection,
 }
 
 impl Declaration {

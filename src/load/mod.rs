@@ -7,6 +7,7 @@ mod collect;
 pub mod declaration;
 pub mod depth;
 pub mod error;
+pub mod inspection;
 pub mod path;
 mod reading;
 mod repeated;
