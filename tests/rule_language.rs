@@ -1,6 +1,7 @@
 //! Through the binary: a rule's own decision rule and `--as` over it, and optional
 //! measurements left unmeasured. Each case is a small rulebook of the demo series and a
-//! declaration written beside it in a scratch folder.
+//! declaration written beside it in a scratch folder. Also parts lists `ignoring case` and the
+//! near match a slip of the keyboard gets.
 
 mod common;
 
@@ -212,4 +213,59 @@ fn a_rule_that_misses_a_required_measurement_stays_not_checked() {
         applies,
         ["always", "not_measured", "not_measured", "always", "always"]
     );
+}
+
+/// One head rule over a list, `ignoring case` or not.
+fn head_rules(ignoring: &str) -> String {
+    format!(
+        "{HEADER}measure head.casting: text \"Casting number between the centre ports\"\n\
+         approved list heads \"Approved heads\"{ignoring}\n  \"TVH-2204\"\n  /^TVH-23[0-9]{{2}}$/\nend\n\
+         class hobby \"Hobby\"\n  rule 5.1 \"Approved heads\"\n    require head.casting in heads\n  end\nend\n"
+    )
+}
+
+/// The JSON of the one rule of a head case: its finding and its near match.
+fn head_rule(case: &Case) -> serde_json::Value {
+    let json = case.check(&["--format", "json"]);
+    let doc: serde_json::Value =
+        serde_json::from_str(&json.stdout).unwrap_or_else(|e| panic!("{e}: {}", json.stdout));
+    doc["engines"][0]["rules"][0].clone()
+}
+
+#[test]
+fn a_case_slip_fails_and_names_the_entry_unless_the_list_ignores_case() {
+    // a case difference is a different string: not on the list (common practice, no source:
+    // the tag is re-read before anyone is disqualified, never forgiven by the program)
+    let declaration = "class: hobby\ncomponents:\n  head:\n    casting: \"tvh-2204 \"\n";
+    let strict = Case::new("slip-strict", &head_rules(""), declaration);
+    let rule = head_rule(&strict);
+    assert_eq!(rule["finding"], "fail", "{rule}");
+    assert_eq!(
+        rule["observed"], "tvh-2204",
+        "the trailing space is removed"
+    );
+    assert_eq!(rule["near_match"]["entry"], "TVH-2204", "{rule}");
+    assert_eq!(rule["near_match"]["slip"], "case", "{rule}");
+    let text = strict.check(&[]);
+    assert!(
+        text.stdout
+            .contains("nearly matches TVH-2204 (differs only in case)")
+            && text
+                .stdout
+                .contains("(written \"tvh-2204 \": white space around it removed)"),
+        "{}",
+        text.stdout
+    );
+
+    let blind = Case::new("slip-blind", &head_rules(" ignoring case"), declaration);
+    let rule = head_rule(&blind);
+    assert_eq!(rule["finding"], "pass", "{rule}");
+    assert!(rule.get("near_match").is_none(), "{rule}");
+    // the pattern follows the list's `ignoring case` too
+    let family = Case::new(
+        "slip-family",
+        &head_rules(" ignoring case"),
+        "class: hobby\ncomponents:\n  head:\n    casting: \"tvh-2310\"\n",
+    );
+    assert_eq!(head_rule(&family)["finding"], "pass");
 }

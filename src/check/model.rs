@@ -99,18 +99,94 @@ pub struct PartsList {
     pub kind: ListKind,
     /// Its title.
     pub title: Option<String>,
+    /// Declared `ignoring case`: exact entries compare without case, patterns were compiled
+    /// case-insensitive.
+    pub ignore_case: bool,
     /// Its entries.
     pub entries: Vec<PartEntry>,
     /// Where it is defined.
     pub span: Span,
 }
 
+/// How a value not on a list differs from the exact entry it nearly matches.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, serde::Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Slip {
+    /// The same characters in another case (`tvh-2204` for `TVH-2204`).
+    Case,
+    /// One character added, removed, replaced, or two neighbours swapped (optimal string
+    /// alignment distance 1).
+    OneEdit,
+    /// Another case and one edit besides.
+    CaseAndOneEdit,
+}
+
+impl Slip {
+    /// The difference in words: `differs only in case`.
+    pub fn words(self) -> &'static str {
+        match self {
+            Slip::Case => "differs only in case",
+            Slip::OneEdit => "one character different",
+            Slip::CaseAndOneEdit => "differs in case and one character",
+        }
+    }
+}
+
+/// The exact entry of a list a value nearly matches, and how it differs.
+#[derive(Clone, Debug, PartialEq)]
+pub struct NearMatch {
+    /// The entry as the rulebook writes it.
+    pub entry: String,
+    /// How the value differs from it.
+    pub slip: Slip,
+}
+
 impl PartsList {
     /// Whether an identifier is on the list.
     pub fn contains(&self, id: &str) -> bool {
         self.entries.iter().any(|e| match e {
+            PartEntry::Exact(s) if self.ignore_case => s.to_lowercase() == id.to_lowercase(),
             PartEntry::Exact(s) => s == id,
             PartEntry::Pattern(re, _) => re.is_match(id),
+        })
+    }
+
+    /// For an identifier not on the list, the first exact entry it nearly matches (a case
+    /// difference before an edit, in the list's order); `None` for one on the list. Patterns
+    /// are not searched: a family has no single spelling to name.
+    pub fn near_match(&self, id: &str) -> Option<NearMatch> {
+        if self.contains(id) {
+            return None;
+        }
+        let exact = || {
+            self.entries.iter().filter_map(|e| match e {
+                PartEntry::Exact(s) => Some(s.as_str()),
+                PartEntry::Pattern(..) => None,
+            })
+        };
+        let lower = id.to_lowercase();
+        let slip_of = |entry: &str| {
+            let entry_lower = entry.to_lowercase();
+            if entry_lower == lower {
+                Some(Slip::Case)
+            } else if strsim::osa_distance(entry, id) == 1 {
+                Some(Slip::OneEdit)
+            } else if strsim::osa_distance(&entry_lower, &lower) == 1 {
+                Some(if self.ignore_case {
+                    Slip::OneEdit
+                } else {
+                    Slip::CaseAndOneEdit
+                })
+            } else {
+                None
+            }
+        };
+        let found = exact()
+            .find_map(|e| slip_of(e).filter(|s| *s == Slip::Case).map(|s| (e, s)))
+            .or_else(|| exact().find_map(|e| slip_of(e).map(|s| (e, s))))?;
+        Some(NearMatch {
+            entry: found.0.to_string(),
+            slip: found.1,
         })
     }
 }
@@ -394,5 +470,99 @@ impl CheckedRulebook {
     pub fn constant(&self, expr: &Expr) -> Option<f64> {
         let lookup = |name: &str| self.derived_value(name).map(|d| &d.expr);
         super::constants::fold(expr, &lookup, false)
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn list(ignore_case: bool, exact: &[&str], pattern: Option<&str>) -> PartsList {
+        let mut entries: Vec<PartEntry> = exact
+            .iter()
+            .map(|e| PartEntry::Exact(e.to_string()))
+            .collect();
+        if let Some(p) = pattern {
+            let re = regex::RegexBuilder::new(p)
+                .case_insensitive(ignore_case)
+                .build()
+                .unwrap_or_else(|e| panic!("{e}"));
+            entries.push(PartEntry::Pattern(re, p.to_string()));
+        }
+        PartsList {
+            name: "heads".to_string(),
+            kind: ListKind::Approved,
+            title: None,
+            ignore_case,
+            entries,
+            span: Span::default(),
+        }
+    }
+
+    fn near(l: &PartsList, id: &str) -> Option<(String, Slip)> {
+        l.near_match(id).map(|n| (n.entry, n.slip))
+    }
+
+    #[test]
+    fn a_case_slip_is_not_on_the_list_but_names_its_entry() {
+        let heads = list(false, &["TVH-2201", "TVH-2204"], Some("^TVH-23[0-9]{2}$"));
+        assert!(!heads.contains("tvh-2204"));
+        assert_eq!(
+            near(&heads, "tvh-2204"),
+            Some(("TVH-2204".to_string(), Slip::Case))
+        );
+        assert_eq!(
+            near(&heads, "TVH-2204"),
+            None,
+            "on the list: nothing to name"
+        );
+    }
+
+    // One edit is optimal string alignment distance 1 (Damerau, "A technique for computer
+    // detection and correction of spelling errors", CACM 7(3), 1964: insertion, deletion,
+    // substitution or transposition of adjacent characters), as strsim::osa_distance counts it.
+    #[test]
+    fn one_edit_of_each_kind_names_the_entry() {
+        let heads = list(false, &["TVH-2201", "TVH-2204"], None);
+        for (typed, entry) in [
+            ("TVH-2240", "TVH-2204"),  // neighbours swapped
+            ("TVH 2204", "TVH-2204"),  // one replaced
+            ("TVH-22044", "TVH-2204"), // one added
+            ("TVH-220", "TVH-2201"),   // one removed: the first entry in the list's order
+        ] {
+            assert_eq!(
+                near(&heads, typed),
+                Some((entry.to_string(), Slip::OneEdit)),
+                "{typed}"
+            );
+        }
+        assert_eq!(
+            near(&heads, "tvh-2240"),
+            Some(("TVH-2204".to_string(), Slip::CaseAndOneEdit))
+        );
+        assert_eq!(near(&heads, "TVH-2422"), None, "two edits are not a slip");
+    }
+
+    #[test]
+    fn a_case_difference_is_preferred_over_an_earlier_edit() {
+        // "tvh-2204" is one edit from "tvh-2201", which comes first, and only a case away
+        // from "TVH-2204": the case difference is the more telling slip
+        let heads = list(false, &["tvh-2201", "TVH-2204"], None);
+        assert_eq!(
+            near(&heads, "tvh-2204"),
+            Some(("TVH-2204".to_string(), Slip::Case))
+        );
+    }
+
+    #[test]
+    fn a_list_ignoring_case_holds_every_case_and_its_patterns_too() {
+        let heads = list(true, &["TVH-2204"], Some("^TVH-23[0-9]{2}$"));
+        assert!(heads.contains("tvh-2204"));
+        assert!(heads.contains("tvh-2310"));
+        assert_eq!(
+            near(&heads, "tvh-2240"),
+            Some(("TVH-2204".to_string(), Slip::OneEdit)),
+            "case does not count on such a list"
+        );
     }
 }

@@ -26,11 +26,16 @@ impl<'a> Checker<'a> {
         let lists: Vec<_> = self.lists.iter().map(|(k, v)| (*k, *v)).collect();
         for (name, list) in lists {
             let mut entries = Vec::new();
-            let mut seen: HashSet<&str> = HashSet::new();
+            let mut seen: HashSet<String> = HashSet::new();
             for entry in &list.entries {
                 match entry {
                     ListEntry::Exact(text) => {
-                        if !seen.insert(&text.value) {
+                        let key = if list.ignore_case {
+                            text.value.to_lowercase()
+                        } else {
+                            text.value.clone()
+                        };
+                        if !seen.insert(key) {
                             self.error(
                                 CheckError::DuplicateEntry {
                                     entry: text.value.clone(),
@@ -43,7 +48,7 @@ impl<'a> Checker<'a> {
                         entries.push(PartEntry::Exact(text.value.clone()));
                     }
                     ListEntry::Pattern(p) => {
-                        if let Some(re) = self.compile_pattern(p) {
+                        if let Some(re) = self.compile_pattern(p, list.ignore_case) {
                             entries.push(PartEntry::Pattern(re, p.source.clone()));
                         }
                     }
@@ -55,6 +60,7 @@ impl<'a> Checker<'a> {
                     name: name.to_string(),
                     kind: list.kind,
                     title: list.title.as_ref().map(|t| t.value.clone()),
+                    ignore_case: list.ignore_case,
                     entries,
                     span: list.name.span,
                 },
@@ -90,7 +96,7 @@ impl<'a> Checker<'a> {
                     continue;
                 };
                 let compiled = RegexBuilder::new(&pattern.source)
-                    .case_insensitive(pattern.ignore_case)
+                    .case_insensitive(pattern.ignore_case || list.ignore_case)
                     .size_limit(PATTERN_SIZE_LIMIT)
                     .build();
                 let Ok(re) = compiled else { continue }; // reported where the list is compiled
@@ -111,8 +117,13 @@ impl<'a> Checker<'a> {
         self.problems.extend(found);
     }
 
-    /// Compiles one pattern, anchored as written, reporting why it cannot be.
-    pub(super) fn compile_pattern(&mut self, pattern: &Pattern) -> Option<regex::Regex> {
+    /// Compiles one pattern, anchored as written, reporting why it cannot be; `ignore_case`
+    /// (its list's `ignoring case`) makes it case-insensitive whatever its own flag.
+    pub(super) fn compile_pattern(
+        &mut self,
+        pattern: &Pattern,
+        ignore_case: bool,
+    ) -> Option<regex::Regex> {
         self.patterns_compiled += 1;
         if self.patterns_compiled > MAX_PATTERNS {
             if self.patterns_compiled == MAX_PATTERNS + 1 {
@@ -121,7 +132,7 @@ impl<'a> Checker<'a> {
             return None;
         }
         let built = RegexBuilder::new(&pattern.source)
-            .case_insensitive(pattern.ignore_case)
+            .case_insensitive(pattern.ignore_case || ignore_case)
             .size_limit(PATTERN_SIZE_LIMIT)
             .build();
         match built {

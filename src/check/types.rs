@@ -960,7 +960,7 @@ impl<'a> Checker<'a> {
         if let Some(re) = self.test_patterns.get(&at) {
             return Some(re.clone());
         }
-        let re = self.compile_pattern(pattern)?;
+        let re = self.compile_pattern(pattern, false)?;
         self.test_patterns.insert(at, re.clone());
         Some(re)
     }

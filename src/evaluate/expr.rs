@@ -172,7 +172,7 @@ impl<'a> Evaluator<'a> {
             TextKind::Measurement(id) => {
                 let name = self.measurement_name(*id)?;
                 match self.declaration.supplied(id.index()) {
-                    Some(Supplied::Text(t, _)) => Ok(t.clone()),
+                    Some(Supplied::Text(t, ..)) => Ok(t.clone()),
                     Some(_) => Err(Unevaluated::internal(format!(
                         "`{name}` is text in the rulebook but a number in the declaration"
                     ))),

@@ -5,7 +5,7 @@ use super::finding::{Finding, Verdict};
 use super::joint::AllCylinders;
 use super::montecarlo::MonteCarlo;
 use super::value::{Breach, Evaluated, Unevaluated};
-use crate::check::model::{CheckedRulebook, Class, ClassRule, Derived};
+use crate::check::model::{CheckedRulebook, Class, ClassRule, Derived, NearMatch};
 use crate::load::InputId;
 use crate::load::{Declaration, Input, Place};
 use crate::parse::ast::DecisionRule;
@@ -73,6 +73,10 @@ pub struct Checked {
     pub numeric: Option<Numeric>,
     /// For text, membership and equality tests, the value seen.
     pub observed: Option<String>,
+    /// For a membership test, the exact entry of the list a value not on it nearly matches:
+    /// the value is still not on the list, the finding stands, and the report asks for the
+    /// tag to be read again.
+    pub near_match: Option<NearMatch>,
 }
 
 impl Checked {
@@ -125,6 +129,8 @@ pub enum Trace<'a> {
         name: &'a str,
         /// Its value.
         value: &'a str,
+        /// The text as written, when white space around it was removed at load.
+        written: Option<&'a str>,
         /// Where it was written.
         place: Place,
     },

@@ -147,7 +147,11 @@ impl<'a> Evaluator<'a> {
                     .lists
                     .get(list.index())
                     .ok_or_else(|| Unevaluated::internal("a list id outside the rulebook"))?;
-                Ok(binary_finding(list.contains(&text) != *negated, text))
+                let near_match = list.near_match(&text);
+                Ok(Checked {
+                    near_match,
+                    ..binary_finding(list.contains(&text) != *negated, text)
+                })
             }
             TestKind::Matches {
                 subject,
@@ -271,6 +275,7 @@ impl<'a> Evaluator<'a> {
             finding: numeric.1,
             numeric: Some(numeric.0),
             observed: None,
+            near_match: None,
         })
     }
 
@@ -325,6 +330,7 @@ impl<'a> Evaluator<'a> {
                 finding: f,
                 numeric: Some(numeric),
                 observed: None,
+                near_match: None,
             };
             if worst.as_ref().is_none_or(|w| rank(&candidate) < rank(w)) {
                 worst = Some(candidate);
@@ -436,9 +442,10 @@ impl<'a> Evaluator<'a> {
                 let name = m.name.as_str();
                 match declaration.supplied(id.index()) {
                     None => lines.push(Trace::Missing { name }),
-                    Some(Supplied::Text(value, place)) => lines.push(Trace::Text {
+                    Some(Supplied::Text(value, place, written)) => lines.push(Trace::Text {
                         name,
                         value,
+                        written: written.as_deref(),
                         place: *place,
                     }),
                     Some(Supplied::Single(id)) => lines.push(Trace::Input(*id)),
@@ -530,5 +537,6 @@ fn binary_finding(holds: bool, observed: String) -> Checked {
         finding: if holds { Finding::Pass } else { Finding::Fail },
         numeric: None,
         observed: Some(observed),
+        near_match: None,
     }
 }

@@ -215,8 +215,9 @@ pub enum Supplied {
     Single(InputId),
     /// One number per cylinder, cylinder 1 first.
     PerCylinder(Vec<InputId>),
-    /// An identifier or other text, and where it was written.
-    Text(String, Place),
+    /// An identifier or other text, where it was written, and the text as written when white
+    /// space around it was removed at load (`"TVH-2204 "` read as `TVH-2204`).
+    Text(String, Place, Option<String>),
 }
 
 /// A loaded declaration.

@@ -968,9 +968,14 @@ impl ValueSeed<'_> {
         Ok(vec![id])
     }
 
+    /// Supplies a text value with the white space around it removed (a slip of the keyboard
+    /// no tag carries), keeping the text as written when that changed it.
     fn text<E: de::Error>(&self, text: String) -> Result<(), E> {
+        let trimmed = text.trim();
+        let written = (trimmed.len() != text.len()).then(|| text.clone());
+        let value = trimmed.to_string();
         let mut state = self.cx.state.borrow_mut();
-        self.supply(&mut state, Supplied::Text(text, self.place));
+        self.supply(&mut state, Supplied::Text(value, self.place, written));
         Ok(())
     }
 

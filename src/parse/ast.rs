@@ -203,7 +203,7 @@ pub enum ListKind {
     Banned,
 }
 
-/// `approved list NAME "title" ENTRY... end`
+/// `approved list NAME "title" [ignoring case] ENTRY... end`
 #[derive(Clone, Debug)]
 #[derive_where(PartialEq)]
 pub struct PartsList {
@@ -213,6 +213,8 @@ pub struct PartsList {
     pub name: Name,
     /// A title for reports.
     pub title: Option<Text>,
+    /// `ignoring case`: an entry matches a value that differs from it only in case.
+    pub ignore_case: bool,
     /// Exact identifiers and patterns.
     pub entries: Vec<ListEntry>,
     /// The whole item.

@@ -160,7 +160,8 @@ fn define(input: Input) -> PResult<Define> {
     ))
 }
 
-/// `list = ( "approved" | "banned" ) "list" identifier [ string ] { entry [ "," ] } "end"`
+/// `list = ( "approved" | "banned" ) "list" identifier [ string ] [ "ignoring" "case" ]
+///         { entry [ "," ] } "end"`
 /// `entry = string | pattern`
 fn parts_list(input: Input) -> PResult<PartsList> {
     let (start, _) = ws(input)?;
@@ -170,7 +171,9 @@ fn parts_list(input: Input) -> PResult<PartsList> {
     ))
     .parse(start)?;
     let (rest, (_, name)) = cut((keyword("list"), identifier)).parse(rest)?;
-    let (mut rest, title) = opt(string).parse(rest)?;
+    let (rest, title) = opt(string).parse(rest)?;
+    let (mut rest, ignoring) = opt((keyword("ignoring"), cut(keyword("case")))).parse(rest)?;
+    let ignore_case = ignoring.is_some();
     let mut entries = Vec::new();
     loop {
         if let Ok((after, _)) = keyword("end").parse(rest) {
@@ -181,6 +184,7 @@ fn parts_list(input: Input) -> PResult<PartsList> {
                     kind,
                     name,
                     title,
+                    ignore_case,
                     entries,
                     span,
                 },

@@ -192,6 +192,8 @@ const KEYWORD_LABELS: &[(&str, &str)] = &[
     ("not", "`not`"),
     ("in", "`in`"),
     ("matches", "`matches`"),
+    ("ignoring", "`ignoring`"),
+    ("case", "`case` (after `ignoring`)"),
 ];
 
 /// A punctuation symbol such as `=`, `(`, `<=`.

@@ -67,9 +67,14 @@ fn item_text(out: &mut String, item: &Item) {
                 out,
                 0,
                 &format!(
-                    "{kind} list {}{}",
+                    "{kind} list {}{}{}",
                     list.name.text,
-                    title_suffix(&list.title)
+                    title_suffix(&list.title),
+                    if list.ignore_case {
+                        " ignoring case"
+                    } else {
+                        ""
+                    }
                 ),
             );
             for entry in &list.entries {

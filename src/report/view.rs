@@ -14,7 +14,7 @@ use serde::Serialize;
 
 use super::format::{Digits, margin_digits, probability, quantity, with_uncertainty};
 use crate::check::builtins::Reduce;
-use crate::check::model::{Derived, Origin, ValueKind};
+use crate::check::model::{Derived, Origin, Slip, ValueKind};
 use crate::check::resolved::{Expr, ExprKind, Term, TestKind};
 use crate::evaluate::finding::{Finding, Verdict};
 use crate::evaluate::outcome::{Applies, EngineReport, EngineResult, Numeric, Outcome, Trace};
@@ -181,8 +181,11 @@ pub enum InputValue {
     },
     /// A text measurement.
     Text {
-        /// The text.
+        /// The text, white space around it removed.
         value: String,
+        /// The text as written, when white space around it was removed at load.
+        #[serde(skip_serializing_if = "Option::is_none")]
+        written: Option<String>,
     },
 }
 
@@ -350,6 +353,9 @@ pub struct RuleView {
     pub numeric: Option<NumberView>,
     /// For text, membership and equality tests, the value seen.
     pub observed: Option<String>,
+    /// For a membership test, the exact entry a value not on the list nearly matches.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub near_match: Option<NearMatchView>,
     /// Measurements it needs that are missing.
     pub missing: Vec<String>,
     /// True when the value it tests could not be computed: a value outside the domain of a
@@ -370,6 +376,19 @@ pub struct RuleView {
     pub shows_finding: bool,
     /// Every input and derived value it reads, by id.
     pub trace: Vec<TraceRef>,
+}
+
+/// The exact entry of a list a value not on it nearly matches: the finding stands, and the
+/// inspector reads the tag again before anyone acts on it.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct NearMatchView {
+    /// The entry as the rulebook writes it.
+    pub entry: String,
+    /// How the value differs from it.
+    pub slip: Slip,
+    /// `TVH-2204 (differs only in case)`.
+    #[serde(skip)]
+    pub words: String,
 }
 
 /// A value outside the domain of the formula or operation that needed it, in the units of its
@@ -660,7 +679,17 @@ impl EngineView {
                         uncertainty_shown,
                         ..
                     } => (written.clone(), Some(uncertainty_shown.clone())),
-                    InputValue::Text { value } => (format!("\"{value}\""), None),
+                    InputValue::Text {
+                        value,
+                        written: None,
+                    } => (format!("\"{value}\""), None),
+                    InputValue::Text {
+                        value,
+                        written: Some(w),
+                    } => (
+                        format!("\"{value}\" (written \"{w}\": white space around it removed)"),
+                        None,
+                    ),
                 };
                 Some(TraceLine::Values {
                     label: input.label.clone(),
@@ -680,7 +709,7 @@ impl InputView {
     fn as_written(&self) -> String {
         match &self.value {
             InputValue::Number { written, .. } => written.clone(),
-            InputValue::Text { value } => format!("\"{value}\""),
+            InputValue::Text { value, .. } => format!("\"{value}\""),
         }
     }
 
@@ -695,7 +724,7 @@ impl InputView {
                 .strip_suffix(u)
                 .map_or(written.as_str(), str::trim_end),
             InputValue::Number { written, .. } => written,
-            InputValue::Text { value } => value,
+            InputValue::Text { value, .. } => value,
         }
     }
 }
@@ -727,6 +756,13 @@ impl RuleView {
                 .and_then(|c| c.numeric.as_ref())
                 .map(|n| number_view(n, subject_reading(o, r, n), limits_written(o, n), r)),
             observed: checked.and_then(|c| c.observed.clone()),
+            near_match: checked
+                .and_then(|c| c.near_match.as_ref())
+                .map(|n| NearMatchView {
+                    entry: n.entry.clone(),
+                    slip: n.slip,
+                    words: format!("{} ({})", n.entry, n.slip.words()),
+                }),
             missing: o.missing.clone(),
             not_finite: o.not_finite,
             outside_domain: o
@@ -865,6 +901,15 @@ impl RuleView {
                 code: Some(observed.clone()),
                 text: String::new(),
             }));
+        }
+        if let Some(near) = &self.near_match {
+            lines.push(fact(
+                "nearly matches",
+                format!(
+                    "{}: not on the list as written; read the tag again",
+                    near.words
+                ),
+            ));
         }
         let Some(n) = &self.numeric else { return };
         let s = &n.shown;
@@ -1207,7 +1252,12 @@ impl Book {
     ) -> TraceRef {
         match t {
             Trace::Input(id) => TraceRef::Input(self.number(*id, r)),
-            Trace::Text { name, value, place } => {
+            Trace::Text {
+                name,
+                value,
+                written,
+                place,
+            } => {
                 let origin = format!("{}.{name}", place.key());
                 let next = self.inputs.len();
                 let id = *self.texts.entry(origin.clone()).or_insert(next);
@@ -1220,6 +1270,7 @@ impl Book {
                         measurement: None,
                         value: InputValue::Text {
                             value: value.to_string(),
+                            written: written.map(str::to_string),
                         },
                     });
                 }
