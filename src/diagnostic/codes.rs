@@ -334,6 +334,14 @@ pub mod load {
     pub const IDENTICAL_READINGS: Code = Code::new(Stage::Load, 30, "identical-readings");
     /// `D31 too-deep`
     pub const TOO_DEEP: Code = Code::new(Stage::Load, 31, "too-deep");
+    /// `D32 unknown-reason`
+    pub const UNKNOWN_REASON: Code = Code::new(Stage::Load, 32, "unknown-reason");
+    /// `D33 no-reference`
+    pub const NO_REFERENCE: Code = Code::new(Stage::Load, 33, "no-reference");
+    /// `D34 bad-scope`
+    pub const BAD_SCOPE: Code = Code::new(Stage::Load, 34, "bad-scope");
+    /// `D35 bad-seal`
+    pub const BAD_SEAL: Code = Code::new(Stage::Load, 35, "bad-seal");
 }
 
 /// Codes of comparing editions and fields.
@@ -485,6 +493,10 @@ pub const ALL: &[Code] = &[
     load::YAML_UNSUPPORTED,
     load::IDENTICAL_READINGS,
     load::TOO_DEEP,
+    load::UNKNOWN_REASON,
+    load::NO_REFERENCE,
+    load::BAD_SCOPE,
+    load::BAD_SEAL,
     analyze::DIFFERENT_SERIES,
     analyze::NOTHING_TO_COMPARE,
     write::OUTPUT_IS_INPUT,

@@ -28,6 +28,10 @@ pub enum KeyKind {
     Value,
     /// An instrument's `resolution`, `uncertainty`, `k`.
     Instrument,
+    /// `inspection:`, its `seals:` and `reason: {other: …}`.
+    Inspection,
+    /// One seal's `number` and `at`.
+    Seal,
 }
 
 impl KeyKind {
@@ -39,6 +43,8 @@ impl KeyKind {
             KeyKind::Component => "a component",
             KeyKind::Value => "a value key",
             KeyKind::Instrument => "an instrument key",
+            KeyKind::Inspection => "an inspection key",
+            KeyKind::Seal => "a seal key",
         }
     }
 }
@@ -74,6 +80,40 @@ pub enum CoverageAt {
     Literal,
     /// As an instrument's `k:`.
     Key,
+}
+
+/// What is wrong with an entry of `inspection.scope`.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub enum ScopeFault {
+    /// Text that is not a section number like `6.2`.
+    NotASection {
+        /// As written.
+        written: String,
+    },
+    /// A YAML decimal number, whose trailing zeros YAML has already lost (`6.10` is `6.1`).
+    Decimal {
+        /// As YAML read it.
+        read: String,
+    },
+    /// An empty list: a scope that inspects nothing.
+    Empty,
+    /// A section listed twice.
+    Twice {
+        /// The section.
+        section: String,
+    },
+}
+
+/// What is wrong with a seal of `inspection.seals`.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub enum SealFault {
+    /// A seal without its number.
+    NoNumber,
+    /// A seal number listed twice in the same list.
+    Twice {
+        /// The number.
+        number: String,
+    },
 }
 
 /// One thing wrong with a declaration.
@@ -272,6 +312,22 @@ pub enum LoadError {
         /// The deepest nesting allowed.
         limit: usize,
     },
+    /// An inspection reason gonogo does not know.
+    UnknownReason {
+        /// As written.
+        written: String,
+        /// The known reason nearest to it.
+        suggestion: Option<&'static str>,
+    },
+    /// A protest or a claim without its reference.
+    NoReference {
+        /// `protest` or `claim`.
+        reason: &'static str,
+    },
+    /// A bad entry of `inspection.scope`.
+    BadScope(ScopeFault),
+    /// A bad seal.
+    BadSeal(SealFault),
 }
 
 impl LoadError {
@@ -312,6 +368,10 @@ impl LoadError {
             LoadError::TooMany { .. } => codes::load::TOO_MANY,
             LoadError::IdenticalReadings { .. } => codes::load::IDENTICAL_READINGS,
             LoadError::TooDeep { .. } => codes::load::TOO_DEEP,
+            LoadError::UnknownReason { .. } => codes::load::UNKNOWN_REASON,
+            LoadError::NoReference { .. } => codes::load::NO_REFERENCE,
+            LoadError::BadScope(_) => codes::load::BAD_SCOPE,
+            LoadError::BadSeal(_) => codes::load::BAD_SEAL,
         }
     }
 
@@ -444,6 +504,26 @@ impl LoadError {
             LoadError::TooDeep { limit } => {
                 format!("brackets are nested more than {limit} deep")
             }
+            LoadError::UnknownReason { written, .. } => {
+                format!("`{written}` is not a reason for an inspection gonogo knows")
+            }
+            LoadError::NoReference { reason } => {
+                format!("a {reason} needs its `reference`")
+            }
+            LoadError::BadScope(fault) => match fault {
+                ScopeFault::NotASection { written } => {
+                    format!("`{written}` is not a section number")
+                }
+                ScopeFault::Decimal { read } => {
+                    format!("this section is a YAML number, which YAML reads as {read}")
+                }
+                ScopeFault::Empty => "the scope lists no section".to_string(),
+                ScopeFault::Twice { section } => format!("section {section} is listed twice"),
+            },
+            LoadError::BadSeal(SealFault::NoNumber) => "this seal has no number".to_string(),
+            LoadError::BadSeal(SealFault::Twice { number }) => {
+                format!("seal `{number}` is listed twice")
+            }
         }
     }
 
@@ -486,6 +566,13 @@ impl LoadError {
             | LoadError::TooMany { .. } => "here".to_string(),
             LoadError::IdenticalReadings { .. } => "no spread".to_string(),
             LoadError::TooDeep { limit } => format!("level {}", limit + 1),
+            LoadError::UnknownReason { .. } => "unknown reason".to_string(),
+            LoadError::NoReference { .. } => "no reference".to_string(),
+            LoadError::BadScope(ScopeFault::Twice { .. }) => "listed again here".to_string(),
+            LoadError::BadScope(ScopeFault::Empty) => "empty".to_string(),
+            LoadError::BadScope(_) => "not a section".to_string(),
+            LoadError::BadSeal(SealFault::NoNumber) => "no number".to_string(),
+            LoadError::BadSeal(SealFault::Twice { .. }) => "listed again here".to_string(),
         }
     }
 
@@ -618,6 +705,38 @@ impl LoadError {
                 "a declaration needs a list of values at most, like `values: [\"4.030 in\", \"4.031 in\"]`; look for brackets left open"
                     .to_string()
             }
+            LoadError::UnknownReason { suggestion, .. } => match suggestion {
+                Some(near) => format!("did you mean `{near}`?"),
+                None => format!(
+                    "the reasons are {}, or `{{other: \"why\"}}`",
+                    backticked(&REASON_WORDS.map(str::to_string))
+                ),
+            },
+            LoadError::NoReference { .. } => {
+                "add `reference:` with the number the officials gave it, like `reference: \"PR-27-11\"`"
+                    .to_string()
+            }
+            LoadError::BadScope(fault) => match fault {
+                ScopeFault::NotASection { .. } => {
+                    "write section numbers as in the rulebook, like `scope: [\"5\", \"6.2\"]`"
+                        .to_string()
+                }
+                ScopeFault::Decimal { .. } => {
+                    "quote it, so it is read as written: `scope: [\"5\", \"6.10\"]`".to_string()
+                }
+                ScopeFault::Empty => {
+                    "list the sections inspected, or leave `scope` out to inspect every rule"
+                        .to_string()
+                }
+                ScopeFault::Twice { .. } => "list each section once".to_string(),
+            },
+            LoadError::BadSeal(SealFault::NoNumber) => {
+                "write the number stamped on it, like `{number: \"S-04417\", at: \"intake, front left bolt\"}`"
+                    .to_string()
+            }
+            LoadError::BadSeal(SealFault::Twice { .. }) => {
+                "list each seal once; check the number against the seal".to_string()
+            }
         }
     }
 
@@ -647,6 +766,9 @@ impl LoadError {
         LoadError::Yaml { message }
     }
 }
+
+/// The reasons for an inspection, as a declaration writes them (`other` takes its own text).
+pub const REASON_WORDS: [&str; 4] = ["after-feature", "protest", "claim", "random-draw"];
 
 /// The merge key of YAML, `<<`, which declarations do not use.
 pub const MERGE_KEY: &str = "<<";

@@ -19,6 +19,7 @@ use super::declaration::{
     UncertaintySource,
 };
 use super::error::{CoverageAt, KeyKind, LoadError, MERGE_KEY, Twice, YamlFeature};
+use super::inspection::InspectionSeed;
 use super::path::DeclPath;
 use super::reading::{Reading, read_instrument_quantity, read_number, read_text};
 use super::repeated::{TypeA, combine};
@@ -37,6 +38,7 @@ pub const TOP_KEYS: &[&str] = &[
     "instruments",
     "measurements",
     "components",
+    "inspection",
     "notes",
 ];
 
@@ -102,7 +104,7 @@ pub struct Context<'a> {
 }
 
 impl Context<'_> {
-    fn refuse<E: de::Error>(&self, path: &DeclPath, error: LoadError) -> E {
+    pub(super) fn refuse<E: de::Error>(&self, path: &DeclPath, error: LoadError) -> E {
         self.collector.refuse(path, error)
     }
 }
@@ -169,6 +171,11 @@ impl<'de> Visitor<'de> for DeclarationSeed<'_> {
                     component: None,
                 })?,
                 "components" => map.next_value_seed(ComponentsSeed { cx, path })?,
+                "inspection" => {
+                    let inspection = map.next_value_seed(InspectionSeed { cx, path })?;
+                    cx.state.borrow_mut().declaration.inspection =
+                        inspection.flatten().unwrap_or_default();
+                }
                 "notes" => {
                     map.next_value::<IgnoredAny>()?;
                 }
@@ -197,7 +204,7 @@ fn set_identity(identity: &mut Identity, field: &str, text: Option<String>) {
 }
 
 /// The keys one mapping may have: how to find one, and all of them for "did you mean".
-trait Keys {
+pub(super) trait Keys {
     /// The key's position, if it is one.
     fn find(&self, key: &str) -> Option<usize>;
     /// Every key, in order.
@@ -210,7 +217,7 @@ trait Keys {
 }
 
 /// A fixed set of keys.
-struct Fixed(&'static [&'static str]);
+pub(super) struct Fixed(pub(super) &'static [&'static str]);
 
 impl Keys for Fixed {
     fn find(&self, key: &str) -> Option<usize> {
@@ -285,12 +292,12 @@ impl Keys for MeasurementKeys<'_> {
 
 /// A mapping key that must be one of `keys` and appear once; gives its position, or `None`
 /// for a key to skip.
-struct KeySeed<'s, 'a> {
-    cx: Context<'a>,
-    parent: &'s DeclPath,
-    keys: &'s dyn Keys,
-    seen: &'s mut Vec<bool>,
-    kind: KeyKind,
+pub(super) struct KeySeed<'s, 'a> {
+    pub(super) cx: Context<'a>,
+    pub(super) parent: &'s DeclPath,
+    pub(super) keys: &'s dyn Keys,
+    pub(super) seen: &'s mut Vec<bool>,
+    pub(super) kind: KeyKind,
 }
 
 impl<'de> DeserializeSeed<'de> for KeySeed<'_, '_> {
@@ -345,9 +352,9 @@ impl<'de> Visitor<'de> for KeySeed<'_, '_> {
 }
 
 /// A scalar read as text (strings and numbers alike); empty gives `None`.
-struct TextSeed<'a> {
-    cx: Context<'a>,
-    path: DeclPath,
+pub(super) struct TextSeed<'a> {
+    pub(super) cx: Context<'a>,
+    pub(super) path: DeclPath,
 }
 
 impl<'de> DeserializeSeed<'de> for TextSeed<'_> {

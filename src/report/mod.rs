@@ -11,6 +11,7 @@ pub mod joint;
 pub mod json;
 pub mod markdown;
 pub mod montecarlo;
+pub mod provenance;
 pub mod sheet;
 pub mod text;
 pub mod units;
