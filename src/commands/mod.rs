@@ -12,6 +12,7 @@ pub mod headroom;
 pub mod impact;
 pub mod lint;
 pub mod sheet;
+pub mod sides;
 pub mod units;
 
 use crate::check::model::CheckedRulebook;

@@ -344,6 +344,20 @@ pub mod analyze {
     pub const DIFFERENT_SERIES: Code = Code::new(Stage::Analyze, 1, "different-series");
     /// `A02 nothing-to-compare`
     pub const NOTHING_TO_COMPARE: Code = Code::new(Stage::Analyze, 2, "nothing-to-compare");
+    /// `A13 draft-not-bulletins`
+    pub const DRAFT_NOT_BULLETINS: Code = Code::new(Stage::Analyze, 13, "draft-not-bulletins");
+    /// `A14 bad-date-option`
+    pub const BAD_DATE_OPTION: Code = Code::new(Stage::Analyze, 14, "bad-date-option");
+    /// `A15 draft-not-in-force`
+    pub const DRAFT_NOT_IN_FORCE: Code = Code::new(Stage::Analyze, 15, "draft-not-in-force");
+    /// `A16 sweep-unknown-rule`
+    pub const SWEEP_UNKNOWN_RULE: Code = Code::new(Stage::Analyze, 16, "sweep-unknown-rule");
+    /// `A17 sweep-not-a-limit`
+    pub const SWEEP_NOT_A_LIMIT: Code = Code::new(Stage::Analyze, 17, "sweep-not-a-limit");
+    /// `A18 sweep-bad-range`
+    pub const SWEEP_BAD_RANGE: Code = Code::new(Stage::Analyze, 18, "sweep-bad-range");
+    /// `A19 sweep-empty-field`
+    pub const SWEEP_EMPTY_FIELD: Code = Code::new(Stage::Analyze, 19, "sweep-empty-field");
 }
 
 /// Codes of writing the output and naming the inputs.
@@ -487,6 +501,13 @@ pub const ALL: &[Code] = &[
     load::TOO_DEEP,
     analyze::DIFFERENT_SERIES,
     analyze::NOTHING_TO_COMPARE,
+    analyze::DRAFT_NOT_BULLETINS,
+    analyze::BAD_DATE_OPTION,
+    analyze::DRAFT_NOT_IN_FORCE,
+    analyze::SWEEP_UNKNOWN_RULE,
+    analyze::SWEEP_NOT_A_LIMIT,
+    analyze::SWEEP_BAD_RANGE,
+    analyze::SWEEP_EMPTY_FIELD,
     write::OUTPUT_IS_INPUT,
     write::OUTPUT_READ_ONLY,
     write::OUTPUT_NOT_A_FILE,
