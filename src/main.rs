@@ -149,6 +149,40 @@ enum Command {
         #[arg(long, value_enum, default_value_t = ImpactFormat::Text)]
         format: ImpactFormat,
     },
+    /// For an official: one numeric rule swept over candidate limits across a field; how many
+    /// engines each leaves legal, conditional and illegal.
+    Sweep {
+        /// The rulebook.
+        #[arg(long)]
+        rules: PathBuf,
+        /// The class.
+        #[arg(long)]
+        class: String,
+        /// The rule's section number.
+        #[arg(long)]
+        rule: String,
+        /// The first candidate limit, in the unit the rule writes its limit in.
+        #[arg(long, allow_negative_numbers = true)]
+        from: f64,
+        /// The last candidate limit.
+        #[arg(long, allow_negative_numbers = true)]
+        to: f64,
+        /// How many candidates, evenly spaced, both ends included.
+        #[arg(long, default_value_t = 11)]
+        steps: usize,
+        /// The share of the field, in per cent, the chosen candidate must keep legal.
+        #[arg(long, default_value_t = 90.0)]
+        keep: f64,
+        /// Whose decision rule to apply (the rulebook's by default).
+        #[arg(long = "as", value_enum)]
+        role: Option<Role>,
+        /// Output format.
+        #[arg(long, value_enum, default_value_t = gonogo::report::sweep::SweepFormat::Text)]
+        format: gonogo::report::sweep::SweepFormat,
+        /// Engine declarations, or folders of them (searched recursively).
+        #[arg(required = true)]
+        declarations: Vec<PathBuf>,
+    },
     /// For a builder: the margin on each numeric rule, and how far each input may move before
     /// the limit is reached.
     Headroom {
@@ -475,6 +509,35 @@ fn run(cli: Cli) -> Exit {
                 format,
             ))
         }
+        Command::Sweep {
+            rules,
+            class,
+            rule,
+            from,
+            to,
+            steps,
+            keep,
+            role,
+            format,
+            declarations,
+        } => {
+            let Ok(declarations) = reply.walk_field(&declarations) else {
+                return Exit::BadInput;
+            };
+            let request = gonogo::commands::sweep::SweepRequest {
+                rules: &rules,
+                class: &class,
+                section: &rule,
+                from,
+                to,
+                steps,
+                share: keep / 100.0,
+                role,
+                declarations: &declarations,
+                format,
+            };
+            done(gonogo::commands::sweep::run(&request))
+        }
         Command::Explain {
             rules,
             class,
@@ -514,6 +577,11 @@ fn stdin_at_most_once(command: &Command) -> Result<(), Problem> {
             ..
         }
         | Command::Headroom {
+            rules,
+            declarations,
+            ..
+        }
+        | Command::Sweep {
             rules,
             declarations,
             ..

@@ -151,6 +151,21 @@ pub const PAGES: &[Notes] = &[
         environment: &[],
     },
     Notes {
+        name: "sweep",
+        exit: DOCUMENT_OR_REFUSAL,
+        examples: &[
+            Example {
+                command: "gonogo sweep --rules rulebooks-demo/tamsin-2027.rules --class street_stock --rule 3.3 --from 9.0 --to 10.0 engines-demo/",
+                what: "the street-stock compression limit from 9.0 to 10.0, in 11 candidates",
+            },
+            Example {
+                command: "gonogo sweep --rules season.rules --class limited2 --rule 3.2 --from 4.030 --to 4.040 --keep 95 --format html --output bore.html field/",
+                what: "the picture, and the tightest limit keeping 95 % legal",
+            },
+        ],
+        environment: &[],
+    },
+    Notes {
         name: "headroom",
         exit: DOCUMENT_OR_REFUSAL,
         examples: &[

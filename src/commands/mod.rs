@@ -13,6 +13,7 @@ pub mod impact;
 pub mod lint;
 pub mod sheet;
 pub mod sides;
+pub mod sweep;
 pub mod units;
 
 use crate::check::model::CheckedRulebook;

@@ -12,6 +12,7 @@ pub mod json;
 pub mod markdown;
 pub mod montecarlo;
 pub mod sheet;
+pub mod sweep;
 pub mod text;
 pub mod units;
 pub mod view;
