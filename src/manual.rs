@@ -132,6 +132,10 @@ pub const PAGES: &[Notes] = &[
                 command: "gonogo diff --class limited2 --format markdown old.rules new.rules",
                 what: "one class, as Markdown",
             },
+            Example {
+                command: "gonogo diff --old-on 2027-06-01 --new-on 2027-07-01 season.rules season.rules",
+                what: "what the bulletins between two dates changed",
+            },
         ],
         environment: &[],
     },
@@ -146,6 +150,10 @@ pub const PAGES: &[Notes] = &[
             Example {
                 command: "gonogo impact --as builder --format markdown old.rules new.rules season/",
                 what: "under the builder's decision rule, as Markdown",
+            },
+            Example {
+                command: "gonogo impact --with-bulletin draft.rules --format html season.rules season.rules season/",
+                what: "a draft bulletin tried on the field before it is issued, as a page for the meeting",
             },
         ],
         environment: &[],
