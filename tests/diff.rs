@@ -310,3 +310,30 @@ fn one_edition_on_two_dates_shows_the_bulletins_between() {
     .unwrap_or_else(|e| panic!("{e}"));
     assert!(out.trim_end().ends_with("no change"), "{out}");
 }
+
+#[test]
+fn a_draft_bulletin_is_shown_as_what_it_would_change() {
+    let draft =
+        std::env::temp_dir().join(format!("gonogo-{}-diff-draft.rules", std::process::id()));
+    let text = "bulletin \"TVB-27-09\" \"Draft\"\n  effective 2027-08-02 amends limited2\n  override rule 5.3 \"Net valve lift\"\n    require net_lift <= 0.480 in\n  end\nend\n";
+    std::fs::write(&draft, text).unwrap_or_else(|e| panic!("{e}"));
+    let request = SideRequest {
+        draft: Some(&draft),
+        ..SideRequest::default()
+    };
+    let out = diff::run(
+        Path::new(OLD),
+        Path::new(OLD),
+        None,
+        request,
+        DiffFormat::Text,
+    );
+    let _ = std::fs::remove_file(&draft);
+    let out = out.unwrap_or_else(|e| panic!("{e}"));
+    // only the draft differs: TVB-27-04 (June) is in force on both sides on the draft's date
+    assert!(!out.contains("TVB-27-04 of edition"), "{out}");
+    let limited2 = out.split("class limited2").nth(1).unwrap_or_default();
+    assert!(limited2.contains(
+        "bulletin TVB-27-09 (draft) of edition 2027, in force from 2027-08-02\n    5.3 Net valve lift: tightened, limit 0.49 in → 0.48 in"
+    ), "{out}");
+}
