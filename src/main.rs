@@ -39,6 +39,35 @@ struct Cli {
     command: Command,
 }
 
+/// The dates each edition is taken on, and a draft bulletin (`diff`, `impact`).
+#[derive(clap::Args, Clone, Debug, Default)]
+struct SideArgs {
+    /// Take both editions on this date: each with the bulletins in force by then.
+    #[arg(long, value_name = "DATE")]
+    on: Option<String>,
+    /// Take the old edition on this date (default: with every bulletin it has, or as
+    /// published when both are one edition).
+    #[arg(long, value_name = "DATE")]
+    old_on: Option<String>,
+    /// Take the new edition on this date (default: as published, or on a draft's date).
+    #[arg(long, value_name = "DATE")]
+    new_on: Option<String>,
+    /// Add this draft bulletin (a file of `bulletin … end` items) to the new edition.
+    #[arg(long, value_name = "FILE")]
+    with_bulletin: Option<PathBuf>,
+}
+
+impl SideArgs {
+    /// The request, `--on` standing for whichever of `--old-on` and `--new-on` is not given.
+    fn request(&self) -> gonogo::commands::sides::SideRequest<'_> {
+        gonogo::commands::sides::SideRequest {
+            old_on: self.old_on.as_deref().or(self.on.as_deref()),
+            new_on: self.new_on.as_deref().or(self.on.as_deref()),
+            draft: self.with_bulletin.as_deref(),
+        }
+    }
+}
+
 #[derive(Subcommand)]
 enum Command {
     /// Check engine declarations against a class: a verdict for every rule, with its reasons.
@@ -90,6 +119,8 @@ enum Command {
         /// Only this class.
         #[arg(long)]
         class: Option<String>,
+        #[command(flatten)]
+        sides: SideArgs,
         /// Output format.
         #[arg(long, value_enum, default_value_t = DiffFormat::Text)]
         format: DiffFormat,
@@ -109,9 +140,48 @@ enum Command {
         /// Whose decision rule to apply (the new edition's by default).
         #[arg(long = "as", value_enum)]
         role: Option<Role>,
+        #[command(flatten)]
+        sides: SideArgs,
+        /// List every engine, not only those that became illegal or close to a limit.
+        #[arg(long)]
+        all: bool,
         /// Output format.
         #[arg(long, value_enum, default_value_t = ImpactFormat::Text)]
         format: ImpactFormat,
+    },
+    /// For an official: one numeric rule swept over candidate limits across a field; how many
+    /// engines each leaves legal, conditional and illegal.
+    Sweep {
+        /// The rulebook.
+        #[arg(long)]
+        rules: PathBuf,
+        /// The class.
+        #[arg(long)]
+        class: String,
+        /// The rule's section number.
+        #[arg(long)]
+        rule: String,
+        /// The first candidate limit, in the unit the rule writes its limit in.
+        #[arg(long, allow_negative_numbers = true)]
+        from: f64,
+        /// The last candidate limit.
+        #[arg(long, allow_negative_numbers = true)]
+        to: f64,
+        /// How many candidates, evenly spaced, both ends included.
+        #[arg(long, default_value_t = 11)]
+        steps: usize,
+        /// The share of the field, in per cent, the chosen candidate must keep legal.
+        #[arg(long, default_value_t = 90.0)]
+        keep: f64,
+        /// Whose decision rule to apply (the rulebook's by default).
+        #[arg(long = "as", value_enum)]
+        role: Option<Role>,
+        /// Output format.
+        #[arg(long, value_enum, default_value_t = gonogo::report::sweep::SweepFormat::Text)]
+        format: gonogo::report::sweep::SweepFormat,
+        /// Engine declarations, or folders of them (searched recursively).
+        #[arg(required = true)]
+        declarations: Vec<PathBuf>,
     },
     /// For a builder: the margin on each numeric rule, and how far each input may move before
     /// the limit is reached.
@@ -389,19 +459,37 @@ fn run(cli: Cli) -> Exit {
             old,
             new,
             class,
+            sides,
             format,
-        } => done(diff::run(&old, &new, class.as_deref(), format)),
+        } => done(diff::run(
+            &old,
+            &new,
+            class.as_deref(),
+            sides.request(),
+            format,
+        )),
         Command::Impact {
             old,
             new,
             declarations,
             role,
+            sides,
+            all,
             format,
         } => {
             let Ok(declarations) = reply.walk_field(&declarations) else {
                 return Exit::BadInput;
             };
-            done(impact::run(&old, &new, &declarations, role, format))
+            let request = impact::ImpactRequest {
+                old: &old,
+                new: &new,
+                declarations: &declarations,
+                role,
+                sides: sides.request(),
+                all,
+                format,
+            };
+            done(impact::run(&request))
         }
         Command::Headroom {
             rules,
@@ -420,6 +508,35 @@ fn run(cli: Cli) -> Exit {
                 &declarations,
                 format,
             ))
+        }
+        Command::Sweep {
+            rules,
+            class,
+            rule,
+            from,
+            to,
+            steps,
+            keep,
+            role,
+            format,
+            declarations,
+        } => {
+            let Ok(declarations) = reply.walk_field(&declarations) else {
+                return Exit::BadInput;
+            };
+            let request = gonogo::commands::sweep::SweepRequest {
+                rules: &rules,
+                class: &class,
+                section: &rule,
+                from,
+                to,
+                steps,
+                share: keep / 100.0,
+                role,
+                declarations: &declarations,
+                format,
+            };
+            done(gonogo::commands::sweep::run(&request))
         }
         Command::Explain {
             rules,
@@ -463,6 +580,11 @@ fn stdin_at_most_once(command: &Command) -> Result<(), Problem> {
             rules,
             declarations,
             ..
+        }
+        | Command::Sweep {
+            rules,
+            declarations,
+            ..
         } => std::iter::once(rules)
             .chain(declarations)
             .map(PathBuf::as_path)
@@ -471,13 +593,21 @@ fn stdin_at_most_once(command: &Command) -> Result<(), Problem> {
             old,
             new,
             declarations,
+            sides,
             ..
         } => [old, new]
             .into_iter()
+            .chain(&sides.with_bulletin)
             .chain(declarations)
             .map(PathBuf::as_path)
             .collect(),
-        Command::Diff { old, new, .. } => vec![old, new],
+        Command::Diff {
+            old, new, sides, ..
+        } => [old, new]
+            .into_iter()
+            .chain(&sides.with_bulletin)
+            .map(PathBuf::as_path)
+            .collect(),
         Command::Lint { files, .. } => files.iter().map(PathBuf::as_path).collect(),
         Command::Explain { rules, .. } | Command::Sheet { rules, .. } => vec![rules],
         Command::Fmt { file } => vec![file],

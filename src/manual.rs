@@ -132,6 +132,10 @@ pub const PAGES: &[Notes] = &[
                 command: "gonogo diff --class limited2 --format markdown old.rules new.rules",
                 what: "one class, as Markdown",
             },
+            Example {
+                command: "gonogo diff --old-on 2027-06-01 --new-on 2027-07-01 season.rules season.rules",
+                what: "what the bulletins between two dates changed",
+            },
         ],
         environment: &[],
     },
@@ -146,6 +150,25 @@ pub const PAGES: &[Notes] = &[
             Example {
                 command: "gonogo impact --as builder --format markdown old.rules new.rules season/",
                 what: "under the builder's decision rule, as Markdown",
+            },
+            Example {
+                command: "gonogo impact --with-bulletin draft.rules --format html season.rules season.rules season/",
+                what: "a draft bulletin tried on the field before it is issued, as a page for the meeting",
+            },
+        ],
+        environment: &[],
+    },
+    Notes {
+        name: "sweep",
+        exit: DOCUMENT_OR_REFUSAL,
+        examples: &[
+            Example {
+                command: "gonogo sweep --rules rulebooks-demo/tamsin-2027.rules --class street_stock --rule 3.3 --from 9.0 --to 10.0 engines-demo/",
+                what: "the street-stock compression limit from 9.0 to 10.0, in 11 candidates",
+            },
+            Example {
+                command: "gonogo sweep --rules season.rules --class limited2 --rule 3.2 --from 4.030 --to 4.040 --keep 95 --format html --output bore.html field/",
+                what: "the picture, and the tightest limit keeping 95 % legal",
             },
         ],
         environment: &[],

@@ -4,13 +4,21 @@
 use std::path::Path;
 
 use gonogo::commands::diff;
+use gonogo::commands::sides::SideRequest;
 use gonogo::report::diff::DiffFormat;
 
 const OLD: &str = "rulebooks-demo/tamsin-2027.rules";
 const NEW: &str = "rulebooks-demo/tamsin-2028.rules";
 
 fn demo(format: DiffFormat) -> String {
-    diff::run(Path::new(OLD), Path::new(NEW), None, format).unwrap_or_else(|e| panic!("{e}"))
+    diff::run(
+        Path::new(OLD),
+        Path::new(NEW),
+        None,
+        SideRequest::default(),
+        format,
+    )
+    .unwrap_or_else(|e| panic!("{e}"))
 }
 
 #[test]
@@ -76,7 +84,13 @@ fn reformatting_is_no_change() {
     let path =
         std::env::temp_dir().join(format!("gonogo-{}-reformatted.rules", std::process::id()));
     std::fs::write(&path, canonical).unwrap_or_else(|e| panic!("{e}"));
-    let result = diff::run(Path::new(original), &path, None, DiffFormat::Text);
+    let result = diff::run(
+        Path::new(original),
+        &path,
+        None,
+        SideRequest::default(),
+        DiffFormat::Text,
+    );
     let _ = std::fs::remove_file(&path);
     let out = result.unwrap_or_else(|e| panic!("{e}"));
     assert!(out.trim_end().ends_with("no change"), "{out}");
@@ -88,6 +102,7 @@ fn two_series_cannot_be_compared() {
         Path::new(OLD),
         Path::new("grammar/examples/minimal.rules"),
         None,
+        SideRequest::default(),
         DiffFormat::Text,
     )
     .err()
@@ -122,7 +137,7 @@ fn diff_of(old_rules: &[&str], new_rules: &[&str]) -> String {
         path
     };
     let (old, new) = (book("2027", old_rules), book("2028", new_rules));
-    let result = diff::run(&old, &new, None, DiffFormat::Text);
+    let result = diff::run(&old, &new, None, SideRequest::default(), DiffFormat::Text);
     let _ = std::fs::remove_file(&old);
     let _ = std::fs::remove_file(&new);
     result.unwrap_or_else(|e| panic!("{e}"))
@@ -212,4 +227,113 @@ fn a_rule_whose_decision_rule_changed_is_reported() {
     );
     assert!(!out.contains("1.3 Rule 3"), "{out}");
     assert!(!out.contains("1.4 Rule 4"), "{out}");
+}
+
+#[test]
+fn the_2027_to_2028_diff_names_what_tvb_27_04_did_and_what_lapses() {
+    let doc: serde_json::Value =
+        serde_json::from_str(&demo(DiffFormat::Json)).unwrap_or_else(|e| panic!("{e}"));
+    assert_eq!(doc["old_side"], "every bulletin");
+    let rules = doc["rules"].as_array().cloned().unwrap_or_default();
+    let limited2 = |section: &str| {
+        rules
+            .iter()
+            .find(|r| r["class"] == "limited2" && r["section"] == section)
+            .cloned()
+    };
+    // 5.3 was already 0.490 in under TVB-27-04: not a change of edition in limited2
+    assert!(limited2("5.3").is_none(), "{rules:?}");
+    let lapsed = limited2("4.8").unwrap_or_default();
+    assert_eq!(
+        (lapsed["change"].as_str(), lapsed["lapses"].as_str()),
+        (Some("dropped"), Some("TVB-27-04"))
+    );
+    let steps = doc["bulletin_steps"]
+        .as_array()
+        .cloned()
+        .unwrap_or_default();
+    let step = steps
+        .iter()
+        .find(|s| s["class"] == "limited2")
+        .cloned()
+        .unwrap_or_default();
+    assert_eq!(step["bulletins"][0], "TVB-27-04");
+    assert_eq!(step["effective"], "2027-06-14");
+    let lift = step["rules"].as_array().cloned().unwrap_or_default();
+    let lift = lift
+        .iter()
+        .find(|r| r["section"] == "5.3")
+        .cloned()
+        .unwrap_or_default();
+    assert_eq!(lift["change"], "loosened");
+    assert_eq!(
+        (lift["old_limit"][0].as_f64(), lift["new_limit"][0].as_f64()),
+        (Some(0.48), Some(0.49))
+    );
+}
+
+#[test]
+fn one_edition_on_two_dates_shows_the_bulletins_between() {
+    let before_and_after = SideRequest {
+        old_on: Some("2027-06-01"),
+        new_on: Some("2027-07-01"),
+        draft: None,
+    };
+    let out = diff::run(
+        Path::new(OLD),
+        Path::new(OLD),
+        None,
+        before_and_after,
+        DiffFormat::Text,
+    )
+    .unwrap_or_else(|e| panic!("{e}"));
+    assert!(
+        out.contains("bulletin TVB-27-04 of edition 2027, in force from 2027-06-14"),
+        "{out}"
+    );
+    assert!(
+        out.contains("5.3 Net valve lift: loosened, limit 0.48 in → 0.49 in"),
+        "{out}"
+    );
+    let same_day = SideRequest {
+        old_on: Some("2027-07-01"),
+        new_on: Some("2027-07-01"),
+        draft: None,
+    };
+    let out = diff::run(
+        Path::new(OLD),
+        Path::new(OLD),
+        None,
+        same_day,
+        DiffFormat::Text,
+    )
+    .unwrap_or_else(|e| panic!("{e}"));
+    assert!(out.trim_end().ends_with("no change"), "{out}");
+}
+
+#[test]
+fn a_draft_bulletin_is_shown_as_what_it_would_change() {
+    let draft =
+        std::env::temp_dir().join(format!("gonogo-{}-diff-draft.rules", std::process::id()));
+    let text = "bulletin \"TVB-27-09\" \"Draft\"\n  effective 2027-08-02 amends limited2\n  override rule 5.3 \"Net valve lift\"\n    require net_lift <= 0.480 in\n  end\nend\n";
+    std::fs::write(&draft, text).unwrap_or_else(|e| panic!("{e}"));
+    let request = SideRequest {
+        draft: Some(&draft),
+        ..SideRequest::default()
+    };
+    let out = diff::run(
+        Path::new(OLD),
+        Path::new(OLD),
+        None,
+        request,
+        DiffFormat::Text,
+    );
+    let _ = std::fs::remove_file(&draft);
+    let out = out.unwrap_or_else(|e| panic!("{e}"));
+    // only the draft differs: TVB-27-04 (June) is in force on both sides on the draft's date
+    assert!(!out.contains("TVB-27-04 of edition"), "{out}");
+    let limited2 = out.split("class limited2").nth(1).unwrap_or_default();
+    assert!(limited2.contains(
+        "bulletin TVB-27-09 (draft) of edition 2027, in force from 2027-08-02\n    5.3 Net valve lift: tightened, limit 0.49 in → 0.48 in"
+    ), "{out}");
 }

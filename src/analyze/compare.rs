@@ -3,11 +3,18 @@
 //! compared by value after unit conversion, so `360 ci` to `5.9 L` is seen for what it is.
 //! Formatting and order of the rulebook text are not changes: the comparison works on the
 //! checked rulebooks and their canonical texts.
+//!
+//! Each side is an edition on a date ([`When`]): the bulletins in force by then are applied.
+//! What each bulletin changes is set out as a step of its own ([`BulletinStep`]), so a limit a
+//! bulletin already moved mid-season is not reported again as the new edition's change, and a
+//! rule the bulletin brought in that the new edition does not carry forward is said to lapse.
 
 use crate::check::interval::{End, Interval};
 use crate::check::limit::SideKind;
-use crate::check::model::{CheckedRulebook, ClassRule, Measurement, PartEntry, ValueKind};
-use crate::parse::ast::{Expr, ExprKind};
+use crate::check::model::{
+    CheckedRulebook, Class, ClassRule, Measurement, Origin, PartEntry, ValueKind,
+};
+use crate::parse::ast::{Date, Expr, ExprKind};
 use crate::units::{self, Unit};
 
 /// What happened to one rule.
@@ -62,6 +69,63 @@ pub struct RuleDiff {
     /// (`simple acceptance, this rule's own` → `guarded rejection, the rulebook's`). A change of
     /// the rulebook's decision rule alone is [`EditionDiff::decision`].
     pub decision: Option<(String, String)>,
+    /// The bulletin whose version of the rule the new edition does not carry forward: the
+    /// old side's rule came from it, and the new edition drops or changes it.
+    pub lapses: Option<String>,
+}
+
+/// Which of an edition's rules a side takes.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum When {
+    /// As published, on its effective date: no later bulletin.
+    Published,
+    /// On this date: every bulletin in force by then.
+    On(Date),
+    /// With every bulletin it has.
+    Latest,
+}
+
+impl When {
+    /// Whether a bulletin effective `from` is in force.
+    fn admits(self, from: Date) -> bool {
+        match self {
+            When::Published => false,
+            When::On(d) => from <= d,
+            When::Latest => true,
+        }
+    }
+
+    /// The rules of `class` in force, and the bulletins applied.
+    pub fn rules(self, class: &Class) -> (&[ClassRule], &[String]) {
+        match class.amended.iter().rev().find(|a| self.admits(a.from)) {
+            Some(a) => (&a.rules, &a.bulletins),
+            None => (&class.rules, &class.edition_bulletins),
+        }
+    }
+
+    /// `as published`, `on 2027-07-01`, `with every bulletin`.
+    pub fn words(self) -> String {
+        match self {
+            When::Published => "as published".to_string(),
+            When::On(d) => format!("on {d}"),
+            When::Latest => "with every bulletin".to_string(),
+        }
+    }
+}
+
+/// What the bulletins coming into force on one date change in one class of one edition.
+#[derive(Clone, Debug)]
+pub struct BulletinStep {
+    /// The class.
+    pub class: String,
+    /// The edition the bulletins belong to.
+    pub edition: String,
+    /// The date they come into force.
+    pub from: String,
+    /// The bulletins that come into force then.
+    pub bulletins: Vec<String>,
+    /// The rules they change, each against the rules in force just before.
+    pub rules: Vec<RuleDiff>,
 }
 
 /// What happened to one measurement of the schema.
@@ -107,8 +171,16 @@ pub struct EditionDiff {
     pub bulletins: (Vec<String>, Vec<String>),
     /// Classes only in the old edition, and only in the new.
     pub classes: (Vec<String>, Vec<String>),
-    /// Rule changes, class by class in the new edition's order.
+    /// Rule changes from the old side to the new edition, class by class in the new
+    /// edition's order (none when both sides are one edition).
     pub rules: Vec<RuleDiff>,
+    /// What the old edition's bulletins in force on the old side changed, in date order.
+    pub old_steps: Vec<BulletinStep>,
+    /// What the new edition's bulletins in force on the new side changed (for one edition
+    /// on two dates: the bulletins between the dates).
+    pub new_steps: Vec<BulletinStep>,
+    /// Which rules each side takes.
+    pub sides: (When, When),
 }
 
 /// Why two rulebooks cannot be compared.
@@ -118,10 +190,28 @@ pub enum Incomparable {
     DifferentSeries(String, String),
 }
 
-/// Compares two editions, limited to one class when `class` is given.
+/// Compares two editions as published, limited to one class when `class` is given.
 pub fn compare(
     old: &CheckedRulebook,
     new: &CheckedRulebook,
+    class: Option<&str>,
+) -> Result<EditionDiff, Incomparable> {
+    compare_on(old, new, (When::Published, When::Published), class)
+}
+
+/// Whether two checked rulebooks are one edition (the same name and effective date).
+pub fn same_edition(a: &CheckedRulebook, b: &CheckedRulebook) -> bool {
+    a.edition == b.edition && a.effective == b.effective
+}
+
+/// Compares the old edition taken `sides.0` with the new taken `sides.1`. Between two
+/// editions: the old edition's bulletin steps, the change to the new edition as published
+/// (marking what lapses), then the new edition's bulletin steps. One edition on two sides:
+/// the bulletin steps after the old side's date, up to the new side's.
+pub fn compare_on(
+    old: &CheckedRulebook,
+    new: &CheckedRulebook,
+    sides: (When, When),
     class: Option<&str>,
 ) -> Result<EditionDiff, Incomparable> {
     if old.series != new.series {
@@ -139,10 +229,23 @@ pub fn compare(
     };
     let (old_classes, new_classes) = (names(old), names(new));
     let mut rules = Vec::new();
+    let (mut old_steps, mut new_steps) = (Vec::new(), Vec::new());
+    let one_edition = same_edition(old, new);
     for name in new_classes.iter().filter(|n| old_classes.contains(n)) {
-        if let (Some(o), Some(n)) = (old.class(name), new.class(name)) {
-            rules.extend(class_rules(old, new, name, &o.rules, &n.rules));
+        let (Some(o), Some(n)) = (old.class(name), new.class(name)) else {
+            continue;
+        };
+        if one_edition {
+            let (_, known) = sides.0.rules(o);
+            new_steps.extend(steps(new, n, known, sides.1));
+            continue;
         }
+        old_steps.extend(steps(old, o, &[], sides.0));
+        let (before, _) = sides.0.rules(o);
+        let mut changes = class_rules(old, new, name, before, &n.rules);
+        mark_lapses(&mut changes, before);
+        rules.extend(changes);
+        new_steps.extend(steps(new, n, &[], sides.1));
     }
     let ids =
         |b: &CheckedRulebook| -> Vec<String> { b.bulletins.iter().map(|x| x.id.clone()).collect() };
@@ -161,7 +264,52 @@ pub fn compare(
             only_in(&new_classes, &old_classes),
         ),
         rules,
+        old_steps,
+        new_steps,
+        sides,
     })
+}
+
+/// The bulletin steps of `class` in force `until` that bring a bulletin not in `known`, each
+/// compared with the rules in force just before it.
+fn steps(
+    book: &CheckedRulebook,
+    class: &Class,
+    known: &[String],
+    until: When,
+) -> Vec<BulletinStep> {
+    let mut out = Vec::new();
+    let (mut rules, mut applied): (&[ClassRule], &[String]) =
+        (&class.rules, &class.edition_bulletins);
+    for a in class.amended.iter().filter(|a| until.admits(a.from)) {
+        let bulletins: Vec<String> = only_in(&a.bulletins, applied);
+        if bulletins.iter().any(|b| !known.contains(b)) {
+            out.push(BulletinStep {
+                class: class.name.clone(),
+                edition: book.edition.clone(),
+                from: a.from.to_string(),
+                rules: class_rules(book, book, &class.name, rules, &a.rules),
+                bulletins,
+            });
+        }
+        (rules, applied) = (&a.rules, &a.bulletins);
+    }
+    out
+}
+
+/// Marks each change whose old rule a bulletin wrote: the new edition does not carry that
+/// bulletin's version forward.
+fn mark_lapses(changes: &mut [RuleDiff], old: &[ClassRule]) {
+    for c in changes.iter_mut().filter(|c| c.change != RuleChange::Added) {
+        let section = c.renumbered_from.as_deref().unwrap_or(&c.section);
+        if let Some(Origin::Bulletin(b)) = old
+            .iter()
+            .find(|r| r.rule.section.text == section)
+            .map(|r| &r.origin)
+        {
+            c.lapses = Some(b.clone());
+        }
+    }
 }
 
 fn only_in(a: &[String], b: &[String]) -> Vec<String> {
@@ -252,6 +400,7 @@ fn rule_diff(
         limits,
         notes: Vec::new(),
         decision: None,
+        lapses: None,
     }
 }
 

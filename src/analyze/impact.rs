@@ -1,8 +1,10 @@
-//! What a change of edition does to a field of engines: every declaration checked under both
-//! editions, each as published on its effective date (whatever date the declaration carries,
-//! since the question is what the change does to these engines), and the rules whose verdict
-//! differs, with the margin under each.
+//! What a change of rules does to a field of engines: every declaration checked under both
+//! sides, each side an edition taken on a date ([`When`]: as published, with the bulletins in
+//! force by a date, or with every bulletin), whatever date the declaration carries, since the
+//! question is what the change does to these engines; and the rules whose verdict differs,
+//! with the margin under each.
 
+use crate::analyze::compare::When;
 use crate::check::model::CheckedRulebook;
 use crate::evaluate::check_against;
 use crate::evaluate::finding::{Finding, Verdict};
@@ -39,6 +41,14 @@ pub struct Changed {
     pub old: Option<Call>,
     /// Under the new edition.
     pub new: Option<Call>,
+}
+
+impl Changed {
+    /// Illegal on the new side and not on the old.
+    pub fn newly_illegal(&self) -> bool {
+        let illegal = |c: &Option<Call>| c.as_ref().is_some_and(|c| c.verdict == Verdict::Illegal);
+        illegal(&self.new) && !illegal(&self.old)
+    }
 }
 
 /// The impact of a change of edition on a field.
@@ -139,10 +149,11 @@ pub struct Engine<'a> {
     pub class: &'a str,
 }
 
-/// Checks every engine under both editions and collects what differs.
+/// Checks every engine under both sides (each edition taken as its [`When`] says) and
+/// collects what differs.
 pub fn impact(
-    old: &CheckedRulebook,
-    new: &CheckedRulebook,
+    (old, old_when): (&CheckedRulebook, When),
+    (new, new_when): (&CheckedRulebook, When),
     engines: &[Engine],
     decision: Option<DecisionRule>,
 ) -> Impact {
@@ -151,22 +162,10 @@ pub fn impact(
         let (Some(old_class), Some(new_class)) = (old.class(e.class), new.class(e.class)) else {
             continue;
         };
-        let was = check_against(
-            old,
-            old_class,
-            &old_class.rules,
-            &old_class.edition_bulletins,
-            e.old,
-            decision,
-        );
-        let is = check_against(
-            new,
-            new_class,
-            &new_class.rules,
-            &new_class.edition_bulletins,
-            e.new,
-            decision,
-        );
+        let (old_rules, old_bulletins) = old_when.rules(old_class);
+        let (new_rules, new_bulletins) = new_when.rules(new_class);
+        let was = check_against(old, old_class, old_rules, old_bulletins, e.old, decision);
+        let is = check_against(new, new_class, new_rules, new_bulletins, e.new, decision);
         out.engines += 1;
         compare_engine(&was, &is, &mut out);
     }

@@ -6,3 +6,4 @@
 pub mod compare;
 pub mod headroom;
 pub mod impact;
+pub mod sweep;

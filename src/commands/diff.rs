@@ -2,19 +2,26 @@
 
 use std::path::Path;
 
-use super::{Failure, different_series, load_editions};
-use crate::analyze::compare::{Incomparable, compare};
+use super::Failure;
+use super::different_series;
+use super::sides::{SideRequest, load_sides};
+use crate::analyze::compare::{Incomparable, compare_on};
 use crate::report::diff::{DiffFormat, render};
 use crate::suggest::{ClassScope, UnknownClass, class_names};
 
-/// The comparison of `old` and `new`, or the problems that prevent it.
+/// The comparison of `old` and `new`, each on its side's date (a draft bulletin added to
+/// `new` when `sides` names one), or the problems that prevent it.
 pub fn run(
     old: &Path,
     new: &Path,
     class: Option<&str>,
+    sides: SideRequest,
     format: DiffFormat,
 ) -> Result<String, Failure> {
-    let (old_book, new_book) = load_editions(old, new)?;
+    let loaded = load_sides(old, new, sides)?;
+    let whens = (loaded.old.when, loaded.new.when);
+    let drafts = loaded.draft.map(|d| d.ids).unwrap_or_default();
+    let (old_book, new_book) = (loaded.old.book, loaded.new.book);
     if let Some(name) = class
         && old_book.class(name).is_none()
         && new_book.class(name).is_none()
@@ -28,8 +35,8 @@ pub fn run(
         let unknown = UnknownClass::new(name, ClassScope::EitherEdition, known);
         return Err(Failure::one(unknown.problem(None)));
     }
-    match compare(&old_book, &new_book, class) {
-        Ok(diff) => Ok(render(&diff, format)),
+    match compare_on(&old_book, &new_book, whens, class) {
+        Ok(diff) => Ok(render(&diff, &drafts, format)),
         Err(Incomparable::DifferentSeries(x, y)) => Err(Failure::one(different_series(&x, &y))),
     }
 }

@@ -1,10 +1,13 @@
-//! `gonogo impact`: a field of engines checked under two editions; whose verdicts change.
+//! `gonogo impact`: a field of engines checked under two sides (an edition on a date, perhaps
+//! with a draft bulletin); whose verdicts change.
 
 use crate::diagnostic::codes;
 use std::path::PathBuf;
 
+use super::Failure;
 use super::check::{Role, class_of, declaration_files};
-use super::{Failure, load_editions};
+use super::sides::{SideRequest, Sides, load_sides};
+use crate::analyze::compare::When;
 use crate::analyze::impact::{Engine, impact};
 use crate::check::model::CheckedRulebook;
 use crate::diagnostic::Problem;
@@ -12,25 +15,36 @@ use crate::load::{Declaration, LoadProblem, load_declaration};
 use crate::report::impact::{Heading, ImpactFormat, render};
 use crate::source::SourceMap;
 
+/// What `impact` was asked.
+pub struct ImpactRequest<'a> {
+    /// The old edition.
+    pub old: &'a std::path::Path,
+    /// The new edition.
+    pub new: &'a std::path::Path,
+    /// Declarations and folders of them, already walked.
+    pub declarations: &'a [PathBuf],
+    /// Whose decision rule, when not the rulebook's.
+    pub role: Option<Role>,
+    /// The dates each edition is taken on, and a draft bulletin.
+    pub sides: SideRequest<'a>,
+    /// Every row, not only the engines that became illegal or close.
+    pub all: bool,
+    /// The output format.
+    pub format: ImpactFormat,
+}
+
+/// The declarations of a field, each read under both editions, and the files that could not
+/// be (with why). The one place the field is gathered.
+pub type Field = (
+    Vec<(Declaration, Declaration, String)>,
+    Vec<(String, String)>,
+);
+
 /// The impact report, or the problems when nothing could be compared (exit 2).
-pub fn run(
-    old: &std::path::Path,
-    new: &std::path::Path,
-    named: &[PathBuf],
-    role: Option<Role>,
-    format: ImpactFormat,
-) -> Result<String, Failure> {
-    let (old_book, new_book) = load_editions(old, new)?;
-    let (old_book, new_book) = (&old_book, &new_book);
-    let files = declaration_files(named).map_err(Failure::one)?;
-    let mut loaded: Vec<(Declaration, Declaration, String)> = Vec::new();
-    let mut unreadable: Vec<(String, String)> = Vec::new();
-    for path in &files {
-        match load_both(path, old_book, new_book) {
-            Ok(both) => loaded.push(both),
-            Err(why) => unreadable.push((path.display().to_string(), why)),
-        }
-    }
+pub fn run(request: &ImpactRequest) -> Result<String, Failure> {
+    let sides = load_sides(request.old, request.new, request.sides)?;
+    let (old_book, new_book) = (&sides.old.book, &sides.new.book);
+    let (loaded, unreadable) = gather_field(request.declarations, old_book, new_book)?;
     if loaded.is_empty() {
         let list: Vec<String> = unreadable
             .iter()
@@ -55,15 +69,55 @@ pub fn run(
             class: c,
         })
         .collect();
-    let decision = role.map(Role::decision);
-    let result = impact(old_book, new_book, &engines, decision);
+    let decision = request.role.map(Role::decision);
+    let result = impact(
+        (old_book, sides.old.when),
+        (new_book, sides.new.when),
+        &engines,
+        decision,
+    );
+    let (old_label, new_label) = labels(&sides);
     let heading = Heading {
         series: &new_book.series,
-        old: &old_book.edition,
-        new: &new_book.edition,
+        old: &old_label,
+        new: &new_label,
         decision: decision.unwrap_or(new_book.decision).words(),
+        all: request.all,
     };
-    Ok(render(&heading, &result, &unreadable, format))
+    Ok(render(&heading, &result, &unreadable, request.format))
+}
+
+/// Every declaration named, read under both editions.
+fn gather_field(
+    named: &[PathBuf],
+    old: &CheckedRulebook,
+    new: &CheckedRulebook,
+) -> Result<Field, Failure> {
+    let files = declaration_files(named).map_err(Failure::one)?;
+    let mut loaded = Vec::new();
+    let mut unreadable = Vec::new();
+    for path in &files {
+        match load_both(path, old, new) {
+            Ok(both) => loaded.push(both),
+            Err(why) => unreadable.push((path.display().to_string(), why)),
+        }
+    }
+    Ok((loaded, unreadable))
+}
+
+/// `edition 2027 with its bulletins`, `edition 2027 on 2027-07-01 with draft TVB-27-09`.
+fn labels(sides: &Sides) -> (String, String) {
+    let side = |book: &CheckedRulebook, when: When| match when {
+        When::Published => format!("edition {} as published", book.edition),
+        When::Latest if book.bulletins.is_empty() => format!("edition {}", book.edition),
+        When::Latest => format!("edition {} with its bulletins", book.edition),
+        When::On(d) => format!("edition {} on {d}", book.edition),
+    };
+    let mut new = side(&sides.new.book, sides.new.when);
+    if let Some(d) = &sides.draft {
+        new.push_str(&format!(" with draft {}", d.ids.join(", ")));
+    }
+    (side(&sides.old.book, sides.old.when), new)
 }
 
 /// Every problem of a declaration on one line each, with its line and column and code:

@@ -12,6 +12,8 @@ pub mod headroom;
 pub mod impact;
 pub mod lint;
 pub mod sheet;
+pub mod sides;
+pub mod sweep;
 pub mod units;
 
 use crate::check::model::CheckedRulebook;

@@ -352,6 +352,20 @@ pub mod analyze {
     pub const DIFFERENT_SERIES: Code = Code::new(Stage::Analyze, 1, "different-series");
     /// `A02 nothing-to-compare`
     pub const NOTHING_TO_COMPARE: Code = Code::new(Stage::Analyze, 2, "nothing-to-compare");
+    /// `A03 draft-not-bulletins`
+    pub const DRAFT_NOT_BULLETINS: Code = Code::new(Stage::Analyze, 3, "draft-not-bulletins");
+    /// `A04 bad-date-option`
+    pub const BAD_DATE_OPTION: Code = Code::new(Stage::Analyze, 4, "bad-date-option");
+    /// `A05 draft-not-in-force`
+    pub const DRAFT_NOT_IN_FORCE: Code = Code::new(Stage::Analyze, 5, "draft-not-in-force");
+    /// `A06 sweep-unknown-rule`
+    pub const SWEEP_UNKNOWN_RULE: Code = Code::new(Stage::Analyze, 6, "sweep-unknown-rule");
+    /// `A07 sweep-not-a-limit`
+    pub const SWEEP_NOT_A_LIMIT: Code = Code::new(Stage::Analyze, 7, "sweep-not-a-limit");
+    /// `A08 sweep-bad-range`
+    pub const SWEEP_BAD_RANGE: Code = Code::new(Stage::Analyze, 8, "sweep-bad-range");
+    /// `A09 sweep-empty-field`
+    pub const SWEEP_EMPTY_FIELD: Code = Code::new(Stage::Analyze, 9, "sweep-empty-field");
 }
 
 /// Codes of writing the output and naming the inputs.
@@ -499,6 +513,13 @@ pub const ALL: &[Code] = &[
     load::BAD_SEAL,
     analyze::DIFFERENT_SERIES,
     analyze::NOTHING_TO_COMPARE,
+    analyze::DRAFT_NOT_BULLETINS,
+    analyze::BAD_DATE_OPTION,
+    analyze::DRAFT_NOT_IN_FORCE,
+    analyze::SWEEP_UNKNOWN_RULE,
+    analyze::SWEEP_NOT_A_LIMIT,
+    analyze::SWEEP_BAD_RANGE,
+    analyze::SWEEP_EMPTY_FIELD,
     write::OUTPUT_IS_INPUT,
     write::OUTPUT_READ_ONLY,
     write::OUTPUT_NOT_A_FILE,

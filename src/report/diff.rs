@@ -1,12 +1,14 @@
 //! The report of `gonogo diff`: what changed between two editions, as text, Markdown or JSON
 //! (schema `gonogo.diff/1`). Limits compared across units are shown in the old limit's unit.
+//! A class whose bulletins changed it is set out step by step: each bulletin's changes under
+//! its name and date, then the change of edition, with what lapses.
 
 use std::fmt::Write;
 
 use serde::Serialize;
 
 use super::format::quantity;
-use crate::analyze::compare::{EditionDiff, Limits, RuleChange, RuleDiff};
+use crate::analyze::compare::{BulletinStep, EditionDiff, Limits, RuleChange, RuleDiff, When};
 
 /// Output formats of `diff`.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, clap::ValueEnum)]
@@ -19,12 +21,12 @@ pub enum DiffFormat {
     Json,
 }
 
-/// Renders the comparison.
-pub fn render(diff: &EditionDiff, format: DiffFormat) -> String {
+/// Renders the comparison; `drafts` names the bulletins that are drafts, not yet issued.
+pub fn render(diff: &EditionDiff, drafts: &[String], format: DiffFormat) -> String {
     match format {
-        DiffFormat::Json => json(diff),
-        DiffFormat::Text => lines(diff, false),
-        DiffFormat::Markdown => lines(diff, true),
+        DiffFormat::Json => json(diff, drafts),
+        DiffFormat::Text => lines(diff, drafts, false),
+        DiffFormat::Markdown => lines(diff, drafts, true),
     }
 }
 
@@ -47,7 +49,13 @@ fn limits_text(l: &Limits) -> String {
     format!("{} → {}", shown(l.old), shown(l.new))
 }
 
-fn rule_line(r: &RuleDiff) -> String {
+fn rule_line(r: &RuleDiff, new_edition: &str) -> String {
+    if let (Some(b), RuleChange::Dropped) = (&r.lapses, r.change) {
+        return format!(
+            "{} {}: lapses (bulletin {b} brought it in; edition {new_edition} does not carry it forward)",
+            r.section, r.title
+        );
+    }
     let renumbered = r
         .renumbered_from
         .as_ref()
@@ -65,20 +73,178 @@ fn rule_line(r: &RuleDiff) -> String {
     if !r.notes.is_empty() {
         text.push_str(&format!(" ({} changed)", r.notes.join(", ")));
     }
+    if let Some(b) = &r.lapses {
+        text.push_str(&format!("; bulletin {b}'s version lapses"));
+    }
     text
 }
 
-fn lines(d: &EditionDiff, markdown: bool) -> String {
-    let mut out = String::new();
-    let (h1, h2, item, sub) = if markdown {
-        ("# ", "\n## ", "- ", "  - ")
+/// How a side's rules are taken, in brackets after its edition, when that is not as published.
+fn side_words(when: When, has_steps: bool) -> String {
+    match when {
+        When::Published => String::new(),
+        When::Latest if !has_steps => String::new(),
+        When::Latest => ", with its bulletins".to_string(),
+        When::On(d) => format!(", on {d}"),
+    }
+}
+
+/// `bulletin TVB-27-04 of edition 2027, in force from 2027-06-14`.
+fn step_heading(s: &BulletinStep, drafts: &[String]) -> String {
+    let names: Vec<String> = s
+        .bulletins
+        .iter()
+        .map(|b| {
+            if drafts.contains(b) {
+                format!("{b} (draft)")
+            } else {
+                b.clone()
+            }
+        })
+        .collect();
+    let word = if names.len() == 1 {
+        "bulletin"
     } else {
-        ("", "\n", "  ", "      ")
+        "bulletins"
+    };
+    format!(
+        "{word} {} of edition {}, in force from {}",
+        names.join(", "),
+        s.edition,
+        s.from
+    )
+}
+
+/// The indents of one level of rule lines: the item and the line under it.
+#[derive(Clone, Copy)]
+struct Indent {
+    item: &'static str,
+    sub: &'static str,
+}
+
+fn rule_lines(out: &mut String, r: &RuleDiff, new_edition: &str, at: &Indent, markdown: bool) {
+    let (item, sub) = (at.item, at.sub);
+    let _ = writeln!(out, "{item}{}", rule_line(r, new_edition));
+    if let (Some(o), Some(n)) = (&r.old, &r.new)
+        && r.change != RuleChange::Tightened
+        && r.change != RuleChange::Loosened
+    {
+        let _ = writeln!(out, "{sub}was {}", code(o, markdown));
+        let _ = writeln!(out, "{sub}now {}", code(n, markdown));
+    } else if let Some(text) = r.new.as_ref().or(r.old.as_ref()) {
+        let _ = writeln!(out, "{sub}{}", code(text, markdown));
+    }
+    if let Some((old, new)) = &r.decision {
+        let _ = writeln!(out, "{sub}decided by {old} → {new}");
+    }
+}
+
+/// The classes named by a rule change or a bulletin step, each once, in order of appearance.
+fn classes_in(d: &EditionDiff) -> Vec<&str> {
+    let mut names: Vec<&str> = Vec::new();
+    let all = d
+        .old_steps
+        .iter()
+        .map(|s| s.class.as_str())
+        .chain(d.rules.iter().map(|r| r.class.as_str()))
+        .chain(d.new_steps.iter().map(|s| s.class.as_str()));
+    for n in all {
+        if !names.contains(&n) {
+            names.push(n);
+        }
+    }
+    names
+}
+
+/// One class: flat when no bulletin changed it, else step by step.
+fn class_section(
+    out: &mut String,
+    d: &EditionDiff,
+    class: &str,
+    drafts: &[String],
+    markdown: bool,
+) {
+    let (h2, h3) = if markdown {
+        ("\n## ", "\n### ")
+    } else {
+        ("\n", "  ")
+    };
+    let _ = writeln!(out, "{h2}class {}", code(class, markdown));
+    let of = |steps: &'_ [BulletinStep]| -> Vec<BulletinStep> {
+        steps.iter().filter(|s| s.class == class).cloned().collect()
+    };
+    let (before, after) = (of(&d.old_steps), of(&d.new_steps));
+    let rules: Vec<&RuleDiff> = d.rules.iter().filter(|r| r.class == class).collect();
+    let flat = if markdown {
+        Indent {
+            item: "- ",
+            sub: "  - ",
+        }
+    } else {
+        Indent {
+            item: "  ",
+            sub: "      ",
+        }
+    };
+    let nested = if markdown {
+        flat
+    } else {
+        Indent {
+            item: "    ",
+            sub: "        ",
+        }
+    };
+    let step = |out: &mut String, s: &BulletinStep| {
+        let _ = writeln!(out, "{h3}{}", step_heading(s, drafts));
+        if s.rules.is_empty() {
+            let _ = writeln!(out, "{}no rule changes", nested.item);
+        }
+        for r in &s.rules {
+            rule_lines(out, r, &d.new.0, &nested, markdown);
+        }
+    };
+    if before.is_empty() && after.is_empty() {
+        for r in rules {
+            rule_lines(out, r, &d.new.0, &flat, markdown);
+        }
+        return;
+    }
+    before.iter().for_each(|s| step(out, s));
+    if !rules.is_empty() {
+        let bulletins: Vec<&str> = before
+            .iter()
+            .flat_map(|s| s.bulletins.iter().map(String::as_str))
+            .collect();
+        let with = if bulletins.is_empty() {
+            String::new()
+        } else {
+            format!(" with {}", bulletins.join(", "))
+        };
+        let _ = writeln!(out, "{h3}edition {}{with} → edition {}", d.old.0, d.new.0);
+        for r in rules {
+            rule_lines(out, r, &d.new.0, &nested, markdown);
+        }
+    }
+    after.iter().for_each(|s| step(out, s));
+}
+
+fn lines(d: &EditionDiff, drafts: &[String], markdown: bool) -> String {
+    let mut out = String::new();
+    let (h1, h2, item) = if markdown {
+        ("# ", "\n## ", "- ")
+    } else {
+        ("", "\n", "  ")
     };
     let _ = writeln!(
         out,
-        "{h1}{}: edition {} (from {}) → edition {} (from {})",
-        d.series, d.old.0, d.old.1, d.new.0, d.new.1
+        "{h1}{}: edition {} (from {}{}) → edition {} (from {}{})",
+        d.series,
+        d.old.0,
+        d.old.1,
+        side_words(d.sides.0, !d.old_steps.is_empty()),
+        d.new.0,
+        d.new.1,
+        side_words(d.sides.1, !d.new_steps.is_empty())
     );
     if let Some((old, new)) = d.decision {
         let _ = writeln!(out, "{h2}decision rule: {old} → {new}");
@@ -132,27 +298,15 @@ fn lines(d: &EditionDiff, markdown: bool) -> String {
     for c in new {
         let _ = writeln!(out, "{h2}class {}: added", code(c, markdown));
     }
-    let mut class = "";
-    for r in &d.rules {
-        if r.class != class {
-            class = &r.class;
-            let _ = writeln!(out, "{h2}class {}", code(class, markdown));
-        }
-        let _ = writeln!(out, "{item}{}", rule_line(r));
-        if let (Some(o), Some(n)) = (&r.old, &r.new)
-            && r.change != RuleChange::Tightened
-            && r.change != RuleChange::Loosened
-        {
-            let _ = writeln!(out, "{sub}was {}", code(o, markdown));
-            let _ = writeln!(out, "{sub}now {}", code(n, markdown));
-        } else if let Some(text) = r.new.as_ref().or(r.old.as_ref()) {
-            let _ = writeln!(out, "{sub}{}", code(text, markdown));
-        }
-        if let Some((old, new)) = &r.decision {
-            let _ = writeln!(out, "{sub}decided by {old} → {new}");
-        }
+    for class in classes_in(d) {
+        class_section(&mut out, d, class, drafts, markdown);
     }
-    if d.rules.is_empty() && d.measurements.is_empty() && d.lists.is_empty() && d.decision.is_none()
+    if d.rules.is_empty()
+        && d.old_steps.is_empty()
+        && d.new_steps.is_empty()
+        && d.measurements.is_empty()
+        && d.lists.is_empty()
+        && d.decision.is_none()
     {
         let _ = writeln!(out, "\nno change");
     }
@@ -181,6 +335,19 @@ struct Document<'a> {
     classes_dropped: &'a [String],
     classes_added: &'a [String],
     rules: Vec<Rule<'a>>,
+    old_side: String,
+    new_side: String,
+    bulletin_steps: Vec<Step<'a>>,
+}
+
+#[derive(Serialize)]
+struct Step<'a> {
+    class: &'a str,
+    edition: &'a str,
+    effective: &'a str,
+    bulletins: &'a [String],
+    draft: bool,
+    rules: Vec<Rule<'a>>,
 }
 
 #[derive(Serialize)]
@@ -203,13 +370,41 @@ struct Rule<'a> {
     new_limit: Option<[Option<f64>; 2]>,
     also_changed: &'a [String],
     decision: Option<[&'a str; 2]>,
+    lapses: Option<&'a str>,
 }
 
-fn json(d: &EditionDiff) -> String {
-    let scale = |l: &Limits, (a, b): (f64, Option<f64>)| {
-        let s = l.unit.map_or(1.0, |u| u.to_si);
-        [Some(a / s), b.map(|b| b / s)]
-    };
+fn scale(l: &Limits, (a, b): (f64, Option<f64>)) -> [Option<f64>; 2] {
+    let s = l.unit.map_or(1.0, |u| u.to_si);
+    [Some(a / s), b.map(|b| b / s)]
+}
+
+fn json_rule(r: &RuleDiff) -> Rule<'_> {
+    Rule {
+        class: &r.class,
+        section: &r.section,
+        renumbered_from: r.renumbered_from.as_deref(),
+        title: &r.title,
+        change: r.change,
+        old: r.old.as_deref(),
+        new: r.new.as_deref(),
+        unit: r.limits.as_ref().and_then(|l| l.unit.map(|u| u.symbol)),
+        old_limit: r.limits.as_ref().map(|l| scale(l, l.old)),
+        new_limit: r.limits.as_ref().map(|l| scale(l, l.new)),
+        also_changed: &r.notes,
+        decision: r.decision.as_ref().map(|(a, b)| [a.as_str(), b.as_str()]),
+        lapses: r.lapses.as_deref(),
+    }
+}
+
+fn side_name(w: When) -> String {
+    match w {
+        When::Published => "published".to_string(),
+        When::Latest => "every bulletin".to_string(),
+        When::On(d) => d.to_string(),
+    }
+}
+
+fn json(d: &EditionDiff, drafts: &[String]) -> String {
     let doc = Document {
         schema: "gonogo.diff/1",
         series: &d.series,
@@ -228,22 +423,20 @@ fn json(d: &EditionDiff) -> String {
         bulletins_added: &d.bulletins.1,
         classes_dropped: &d.classes.0,
         classes_added: &d.classes.1,
-        rules: d
-            .rules
+        rules: d.rules.iter().map(json_rule).collect(),
+        old_side: side_name(d.sides.0),
+        new_side: side_name(d.sides.1),
+        bulletin_steps: d
+            .old_steps
             .iter()
-            .map(|r| Rule {
-                class: &r.class,
-                section: &r.section,
-                renumbered_from: r.renumbered_from.as_deref(),
-                title: &r.title,
-                change: r.change,
-                old: r.old.as_deref(),
-                new: r.new.as_deref(),
-                unit: r.limits.as_ref().and_then(|l| l.unit.map(|u| u.symbol)),
-                old_limit: r.limits.as_ref().map(|l| scale(l, l.old)),
-                new_limit: r.limits.as_ref().map(|l| scale(l, l.new)),
-                also_changed: &r.notes,
-                decision: r.decision.as_ref().map(|(a, b)| [a.as_str(), b.as_str()]),
+            .chain(&d.new_steps)
+            .map(|s| Step {
+                class: &s.class,
+                edition: &s.edition,
+                effective: &s.from,
+                bulletins: &s.bulletins,
+                draft: s.bulletins.iter().any(|b| drafts.contains(b)),
+                rules: s.rules.iter().map(json_rule).collect(),
             })
             .collect(),
     };

@@ -1,7 +1,9 @@
-//! The report of `gonogo impact`: the verdicts a change of edition changes, then counts per
-//! rule and per class, the rules newly inside the uncertainty band, the engines whose overall
-//! result changes, and the files that could not be compared. Text, Markdown or JSON
-//! (schema `gonogo.impact/1`).
+//! The report of `gonogo impact`, leading with the answer: the counts first (verdicts that
+//! change, newly illegal, newly inside the uncertainty band, results that change, then per
+//! rule and per class), then the engines that became illegal or close to a limit, then the
+//! other changed verdicts counted (every row with `--all`), and the files that could not be
+//! compared. Text, Markdown, HTML (the same content, one self-contained page for a meeting)
+//! or JSON (schema `gonogo.impact/1`, every row).
 
 use std::collections::BTreeMap;
 use std::fmt::Write;
@@ -18,6 +20,8 @@ pub enum ImpactFormat {
     Text,
     /// Markdown tables.
     Markdown,
+    /// One self-contained HTML page.
+    Html,
     /// One JSON document (schema `gonogo.impact/1`).
     Json,
 }
@@ -32,6 +36,8 @@ pub struct Heading<'a> {
     pub new: &'a str,
     /// The decision rule applied.
     pub decision: &'static str,
+    /// Every changed row, not only the engines that became illegal or close.
+    pub all: bool,
 }
 
 /// Renders the impact; `unreadable` lists files that could not be compared, with why.
@@ -43,8 +49,9 @@ pub fn render(
 ) -> String {
     match format {
         ImpactFormat::Json => json(h, impact, unreadable),
-        ImpactFormat::Text => text(h, impact, unreadable, false),
-        ImpactFormat::Markdown => text(h, impact, unreadable, true),
+        ImpactFormat::Text => text(h, impact, unreadable, Style::Text),
+        ImpactFormat::Markdown => text(h, impact, unreadable, Style::Markdown),
+        ImpactFormat::Html => page(h, &text(h, impact, unreadable, Style::Html)),
     }
 }
 
@@ -66,8 +73,39 @@ fn call_text(c: &Option<Call>) -> String {
     format!("{}{finding}{margin}", c.verdict.words())
 }
 
-fn table(out: &mut String, header: &[&str], rows: &[Vec<String>], markdown: bool) {
-    if markdown {
+/// How the report's headings and tables are written.
+#[derive(Clone, Copy, PartialEq, Eq)]
+enum Style {
+    Text,
+    Markdown,
+    Html,
+}
+
+fn escape(s: &str) -> String {
+    s.replace('&', "&amp;")
+        .replace('<', "&lt;")
+        .replace('>', "&gt;")
+}
+
+fn table(out: &mut String, header: &[&str], rows: &[Vec<String>], style: Style) {
+    if style == Style::Html {
+        let cells = |tag: &str, r: Vec<&str>| {
+            r.iter()
+                .map(|c| format!("<{tag}>{}</{tag}>", escape(c)))
+                .collect::<String>()
+        };
+        let _ = writeln!(out, "<table><tr>{}</tr>", cells("th", header.to_vec()));
+        for r in rows {
+            let _ = writeln!(
+                out,
+                "<tr>{}</tr>",
+                cells("td", r.iter().map(String::as_str).collect())
+            );
+        }
+        let _ = writeln!(out, "</table>");
+        return;
+    }
+    if style == Style::Markdown {
         let _ = writeln!(out, "| {} |", header.join(" | "));
         let _ = writeln!(out, "|{}|", vec!["---"; header.len()].join("|"));
         for r in rows {
@@ -113,71 +151,147 @@ fn rows_of(changes: &[Changed]) -> Vec<Vec<String>> {
         .collect()
 }
 
-fn text(h: &Heading, impact: &Impact, unreadable: &[(String, String)], markdown: bool) -> String {
-    let mut out = String::new();
-    let head = |title: &str| {
-        if markdown {
-            format!("\n## {title}\n")
-        } else {
-            format!("\n{title}")
+/// Counts of one class or rule: changed verdicts, newly illegal, newly close.
+#[derive(Default)]
+struct Tally {
+    changed: usize,
+    illegal: usize,
+    close: usize,
+}
+
+fn tallies(impact: &Impact) -> (BTreeMap<(String, String), Tally>, BTreeMap<String, Tally>) {
+    let mut by_rule: BTreeMap<(String, String), Tally> = BTreeMap::new();
+    let mut by_class: BTreeMap<String, Tally> = BTreeMap::new();
+    let key = |c: &Changed| (c.class.clone(), format!("{} {}", c.section, c.title));
+    for c in &impact.changed {
+        for t in [
+            by_rule.entry(key(c)).or_default(),
+            by_class.entry(c.class.clone()).or_default(),
+        ] {
+            t.changed += 1;
+            t.illegal += usize::from(c.newly_illegal());
         }
+    }
+    for c in &impact.newly_uncertain {
+        by_rule.entry(key(c)).or_default().close += 1;
+        by_class.entry(c.class.clone()).or_default().close += 1;
+    }
+    (by_rule, by_class)
+}
+
+fn text(h: &Heading, impact: &Impact, unreadable: &[(String, String)], style: Style) -> String {
+    let mut out = String::new();
+    let head = |title: &str| match style {
+        Style::Markdown => format!("\n## {title}\n"),
+        Style::Html => format!("<h2>{title}</h2>"),
+        Style::Text => format!("\n{title}"),
     };
-    let top = if markdown { "# " } else { "" };
-    let _ = writeln!(
-        out,
-        "{top}{}: edition {} → edition {}, on {} (each edition as published; decision rule {})",
+    let line = |out: &mut String, s: String| {
+        let _ = match style {
+            Style::Html => writeln!(out, "<p>{}</p>", escape(&s)),
+            Style::Markdown => writeln!(out, "{}\n", s.trim_start()),
+            Style::Text => writeln!(out, "{s}"),
+        };
+    };
+    let title = format!(
+        "{}: {} → {}, on {} (decision rule {})",
         h.series,
         h.old,
         h.new,
         super::format::count(impact.engines, "engine", "engines"),
         h.decision
     );
-    let old_label = format!("edition {}", h.old);
-    let new_label = format!("edition {}", h.new);
-    let _ = writeln!(out, "{}", head("verdicts that change"));
-    if impact.changed.is_empty() {
-        let _ = writeln!(out, "  none");
-    } else {
-        table(
-            &mut out,
-            &["engine", "class", "rule", &old_label, &new_label],
-            &rows_of(&impact.changed),
-            markdown,
-        );
-    }
-    let mut by_rule: BTreeMap<(String, String), Vec<&str>> = BTreeMap::new();
-    let mut by_class: BTreeMap<String, usize> = BTreeMap::new();
-    for c in &impact.changed {
-        by_rule
-            .entry((c.class.clone(), format!("{} {}", c.section, c.title)))
-            .or_default()
-            .push(&c.engine);
-        *by_class.entry(c.class.clone()).or_default() += 1;
-    }
+    let _ = match style {
+        Style::Markdown => writeln!(out, "# {title}"),
+        Style::Html => writeln!(out, "<h1>{}</h1>", escape(&title)),
+        Style::Text => writeln!(out, "{title}"),
+    };
+    let illegal: Vec<Changed> = impact
+        .changed
+        .iter()
+        .filter(|c| c.newly_illegal())
+        .cloned()
+        .collect();
+    let illegal_engines = distinct(&illegal);
+    let _ = writeln!(out, "{}", head("in short"));
+    let counts = vec![
+        vec![
+            "verdicts that change".to_string(),
+            impact.changed.len().to_string(),
+        ],
+        vec![
+            "newly illegal".to_string(),
+            format!(
+                "{} on {}",
+                super::format::count(illegal.len(), "rule", "rules"),
+                super::format::count(illegal_engines, "engine", "engines")
+            ),
+        ],
+        vec![
+            "newly inside the uncertainty band".to_string(),
+            impact.newly_uncertain.len().to_string(),
+        ],
+        vec![
+            "results that change".to_string(),
+            super::format::count(impact.results.len(), "engine", "engines"),
+        ],
+    ];
+    table(&mut out, &["what", "how many"], &counts, style);
+    let (by_rule, by_class) = tallies(impact);
     if !by_rule.is_empty() {
         let _ = writeln!(out, "{}", head("by rule"));
         let rows: Vec<Vec<String>> = by_rule
             .iter()
-            .map(|((class, rule), engines)| {
-                vec![class.clone(), rule.clone(), engines.len().to_string()]
+            .map(|((class, rule), t)| {
+                vec![
+                    class.clone(),
+                    rule.clone(),
+                    t.changed.to_string(),
+                    t.illegal.to_string(),
+                    t.close.to_string(),
+                ]
             })
             .collect();
-        table(&mut out, &["class", "rule", "engines"], &rows, markdown);
+        table(
+            &mut out,
+            &["class", "rule", "changed", "newly illegal", "newly close"],
+            &rows,
+            style,
+        );
         let _ = writeln!(out, "{}", head("by class"));
         let rows: Vec<Vec<String>> = by_class
             .iter()
-            .map(|(class, n)| vec![class.clone(), n.to_string()])
+            .map(|(class, t)| {
+                vec![
+                    class.clone(),
+                    t.changed.to_string(),
+                    t.illegal.to_string(),
+                    t.close.to_string(),
+                ]
+            })
             .collect();
-        table(&mut out, &["class", "changed verdicts"], &rows, markdown);
-    }
-    if !impact.newly_uncertain.is_empty() {
-        let _ = writeln!(out, "{}", head("newly inside the uncertainty band"));
         table(
             &mut out,
-            &["engine", "class", "rule", &old_label, &new_label],
-            &rows_of(&impact.newly_uncertain),
-            markdown,
+            &["class", "changed", "newly illegal", "newly close"],
+            &rows,
+            style,
         );
+    }
+    let (old_label, new_label) = (h.old.to_string(), h.new.to_string());
+    let header = [
+        "engine",
+        "class",
+        "rule",
+        old_label.as_str(),
+        new_label.as_str(),
+    ];
+    if !illegal.is_empty() {
+        let _ = writeln!(out, "{}", head("became illegal"));
+        table(&mut out, &header, &rows_of(&illegal), style);
+    }
+    if !impact.newly_uncertain.is_empty() {
+        let _ = writeln!(out, "{}", head("close: newly inside the uncertainty band"));
+        table(&mut out, &header, &rows_of(&impact.newly_uncertain), style);
     }
     if !impact.results.is_empty() {
         let _ = writeln!(out, "{}", head("engines whose result changes"));
@@ -190,16 +304,54 @@ fn text(h: &Heading, impact: &Impact, unreadable: &[(String, String)], markdown:
             &mut out,
             &["engine", "class", &old_label, &new_label],
             &rows,
-            markdown,
+            style,
         );
+    }
+    let rest: Vec<Changed> = impact
+        .changed
+        .iter()
+        .filter(|c| !c.newly_illegal())
+        .cloned()
+        .collect();
+    if h.all && !rest.is_empty() {
+        let _ = writeln!(out, "{}", head("every other verdict that changes"));
+        table(&mut out, &header, &rows_of(&rest), style);
+    } else if !rest.is_empty() {
+        line(
+            &mut out,
+            format!(
+                "\n{} other verdicts change, on {}; --all lists every one",
+                rest.len(),
+                super::format::count(distinct(&rest), "engine", "engines")
+            ),
+        );
+    }
+    if impact.changed.is_empty() && impact.newly_uncertain.is_empty() {
+        line(&mut out, "\nno verdict changes".to_string());
     }
     if !unreadable.is_empty() {
         let _ = writeln!(out, "{}", head("could not be compared"));
         for (file, why) in unreadable {
-            let _ = writeln!(out, "  {file}: {why}");
+            line(&mut out, format!("  {file}: {why}"));
         }
     }
     out
+}
+
+/// How many engines the rows name.
+fn distinct(rows: &[Changed]) -> usize {
+    let mut names: Vec<&str> = rows.iter().map(|c| c.engine.as_str()).collect();
+    names.sort_unstable();
+    names.dedup();
+    names.len()
+}
+
+/// The HTML body in one self-contained page: no external file, no script.
+fn page(h: &Heading, body: &str) -> String {
+    format!(
+        "<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n<title>{}: impact</title>\n<style>\nbody {{ font-family: sans-serif; margin: 2em; }}\ntable {{ border-collapse: collapse; margin: 0.5em 0 1em; }}\nth, td {{ border: 1px solid #999; padding: 0.2em 0.6em; text-align: left; }}\nth {{ background: #eee; }}\n</style>\n</head>\n<body>\n{body}</body>\n</html>\n",
+        escape(h.series)
+    )
 }
 
 #[derive(Serialize)]

@@ -13,6 +13,7 @@ pub mod markdown;
 pub mod montecarlo;
 pub mod provenance;
 pub mod sheet;
+pub mod sweep;
 pub mod text;
 pub mod units;
 pub mod view;
