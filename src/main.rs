@@ -451,6 +451,7 @@ fn run(cli: Cli) -> Exit {
                 declarations: &declarations,
                 jobs,
                 monte_carlo: draws.map(|d| (d, seed.unwrap_or(montecarlo::DEFAULT_SEED))),
+                produced: gonogo::report::provenance::produced_now(),
             };
             reply.finish(check::run(&request))
         }

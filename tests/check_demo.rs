@@ -33,6 +33,7 @@ fn run(
         declarations: &declarations,
         jobs: None,
         monte_carlo: None,
+        produced: "2027-05-11T01:46:40Z".to_string(),
     };
     check::run(&request).map_err(|failure| failure.render(RenderStyle::PLAIN))
 }
@@ -170,6 +171,7 @@ fn the_verdicts_of_every_demo_engine() {
         declarations: &declarations,
         jobs: Some(1),
         monte_carlo: None,
+        produced: "2027-05-11T01:46:40Z".to_string(),
     };
     let (json, _) =
         check::run(&request).unwrap_or_else(|e| panic!("{}", e.render(RenderStyle::PLAIN)));

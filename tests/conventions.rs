@@ -18,6 +18,7 @@ fn gonogo_env(args: &[&str], env: &[(&str, &str)]) -> Run {
     command
         .args(args)
         .current_dir(env!("CARGO_MANIFEST_DIR"))
+        .env("SOURCE_DATE_EPOCH", "1810000000") // pins the provenance time: 2027-05-11T01:46:40Z
         .stdin(Stdio::null());
     for var in ["NO_COLOR", "CLICOLOR", "CLICOLOR_FORCE", "TERM"] {
         command.env_remove(var);

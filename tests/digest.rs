@@ -55,3 +55,38 @@ fn each_demo_rulebook_hashes_over_its_files_in_reading_order() {
         );
     }
 }
+
+mod common;
+
+/// Every format of `check` carries the provenance: the version, the same fingerprints as the
+/// hashlib vectors above, and the time `SOURCE_DATE_EPOCH` pins (tests/common sets it to
+/// 1810000000, which GNU `date -u -d @1810000000` prints as 2027-05-11T01:46:40Z).
+#[test]
+fn every_check_report_carries_its_provenance() {
+    let vectors = vectors();
+    let rulebook = vectors["rulebooks"]["rulebooks-demo/tamsin-2027.rules"]
+        .as_str()
+        .unwrap_or("missing");
+    let declaration = vectors["declarations"]["engines-demo/limited2-legal.yaml"]
+        .as_str()
+        .unwrap_or("missing");
+    for format in ["text", "markdown", "html", "json"] {
+        let run = common::gonogo(&[
+            "check",
+            "--format",
+            format,
+            "--rules",
+            "rulebooks-demo/tamsin-2027.rules",
+            "engines-demo/limited2-legal.yaml",
+        ]);
+        assert_eq!(run.code, 0, "{format}: {}", run.stderr);
+        for fact in [
+            rulebook,
+            declaration,
+            "2027-05-11T01:46:40Z",
+            env!("CARGO_PKG_VERSION"),
+        ] {
+            assert!(run.stdout.contains(fact), "{format} lacks {fact}");
+        }
+    }
+}

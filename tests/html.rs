@@ -26,6 +26,7 @@ fn sheet(declaration: &Path) -> String {
         declarations: &declarations,
         jobs: None,
         monte_carlo: None,
+        produced: "2027-05-11T01:46:40Z".to_string(),
     };
     check::run(&request)
         .map(|(html, _)| html)
@@ -76,6 +77,7 @@ fn the_close_bore_markdown_report() {
         declarations: &declarations,
         jobs: None,
         monte_carlo: None,
+        produced: "2027-05-11T01:46:40Z".to_string(),
     };
     let (markdown, _) = check::run(&request).unwrap_or_else(|e| panic!("{e}"));
     assert!(

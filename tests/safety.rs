@@ -30,6 +30,7 @@ impl Gonogo {
             .args(args)
             .current_dir(env!("CARGO_MANIFEST_DIR"))
             .env("NO_COLOR", "1")
+            .env("SOURCE_DATE_EPOCH", "1810000000") // pins the provenance time: 2027-05-11T01:46:40Z
             .stdin(Stdio::null())
             .stdout(Stdio::piped())
             .stderr(Stdio::piped());

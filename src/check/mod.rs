@@ -227,6 +227,7 @@ impl<'a> Checker<'a> {
             )
             .collect();
         Ok(CheckedRulebook {
+            sha256: String::new(),
             series: series.value.clone(),
             edition: edition.name.value.clone(),
             effective: edition.effective.date,

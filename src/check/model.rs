@@ -389,6 +389,9 @@ impl From<ast::CoverageSpec> for Coverage {
 /// A rulebook that passed the static checks.
 #[derive(Clone, Debug)]
 pub struct CheckedRulebook {
+    /// The framed SHA-256 of every file it was read from ([`crate::digest::rulebook_sha256`]),
+    /// set once its files are known; empty for a rulebook checked from a syntax tree alone.
+    pub sha256: String,
     /// The series.
     pub series: String,
     /// The edition's name.

@@ -70,6 +70,9 @@ pub struct CheckRequest<'a> {
     /// A Monte Carlo check of every numeric rule (`--monte-carlo`): how many draws, and the
     /// seed; `None` without one.
     pub monte_carlo: Option<(Draws, u64)>,
+    /// When the report is produced (RFC 3339, UTC), as its provenance states:
+    /// [`crate::report::provenance::produced_now`] for a user's run, a fixed time in tests.
+    pub produced: String,
 }
 
 /// Runs `check`: the report and the exit status, or every problem of every declaration.
@@ -101,6 +104,9 @@ pub fn run(request: &CheckRequest) -> Result<(String, Exit), Failure> {
         parallel::map(&engines, threads, |(declaration, class)| {
             check_engine(&rulebook, &rulebook.classes[*class], declaration, decision)
         });
+    reports
+        .iter_mut()
+        .for_each(|r| r.produced = Some(request.produced.clone()));
     if let Some((draws, seed)) = request.monte_carlo {
         let settings = Settings {
             draws,

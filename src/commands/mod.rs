@@ -41,7 +41,10 @@ pub fn load_rulebook(path: &std::path::Path) -> LoadedRulebook {
     let mut checked = None;
     if !files.files.is_empty() && !problems.iter().any(|p| p.level == Level::Error) {
         let (model, found) = crate::check::check(&files);
-        checked = model;
+        checked = model.map(|mut book| {
+            book.sha256 = crate::digest::rulebook_sha256(&files, &sources);
+            book
+        });
         problems.extend(found);
     }
     LoadedRulebook {

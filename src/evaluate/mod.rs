@@ -55,5 +55,6 @@ pub fn check_against<'a>(
         decision: rule,
         decision_overridden: decision.is_some(),
         outcomes,
+        produced: None,
     }
 }

@@ -285,6 +285,8 @@ pub struct EngineReport<'a> {
     pub decision_overridden: bool,
     /// Each rule, in rulebook order.
     pub outcomes: Vec<Outcome<'a>>,
+    /// When the report was produced (RFC 3339, UTC), set by the command that makes it.
+    pub produced: Option<String>,
 }
 
 impl EngineReport<'_> {

@@ -225,6 +225,8 @@ pub enum Supplied {
 pub struct Declaration {
     /// The file it came from.
     pub path: PathBuf,
+    /// The SHA-256 of its bytes, as `sha256sum` prints it.
+    pub sha256: String,
     /// Who and what.
     pub identity: Identity,
     /// Every scalar input, indexed by [`InputId`].

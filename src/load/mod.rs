@@ -78,6 +78,7 @@ fn read_declaration(
     match read_all(text, id, rulebook) {
         Ok(mut declaration) => {
             declaration.path = path.to_path_buf();
+            declaration.sha256 = crate::digest::sha256_hex(text.as_bytes());
             Ok(declaration)
         }
         Err(mut found) => {

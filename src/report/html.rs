@@ -44,6 +44,7 @@ svg.scale { display: block; margin: .3em 0; }
 ul.trace { margin: .2em 0 .2em 1.2em; padding: 0; font-size: 9pt; }
 .signatures { margin-top: 2.5em; display: flex; gap: 3em; }
 .signatures div { flex: 1; border-top: 1px solid #111; padding-top: .3em; }
+.provenance { margin-top: 1.5em; font-size: 7.5pt; color: #333; overflow-wrap: anywhere; }
 @page { margin: 12mm; }
 @media print { body { margin: 0; font-size: 9.5pt; } .summary { border-width: 1px; } }
 ";
@@ -108,6 +109,20 @@ fn engine(out: &mut String, v: &EngineView) {
         rule_section(out, rule, v);
     }
     out.push_str("<div class=\"signatures\"><div>Inspector — name, signature, time</div><div>Competitor — name, signature, time</div></div>\n");
+    provenance(out, v);
+}
+
+/// The provenance footer of the printed sheet: who made it and when, and the fingerprints in
+/// full, so a paper copy can be matched to its exact inputs.
+fn provenance(out: &mut String, v: &EngineView) {
+    let p = &v.provenance;
+    let _ = writeln!(
+        out,
+        "<p class=\"provenance\">Made by {}. Rulebook SHA-256 <code>{}</code>. Declaration SHA-256 <code>{}</code>.</p>",
+        escape(&p.made_by()),
+        escape(&p.rulebook_sha256),
+        escape(&p.declaration_sha256)
+    );
 }
 
 fn rule_section(out: &mut String, rule: &RuleView, v: &EngineView) {

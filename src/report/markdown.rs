@@ -50,7 +50,16 @@ fn engine(v: &EngineView) -> String {
     }
     out.push_str("Inspector: ____________________  signature ____________  time ______\n\n");
     out.push_str("Competitor: ____________________  signature ____________  time ______\n");
+    provenance(&mut out, v);
     out
+}
+
+/// The provenance block, last: who made the report and when, and the fingerprints in full.
+fn provenance(out: &mut String, v: &EngineView) {
+    let p = &v.provenance;
+    let _ = writeln!(out, "\n*Made by {}.*  ", p.made_by());
+    let _ = writeln!(out, "*Rulebook SHA-256 `{}`.*  ", p.rulebook_sha256);
+    let _ = writeln!(out, "*Declaration SHA-256 `{}`.*", p.declaration_sha256);
 }
 
 fn rule_lines(out: &mut String, rule: &RuleView, v: &EngineView) {

@@ -1,40 +1,60 @@
-//! What produced a report: the gonogo version, the fingerprints of its inputs, the decision
-//! rule and where it came from, and when. Reports are to carry this as one compact block
-//! (issue 11); this module holds the facts and the time stamp. It is not yet wired into the
-//! four report formats.
+//! What produced a report: the gonogo version, the fingerprints of its inputs and when. Every
+//! `check` report carries them as one compact block (text, Markdown, HTML, JSON), beside the
+//! decision rule and where it came from, so a call can be traced to its exact inputs on appeal.
 
 use std::time::{SystemTime, UNIX_EPOCH};
+
+use serde::Serialize;
+
+use crate::evaluate::outcome::EngineReport;
 
 /// The environment variable that pins the time a report was produced (seconds since
 /// 1970-01-01T00:00:00Z), so that reports, and their snapshots, repeat exactly.
 pub const SOURCE_DATE_EPOCH: &str = "SOURCE_DATE_EPOCH";
 
-/// Where the decision rule in force came from.
-#[derive(Clone, Copy, Debug, PartialEq, Eq)]
-pub enum RuleFrom {
-    /// `--as` on the command line.
-    CommandLine,
-    /// The rulebook's own `decision` line.
-    Rulebook,
-    /// gonogo's default.
-    Default,
-}
-
-/// The facts of one report's provenance.
-#[derive(Clone, Debug, PartialEq, Eq)]
+/// What produced one engine's report, as every format shows it: gonogo's version, the
+/// fingerprints of the rulebook (every file, see [`crate::digest`]) and of the declaration's
+/// bytes, and when the report was produced. The decision rule and where it came from are the
+/// view's own facts ([`super::view::EngineView::decision_words`]), shown beside these.
+#[derive(Clone, Debug, PartialEq, Eq, Serialize)]
 pub struct Provenance {
     /// gonogo's version (`CARGO_PKG_VERSION`).
-    pub version: &'static str,
+    pub gonogo_version: &'static str,
     /// The rulebook's framed SHA-256 (`digest::rulebook_sha256`).
     pub rulebook_sha256: String,
-    /// The SHA-256 of the declaration's bytes.
+    /// The SHA-256 of the declaration's bytes, as `sha256sum` gives it.
     pub declaration_sha256: String,
-    /// The decision rule's name.
-    pub rule: String,
-    /// Where it came from.
-    pub rule_from: RuleFrom,
-    /// When the report was produced, RFC 3339 in UTC.
-    pub produced: String,
+    /// When the report was produced, RFC 3339 in UTC; `None` for a report built in process
+    /// without a time (a library caller's), never for a command's.
+    pub produced: Option<String>,
+}
+
+impl Provenance {
+    /// The provenance of one evaluated engine.
+    pub fn of(report: &EngineReport) -> Provenance {
+        Provenance {
+            gonogo_version: env!("CARGO_PKG_VERSION"),
+            rulebook_sha256: report.rulebook.sha256.clone(),
+            declaration_sha256: report.declaration.sha256.clone(),
+            produced: report.produced.clone(),
+        }
+    }
+
+    /// `gonogo 0.1.0 · produced 2027-05-22T18:04:00Z`, the first line of the block.
+    pub fn made_by(&self) -> String {
+        match &self.produced {
+            Some(when) => format!("gonogo {} · produced {when}", self.gonogo_version),
+            None => format!("gonogo {}", self.gonogo_version),
+        }
+    }
+}
+
+/// When a command's report is produced: [`produced_at`] of the environment's
+/// `SOURCE_DATE_EPOCH`, taken once per process so every engine of a run carries one time.
+pub fn produced_now() -> String {
+    static NOW: std::sync::OnceLock<String> = std::sync::OnceLock::new();
+    NOW.get_or_init(|| produced_at(std::env::var(SOURCE_DATE_EPOCH).ok().as_deref()))
+        .clone()
 }
 
 /// When a report is produced: `SOURCE_DATE_EPOCH` when it is set to a whole number of

@@ -41,7 +41,17 @@ fn header(out: &mut String, v: &EngineView) {
     let _ = writeln!(out, "decision rule: {}", v.decision_words());
     let _ = writeln!(out, "rules in force: {}", v.rules_in_force());
     let _ = writeln!(out, "declaration: {}", v.file);
+    provenance(out, v);
     let _ = writeln!(out, "\nresult: {}", v.result_words());
+}
+
+/// The provenance block: who made the report and when, then the fingerprints in full, so a
+/// call can be matched to its exact inputs.
+fn provenance(out: &mut String, v: &EngineView) {
+    let p = &v.provenance;
+    let _ = writeln!(out, "made by: {}", p.made_by());
+    let _ = writeln!(out, "rulebook sha256: {}", p.rulebook_sha256);
+    let _ = writeln!(out, "declaration sha256: {}", p.declaration_sha256);
 }
 
 fn rule_lines(out: &mut String, rule: &RuleView, v: &EngineView) {

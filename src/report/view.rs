@@ -70,6 +70,8 @@ pub struct EngineView {
     pub derived: Vec<DerivedView>,
     /// Each rule, in rulebook order.
     pub rules: Vec<RuleView>,
+    /// What produced the report: version, fingerprints of the inputs, time.
+    pub provenance: super::provenance::Provenance,
 }
 
 /// Where the decision rule came from.
@@ -548,6 +550,7 @@ impl EngineView {
             inputs: book.inputs,
             derived: book.derived,
             rules,
+            provenance: super::provenance::Provenance::of(r),
         }
     }
 

@@ -21,6 +21,7 @@ pub fn gonogo(args: &[&str]) -> Run {
         .args(args)
         .current_dir(env!("CARGO_MANIFEST_DIR"))
         .env("NO_COLOR", "1")
+        .env("SOURCE_DATE_EPOCH", "1810000000") // pins the provenance time: 2027-05-11T01:46:40Z
         .stdin(Stdio::null())
         .output()
         .unwrap_or_else(|e| panic!("cannot run gonogo: {e}"));
