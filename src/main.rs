@@ -245,10 +245,18 @@ enum Command {
         #[arg(long, value_enum, default_value_t = UnitsFormat::Text)]
         format: UnitsFormat,
     },
-    /// Print a rulebook in canonical form (comments are not kept).
+    /// Print a rulebook in canonical form, its comments and blank lines kept; or check that
+    /// rulebooks are in it (`--check`), or put it back in each file (`--write`).
     Fmt {
-        /// The rulebook file.
-        file: PathBuf,
+        /// The rulebook files (one, unless `--check` or `--write`).
+        #[arg(required = true)]
+        files: Vec<PathBuf>,
+        /// Print nothing but the files not in canonical form; exit 1 when there is one.
+        #[arg(long, conflicts_with = "write")]
+        check: bool,
+        /// Write the canonical form back to each file not in it, atomically, keeping its mode.
+        #[arg(long)]
+        write: bool,
     },
 }
 
@@ -274,6 +282,19 @@ fn main() -> ExitCode {
         Ok(cli) => cli,
         Err(e) => return clap_message(&e).into(),
     };
+    if let Command::Fmt {
+        files,
+        check: false,
+        write: false,
+    } = &cli.command
+        && files.len() > 1
+    {
+        let e = Cli::command().error(
+            clap::error::ErrorKind::TooManyValues,
+            "`fmt` prints one file; name one, or add `--check` or `--write` for several",
+        );
+        return clap_message(&e).into();
+    }
     let worker = std::thread::Builder::new()
         .stack_size(STACK_BYTES)
         .spawn(move || run(cli));
@@ -564,7 +585,18 @@ fn run(cli: Cli) -> Exit {
             }
         }
         Command::Units { format } => reply.write(&units::run(format), Exit::Clean),
-        Command::Fmt { file } => done(fmt::run(&file)),
+        Command::Fmt {
+            files,
+            check,
+            write,
+        } => {
+            let mode = match (check, write) {
+                (true, _) => fmt::Mode::Check,
+                (_, true) => fmt::Mode::Write,
+                _ => fmt::Mode::Print,
+            };
+            reply.finish(fmt::run(&files, mode))
+        }
     }
 }
 
@@ -611,7 +643,7 @@ fn stdin_at_most_once(command: &Command) -> Result<(), Problem> {
             .collect(),
         Command::Lint { files, .. } => files.iter().map(PathBuf::as_path).collect(),
         Command::Explain { rules, .. } | Command::Sheet { rules, .. } => vec![rules],
-        Command::Fmt { file } => vec![file],
+        Command::Fmt { files, .. } => files.iter().map(PathBuf::as_path).collect(),
         Command::Completions { .. } | Command::Man { .. } | Command::Units { .. } => Vec::new(),
     };
     if named.iter().filter(|p| gonogo::source::is_stdin(p)).count() > 1 {

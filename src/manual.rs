@@ -36,6 +36,19 @@ const DOCUMENT_OR_REFUSAL: &[(u8, &str)] = &[
     ),
 ];
 
+/// The statuses of `fmt`, whose `--check` says no with 1.
+const FMT_STATUSES: &[(u8, &str)] = &[
+    (
+        0,
+        "the text was printed or written; with `--check`, every file is in canonical form",
+    ),
+    (1, "with `--check`: a file is not in canonical form"),
+    (
+        2,
+        "a file could not be read or parsed, or the output could not be written; nothing was written",
+    ),
+];
+
 /// The variables every command reads: the colour conventions (no-color.org,
 /// bixense.com/clicolors), as `src/color.rs` applies them.
 pub const ENVIRONMENT: &[(&str, &str)] = &[
@@ -259,11 +272,21 @@ pub const PAGES: &[Notes] = &[
     },
     Notes {
         name: "fmt",
-        exit: DOCUMENT_OR_REFUSAL,
-        examples: &[Example {
-            command: "gonogo fmt rulebooks-demo/lakeshore-2027.rules",
-            what: "the rulebook in canonical form",
-        }],
+        exit: FMT_STATUSES,
+        examples: &[
+            Example {
+                command: "gonogo fmt rulebooks-demo/tamsin-2027.rules",
+                what: "the rulebook in canonical form, comments kept",
+            },
+            Example {
+                command: "gonogo fmt --check rulebooks-demo/*.rules",
+                what: "for CI: name each file not in canonical form, exit 1 if one is not",
+            },
+            Example {
+                command: "gonogo fmt --write rulebooks-demo/tamsin-2028.rules",
+                what: "put the canonical form back in the file",
+            },
+        ],
         environment: &[],
     },
 ];

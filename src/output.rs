@@ -15,6 +15,12 @@
 //! - A device, a FIFO, a socket, or any path under `/dev` or `/proc` (`/dev/stdout`) is
 //!   opened and written directly, never renamed over, so no device node is ever replaced.
 //! - A folder is refused (`W03 output-not-a-file`).
+//! - One exception to "never an input": `gonogo fmt --write` puts a rulebook's canonical text
+//!   back in the file it read ([`rewrite_input`]). Only a regular file (or a link to one) is
+//!   rewritten, atomically and with its mode as above, and only when it still holds exactly
+//!   the text that was read: a file changed meanwhile is left alone (`W07 input-changed`),
+//!   so an edit saved while gonogo ran is never lost. Standard input cannot be written back
+//!   (`W08 rewrite-stdin`).
 
 use std::fs::{self, OpenOptions, Permissions};
 use std::io::{ErrorKind, IsTerminal, Write};
@@ -159,6 +165,41 @@ impl Target {
         )
         .with_help("write to another file: gonogo never writes over one of its inputs"))
     }
+}
+
+/// Replaces the file at `path`, which this run read as `read`, with `text`: atomically, with
+/// its mode, through a link to the file it names; refused when the file now holds anything
+/// but `read`, is read-only, is no regular file, or is standard input. Nothing is written when
+/// refused.
+pub fn rewrite_input(path: &Path, read: &str, text: &str) -> Result<(), Problem> {
+    if path.as_os_str() == STDIN {
+        return Err(Problem::unlocated(
+            codes::REWRITE_STDIN,
+            "standard input cannot be written back",
+        )
+        .with_help("name the rulebook file, or leave out `--write` to print the text"));
+    }
+    let target = Target::resolve(path)?;
+    let Kind::Replace(real, permissions) = &target.kind else {
+        return Err(Problem::unlocated(
+            codes::OUTPUT_NOT_A_FILE,
+            format!("`{}` is not a regular file", path.display()),
+        )
+        .with_help("format a rulebook file; devices and pipes are never rewritten"));
+    };
+    let now = fs::read(real).map_err(|e| write_failed(path, &e))?;
+    if now != read.as_bytes() {
+        return Err(Problem::unlocated(
+            codes::INPUT_CHANGED,
+            format!(
+                "`{}` changed while it was being formatted; it was left as it is",
+                path.display()
+            ),
+        )
+        .with_help("run the command again on the file as it is now"));
+    }
+    replace_atomically(real, text.as_bytes(), Some(permissions.clone()))
+        .map_err(|e| write_failed(path, &e))
 }
 
 /// Writes `text` to standard output. A closed pipe is not a failure: the reader has gone.

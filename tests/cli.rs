@@ -614,3 +614,37 @@ fn a_count_that_is_not_a_whole_number_is_refused_at_its_place() {
     );
     assert!(run.stderr.contains(":19:14]"), "{}", run.stderr);
 }
+
+#[test]
+fn fmt_check_names_each_file_not_canonical_and_exits_1() {
+    let canonical = Scratch::new("canonical.rules", b"series \"S\"  # kept\n");
+    let loose = Scratch::new("loose.rules", b"series   \"S\"\n");
+    let run = gonogo(&["fmt", "--check", canonical.path(), loose.path()]);
+    assert_eq!(run.code, 1, "{}", run.stderr);
+    assert_eq!(
+        run.stdout,
+        format!("not in canonical form: {}\n", loose.path())
+    );
+    assert_eq!(gonogo(&["fmt", "--check", canonical.path()]).code, 0);
+}
+
+#[test]
+fn fmt_write_puts_the_canonical_text_back_and_keeps_comments() {
+    let file = Scratch::new("w.rules", b"# head\nseries   \"S\" # tail\n");
+    let run = gonogo(&["fmt", "--write", file.path()]);
+    assert_eq!(run.code, 0, "{}", run.stderr);
+    let now = std::fs::read_to_string(file.path()).unwrap_or_default();
+    assert_eq!(now, "# head\nseries \"S\"  # tail\n");
+    assert_eq!(gonogo(&["fmt", "--check", file.path()]).code, 0);
+}
+
+#[test]
+fn fmt_of_two_files_without_check_or_write_is_a_usage_error() {
+    let run = gonogo(&[
+        "fmt",
+        "grammar/examples/minimal.rules",
+        "grammar/examples/minimal.rules",
+    ]);
+    assert_eq!(run.code, 2);
+    assert!(run.stdout.is_empty());
+}

@@ -5,7 +5,8 @@ mod common;
 
 use gonogo::commands::load_rulebook;
 use gonogo::diagnostic::{Level, RenderStyle};
-use gonogo::parse::{parse_rulebook, print::canonical};
+use gonogo::parse::print::{canonical, formatted};
+use gonogo::parse::{parse_rulebook, parse_with_comments};
 
 fn rulebooks() -> Vec<std::path::PathBuf> {
     let mut all = common::files_under("grammar/examples", ".rules");
@@ -50,31 +51,62 @@ fn every_example_and_demo_rulebook_lints_without_error() {
     }
 }
 
+/// The text of every comment of `text`, in order, as the lexer found them.
+fn comment_texts(text: &str, comments: &[gonogo::source::Span]) -> Vec<String> {
+    comments
+        .iter()
+        .map(|c| text[c.start..c.end].trim_end().to_string())
+        .collect()
+}
+
 #[test]
 fn canonical_form_round_trips_for_every_file() {
     for path in rulebooks() {
         let text = std::fs::read_to_string(&path).unwrap_or_default();
-        let (first, _) = parse_rulebook(0, &text);
-        let printed = canonical(&first);
-        let (second, problems) = parse_rulebook(0, &printed);
-        assert!(
-            problems.is_empty(),
-            "{}: canonical text does not parse: {problems:?}\n{printed}",
-            path.display()
-        );
-        assert_eq!(
-            first,
-            second,
-            "{}: round trip changed the tree",
-            path.display()
-        );
-        assert_eq!(
-            canonical(&second),
-            printed,
-            "{}: canonical form is not stable",
-            path.display()
-        );
+        let (first, _, comments) = parse_with_comments(0, &text);
+        for printed in [canonical(&first), formatted(&first, &text, &comments)] {
+            let (second, problems, again) = parse_with_comments(0, &printed);
+            assert!(
+                problems.is_empty(),
+                "{}: canonical text does not parse: {problems:?}\n{printed}",
+                path.display()
+            );
+            assert_eq!(
+                first,
+                second,
+                "{}: round trip changed the tree",
+                path.display()
+            );
+            assert_eq!(
+                formatted(&second, &printed, &again),
+                printed,
+                "{}: canonical form is not stable",
+                path.display()
+            );
+        }
     }
+}
+
+#[test]
+fn fmt_keeps_every_comment_of_every_file_in_order() {
+    let mut seen = 0;
+    for path in rulebooks() {
+        let text = std::fs::read_to_string(&path).unwrap_or_default();
+        let (book, _, comments) = parse_with_comments(0, &text);
+        let printed = formatted(&book, &text, &comments);
+        let (_, _, again) = parse_with_comments(0, &printed);
+        assert_eq!(
+            comment_texts(&printed, &again),
+            comment_texts(&text, &comments),
+            "{}: comments lost or moved out of order\n{printed}",
+            path.display()
+        );
+        // every comment line of the file is one the lexer found (none is missed)
+        let hashes = text.lines().filter(|l| l.contains('#')).count();
+        assert!(comments.len() <= hashes, "{}", path.display());
+        seen += comments.len();
+    }
+    assert!(seen >= 20, "the examples hold only {seen} comments");
 }
 
 #[test]

@@ -556,3 +556,16 @@ fn a_fifo_in_a_folder_is_skipped_with_a_word() {
         run.stderr
     );
 }
+
+#[test]
+fn fmt_write_leaves_a_file_changed_since_it_was_read() {
+    let dir = Scratch::new("changed");
+    let file = dir.join("r.rules");
+    std::fs::write(&file, "series \"edited meanwhile\"\n").unwrap_or_else(|e| panic!("{e}"));
+    let refused = gonogo::output::rewrite_input(&file, "series \"S\"\n", "series \"T\"\n");
+    assert!(
+        matches!(&refused, Err(p) if p.code.to_string().contains("W07")),
+        "{refused:?}"
+    );
+    assert_eq!(text(&file), "series \"edited meanwhile\"\n");
+}

@@ -384,6 +384,10 @@ pub mod write {
     pub const WRITE_FAILED: Code = Code::new(Stage::Write, 5, "write-failed");
     /// `W06 stdin-twice`
     pub const STDIN_TWICE: Code = Code::new(Stage::Write, 6, "stdin-twice");
+    /// `W07 input-changed`
+    pub const INPUT_CHANGED: Code = Code::new(Stage::Write, 7, "input-changed");
+    /// `W08 rewrite-stdin`
+    pub const REWRITE_STDIN: Code = Code::new(Stage::Write, 8, "rewrite-stdin");
 }
 
 /// Numbers no longer given, and never given again: the problem moved to another stage.
@@ -526,6 +530,8 @@ pub const ALL: &[Code] = &[
     write::OUTPUT_DANGLING_LINK,
     write::WRITE_FAILED,
     write::STDIN_TWICE,
+    write::INPUT_CHANGED,
+    write::REWRITE_STDIN,
 ];
 
 #[cfg(test)]

@@ -1,6 +1,9 @@
 //! The lexical layer of the parser: white space and comments, keywords, names, strings,
 //! numbers (with trade-style mixed fractions), unit symbols, dates, section numbers and
-//! regular-expression literals. Each parser skips leading white space itself.
+//! regular-expression literals. Each parser skips leading white space itself; the comments it
+//! skips are noted in a side table when [`with_comments`] asks for them.
+
+use std::cell::RefCell;
 
 use nom::bytes::complete::{tag, take_while, take_while1};
 use nom::character::complete::{char, digit1};
@@ -101,6 +104,33 @@ pub fn span_between(start: &Input, end: &Input) -> Span {
     )
 }
 
+thread_local! {
+    /// The comments [`ws`] has skipped while [`with_comments`] runs on this thread; `None`
+    /// at other times, so an ordinary parse only pays one look at it per comment.
+    static COMMENTS: RefCell<Option<Vec<Span>>> = const { RefCell::new(None) };
+}
+
+/// Runs `parse` and returns its result with the span of every `#` comment the lexer skipped
+/// on the way (the `#` to the end of its line, the line break left out), in file order, each
+/// once (a parser that backtracks skips a comment more than once). This is the side table
+/// `gonogo fmt` prints comments from; the syntax tree itself holds none.
+pub fn with_comments<T>(parse: impl FnOnce() -> T) -> (T, Vec<Span>) {
+    let outer = COMMENTS.with(|c| c.replace(Some(Vec::new())));
+    let result = parse();
+    let mut comments = COMMENTS.with(|c| c.replace(outer)).unwrap_or_default();
+    comments.sort_by_key(|span| (span.start, span.end));
+    comments.dedup_by_key(|span| span.start);
+    (result, comments)
+}
+
+fn note_comment(span: Span) {
+    COMMENTS.with(|c| {
+        if let Some(table) = c.borrow_mut().as_mut() {
+            table.push(span);
+        }
+    });
+}
+
 /// Skips white space and `#` comments.
 pub fn ws(input: Input) -> PResult<()> {
     let text = *input.fragment();
@@ -110,7 +140,10 @@ pub fn ws(input: Input) -> PResult<()> {
         let blank = rest.len() - rest.trim_start().len();
         at += blank;
         if text[at..].starts_with('#') {
-            at += text[at..].find('\n').unwrap_or(text.len() - at);
+            let length = text[at..].find('\n').unwrap_or(text.len() - at);
+            let start = input.location_offset() + at;
+            note_comment(Span::new(input.extra.file, start, start + length));
+            at += length;
         } else if blank == 0 {
             break;
         }

@@ -17,13 +17,20 @@ use ast::Rulebook;
 use lexical::{Context, Input, ws};
 
 use crate::diagnostic::Problem;
-use crate::source::FileId;
+use crate::source::{FileId, Span};
 
 /// Most syntax errors reported for one file; past this the rest is noise.
 const MAX_SYNTAX_ERRORS: usize = 20;
 
 /// The byte-order mark some editors write at the start of a UTF-8 file.
 const BYTE_ORDER_MARK: char = '\u{feff}';
+
+/// Parses one file as [`parse_rulebook`] does, and returns also the span of every comment
+/// in it, in file order (for `gonogo fmt`, which prints them back).
+pub fn parse_with_comments(file: FileId, text: &str) -> (Rulebook, Vec<Problem>, Vec<Span>) {
+    let ((book, problems), comments) = lexical::with_comments(|| parse_rulebook(file, text));
+    (book, problems, comments)
+}
 
 /// Parses one file. Returns the items that parsed and a problem for each that did not.
 /// A byte-order mark at the start is skipped (spans still count its bytes).

@@ -1,6 +1,16 @@
 //! Prints a syntax tree in canonical form: one item per paragraph, two-space indentation,
 //! the fewest parentheses that keep the meaning. Parsing the printed text gives the same tree
-//! (tested in `parse/tests.rs`). Comments are not part of the tree and are not printed.
+//! (tested in `parse/tests.rs` and `tests/grammar_examples.rs`).
+//!
+//! Comments are not part of the tree: [`formatted`] takes them from the lexer's side table
+//! (`parse::parse_with_comments`) and prints each where it stood relative to the printed
+//! lines. Every printed line is anchored at the source line its construct starts on; a
+//! comment on a line of its own is printed before the first printed line anchored after it,
+//! at that line's indentation (inside a body before its `end`, at the body's), so it stays
+//! with the item it precedes; a comment after code on its line stays at the end of the
+//! printed line that code went to. One blank line is kept wherever the source had one or
+//! more before a comment or an anchored line. Printing the printed text again gives it back
+//! unchanged.
 
 use std::fmt::Write;
 
@@ -8,10 +18,20 @@ use super::ast::{
     Arg, BinaryOp, ClassItem, Condition, Expr, ExprKind, Item, ListEntry, ListKind, Measure,
     Pattern, Quantity, Rule, Rulebook, Test, TestKind, Text,
 };
+use crate::source::Span;
 
-/// The canonical text of a rulebook.
+/// The canonical text of a rulebook, without comments.
 pub fn canonical(book: &Rulebook) -> String {
-    let mut out = String::new();
+    print(book, Printer::new("", &[]))
+}
+
+/// The canonical text of a rulebook parsed from `source`, with the comments at `comments`
+/// (spans into `source`, in order) and its blank lines kept.
+pub fn formatted(book: &Rulebook, source: &str, comments: &[Span]) -> String {
+    print(book, Printer::new(source, comments))
+}
+
+fn print(book: &Rulebook, mut out: Printer) -> String {
     let mut previous_was_header = false;
     for item in &book.items {
         let header = matches!(
@@ -24,13 +44,164 @@ pub fn canonical(book: &Rulebook) -> String {
         );
         let one_line = header || matches!(item, Item::Measure(_) | Item::Define(_));
         let continues_header_block = one_line && previous_was_header;
-        if !out.is_empty() && !continues_header_block {
-            out.push('\n');
+        out.trailing_before(item_start(item));
+        if !continues_header_block {
+            out.blank();
         }
         item_text(&mut out, item);
         previous_was_header = one_line;
     }
-    out
+    out.finish()
+}
+
+/// Where an item starts in its file.
+fn item_start(item: &Item) -> usize {
+    match item {
+        Item::Series(t) | Item::Include(t) => t.span.start,
+        Item::Edition(e) => e.name.span.start,
+        Item::Decision(d) => d.span.start,
+        Item::Coverage(c) => c.span.start,
+        Item::Measure(m) => m.span.start,
+        Item::Define(d) => d.span.start,
+        Item::List(l) => l.span.start,
+        Item::Class(c) => c.span.start,
+        Item::Bulletin(b) => b.span.start,
+    }
+}
+
+/// Where the `end` that closes a construct spanning `span` starts.
+fn end_of(span: Span) -> usize {
+    span.end.saturating_sub("end".len())
+}
+
+/// The printed text being built, and the comments still to place in it.
+struct Printer<'a> {
+    out: String,
+    source: &'a str,
+    comments: &'a [Span],
+    /// The start of the last source line a printed line was anchored at.
+    line_done: Option<usize>,
+    /// Whether the last printed line is code (a comment may be put at its end).
+    last_is_code: bool,
+}
+
+impl<'a> Printer<'a> {
+    fn new(source: &'a str, comments: &'a [Span]) -> Printer<'a> {
+        Printer {
+            out: String::new(),
+            source,
+            comments,
+            line_done: None,
+            last_is_code: false,
+        }
+    }
+
+    /// One printed line at `depth`, for the construct that starts at `anchor` in the source.
+    fn line(&mut self, depth: usize, anchor: usize, text: &str) {
+        self.line_with(depth, depth, anchor, text);
+    }
+
+    /// The `end` line at `depth` of a body printed at `depth + 1`.
+    fn end(&mut self, depth: usize, anchor: usize) {
+        self.line_with(depth, depth + 1, anchor, "end");
+    }
+
+    fn line_with(&mut self, depth: usize, comment_depth: usize, anchor: usize, text: &str) {
+        let start = self.line_start(anchor);
+        if self.line_done.is_none_or(|done| start > done) {
+            self.comments_before(start, comment_depth);
+            if self.blank_line_before(start) {
+                self.blank();
+            }
+            self.line_done = Some(start);
+        }
+        self.push(depth, text);
+        self.last_is_code = true;
+    }
+
+    /// Places the comments that start before source offset `before`: at the end of the last
+    /// printed line when code stood before them on their line, else on lines of their own.
+    fn comments_before(&mut self, before: usize, depth: usize) {
+        while let Some((comment, rest)) = self.comments.split_first() {
+            if comment.start >= before {
+                break;
+            }
+            self.comments = rest;
+            let text = self.source.get(comment.start..comment.end).unwrap_or("#");
+            let text = text.trim_end();
+            if self.after_code(comment.start) && self.last_is_code {
+                self.out.pop();
+                self.out.push_str("  ");
+                self.out.push_str(text);
+                self.out.push('\n');
+            } else {
+                if self.blank_line_before(self.line_start(comment.start)) {
+                    self.blank();
+                }
+                self.push(depth, text);
+                self.last_is_code = false;
+            }
+        }
+    }
+
+    /// Places the comments that end the last printed line, before an item starting at
+    /// `anchor` (so the blank line between items comes after them).
+    fn trailing_before(&mut self, anchor: usize) {
+        let start = self.line_start(anchor);
+        while let Some(comment) = self.comments.first() {
+            if comment.start >= start || !self.after_code(comment.start) {
+                break;
+            }
+            self.comments_before(comment.start + 1, 0);
+        }
+    }
+
+    /// The text with the comments left after the last item.
+    fn finish(mut self) -> String {
+        self.comments_before(usize::MAX, 0);
+        self.out
+    }
+
+    /// One blank line, unless the text is empty or already ends with one.
+    fn blank(&mut self) {
+        if !self.out.is_empty() && !self.out.ends_with("\n\n") {
+            self.out.push('\n');
+        }
+    }
+
+    fn push(&mut self, depth: usize, text: &str) {
+        for _ in 0..depth {
+            self.out.push_str("  ");
+        }
+        self.out.push_str(text);
+        self.out.push('\n');
+    }
+
+    /// The start of the source line that holds `offset`.
+    fn line_start(&self, offset: usize) -> usize {
+        let offset = offset.min(self.source.len());
+        self.source
+            .get(..offset)
+            .and_then(|before| before.rfind('\n'))
+            .map_or(0, |at| at + 1)
+    }
+
+    /// Whether code stands before `offset` on its source line.
+    fn after_code(&self, offset: usize) -> bool {
+        let start = self.line_start(offset);
+        self.source
+            .get(start..offset)
+            .is_some_and(|before| !before.trim().is_empty())
+    }
+
+    /// Whether the source line before the one starting at `start` is blank.
+    fn blank_line_before(&self, start: usize) -> bool {
+        let Some(before) = start.checked_sub(1).and_then(|end| self.source.get(..end)) else {
+            return false;
+        };
+        let previous = &before[before.rfind('\n').map_or(0, |at| at + 1)..];
+        previous.trim().is_empty()
+    }
 }
 
 /// `coverage k = 2` or `coverage 95 %`, the number as written.
@@ -41,21 +212,32 @@ fn coverage_text(c: &super::ast::Coverage) -> String {
     }
 }
 
-fn item_text(out: &mut String, item: &Item) {
+fn item_text(out: &mut Printer, item: &Item) {
+    let at = item_start(item);
     match item {
-        Item::Series(name) => line(out, 0, &format!("series {}", quoted(name))),
-        Item::Edition(e) => line(
-            out,
+        Item::Series(name) => out.line(0, at, &format!("series {}", quoted(name))),
+        Item::Edition(e) => out.line(
             0,
+            at,
             &format!("edition {} effective {}", quoted(&e.name), e.effective.date),
         ),
-        Item::Decision(d) => line(out, 0, &format!("decision {}", d.rule.words())),
-        Item::Coverage(c) => line(out, 0, &coverage_text(c)),
-        Item::Include(path) => line(out, 0, &format!("include {}", quoted(path))),
-        Item::Measure(m) => line(out, 0, &measure_text(m)),
-        Item::Define(d) => line(
-            out,
+        Item::Decision(d) => out.line(0, at, &format!("decision {}", d.rule.words())),
+        Item::Coverage(c) => out.line(0, at, &coverage_text(c)),
+        Item::Include(path) => out.line(0, at, &format!("include {}", quoted(path))),
+        Item::Measure(m) => {
+            let head = measure_text(m);
+            match &m.procedure {
+                Some(p) if head.len() + 1 + quoted(p).len() > MEASURE_WIDTH => {
+                    out.line(0, at, &head);
+                    out.line(1, p.span.start, &quoted(p));
+                }
+                Some(p) => out.line(0, at, &format!("{head} {}", quoted(p))),
+                None => out.line(0, at, &head),
+            }
+        }
+        Item::Define(d) => out.line(
             0,
+            at,
             &format!("define {} = {}", d.name.text, expr_text(&d.expr)),
         ),
         Item::List(list) => {
@@ -63,9 +245,9 @@ fn item_text(out: &mut String, item: &Item) {
                 ListKind::Approved => "approved",
                 ListKind::Banned => "banned",
             };
-            line(
-                out,
+            out.line(
                 0,
+                at,
                 &format!(
                     "{kind} list {}{}{}",
                     list.name.text,
@@ -78,13 +260,13 @@ fn item_text(out: &mut String, item: &Item) {
                 ),
             );
             for entry in &list.entries {
-                let text = match entry {
-                    ListEntry::Exact(t) => quoted(t),
-                    ListEntry::Pattern(p) => pattern_text(p),
+                let (text, span) = match entry {
+                    ListEntry::Exact(t) => (quoted(t), t.span),
+                    ListEntry::Pattern(p) => (pattern_text(p), p.span),
                 };
-                line(out, 1, &text);
+                out.line(1, span.start, &text);
             }
-            line(out, 0, "end");
+            out.end(0, end_of(list.span));
         }
         Item::Class(c) => {
             let extends = c
@@ -92,18 +274,18 @@ fn item_text(out: &mut String, item: &Item) {
                 .as_ref()
                 .map(|e| format!(" extends {}", e.text))
                 .unwrap_or_default();
-            line(
-                out,
+            out.line(
                 0,
+                at,
                 &format!("class {}{}{extends}", c.name.text, title_suffix(&c.title)),
             );
             body_text(out, 1, &c.body);
-            line(out, 0, "end");
+            out.end(0, end_of(c.span));
         }
         Item::Bulletin(b) => {
-            line(
-                out,
+            out.line(
                 0,
+                at,
                 &format!(
                     "bulletin {}{} effective {} amends {}",
                     quoted(&b.id),
@@ -113,81 +295,78 @@ fn item_text(out: &mut String, item: &Item) {
                 ),
             );
             body_text(out, 1, &b.body);
-            line(out, 0, "end");
+            out.end(0, end_of(b.span));
         }
     }
 }
 
+/// Widest line a measurement is printed on with its procedure; past it the procedure goes on
+/// a line of its own, indented.
+const MEASURE_WIDTH: usize = 90;
+
+/// A measurement's line without its procedure; `required`, the default, is left unsaid.
 fn measure_text(m: &Measure) -> String {
     let mut text = format!("measure {}: {}", m.name.text, m.dimension.text);
     if m.per_cylinder {
         text.push_str(" per cylinder");
     }
-    text.push_str(if m.required { " required" } else { " optional" });
+    if !m.required {
+        text.push_str(" optional");
+    }
     if let Some((low, high)) = &m.range {
         let _ = write!(text, " range {} to {}", expr_text(low), expr_text(high));
-    }
-    if let Some(p) = &m.procedure {
-        let _ = write!(text, " {}", quoted(p));
     }
     text
 }
 
-fn body_text(out: &mut String, depth: usize, body: &[ClassItem]) {
+fn body_text(out: &mut Printer, depth: usize, body: &[ClassItem]) {
     for item in body {
         match item {
             ClassItem::Rule(rule) => rule_text(out, depth, rule),
             ClassItem::When(group) => {
-                line(
-                    out,
+                out.line(
                     depth,
+                    group.span.start,
                     &format!("when {}", condition_text(&group.condition)),
                 );
                 body_text(out, depth + 1, &group.body);
-                line(out, depth, "end");
+                out.end(depth, end_of(group.span));
             }
-            ClassItem::Drop(section) => line(out, depth, &format!("drop {}", section.text)),
+            ClassItem::Drop(section) => {
+                out.line(depth, section.span.start, &format!("drop {}", section.text))
+            }
         }
     }
 }
 
-fn rule_text(out: &mut String, depth: usize, rule: &Rule) {
+fn rule_text(out: &mut Printer, depth: usize, rule: &Rule) {
     let keyword = if rule.overrides {
         "override rule"
     } else {
         "rule"
     };
-    line(
-        out,
+    out.line(
         depth,
+        rule.span.start,
         &format!("{keyword} {} {}", rule.section.text, quoted(&rule.title)),
     );
+    let inner = depth + 1;
     if let Some(cond) = &rule.condition {
-        line(out, depth + 1, &format!("when {}", condition_text(cond)));
+        let text = format!("when {}", condition_text(cond));
+        out.line(inner, cond.span().start, &text);
     }
-    line(
-        out,
-        depth + 1,
-        &format!("require {}", test_text(&rule.require)),
-    );
+    let require = format!("require {}", test_text(&rule.require));
+    out.line(inner, rule.require.span.start, &require);
     if let Some(d) = &rule.decision {
-        line(out, depth + 1, &format!("decision {}", d.rule.words()));
+        out.line(inner, d.span.start, &format!("decision {}", d.rule.words()));
     }
     if let Some(p) = &rule.penalty {
-        line(out, depth + 1, &format!("penalty {}", quoted(p)));
+        out.line(inner, p.span.start, &format!("penalty {}", quoted(p)));
     }
     if let Some(n) = &rule.note {
-        line(out, depth + 1, &format!("note {}", quoted(n)));
+        out.line(inner, n.span.start, &format!("note {}", quoted(n)));
     }
-    line(out, depth, "end");
-}
-
-fn line(out: &mut String, depth: usize, text: &str) {
-    for _ in 0..depth {
-        out.push_str("  ");
-    }
-    out.push_str(text);
-    out.push('\n');
+    out.end(depth, end_of(rule.span));
 }
 
 fn title_suffix(title: &Option<Text>) -> String {

@@ -324,3 +324,27 @@ fn an_empty_pattern_is_refused_in_a_test_and_in_a_list() {
     let list = "approved list heads \"Heads\" \"TV-1\", //i end";
     assert_eq!(problems(list)[0].code, ParseError::EmptyPattern.code());
 }
+
+/// The text `fmt` prints for `source`, with its comments.
+fn fmt(source: &str) -> String {
+    let (book, problems, comments) = super::parse_with_comments(0, source);
+    assert!(problems.is_empty(), "{problems:?}");
+    super::print::formatted(&book, source, &comments)
+}
+
+#[test]
+fn fmt_keeps_leading_trailing_and_body_comments_and_blank_lines() {
+    let source = "# file header\n\nseries \"S\"   # trailing\nedition \"1\" effective 2027-01-01\n\n\n# about the list\napproved list heads \"Heads\"\n  # first entry\n  \"A-1\" # kept at its end\n\n  /^B-#[0-9]$/\n  # before end\nend\nclass c\n  rule 1.1 \"t\"\n    # about the test\n    require x in heads\n  end # rule end\n  # last in body\nend\n# at the end\n";
+    let expected = "# file header\n\nseries \"S\"  # trailing\nedition \"1\" effective 2027-01-01\n\n# about the list\napproved list heads \"Heads\"\n  # first entry\n  \"A-1\"  # kept at its end\n\n  /^B-#[0-9]$/\n  # before end\nend\n\nclass c\n  rule 1.1 \"t\"\n    # about the test\n    require x in heads\n  end  # rule end\n  # last in body\nend\n# at the end\n";
+    let printed = fmt(source);
+    assert_eq!(printed, expected);
+    assert_eq!(fmt(&printed), printed, "not idempotent");
+}
+
+#[test]
+fn a_hash_inside_a_string_or_pattern_is_no_comment() {
+    let source = "approved list p \"P\"\n  \"A #1\"\n  /x #y/\nend\n";
+    let (_, _, comments) = super::parse_with_comments(0, source);
+    assert!(comments.is_empty(), "{comments:?}");
+    assert_eq!(fmt(source), source);
+}
