@@ -249,6 +249,7 @@ fn a_declaration_with_a_byte_order_mark_reads_as_without_one() {
         marked.stdout,
         marked.stderr
     );
-    let verdicts = |out: &str| out.lines().skip(5).map(str::to_string).collect::<Vec<_>>();
+    // past the header, whose declaration fingerprint differs: the bytes differ by the mark
+    let verdicts = |out: &str| out.lines().skip(8).map(str::to_string).collect::<Vec<_>>();
     assert_eq!(verdicts(&marked.stdout), verdicts(&plain.stdout));
 }

@@ -270,6 +270,19 @@ pub enum CheckError {
         /// The banned entry.
         banned_at: Span,
     },
+    /// One part number written exactly on an approved list and on a banned list.
+    PartApprovedAndBanned {
+        /// The part.
+        part: String,
+        /// The approved list.
+        approved: String,
+        /// The banned list.
+        banned: String,
+        /// The approved entry.
+        at: Span,
+        /// The banned entry.
+        banned_at: Span,
+    },
     /// A pattern whose compiled program is over the size limit.
     PatternTooLarge {
         /// The limit, bytes.
@@ -714,6 +727,7 @@ impl CheckError {
             CheckError::NothingToDrop { .. } => codes::check::NOTHING_TO_DROP,
             CheckError::DuplicateEntry { .. } => codes::check::DUPLICATE_ENTRY,
             CheckError::ApprovedAndBanned { .. } => codes::check::APPROVED_AND_BANNED,
+            CheckError::PartApprovedAndBanned { .. } => codes::check::PART_APPROVED_AND_BANNED,
             CheckError::PatternTooLarge { .. } => codes::check::PATTERN_TOO_LARGE,
             CheckError::BadPattern { .. } => codes::check::BAD_PATTERN,
             CheckError::UnusedMeasurement { .. } => codes::check::UNUSED_MEASUREMENT,
@@ -866,6 +880,14 @@ impl CheckError {
                 ..
             } => format!(
                 "this pattern of approved list `{approved}` also matches `{part}`, which banned list `{banned}` bans"
+            ),
+            CheckError::PartApprovedAndBanned {
+                part,
+                approved,
+                banned,
+                ..
+            } => format!(
+                "`{part}` is both on approved list `{approved}` and on banned list `{banned}`"
             ),
             CheckError::PatternTooLarge { limit, .. } => {
                 format!("this pattern compiles to more than {limit} bytes")
@@ -1111,6 +1133,9 @@ impl CheckError {
             CheckError::ApprovedAndBanned { at, banned_at, .. } => {
                 vec![(*at, "matches a banned part"), (*banned_at, "banned here")]
             }
+            CheckError::PartApprovedAndBanned { at, banned_at, .. } => {
+                vec![(*at, "approved here"), (*banned_at, "banned here")]
+            }
             CheckError::PatternTooLarge { at, .. } => vec![(*at, "too large")],
             CheckError::BadPattern { at, .. } => vec![(*at, "bad pattern")],
             CheckError::UnusedMeasurement { at, .. } | CheckError::UnusedDefine { at, .. } => {
@@ -1292,6 +1317,9 @@ impl CheckError {
             CheckError::DuplicateEntry { .. } => "remove the second entry",
             CheckError::ApprovedAndBanned { .. } => {
                 "narrow the pattern so it leaves out the banned part"
+            }
+            CheckError::PartApprovedAndBanned { .. } => {
+                "a part is either approved or banned: remove it from one of the two lists"
             }
             CheckError::PatternTooLarge { .. } => {
                 "a casting-number family is a short pattern; list long families as several smaller patterns"

@@ -92,8 +92,24 @@ impl<'a> Checker<'a> {
             .filter(|l| l.kind == crate::parse::ast::ListKind::Approved)
         {
             for entry in &list.entries {
-                let ListEntry::Pattern(pattern) = entry else {
-                    continue;
+                let pattern = match entry {
+                    ListEntry::Pattern(pattern) => pattern,
+                    ListEntry::Exact(part) => {
+                        let same = banned.iter().filter(|(_, id, _)| *id == part.value);
+                        for (banned_list, _, span) in same {
+                            found.push(
+                                CheckError::PartApprovedAndBanned {
+                                    part: part.value.clone(),
+                                    approved: list.name.text.clone(),
+                                    banned: banned_list.to_string(),
+                                    at: part.span,
+                                    banned_at: *span,
+                                }
+                                .into(),
+                            );
+                        }
+                        continue;
+                    }
                 };
                 let compiled = RegexBuilder::new(&pattern.source)
                     .case_insensitive(pattern.ignore_case || list.ignore_case)

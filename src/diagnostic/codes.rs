@@ -144,6 +144,9 @@ pub mod check {
     pub const ALLOWANCE_ON_EQUALITY: Code = Code::new(Stage::Check, 2, "allowance-on-equality");
     /// `C03 approved-and-banned`
     pub const APPROVED_AND_BANNED: Code = Code::new(Stage::Check, 3, "approved-and-banned");
+    /// `C65 part-approved-and-banned`
+    pub const PART_APPROVED_AND_BANNED: Code =
+        Code::new(Stage::Check, 65, "part-approved-and-banned");
     /// `C04 argument-count`
     pub const ARGUMENT_COUNT: Code = Code::new(Stage::Check, 4, "argument-count");
     /// `C05 argument-dimension`
@@ -420,6 +423,7 @@ pub const ALL: &[Code] = &[
     check::ALLOWANCE_NOT_CONSTANT,
     check::ALLOWANCE_ON_EQUALITY,
     check::APPROVED_AND_BANNED,
+    check::PART_APPROVED_AND_BANNED,
     check::ARGUMENT_COUNT,
     check::ARGUMENT_DIMENSION,
     check::ARGUMENT_MISSING,
