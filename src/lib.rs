@@ -37,6 +37,7 @@ pub mod output;
 pub mod parallel;
 pub mod parse;
 pub mod report;
+pub mod season;
 pub mod source;
 pub mod suggest;
 pub mod units;

@@ -97,6 +97,11 @@ enum Command {
         /// The seed of the Monte Carlo generator (2027 by default); the report prints it.
         #[arg(long, requires = "monte_carlo")]
         seed: Option<u64>,
+        /// Append one inspection per engine checked to this season log (an SQLite file,
+        /// created when missing), in one transaction; nothing is recorded when any
+        /// declaration cannot be read.
+        #[arg(long, value_name = "FILE")]
+        record: Option<PathBuf>,
         /// Engine declarations (YAML), or folders of them (searched recursively).
         #[arg(required = true)]
         declarations: Vec<PathBuf>,
@@ -458,6 +463,7 @@ fn run(cli: Cli) -> Exit {
             jobs,
             monte_carlo,
             seed,
+            record,
             declarations,
         } => {
             let Ok(declarations) = reply.walk_field(&declarations) else {
@@ -474,7 +480,10 @@ fn run(cli: Cli) -> Exit {
                 monte_carlo: draws.map(|d| (d, seed.unwrap_or(montecarlo::DEFAULT_SEED))),
                 produced: gonogo::report::provenance::produced_now(),
             };
-            reply.finish(check::run(&request))
+            match record {
+                Some(log) => reply.finish(check::run_recording(&request, &log)),
+                None => reply.finish(check::run(&request)),
+            }
         }
         Command::Lint { files, format } => reply.lint(&lint::run(&files), format),
         Command::Diff {

@@ -3,6 +3,7 @@
 //! diagnostics and exit 2, never half a report.
 
 use std::path::{Path, PathBuf};
+use std::sync::Arc;
 
 use super::{Failure, checked_rulebook};
 use crate::check::model::CheckedRulebook;
@@ -77,18 +78,33 @@ pub struct CheckRequest<'a> {
 
 /// Runs `check`: the report and the exit status, or every problem of every declaration.
 pub fn run(request: &CheckRequest) -> Result<(String, Exit), Failure> {
+    run_with(request, None)
+}
+
+/// Runs `check --record LOG`: as [`run`], and every engine checked is appended to the season
+/// log in one transaction ([`crate::season::record`]); the report then carries what the log
+/// shows of each engine's seals and sealed measurements. Nothing is recorded when any
+/// declaration could not be read.
+pub fn run_recording(request: &CheckRequest, log: &Path) -> Result<(String, Exit), Failure> {
+    run_with(request, Some(log))
+}
+
+/// A declaration read, the position of its class, and its text as read.
+type Loaded = (Declaration, usize, Arc<str>);
+
+fn run_with(request: &CheckRequest, log: Option<&Path>) -> Result<(String, Exit), Failure> {
     let rulebook = checked_rulebook(request.rules)?;
     let paths = declaration_files(request.declarations).map_err(Failure::one)?;
     let threads = parallel::threads(request.jobs);
     let progress = Progress::new(paths.len());
-    let loaded: Vec<Result<(Declaration, usize), Failure>> =
-        parallel::map(&paths, threads, |path| {
-            let mut sources = SourceMap::default();
-            let engine = load_with_class(path, &rulebook, request.class, &mut sources)
-                .map_err(|problems| Failure::new(problems, sources));
-            progress.advance();
-            engine
-        });
+    let loaded: Vec<Result<Loaded, Failure>> = parallel::map(&paths, threads, |path| {
+        let mut sources = SourceMap::default();
+        let engine = load_with_class(path, &rulebook, request.class, &mut sources)
+            .map(|(d, class)| (d, class, sources.file(0).text.clone()))
+            .map_err(|problems| Failure::new(problems, sources));
+        progress.advance();
+        engine
+    });
     progress.finish();
     if loaded.iter().any(Result::is_err) {
         let sets = loaded
@@ -98,10 +114,10 @@ pub fn run(request: &CheckRequest) -> Result<(String, Exit), Failure> {
             .collect();
         return Err(Failure(sets));
     }
-    let engines: Vec<(Declaration, usize)> = loaded.into_iter().filter_map(Result::ok).collect();
+    let engines: Vec<Loaded> = loaded.into_iter().filter_map(Result::ok).collect();
     let decision = request.role.map(Role::decision);
     let mut reports: Vec<EngineReport> =
-        parallel::map(&engines, threads, |(declaration, class)| {
+        parallel::map(&engines, threads, |(declaration, class, _)| {
             check_engine(&rulebook, &rulebook.classes[*class], declaration, decision)
         });
     reports
@@ -132,6 +148,14 @@ pub fn run(request: &CheckRequest) -> Result<(String, Exit), Failure> {
             }
             out.join("\n")
         }
+    };
+    let out = match log {
+        Some(log) => {
+            let texts: Vec<&str> = engines.iter().map(|(_, _, t)| &**t).collect();
+            let season = crate::season::hook::run_check(log, request, &reports, &texts)?;
+            season.attach(out, request.format)
+        }
+        None => out,
     };
     Ok((out, exit))
 }

@@ -2,7 +2,7 @@
 //!
 //! A code is a stage letter and a number beside a readable name, `C56 unknown-unit`: F for
 //! reading rulebook files, P for parsing, C for checking a rulebook, D for loading an engine
-//! declaration, A for comparing editions and fields, W for writing the output. A code is never reused for another
+//! declaration, A for comparing editions and fields, W for writing the output, L for the season log. A code is never reused for another
 //! problem; a new one takes the next free number of its stage. README.md lists them all (a
 //! test keeps the two in step).
 
@@ -23,6 +23,8 @@ pub enum Stage {
     Analyze,
     /// Writing the output (`--output`, standard output) and naming the inputs.
     Write,
+    /// Reading and writing the season log (`check --record`, `season`).
+    Log,
 }
 
 impl Stage {
@@ -35,6 +37,7 @@ impl Stage {
             Stage::Load => 'D',
             Stage::Analyze => 'A',
             Stage::Write => 'W',
+            Stage::Log => 'L',
         }
     }
 }
@@ -396,6 +399,30 @@ pub mod write {
 /// Numbers no longer given, and never given again: the problem moved to another stage.
 pub const RETIRED: &[(Stage, u8)] = &[(Stage::Check, 36)];
 
+/// Codes of the season log.
+pub mod log {
+    use super::{Code, Stage};
+
+    /// `L01 log-not-sqlite`
+    pub const NOT_SQLITE: Code = Code::new(Stage::Log, 1, "log-not-sqlite");
+    /// `L02 log-foreign`
+    pub const FOREIGN: Code = Code::new(Stage::Log, 2, "log-foreign");
+    /// `L03 log-newer`
+    pub const NEWER: Code = Code::new(Stage::Log, 3, "log-newer");
+    /// `L04 log-failed`
+    pub const FAILED: Code = Code::new(Stage::Log, 4, "log-failed");
+    /// `L05 log-missing`
+    pub const MISSING: Code = Code::new(Stage::Log, 5, "log-missing");
+    /// `L06 export-exists`
+    pub const EXPORT_EXISTS: Code = Code::new(Stage::Log, 6, "export-exists");
+    /// `L07 no-inspection`
+    pub const NO_INSPECTION: Code = Code::new(Stage::Log, 7, "no-inspection");
+    /// `L08 bad-date-filter`
+    pub const BAD_DATE_FILTER: Code = Code::new(Stage::Log, 8, "bad-date-filter");
+    /// `L09 stored-input-unusable`
+    pub const STORED_INPUT_UNUSABLE: Code = Code::new(Stage::Log, 9, "stored-input-unusable");
+}
+
 /// Every code, stage by stage.
 pub const ALL: &[Code] = &[
     read::INCLUDE_CYCLE,
@@ -536,6 +563,15 @@ pub const ALL: &[Code] = &[
     write::STDIN_TWICE,
     write::INPUT_CHANGED,
     write::REWRITE_STDIN,
+    log::NOT_SQLITE,
+    log::FOREIGN,
+    log::NEWER,
+    log::FAILED,
+    log::MISSING,
+    log::EXPORT_EXISTS,
+    log::NO_INSPECTION,
+    log::BAD_DATE_FILTER,
+    log::STORED_INPUT_UNUSABLE,
 ];
 
 #[cfg(test)]

@@ -1,0 +1,40 @@
+//! The season log: one SQLite file that keeps every inspection recorded with
+//! `check --record`, with the exact bytes of each declaration and rulebook file it was made
+//! from, so any verdict can be shown and produced again on appeal.
+//!
+//! One job per file: [`schema`] opens a log and brings its tables to the current version (and
+//! refuses files that are not ours), [`chain`] the canonical encoding and hash of an entry,
+//! [`record`] appends one run's inspections in one transaction, [`query`] reads them back,
+//! [`seals`] compares the seals and sealed measurements of an engine's inspections,
+//! [`verify`] re-runs them and checks the chain, [`export`] writes the stored files back out,
+//! [`clock`] the time an entry is stamped with, [`hook`] what `check --record` calls.
+//!
+//! Every reader and writer of the log goes through [`Log`]: it is the seam a shared server
+//! database would sit behind (DEVELOPERS.md, "The season log").
+
+pub mod chain;
+pub mod clock;
+pub mod export;
+pub mod hook;
+pub mod query;
+pub mod record;
+pub mod schema;
+pub mod seals;
+pub mod verify;
+
+pub use schema::Log;
+
+use crate::diagnostic::{Problem, codes};
+use std::path::Path;
+
+/// The problem for an SQLite error while using the log at `path`.
+pub fn failed(path: &Path, error: &rusqlite::Error) -> Problem {
+    Problem::unlocated(
+        codes::log::FAILED,
+        format!(
+            "the season log `{}` could not be used: {error}",
+            path.display()
+        ),
+    )
+    .with_help("check the file can be read and written, and that the disk is not full")
+}
