@@ -79,7 +79,7 @@ fn the_close_bore_markdown_report() {
     };
     let (markdown, _) = check::run(&request).unwrap_or_else(|e| panic!("{e}"));
     assert!(
-        markdown.contains("## ~ 3.2 Bore, every cylinder — LEGAL · conditional pass"),
+        markdown.contains("## (✓) 3.2 Bore, every cylinder — LEGAL · conditional pass"),
         "{markdown}"
     );
     insta::assert_snapshot!(markdown);
@@ -157,4 +157,66 @@ fn the_tech_sheet_renders_in_headless_chromium() {
         .filter(|p| p.len() >= 3 && p[2] > 120 && p[0] < 80 && p[1] < 120)
         .count();
     assert!(blue > 50, "no value marker drawn ({blue} blue pixels)");
+}
+
+/// The pages `pdfinfo` (poppler-utils) counts in a PDF.
+fn pages(pdf: &Path) -> usize {
+    let out = Command::new("pdfinfo")
+        .arg(pdf)
+        .output()
+        .unwrap_or_else(|e| panic!("pdfinfo (Debian package `poppler-utils`) cannot run: {e}"));
+    String::from_utf8_lossy(&out.stdout)
+        .lines()
+        .find_map(|l| l.strip_prefix("Pages:"))
+        .and_then(|n| n.trim().parse().ok())
+        .unwrap_or_else(|| {
+            panic!(
+                "pdfinfo gave no page count: {}",
+                String::from_utf8_lossy(&out.stderr)
+            )
+        })
+}
+
+#[test]
+#[ignore = "needs Chromium and poppler-utils: run with `cargo test --test html -- --ignored` (.ci/run does)"]
+fn the_close_bore_tech_sheet_prints_on_two_pages_of_letter_and_of_a4() {
+    let Some(browser) = chromium() else {
+        panic!("Chromium is not installed (Debian package `chromium`): the print test cannot run");
+    };
+    let dir = std::env::temp_dir().join(format!("gonogo-{}-print", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap_or_else(|e| panic!("{e}"));
+    let html = sheet(Path::new("engines-demo/limited2-close-bore.yaml"));
+    assert!(
+        html.find("Rules illegal, not proven or not checked") < html.find("Every rule in detail"),
+        "the call comes before the detail"
+    );
+    // Letter is Chromium's default paper; A4 is what a user picks in the print dialogue,
+    // written here as the CSS page size
+    for (paper, extra) in [("letter", ""), ("A4", "<style>@page { size: A4; }</style>")] {
+        let page = dir.join(format!("sheet-{paper}.html"));
+        std::fs::write(&page, html.replace("</head>", &format!("{extra}</head>")))
+            .unwrap_or_else(|e| panic!("{e}"));
+        let pdf = dir.join(format!("sheet-{paper}.pdf"));
+        let status = Command::new(&browser)
+            .args([
+                "--headless",
+                "--no-sandbox",
+                "--disable-gpu",
+                "--no-first-run",
+            ])
+            .args(["--disable-background-networking", "--no-pdf-header-footer"])
+            .arg(format!("--user-data-dir={}", dir.join("profile").display()))
+            .arg(format!("--print-to-pdf={}", pdf.display()))
+            .arg(format!("file://{}", page.display()))
+            .output()
+            .unwrap_or_else(|e| panic!("cannot start Chromium: {e}"));
+        assert!(
+            pdf.exists(),
+            "no PDF: {}",
+            String::from_utf8_lossy(&status.stderr)
+        );
+        let n = pages(&pdf);
+        assert!((1..=2).contains(&n), "{paper}: {n} pages, more than two");
+    }
+    let _ = std::fs::remove_dir_all(&dir);
 }

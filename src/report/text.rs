@@ -42,6 +42,7 @@ fn header(out: &mut String, v: &EngineView) {
     let _ = writeln!(out, "rules in force: {}", v.rules_in_force());
     let _ = writeln!(out, "declaration: {}", v.file);
     let _ = writeln!(out, "\nresult: {}", v.result_words());
+    let _ = writeln!(out, "marks: {}", super::view::MARKS);
 }
 
 fn rule_lines(out: &mut String, rule: &RuleView, v: &EngineView) {
