@@ -1,5 +1,7 @@
 //! The printable tech sheet (`check --format html`): self-contained for every demo engine,
-//! snapshotted for one, and rendered by headless Chromium into a page that is not blank.
+//! snapshotted for one, with the seals of a built declaration on page one, rendered by
+//! headless Chromium into a page that is not blank, and printed by it to PDF on at most two
+//! Letter and two A4 pages (counted by `pdfinfo`, Debian's `poppler-utils`).
 //! Chromium is Debian's `chromium` package. The browser test is `#[ignore]`d, so a plain
 //! `cargo test` reports it as ignored, never as passed; `.ci/run` installs Chromium and runs it
 //! with `--ignored`, where it fails when Chromium is missing.
@@ -219,4 +221,39 @@ fn the_close_bore_tech_sheet_prints_on_two_pages_of_letter_and_of_a4() {
         assert!((1..=2).contains(&n), "{paper}: {n} pages, more than two");
     }
     let _ = std::fs::remove_dir_all(&dir);
+}
+
+#[test]
+fn the_seals_a_declaration_records_are_on_page_one() {
+    use gonogo::load::inspection::Seal;
+    // the loader of the `inspection:` block is another branch's; the declaration is built here
+    let loaded = gonogo::commands::load_rulebook(Path::new(RULES));
+    let rulebook = loaded.checked.unwrap_or_else(|| panic!("demo rulebook"));
+    let mut sources = gonogo::source::SourceMap::default();
+    let path = Path::new("engines-demo/limited2-close-bore.yaml");
+    let mut d = gonogo::load::load_declaration(path, &rulebook, &mut sources)
+        .unwrap_or_else(|p| panic!("{p:?}"));
+    d.inspection.seals_found = vec![Seal {
+        number: "TVS-04417".to_string(),
+        place: Some("intake to head, front left bolt".to_string()),
+    }];
+    d.inspection.seals_applied = vec![Seal {
+        number: "TVS-05120".to_string(),
+        place: None,
+    }];
+    let class = rulebook
+        .class("limited2")
+        .unwrap_or_else(|| panic!("limited2"));
+    let report = gonogo::evaluate::check_engine(&rulebook, class, &d, None);
+    let html = gonogo::report::html::page(&[report]);
+    let detail = html.find("Every rule in detail").unwrap_or(0);
+    for row in [
+        "<tr><td>found</td><td>TVS-04417</td><td>intake to head, front left bolt</td></tr>",
+        "<tr><td>applied</td><td>TVS-05120</td><td>—</td></tr>",
+    ] {
+        let at = html
+            .find(row)
+            .unwrap_or_else(|| panic!("no seal row {row}"));
+        assert!(at < detail, "the seals come before the detail");
+    }
 }
