@@ -89,3 +89,20 @@ fn the_sheet_lists_the_rules_a_measurement_feeds_through_derived_values() {
         "one box per cylinder, up to the 8 the schema allows"
     );
 }
+
+#[test]
+fn each_cylinder_number_and_its_box_are_one_unbreakable_piece() {
+    // a narrow cell may wrap between cylinders, never between a number and its box
+    let html = sheet_of("limited2", SheetFormat::Html);
+    assert!(html.contains(".cyl{display:inline-block;white-space:nowrap}"));
+    for c in 1..=8 {
+        let piece = format!("<span class=\"cyl\">{c} <span class=\"box\"></span></span>");
+        assert!(
+            html.contains(&piece),
+            "cylinder {c} is not bound to its box"
+        );
+    }
+    assert!(html.contains("Seals found") && html.contains("Seals applied"));
+    let md = sheet_of("limited2", SheetFormat::Markdown);
+    assert!(md.contains("Seals found ____") && md.contains("Inspector ____"));
+}

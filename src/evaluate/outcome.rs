@@ -199,15 +199,30 @@ impl Outcome<'_> {
         self.rule.rule.note.as_ref().map(|n| n.value.as_str())
     }
 
-    /// The symbol reports print beside the verdict, so it never rests on colour alone:
-    /// ✓ legal, ~ legal but not certain, ✗ illegal, ? not checked, – not applicable.
+    /// The symbol reports print beside the verdict, so it never rests on colour alone. It says
+    /// what the measurement shows, whatever the decision rule makes of it (the verdict's word
+    /// says that): ✓ proven pass, (✓) pass not proven, (✗) fail not proven, ✗ proven fail,
+    /// ? not checked, – not applicable. A call is not proven when its finding is conditional
+    /// or its condition uncertain; a rule without a finding takes its side from its verdict.
     pub fn mark(&self) -> &'static str {
-        match self.verdict {
-            Verdict::Legal if self.is_uncertain() => "~",
-            Verdict::Legal => "✓",
-            Verdict::Illegal => "✗",
-            Verdict::NotChecked => "?",
-            Verdict::NotApplicable => "–",
+        if matches!(self.verdict, Verdict::NotChecked | Verdict::NotApplicable) {
+            return if self.verdict == Verdict::NotChecked {
+                "?"
+            } else {
+                "–"
+            };
+        }
+        let passes = self
+            .checked
+            .as_ref()
+            .map_or(self.verdict == Verdict::Legal, |c| {
+                matches!(c.finding, Finding::Pass | Finding::ConditionalPass)
+            });
+        match (passes, self.is_uncertain()) {
+            (true, false) => "✓",
+            (true, true) => "(✓)",
+            (false, true) => "(✗)",
+            (false, false) => "✗",
         }
     }
 

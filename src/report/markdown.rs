@@ -45,6 +45,7 @@ fn engine(v: &EngineView) -> String {
         v.file
     );
     let _ = writeln!(out, "**{} {}**\n", v.result.mark(), v.result_words());
+    let _ = writeln!(out, "Marks: {}\n", super::view::MARKS);
     for rule in &v.rules {
         rule_lines(&mut out, rule, v);
     }

@@ -60,14 +60,19 @@ pub fn produced_now() -> String {
 /// When a report is produced: `SOURCE_DATE_EPOCH` when it is set to a whole number of
 /// seconds, else the clock; as RFC 3339 in UTC (`2027-05-22T18:04:00Z`).
 pub fn produced_at(source_date_epoch: Option<&str>) -> String {
+    rfc3339_utc(epoch_seconds(source_date_epoch))
+}
+
+/// Seconds since 1970-01-01T00:00:00Z: `source_date_epoch` when it is a whole number, else
+/// the clock (the season log stamps its entries with this too).
+pub fn epoch_seconds(source_date_epoch: Option<&str>) -> i64 {
     let pinned = source_date_epoch.and_then(|text| text.trim().parse::<i64>().ok());
-    let seconds = pinned.unwrap_or_else(|| {
+    pinned.unwrap_or_else(|| {
         SystemTime::now()
             .duration_since(UNIX_EPOCH)
             .map(|d| i64::try_from(d.as_secs()).unwrap_or(i64::MAX))
             .unwrap_or(0)
-    });
-    rfc3339_utc(seconds)
+    })
 }
 
 /// Seconds since the Unix epoch as RFC 3339 in UTC, by the proleptic Gregorian calendar.

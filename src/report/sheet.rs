@@ -1,5 +1,6 @@
 //! Measurement sheets for a class: what to measure before the engine is opened, with the unit,
-//! the procedure, a box per cylinder where measured per cylinder, the instrument used, and the
+//! the procedure, a box per cylinder where measured per cylinder (each cylinder's number and
+//! its box one unbreakable piece in HTML, so no width puts a number beside the wrong box), the instrument used, and the
 //! rules each measurement feeds. As Markdown to print, or as a declaration template in YAML
 //! with every key present and every value left empty.
 
@@ -122,6 +123,10 @@ pub fn markdown(rulebook: &CheckedRulebook, class: &Class) -> String {
     let _ = writeln!(out, "\nDecision rule: {}.\n", rulebook.decision.words());
     let _ = writeln!(
         out,
+        "Seals found ____________ ____________  Seals applied ____________ ____________\n"
+    );
+    let _ = writeln!(
+        out,
         "Inspector ______________________  signature ______________  time ______\n"
     );
     let _ = writeln!(
@@ -142,7 +147,7 @@ pub fn html(rulebook: &CheckedRulebook, class: &Class) -> String {
         "<title>Measurement sheet — {}</title>",
         escape(&title(rulebook, class))
     );
-    out.push_str("<style>body{font-family:system-ui,sans-serif;font-size:10pt;margin:1.5em}table{border-collapse:collapse;width:100%}td,th{border:1px solid #444;padding:.25em .4em;vertical-align:top;text-align:left}.box{display:inline-block;min-width:5em;border-bottom:1px solid #111;margin:0 .6em .2em 0}.sig{margin-top:2.5em;display:flex;gap:3em}.sig div{flex:1;border-top:1px solid #111;padding-top:.3em}@page{margin:12mm}@media print{body{margin:0}}</style>\n</head>\n<body>\n");
+    out.push_str("<style>body{font-family:system-ui,sans-serif;font-size:10pt;margin:1.5em}table{border-collapse:collapse;width:100%}td,th{border:1px solid #444;padding:.25em .4em;vertical-align:top;text-align:left}.box{display:inline-block;min-width:5em;border-bottom:1px solid #111;margin:0 .6em .2em 0}.sig{margin-top:2.5em;display:flex;gap:3em}.cyl{display:inline-block;white-space:nowrap}.sig div{flex:1;border-top:1px solid #111;padding-top:.3em}@page{margin:12mm}@media print{body{margin:0}}</style>\n</head>\n<body>\n");
     let _ = writeln!(
         out,
         "<h1>Measurement sheet: {}</h1>",
@@ -155,7 +160,7 @@ pub fn html(rulebook: &CheckedRulebook, class: &Class) -> String {
         let m = line.measurement;
         let value = if m.per_cylinder {
             (1..=boxes)
-                .map(|c| format!("{c} <span class=\"box\"></span>"))
+                .map(|c| format!("<span class=\"cyl\">{c} <span class=\"box\"></span></span>"))
                 .collect::<Vec<_>>()
                 .join(" ")
         } else {
@@ -177,6 +182,7 @@ pub fn html(rulebook: &CheckedRulebook, class: &Class) -> String {
         "<p>Decision rule: {}.</p>",
         escape(rulebook.decision.words())
     );
+    out.push_str("<p>Seals found <span class=\"box\"></span> <span class=\"box\"></span> Seals applied <span class=\"box\"></span> <span class=\"box\"></span></p>\n");
     out.push_str("<div class=\"sig\"><div>Inspector — name, signature, time</div><div>Competitor — name, signature, time</div></div>\n</body>\n</html>\n");
     out
 }

@@ -43,6 +43,7 @@ fn header(out: &mut String, v: &EngineView) {
     let _ = writeln!(out, "declaration: {}", v.file);
     provenance(out, v);
     let _ = writeln!(out, "\nresult: {}", v.result_words());
+    let _ = writeln!(out, "marks: {}", super::view::MARKS);
 }
 
 /// The provenance block: who made the report and when, then the fingerprints in full, so a

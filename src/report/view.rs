@@ -23,6 +23,10 @@ use crate::load::InputId;
 use crate::load::{Input, InputName, Supplied, UncertaintySource};
 use crate::units::{self, Unit};
 
+/// What each rule's mark means, for the key every report prints: the mark says what the
+/// measurement shows, the verdict's word what the decision rule in force makes of it.
+pub const MARKS: &str = "✓ proven pass · (✓) pass, not proven · (✗) fail, not proven · ✗ proven fail · ? not checked · – not applicable";
+
 /// One engine checked against one class, as every report shows it.
 #[derive(Clone, Debug, Serialize)]
 pub struct EngineView {
@@ -72,6 +76,19 @@ pub struct EngineView {
     pub rules: Vec<RuleView>,
     /// What produced the report: version, fingerprints of the inputs, time.
     pub provenance: super::provenance::Provenance,
+    /// The seals found on the engine and applied to it, from the declaration's `inspection:`
+    /// block (the tech sheet's record; the JSON leaves them to the declaration).
+    #[serde(skip)]
+    pub seals: Seals,
+}
+
+/// The seals a declaration records: found when the engine came in, applied when it left.
+#[derive(Clone, Debug, Default, PartialEq, Eq)]
+pub struct Seals {
+    /// Found on the engine when it came in.
+    pub found: Vec<crate::load::inspection::Seal>,
+    /// Applied when it left.
+    pub applied: Vec<crate::load::inspection::Seal>,
 }
 
 /// Where the decision rule came from.
@@ -551,6 +568,10 @@ impl EngineView {
             derived: book.derived,
             rules,
             provenance: super::provenance::Provenance::of(r),
+            seals: Seals {
+                found: r.declaration.inspection.seals_found.clone(),
+                applied: r.declaration.inspection.seals_applied.clone(),
+            },
         }
     }
 
@@ -791,7 +812,7 @@ impl RuleView {
     pub fn verdict_words(&self) -> String {
         let finding = self
             .finding
-            .map(|f| format!(" · {}", f.words()))
+            .map(|f| format!(" · {}{}", f.words(), self.against_words()))
             .unwrap_or_default();
         let why = if self.applies == Applies::NotMeasured {
             " (optional, not measured)"
@@ -799,6 +820,17 @@ impl RuleView {
             ""
         };
         format!("{}{why}{finding}", self.verdict.words())
+    }
+
+    /// What a verdict that goes against its conditional finding says about proof: under
+    /// guarded acceptance a conditional pass is illegal because it is `not proven legal`;
+    /// under guarded rejection a conditional fail is legal because it is `not proven illegal`.
+    fn against_words(&self) -> &'static str {
+        match (self.verdict, self.finding) {
+            (Verdict::Illegal, Some(Finding::ConditionalPass)) => ": not proven legal",
+            (Verdict::Legal, Some(Finding::ConditionalFail)) => ": not proven illegal",
+            _ => "",
+        }
     }
 
     /// The state of the rule's conditions: `holds`, `does not hold`, uncertain, not known

@@ -176,6 +176,7 @@ fn check_in(log: &Log, stored: &Stored, folder: &Path) -> Result<String, String>
         declarations: &declarations,
         jobs: Some(1),
         monte_carlo: None,
+        produced: crate::report::provenance::produced_now(),
     };
     let (report, _) =
         crate::commands::check::run(&request).map_err(|f| first_line(&f.to_string()))?;
