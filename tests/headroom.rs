@@ -29,13 +29,14 @@ fn every_confirmed_move_lands_on_the_limit() {
             .as_deref()
             .and_then(|c| rulebook.class(c))
             .unwrap_or_else(|| panic!("class"));
-        let rules = compute(&rulebook, class, &d, None);
+        let rules = compute(&rulebook, class, &d, None).rules;
         assert!(!rules.is_empty(), "{}: no numeric rule", path.display());
         for r in &rules {
             for m in &r.moves {
-                let (Some(_), Some((v, limit))) = (m.confirmed, m.at_limit) else {
+                let (Some(_), Some(l)) = (m.limit.confirmed, m.limit.landed) else {
                     continue;
                 };
+                let (v, limit) = (l.value, l.limit);
                 assert!(
                     ((v - limit) / limit).abs() <= 1e-9,
                     "{} {}: {v} against limit {limit}",
@@ -66,7 +67,7 @@ fn the_displacement_move_is_found_where_the_formula_is_not_linear() {
     let class = rulebook
         .class("limited2")
         .unwrap_or_else(|| panic!("class"));
-    let rules = compute(&rulebook, class, &d, None);
+    let rules = compute(&rulebook, class, &d, None).rules;
     let displacement = rules
         .iter()
         .find(|r| r.rule.rule.section.text == "3.1")
@@ -74,19 +75,19 @@ fn the_displacement_move_is_found_where_the_formula_is_not_linear() {
     let bore = displacement
         .moves
         .iter()
-        .find(|m| d.inputs[m.input as usize].label(&rulebook) == "bore[5]")
+        .find(|m| !m.every_cylinder() && d.inputs[m.input as usize].label(&rulebook) == "bore[5]")
         .unwrap_or_else(|| panic!("bore[5] moves"));
     let at = bore.input as usize;
     let inch: f64 = 0.0254; // NIST SP 811 B.8
     let stroke = 3.480 * inch;
     let target = (365.0 * inch.powi(3) / (std::f64::consts::PI / 4.0 * stroke * 8.0)).sqrt();
-    let moved = d.inputs[at].value + bore.confirmed.unwrap_or(f64::NAN);
+    let moved = d.inputs[at].value + bore.limit.confirmed.unwrap_or(f64::NAN);
     assert!(
         ((moved - target) / target).abs() < 1e-9,
         "{moved} against {target}"
     );
     assert!(
-        (bore.estimate - bore.confirmed.unwrap_or_default()).abs() > 1e-7,
+        (bore.limit.estimate - bore.limit.confirmed.unwrap_or_default()).abs() > 1e-7,
         "the estimate was already exact, so the test shows nothing"
     );
 }
@@ -162,7 +163,7 @@ fn move_of(file: &str, class: &str, section: &str, label: &str) -> (Move, f64) {
     let d = load_declaration(Path::new(file), &rulebook, &mut sources)
         .unwrap_or_else(|p| panic!("{p:?}"));
     let class = rulebook.class(class).unwrap_or_else(|| panic!("class"));
-    let rules = compute(&rulebook, class, &d, None);
+    let rules = compute(&rulebook, class, &d, None).rules;
     let rule = rules
         .iter()
         .find(|r| r.rule.rule.section.text == section)
@@ -170,7 +171,7 @@ fn move_of(file: &str, class: &str, section: &str, label: &str) -> (Move, f64) {
     let m = rule
         .moves
         .iter()
-        .find(|m| d.inputs[m.input as usize].label(&rulebook) == label)
+        .find(|m| !m.every_cylinder() && d.inputs[m.input as usize].label(&rulebook) == label)
         .unwrap_or_else(|| panic!("{label} moves"));
     (m.clone(), d.inputs[m.input as usize].value)
 }
@@ -187,16 +188,18 @@ fn a_move_whose_first_estimate_leaves_the_domain_is_still_found_inside_it() {
         "gasket.thickness",
     );
     assert!(
-        value + m.estimate < 0.0,
+        value + m.limit.estimate < 0.0,
         "the estimate stays inside the domain: no test"
     );
-    let moved = value + m.confirmed.unwrap_or_else(|| panic!("no move found"));
+    let moved = value + m.limit.confirmed.unwrap_or_else(|| panic!("no move found"));
     assert!(moved > 0.0 && moved < value, "{moved}");
-    let (v, limit) = m
-        .at_limit
+    let l = m
+        .limit
+        .landed
         .unwrap_or_else(|| panic!("no value at the limit"));
+    let (v, limit) = (l.value, l.limit);
     assert!(((v - limit) / limit).abs() <= 1e-9, "{v} against {limit}");
-    assert_eq!(m.domain_ends, None);
+    assert_eq!(m.limit.domain_ends, None);
 }
 
 #[test]
@@ -209,8 +212,8 @@ fn a_limit_beyond_the_domain_is_reported_where_the_domain_ends() {
         "3.4",
         "gasket.thickness",
     );
-    assert_eq!(m.confirmed, None);
-    assert_eq!(m.domain_ends, Some(-value));
+    assert_eq!(m.limit.confirmed, None);
+    assert_eq!(m.limit.domain_ends, Some(-value));
     let text = headroom::run(
         Path::new(RULES),
         None,
@@ -221,9 +224,70 @@ fn a_limit_beyond_the_domain_is_reported_where_the_domain_ends() {
     .unwrap_or_else(|e| panic!("{e}"));
     assert!(
         text.contains(
-            "gasket.thickness may fall 0.041 in, to 0 in, where the formula's domain ends, \
-             without reaching the limit"
+            "gasket.thickness alone — limit: may fall 0.041 in, to 0 in, where the formula's \
+             domain ends, without reaching the limit"
         ),
         "{text}"
     );
+}
+
+#[test]
+fn every_bore_of_the_stroker_moves_to_the_limit_and_to_the_proven_pass_line() {
+    // how much less (or more) bore on all eight cylinders together: displacement is taken
+    // from the largest bore, V = π/4 · bore² · stroke · cylinders (handbook swept-volume
+    // formula, DESIGN.md section 4), so the common move to a volume V is
+    // δ = √(V / (π/4 · stroke · 8)) − max bore, solved here by hand; 1 in = 0.0254 m
+    // (NIST SP 811 B.8)
+    let loaded = load_rulebook(Path::new(RULES));
+    let rulebook = loaded.checked.unwrap_or_else(|| panic!("demo rulebook"));
+    let mut sources = SourceMap::default();
+    let d = load_declaration(
+        Path::new("engines-demo/open4-stroker.yaml"),
+        &rulebook,
+        &mut sources,
+    )
+    .unwrap_or_else(|p| panic!("{p:?}"));
+    let class = rulebook.class("open4").unwrap_or_else(|| panic!("class"));
+    let rules = compute(&rulebook, class, &d, None).rules;
+    let displacement = rules
+        .iter()
+        .find(|r| r.rule.rule.section.text == "3.1")
+        .unwrap_or_else(|| panic!("3.1"));
+    let every = displacement
+        .moves
+        .iter()
+        .find(|m| m.every_cylinder())
+        .unwrap_or_else(|| panic!("no move of every bore"));
+    assert_eq!(every.moved.len(), 8);
+    let inch: f64 = 0.0254;
+    let max_bore = 4.0306 * inch; // the stroker's largest bore as declared
+    let stroke = 3.750 * inch;
+    let common =
+        |volume: f64| (volume / (std::f64::consts::PI / 4.0 * stroke * 8.0)).sqrt() - max_bore;
+    let limit = 372.0 * inch.powi(3);
+    let to_limit = every.limit.confirmed.unwrap_or_else(|| panic!("not found"));
+    assert!(
+        ((to_limit - common(limit)) / max_bore).abs() < 1e-9,
+        "{to_limit}"
+    );
+    // the proven-pass line is U inside the limit, U taken where the move lands
+    let pass = every
+        .pass
+        .as_ref()
+        .unwrap_or_else(|| panic!("no pass line"));
+    let landed = pass.landed.unwrap_or_else(|| panic!("no landing"));
+    let to_pass = pass.confirmed.unwrap_or_else(|| panic!("not found"));
+    let by_hand = common(limit - landed.expanded);
+    assert!(
+        ((to_pass - by_hand) / max_bore).abs() < 1e-9,
+        "{to_pass} against {by_hand}"
+    );
+    assert!(to_pass < to_limit && to_limit < 0.0, "{to_pass} {to_limit}");
+    // the eight bores move together: the single bore[4] cannot bring the largest bore down
+    let alone = displacement
+        .moves
+        .iter()
+        .find(|m| !m.every_cylinder() && d.inputs[m.input as usize].label(&rulebook) == "bore[4]")
+        .unwrap_or_else(|| panic!("bore[4]"));
+    assert_eq!(alone.limit.confirmed, None);
 }

@@ -511,13 +511,13 @@ fn the_header_on_the_limit_is_legal_and_headroom_says_it_needs_no_move() {
     assert_eq!(run.code, 0, "{}{}", run.stdout, run.stderr);
     // worded as `check` words it (the review found "0.00000 in inside the limit")
     assert!(
-        run.stdout.contains("pass, on the limit of 1.75 in"),
+        run.stdout.contains("pass, on the limit of 44.45 mm"),
         "{}",
         run.stdout
     );
     assert!(
         run.stdout
-            .contains("header.primary_od is on the limit: it needs to move 0 mm and is inside"),
+            .contains("header.primary_od alone — limit: on the limit, and inside it"),
         "{}",
         run.stdout
     );
@@ -534,13 +534,14 @@ fn a_value_on_a_strict_limit_is_outside_and_headroom_says_which_way_to_go() {
     assert!(run.stdout.contains("ILLEGAL · fail"), "{}", run.stdout);
     let run = gonogo(&["headroom", "--rules", rules, engine]);
     assert!(
-        run.stdout.contains("fail, on the limit of 1.75 in"),
+        run.stdout.contains("fail, on the limit of 44.45 mm"),
         "{}",
         run.stdout
     );
     assert!(
         run.stdout.contains(
-            "header.primary_od is on the limit, which the rule excludes: it must fall, by any amount"
+            "header.primary_od alone — limit: on the limit, which the rule excludes: it must fall, \
+             by any amount"
         ),
         "{}",
         run.stdout

@@ -1,7 +1,11 @@
 //! Headroom: for each numeric rule, how far each input that feeds it may move before the rule's
-//! limit is reached. The move is first estimated from the margin's exact sensitivity
-//! coefficient (margin / ∂margin/∂input), then confirmed by re-evaluating the rule with the
-//! input moved, refining by secant steps and, where those do not settle, by bisection.
+//! limit is reached, and before the proven-pass line under the decision rule in force (the
+//! limit less U where a pass must be proven, the limit itself under simple acceptance; see
+//! [`proven_pass_guard`]). A per-cylinder input moves one cylinder alone and, beside that,
+//! every cylinder together by the same amount (an overbore, a milled head). The move is first
+//! estimated from the margin's exact sensitivity coefficient (margin / ∂margin/∂input), then
+//! confirmed by re-evaluating the rule with the input moved, refining by secant steps and,
+//! where those do not settle, by bisection. Rules with nothing to move are listed with why.
 //!
 //! Every step stays inside the domain of the rule's formulas: a step that leaves it (the
 //! first-order estimate of a gasket thickness that overshoots below zero) is pulled back by
@@ -11,31 +15,66 @@
 
 use crate::check::model::{CheckedRulebook, Class, ClassRule};
 use crate::evaluate::expr::Evaluator;
-use crate::evaluate::finding::Finding;
-use crate::evaluate::outcome::{Applies, Numeric};
+use crate::evaluate::finding::{Finding, proven_pass_guard};
+use crate::evaluate::outcome::{Applies, Numeric, Outcome};
 use crate::evaluate::value::Unevaluated;
 use crate::load::InputId;
 use crate::load::{Declaration, InputName};
 use crate::parse::ast::DecisionRule;
 
-/// How far one input may move.
-#[derive(Clone, Debug)]
-pub struct Move {
-    /// The input.
-    pub input: InputId,
-    /// ∂margin/∂input, SI units.
-    pub sensitivity: f64,
-    /// The first-order estimate of the move to the limit, SI units of the input.
+/// How far one line (the limit, or the proven-pass line) is reached by one move.
+#[derive(Clone, Debug, Default)]
+pub struct Reach {
+    /// The first-order estimate of the move to the line, SI units of the input.
     pub estimate: f64,
     /// The move confirmed by re-evaluation, when one was found.
     pub confirmed: Option<f64>,
-    /// The rule's tested value and its limit with the confirmed move made (they are equal; the
-    /// limit moves too when it is computed from the engine, like an airflow demand).
-    pub at_limit: Option<(f64, f64)>,
-    /// When the limit lies beyond the domain of the rule's formulas: the move, SI units, at
-    /// which the domain ends (a gasket thickness of zero), the input still inside the limit
+    /// The rule's numbers with the confirmed move made: the value tested lies on the line
+    /// there (the limit moves too when it is computed from the engine, like an airflow
+    /// demand, and U moves with the value).
+    pub landed: Option<Landed>,
+    /// When the line lies beyond the domain of the rule's formulas: the move, SI units, at
+    /// which the domain ends (a gasket thickness of zero), the input still inside the line
     /// there (or still outside it).
     pub domain_ends: Option<f64>,
+    /// Whether the engine as it stands is inside this line.
+    pub inside: bool,
+}
+
+/// The rule's numbers where a move lands, SI units.
+#[derive(Clone, Copy, Debug, PartialEq)]
+pub struct Landed {
+    /// The value tested.
+    pub value: f64,
+    /// The limit in force there.
+    pub limit: f64,
+    /// Its margin.
+    pub margin: f64,
+    /// The expanded uncertainty U of the margin there.
+    pub expanded: f64,
+}
+
+/// How far one input, or every cylinder of a per-cylinder input together, may move.
+#[derive(Clone, Debug)]
+pub struct Move {
+    /// The input (for a move of every cylinder, the first cylinder's).
+    pub input: InputId,
+    /// The inputs moved, by the same amount: `input` alone, or every cylinder of it.
+    pub moved: Vec<InputId>,
+    /// ∂margin/∂(the common move), SI units: the sum over the inputs moved.
+    pub sensitivity: f64,
+    /// The move to the limit.
+    pub limit: Reach,
+    /// The move to the proven-pass line, when it is not the limit itself (simple acceptance,
+    /// or no uncertainty).
+    pub pass: Option<Reach>,
+}
+
+impl Move {
+    /// True for a move of every cylinder together.
+    pub fn every_cylinder(&self) -> bool {
+        self.moved.len() > 1
+    }
 }
 
 /// One numeric rule's headroom.
@@ -47,6 +86,10 @@ pub struct RuleHeadroom<'a> {
     pub numeric: Numeric,
     /// The finding's words.
     pub finding: &'static str,
+    /// The decision rule in force for it (`--as`, else the rule's own, else the rulebook's).
+    pub decision: DecisionRule,
+    /// How far inside the limit the proven-pass line lies, in multiples of U.
+    pub guard: f64,
     /// Whether the value is inside the limit: a value exactly on it is inside a `<=` or `>=`
     /// limit and outside a `<` or `>` one (ISO 14253-1).
     pub inside: bool,
@@ -54,54 +97,174 @@ pub struct RuleHeadroom<'a> {
     pub moves: Vec<Move>,
 }
 
+/// A rule of the class whose headroom could not be computed, and why.
+#[derive(Clone, Debug)]
+pub struct NotComputed<'a> {
+    /// The rule.
+    pub rule: &'a ClassRule,
+    /// Why, in words: what is missing, or why there is no margin to move.
+    pub reason: String,
+}
+
+/// The headroom of an engine: every rule of its class, computed or said why not.
+#[derive(Clone, Debug, Default)]
+pub struct Headroom<'a> {
+    /// The numeric rules, with their moves.
+    pub rules: Vec<RuleHeadroom<'a>>,
+    /// The rules with no headroom, in section order.
+    pub not_computed: Vec<NotComputed<'a>>,
+}
+
 /// Iterations allowed to confirm one move.
 const MAX_STEPS: usize = 80;
 
-/// The headroom of every numeric rule of `class` that applies to the declaration.
+/// The headroom of every rule of `class` for the declaration: the numeric rules that apply,
+/// with their moves, and every other rule with the reason it has none.
 pub fn headroom<'a>(
     rulebook: &'a CheckedRulebook,
     class: &'a Class,
     declaration: &Declaration,
     decision: Option<DecisionRule>,
-) -> Vec<RuleHeadroom<'a>> {
+) -> Headroom<'a> {
     let (rules, _) = class.in_force(declaration.identity.date);
-    let mut out = Vec::new();
+    let mut out = Headroom::default();
     for r in rules {
         let outcome = Evaluator::new(rulebook, declaration).rule(r, decision);
-        let Some(checked) = outcome.checked.filter(|c| c.is_finite()) else {
-            continue;
-        };
-        let Some(numeric) = checked.numeric.clone() else {
-            continue;
-        };
-        if outcome.applies == Applies::DoesNotHold {
-            continue;
+        match numeric_of(&outcome) {
+            Ok((numeric, finding)) => {
+                let (decision, found) = (outcome.decision, (numeric, finding));
+                out.rules
+                    .push(rule_headroom(rulebook, declaration, r, decision, found));
+            }
+            Err(reason) => out.not_computed.push(NotComputed { rule: r, reason }),
         }
-        let moves = numeric
-            .sensitivities
-            .iter()
-            .filter(|(id, c)| *c != 0.0 && movable(rulebook, declaration, *id))
-            .map(|(id, c)| {
-                confirm(
-                    rulebook,
-                    declaration,
-                    r,
-                    *id,
-                    *c,
-                    numeric.margin,
-                    numeric.limit,
-                )
-            })
-            .collect();
-        out.push(RuleHeadroom {
-            rule: r,
-            numeric,
-            finding: checked.finding.words(),
-            inside: matches!(checked.finding, Finding::Pass | Finding::ConditionalPass),
-            moves,
-        });
     }
     out
+}
+
+/// The numeric finding of an outcome, or why it has none, in words.
+fn numeric_of(outcome: &Outcome) -> Result<(Numeric, Finding), String> {
+    if outcome.applies == Applies::DoesNotHold {
+        return Err("not applicable: its condition does not hold".into());
+    }
+    if !outcome.missing.is_empty() {
+        return Err(format!("missing {}", outcome.missing.join(", ")));
+    }
+    if let Some(b) = outcome.outside_domain.first() {
+        let cylinder = b
+            .cylinder
+            .map(|c| format!(" of cylinder {c}"))
+            .unwrap_or_default();
+        return Err(format!(
+            "the {}{cylinder} is outside the domain of `{}`, which needs {}",
+            b.quantity, b.by, b.needs
+        ));
+    }
+    if let Some(e) = &outcome.error {
+        return Err(format!("not evaluated: {e}"));
+    }
+    let Some(checked) = outcome.checked.as_ref().filter(|c| c.is_finite()) else {
+        return Err(match outcome.applies {
+            Applies::NotMeasured => {
+                "not applicable: an optional measurement it reads is not given".into()
+            }
+            Applies::NotComputed => "its condition could not be computed".into(),
+            _ => "its value is not a finite number".into(),
+        });
+    };
+    match &checked.numeric {
+        Some(n) => Ok((n.clone(), checked.finding)),
+        None => {
+            Err("not a numeric limit (a text, list or equality test): no margin to move".into())
+        }
+    }
+}
+
+/// The headroom of one numeric rule: each input alone, then each per-cylinder input with
+/// every cylinder moved together.
+fn rule_headroom<'a>(
+    rulebook: &CheckedRulebook,
+    declaration: &Declaration,
+    rule: &'a ClassRule,
+    decision: DecisionRule,
+    (numeric, finding): (Numeric, Finding),
+) -> RuleHeadroom<'a> {
+    let guard = if numeric.expanded > 0.0 {
+        proven_pass_guard(decision)
+    } else {
+        0.0
+    };
+    let search = Search {
+        rulebook,
+        declaration,
+        rule,
+        margin: numeric.margin,
+        expanded: numeric.expanded,
+        limit: numeric.limit,
+        inside: matches!(finding, Finding::Pass | Finding::ConditionalPass),
+    };
+    let movable_inputs: Vec<(InputId, f64)> = numeric
+        .sensitivities
+        .iter()
+        .filter(|(id, c)| *c != 0.0 && movable(rulebook, declaration, *id))
+        .copied()
+        .collect();
+    let mut moves: Vec<Move> = movable_inputs
+        .iter()
+        .map(|&(id, c)| search.movement(vec![id], c, guard))
+        .collect();
+    let mut seen = Vec::new();
+    for &(id, _) in &movable_inputs {
+        let Some(measurement) = per_cylinder(declaration, id) else {
+            continue;
+        };
+        if seen.contains(&measurement) {
+            continue;
+        }
+        seen.push(measurement);
+        let cylinders = cylinders_of(declaration, measurement);
+        if cylinders.len() < 2 {
+            continue;
+        }
+        let c: f64 = numeric
+            .sensitivities
+            .iter()
+            .filter(|(i, _)| cylinders.contains(i))
+            .map(|(_, c)| c)
+            .sum();
+        if c != 0.0 {
+            moves.push(search.movement(cylinders, c, guard));
+        }
+    }
+    RuleHeadroom {
+        rule,
+        numeric,
+        finding: finding.words(),
+        decision,
+        guard,
+        inside: matches!(finding, Finding::Pass | Finding::ConditionalPass),
+        moves,
+    }
+}
+
+/// The measurement of a per-cylinder input.
+fn per_cylinder(declaration: &Declaration, id: InputId) -> Option<usize> {
+    match declaration.inputs.get(id as usize).map(|i| &i.name) {
+        Some(InputName::Measured {
+            measurement,
+            cylinder: Some(_),
+            ..
+        }) => Some(*measurement),
+        _ => None,
+    }
+}
+
+/// Every cylinder's input of a per-cylinder measurement, in cylinder order.
+fn cylinders_of(declaration: &Declaration, measurement: usize) -> Vec<InputId> {
+    (0..declaration.inputs.len())
+        .filter(|&i| per_cylinder(declaration, i as InputId) == Some(measurement))
+        .map(|i| i as InputId)
+        .collect()
 }
 
 /// Declared inputs other than counts can be moved; counts and rulebook literals cannot.
@@ -118,7 +281,7 @@ fn movable(rulebook: &CheckedRulebook, declaration: &Declaration, id: InputId) -
 /// The rule evaluated with one input moved.
 #[derive(Clone, Copy, Debug, PartialEq)]
 enum Probe {
-    /// Computed: the margin.
+    /// Computed: the distance inside the line being sought.
     At(f64),
     /// Not computed: the moved value is outside a formula's domain.
     Outside,
@@ -126,25 +289,89 @@ enum Probe {
     Failed,
 }
 
-/// The rule's margin, tested value and limit with input `id` moved by `delta` (SI units);
-/// `Err(true)` when the move leaves a formula's domain, `Err(false)` for any other failure.
-fn margin_after(
-    rulebook: &CheckedRulebook,
-    declaration: &Declaration,
-    rule: &ClassRule,
-    id: InputId,
-    delta: f64,
-) -> Result<(f64, f64, f64), bool> {
-    let mut moved = declaration.clone();
-    moved.inputs.get_mut(id as usize).ok_or(false)?.value += delta;
-    match Evaluator::new(rulebook, &moved).test(&rule.test) {
-        Ok(checked) => checked
-            .numeric
-            .map(|n| (n.margin, n.value, n.limit))
-            .filter(|(m, _, _)| m.is_finite())
-            .ok_or(false),
-        Err(Unevaluated::Domain(_)) => Err(true),
-        Err(_) => Err(false),
+/// One rule of one engine, searched for the moves that reach its lines.
+struct Search<'r, 'd> {
+    rulebook: &'r CheckedRulebook,
+    declaration: &'d Declaration,
+    rule: &'r ClassRule,
+    margin: f64,
+    expanded: f64,
+    limit: f64,
+    inside: bool,
+}
+
+impl Search<'_, '_> {
+    /// The move of `moved` together to the limit and to the proven-pass line `guard` U
+    /// inside it.
+    fn movement(&self, moved: Vec<InputId>, sensitivity: f64, guard: f64) -> Move {
+        let limit = self.reach(&moved, sensitivity, 0.0, self.inside);
+        let pass = (guard > 0.0).then(|| {
+            let proven = self.margin - guard * self.expanded >= 0.0;
+            self.reach(&moved, sensitivity, guard, proven)
+        });
+        Move {
+            input: moved.first().copied().unwrap_or_default(),
+            moved,
+            sensitivity,
+            limit,
+            pass,
+        }
+    }
+
+    /// The rule's numbers with every input of `moved` moved by `delta` (SI units);
+    /// `Err(true)` when the move leaves a formula's domain, `Err(false)` for any other
+    /// failure.
+    fn after(&self, moved: &[InputId], delta: f64) -> Result<Landed, bool> {
+        let mut engine = self.declaration.clone();
+        for id in moved {
+            engine.inputs.get_mut(*id as usize).ok_or(false)?.value += delta;
+        }
+        match Evaluator::new(self.rulebook, &engine).test(&self.rule.test) {
+            Ok(checked) => checked
+                .numeric
+                .map(|n| Landed {
+                    value: n.value,
+                    limit: n.limit,
+                    margin: n.margin,
+                    expanded: n.expanded,
+                })
+                .filter(|l| l.margin.is_finite() && l.expanded.is_finite())
+                .ok_or(false),
+            Err(Unevaluated::Domain(_)) => Err(true),
+            Err(_) => Err(false),
+        }
+    }
+
+    /// Finds the move that brings the distance inside the line (margin − guard·U) to zero.
+    fn reach(&self, moved: &[InputId], sensitivity: f64, guard: f64, inside: bool) -> Reach {
+        let start = self.margin - guard * self.expanded;
+        let g = |delta: f64| match self.after(moved, delta) {
+            Ok(l) => Probe::At(l.margin - guard * l.expanded),
+            Err(true) => Probe::Outside,
+            Err(false) => Probe::Failed,
+        };
+        // the move that brings the smallest of the inputs to zero, where many domains end
+        let zero = moved
+            .iter()
+            .filter_map(|id| self.declaration.inputs.get(*id as usize))
+            .map(|i| -i.value)
+            .fold(f64::NAN, f64::max);
+        let mut result = Reach {
+            estimate: -start / sensitivity,
+            inside,
+            ..Reach::default()
+        };
+        let tolerance = 1e-13 * self.limit.abs().max(f64::MIN_POSITIVE);
+        let found = confirm(&g, start, result.estimate, zero, tolerance);
+        match found {
+            Found::At(x) => {
+                result.confirmed = Some(x);
+                result.landed = self.after(moved, x).ok();
+            }
+            Found::Edge(edge) => result.domain_ends = Some(edge),
+            Found::Nothing => {}
+        }
+        result
     }
 }
 
@@ -232,77 +459,67 @@ fn advance(
     }
 }
 
-/// Finds the move that brings the margin to zero: secant steps from the linear estimate until
-/// the limit is bracketed, then the Illinois variant of regula falsi, which cannot stall. A
-/// step outside a formula's domain is pulled back inside it ([`advance`]); where the domain
-/// ends before the limit, the move records where.
+/// What the search for one line found.
+enum Found {
+    /// The move that reaches it.
+    At(f64),
+    /// The domain ends before the line, at this move.
+    Edge(f64),
+    /// Nothing: the line is not reached by this move.
+    Nothing,
+}
+
+/// Finds the move that brings `g` (the distance inside a line, `start` before any move) to
+/// zero: secant steps from the linear estimate until the line is bracketed, then the Illinois
+/// variant of regula falsi, which cannot stall. A step outside a formula's domain is pulled
+/// back inside it ([`advance`]); where the domain ends before the line, the edge is found.
 fn confirm(
-    rulebook: &CheckedRulebook,
-    declaration: &Declaration,
-    rule: &ClassRule,
-    id: InputId,
-    sensitivity: f64,
-    margin: f64,
-    limit: f64,
-) -> Move {
-    let estimate = -margin / sensitivity;
-    let mut result = Move {
-        input: id,
-        sensitivity,
-        estimate,
-        confirmed: None,
-        at_limit: None,
-        domain_ends: None,
-    };
-    let tolerance = 1e-13 * limit.abs().max(f64::MIN_POSITIVE);
-    let g = |delta: f64| match margin_after(rulebook, declaration, rule, id, delta) {
-        Ok((m, _, _)) => Probe::At(m),
-        Err(true) => Probe::Outside,
-        Err(false) => Probe::Failed,
-    };
-    // the move that brings the input to zero, where many domains end
-    let zero = declaration
-        .inputs
-        .get(id as usize)
-        .map_or(f64::NAN, |i| -i.value);
+    g: &dyn Fn(f64) -> Probe,
+    start: f64,
+    estimate: f64,
+    zero: f64,
+    tolerance: f64,
+) -> Found {
+    let mut edge = None;
     let mut stepped = |from: f64, target: f64, bracketed: bool| match advance(
-        &g,
+        g,
         (from, target),
-        margin,
+        start,
         zero,
         bracketed,
     ) {
         Step::To(x, m) => Some((x, m)),
-        Step::Edge(edge) => {
+        Step::Edge(e) => {
             // an edge the way the estimate points is where the domain ends; the other way,
             // the secant has wandered, and nothing is said
-            if edge.signum() == estimate.signum() {
-                result.domain_ends = Some(edge);
+            if e.signum() == estimate.signum() {
+                edge = Some(e);
             }
             None
         }
         Step::Stop => None,
     };
-    let (mut a, mut ga) = (0.0, margin);
-    let Some((mut b, mut gb)) = stepped(0.0, estimate, false) else {
-        return result;
+    let (mut a, mut ga) = (0.0, start);
+    let (mut b, mut gb) = if start.abs() <= tolerance {
+        (0.0, start)
+    } else {
+        match stepped(0.0, estimate, false) {
+            Some(p) => p,
+            None => return edge.map_or(Found::Nothing, Found::Edge),
+        }
     };
     let mut kept_a = false;
     for _ in 0..MAX_STEPS {
         if gb.abs() <= tolerance {
-            result.confirmed = Some(b);
-            result.at_limit = margin_after(rulebook, declaration, rule, id, b)
-                .ok()
-                .map(|(_, value, limit)| (value, limit));
-            return result;
+            return Found::At(b);
         }
         if gb == ga {
-            return result;
+            break;
         }
         let next = b - gb * (b - a) / (gb - ga);
         let bracketed = ga.signum() != gb.signum();
         let Some((next, gn)) = stepped(b, next, bracketed) else {
-            return result;
+            break;
         };
         if bracketed {
             // keep the end whose sign differs from the new point's
@@ -320,5 +537,5 @@ fn confirm(
         }
         (b, gb) = (next, gn);
     }
-    result
+    edge.map_or(Found::Nothing, Found::Edge)
 }

@@ -611,8 +611,41 @@ impl Flat {
         }
     }
 
-    /// The rules in order.
+    /// The rules in section order, whichever class or bulletin placed them: numbered parts
+    /// compare as numbers, so 4.10 follows 4.9 (a stable sort keeps equal numbers as placed).
     fn into_rules(self) -> Vec<ClassRule> {
-        self.rules.into_iter().flatten().collect()
+        let mut rules: Vec<ClassRule> = self.rules.into_iter().flatten().collect();
+        rules.sort_by_cached_key(|r| section_key(&r.rule.section.text));
+        rules
+    }
+}
+
+/// The sort key of a section number: each dot-separated part as a number where it starts
+/// with digits (`4.10` → 4, 10), the rest of the part as text (`4.6a` → 4, 6, "a").
+pub fn section_key(section: &str) -> Vec<(u64, String)> {
+    section
+        .split('.')
+        .map(|part| {
+            let digits = part.len() - part.trim_start_matches(|c: char| c.is_ascii_digit()).len();
+            let number = part[..digits].parse().unwrap_or(u64::MAX);
+            (number, part[digits..].to_string())
+        })
+        .collect()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::section_key;
+
+    #[test]
+    fn sections_sort_by_their_numbers() {
+        // a rulebook's section numbers are read part by part as numbers (common practice,
+        // no source): 4.9 before 4.10, 4.6 before 4.6a, 8.2 before 10.1
+        let mut sections = ["10.1", "4.10", "4.6a", "8.2", "4.9", "4.6", "3.1"];
+        sections.sort_by_key(|s| section_key(s));
+        assert_eq!(
+            sections,
+            ["3.1", "4.6", "4.6a", "4.9", "4.10", "8.2", "10.1"]
+        );
     }
 }

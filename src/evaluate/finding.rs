@@ -147,6 +147,18 @@ pub fn verdict(finding: Finding, rule: DecisionRule) -> Verdict {
     }
 }
 
+/// How far inside the limit a value must lie for `rule` to prove it passes, in multiples of
+/// the expanded uncertainty U: the proven-pass line is the limit less this many U. Under
+/// simple acceptance the measured value alone decides, so the line is the limit (0 U); under
+/// guarded acceptance and guarded rejection a pass is proven at U inside (ISO 14253-1), the
+/// line where [`finding`] gives [`Finding::Pass`] and guarded acceptance calls it legal.
+pub fn proven_pass_guard(rule: DecisionRule) -> f64 {
+    match rule {
+        DecisionRule::SimpleAcceptance => 0.0,
+        DecisionRule::GuardedAcceptance | DecisionRule::GuardedRejection => 1.0,
+    }
+}
+
 impl Evaluator<'_> {
     /// The value an `==` or `!=` finding shows for `d`, the subject at `cylinder` (0-based): a
     /// reading tested as it is, as written (with its value in the limit's unit beside it when
@@ -221,6 +233,25 @@ fn before_uncertainty(text: &str) -> Option<&str> {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn the_proven_pass_line_is_where_guarded_acceptance_turns_legal() {
+        // ISO 14253-1: conformity proven at a margin of U (REFERENCES.md vectors, U = 0.020);
+        // simple acceptance decides on the measured value alone
+        let big_u = 0.020;
+        for rule in [
+            DecisionRule::GuardedAcceptance,
+            DecisionRule::SimpleAcceptance,
+        ] {
+            let line = proven_pass_guard(rule) * big_u;
+            assert_eq!(verdict(finding(line, big_u, false), rule), Verdict::Legal);
+            assert_eq!(
+                verdict(finding(line - 1e-9, big_u, false), rule),
+                Verdict::Illegal
+            );
+        }
+        assert_eq!(proven_pass_guard(DecisionRule::GuardedRejection), 1.0);
+    }
 
     /// REFERENCES.md check vectors: T_U = 10.000, u = 0.010, U = 0.020 (k = 2). Findings per
     /// ISO 14253-1 / ILAC-G8:09/2019 §4.2; probabilities per JCGM 106:2012, Φ((T_U − y)/u).
