@@ -470,3 +470,26 @@ fn neovim_shows_the_live_diagnostic_and_a_hover() {
         "{written}"
     );
 }
+
+/// Every reserved word of the lexer is highlighted as a keyword by the TextMate grammar.
+#[test]
+fn the_editor_grammar_has_every_keyword_of_the_lexer() {
+    let path = Path::new(env!("CARGO_MANIFEST_DIR")).join("editors/gonogo.tmLanguage.json");
+    let grammar: Value =
+        serde_json::from_str(&std::fs::read_to_string(path).or_panic("the grammar"))
+            .or_panic("JSON");
+    let pattern = grammar["repository"]["keyword"]["match"]
+        .as_str()
+        .or_panic("the keyword rule");
+    let words: Vec<&str> = pattern
+        .trim_start_matches("\\b(?:")
+        .trim_end_matches(")\\b")
+        .split('|')
+        .collect();
+    for keyword in gonogo::parse::KEYWORDS {
+        assert!(
+            words.contains(keyword),
+            "`{keyword}` is not in the grammar's keywords"
+        );
+    }
+}
