@@ -32,6 +32,7 @@ pub mod digest;
 pub mod evaluate;
 pub mod exit;
 pub mod load;
+pub mod lsp;
 pub mod manual;
 pub mod output;
 pub mod parallel;

@@ -231,6 +231,9 @@ enum Command {
         #[arg(long, value_enum, default_value_t = SheetFormat::Markdown)]
         format: SheetFormat,
     },
+    /// Serve the Language Server Protocol on standard input and output, for editors:
+    /// diagnostics as you type, hover, definition, references, completion, outline, format.
+    Lsp,
     /// Print a shell completion script (bash, zsh, fish, elvish or powershell).
     Completions {
         /// The shell.
@@ -579,6 +582,15 @@ fn run(cli: Cli) -> Exit {
             class,
             format,
         } => done(sheet::run(&rules, &class, format)),
+        Command::Lsp => match gonogo::lsp::run() {
+            Ok(()) => Exit::Clean,
+            Err(why) => {
+                to_stderr(&format!(
+                    "gonogo lsp: the conversation with the editor broke off: {why}\n"
+                ));
+                Exit::BadInput
+            }
+        },
         Command::Completions { shell } => {
             let mut script = Vec::new();
             clap_complete::generate(shell, &mut Cli::command(), "gonogo", &mut script);
@@ -653,7 +665,10 @@ fn stdin_at_most_once(command: &Command) -> Result<(), Problem> {
         Command::Lint { files, .. } => files.iter().map(PathBuf::as_path).collect(),
         Command::Explain { rules, .. } | Command::Sheet { rules, .. } => vec![rules],
         Command::Fmt { files, .. } => files.iter().map(PathBuf::as_path).collect(),
-        Command::Completions { .. } | Command::Man { .. } | Command::Units { .. } => Vec::new(),
+        Command::Completions { .. }
+        | Command::Man { .. }
+        | Command::Units { .. }
+        | Command::Lsp => Vec::new(),
     };
     if named.iter().filter(|p| gonogo::source::is_stdin(p)).count() > 1 {
         return Err(Problem::unlocated(

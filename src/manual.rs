@@ -247,6 +247,21 @@ pub const PAGES: &[Notes] = &[
         environment: &[],
     },
     Notes {
+        name: "lsp",
+        exit: &[
+            (0, "the editor said `shutdown`, then `exit`"),
+            (
+                2,
+                "the conversation broke off: the editor went away or sent what is not the protocol",
+            ),
+        ],
+        examples: &[Example {
+            command: "gonogo lsp",
+            what: "started by an editor, which speaks the Language Server Protocol on its standard input and output",
+        }],
+        environment: &[],
+    },
+    Notes {
         name: "completions",
         exit: DOCUMENT_OR_REFUSAL,
         examples: &[Example {

@@ -117,6 +117,12 @@ pub(crate) fn floor_char_boundary(text: &str, offset: usize) -> usize {
     at
 }
 
+/// The canonical form of `path`, or `path` itself when it cannot be had (a file not yet
+/// saved).
+pub fn canonical_or_same(path: &Path) -> PathBuf {
+    path.canonicalize().unwrap_or_else(|_| path.to_path_buf())
+}
+
 /// Why a file could not be read as source text.
 #[derive(Debug)]
 pub enum ReadFailure {
@@ -301,9 +307,36 @@ pub fn was_read(key: &FileKey) -> Option<PathBuf> {
 #[derive(Debug, Default)]
 pub struct SourceMap {
     files: Vec<SourceFile>,
+    /// Texts that stand in for files on disk (an editor's unsaved buffers), by path as
+    /// canonical as it could be had.
+    open: Vec<(PathBuf, Arc<str>)>,
 }
 
 impl SourceMap {
+    /// An empty map whose [`SourceMap::read`] takes each of these texts in place of the file
+    /// at its path (the language server's open documents, read before they are saved).
+    pub fn with_open(open: Vec<(PathBuf, String)>) -> SourceMap {
+        SourceMap {
+            files: Vec::new(),
+            open: open
+                .into_iter()
+                .map(|(path, text)| (canonical_or_same(&path), text.into()))
+                .collect(),
+        }
+    }
+
+    /// The text standing in for `path`, if it is open.
+    fn open_text(&self, path: &Path) -> Option<Arc<str>> {
+        if self.open.is_empty() {
+            return None;
+        }
+        let key = canonical_or_same(path);
+        self.open
+            .iter()
+            .find(|(p, _)| *p == key)
+            .map(|(_, text)| text.clone())
+    }
+
     /// Adds text under a path and returns its id.
     pub fn add(&mut self, path: PathBuf, text: String) -> FileId {
         self.files.push(SourceFile::new(path, text.into()));
@@ -317,6 +350,10 @@ impl SourceMap {
     /// against two editions reads the same text twice. Every file opened is noted in the
     /// [`was_read`] log.
     pub fn read(&mut self, path: &Path) -> Result<FileId, ReadFailure> {
+        if let Some(text) = self.open_text(path) {
+            self.files.push(SourceFile::new(path.to_path_buf(), text));
+            return Ok(FileId::try_from(self.files.len() - 1).unwrap_or(FileId::MAX));
+        }
         let bytes = if is_stdin(path) {
             read_stdin()?
         } else {

@@ -36,7 +36,12 @@ pub struct LoadedRulebook {
 
 /// Reads, parses and checks one rulebook. The static checks run only on files that parse.
 pub fn load_rulebook(path: &std::path::Path) -> LoadedRulebook {
-    let mut sources = SourceMap::default();
+    load_rulebook_in(path, SourceMap::default())
+}
+
+/// [`load_rulebook`] reading through `sources`, which may hold texts that stand in for files
+/// (see [`SourceMap::with_open`]).
+pub fn load_rulebook_in(path: &std::path::Path, mut sources: SourceMap) -> LoadedRulebook {
     let (files, mut problems) = read_rulebook(path, &mut sources);
     let mut checked = None;
     if !files.files.is_empty() && !problems.iter().any(|p| p.level == Level::Error) {
