@@ -40,7 +40,7 @@ fn record(log: &Path, files: &[&str]) {
 }
 
 /// The street stock engine's second visit: a seal applied at round 4 comes back with another
-/// number, and bore 1 has grown 0.0010 in (invented demo data).
+/// number, bore 1 has grown 0.0010 in and the header primaries 0.060 in (invented demo data).
 fn season_log(name: &str) -> PathBuf {
     let log = scratch(name);
     let first = text(STREET).replacen(
@@ -58,7 +58,12 @@ fn season_log(name: &str) -> PathBuf {
         )
         .replace("round 4", "round 5")
         .replace("2027-05-22", "2027-06-05")
-        .replacen("\"4.0302 in\"", "\"4.0312 in\"", 1);
+        .replacen("\"4.0302 in\"", "\"4.0312 in\"", 1)
+        .replacen(
+            "primary_od:\n      value: \"1.500 in\"",
+            "primary_od:\n      value: \"1.560 in\"",
+            1,
+        );
     let (a, b) = (
         scratch(&format!("{name}-r4.yaml")),
         scratch(&format!("{name}-r5.yaml")),
@@ -142,7 +147,14 @@ fn the_history_shows_the_change_and_flags_the_seal() {
     assert_eq!(second["changed"][0]["after"], "4.0312 in");
 
     let html = season(&["history", log, "TV-27-003", "--format", "html"]);
-    assert_eq!(html.stdout.matches("<svg").count(), 1, "{}", html.stdout);
+    // one plot per changed measurement; rule 6.1 limits the primary tube alone (1.625 in)
+    assert_eq!(html.stdout.matches("<svg").count(), 2, "{}", html.stdout);
+    assert_eq!(html.stdout.matches("class=\"limit\"").count(), 1);
+    assert!(
+        html.stdout.contains("header.primary_od (limit 1.625)"),
+        "{}",
+        html.stdout
+    );
     assert!(html.stdout.contains("class=\"flag\""), "{}", html.stdout);
 
     let none = season(&["history", log, "TV-27-999"]);
@@ -166,9 +178,13 @@ fn verify_is_clean_then_fails_on_an_edited_copy() {
     std::fs::copy(&log, &copy).or_panic("copy");
     {
         let db = rusqlite::Connection::open(&copy).or_panic("open");
+        // JSON1's json_set (SQLite documentation, "JSON Functions") changes one stored
+        // rule verdict inside the stored report
         db.execute_batch(
             "DROP TRIGGER inspection_no_update; \
-             UPDATE inspection SET result = 'illegal' WHERE seq = 2;",
+             UPDATE inspection SET result = 'illegal', \
+                 report = json_set(report, '$.engines[0].rules[0].verdict', 'illegal') \
+             WHERE seq = 2;",
         )
         .or_panic("edit");
     }
@@ -181,6 +197,10 @@ fn verify_is_clean_then_fails_on_an_edited_copy() {
     );
     assert!(
         out.contains("inspection #2 (TV-27-044): recorded illegal, now legal"),
+        "{out}"
+    );
+    assert!(
+        out.contains("    rule 3.1: recorded illegal, now legal"),
         "{out}"
     );
     assert!(out.ends_with("verdict: NOT clean\n"), "{out}");

@@ -395,7 +395,7 @@ fn history_html(engine: &str, rows: &[Stored], steps: &[(&Stored, Option<Changes
         }
         let limit = rows.last().and_then(|s| limit_of(&s.entry.report, label));
         let limit_words = limit.map_or(String::from(" (no limit of its own)"), |l| {
-            format!(" (limit {l})")
+            format!(" (limit {})", short_number(l))
         });
         let _ = writeln!(
             out,
@@ -407,6 +407,14 @@ fn history_html(engine: &str, rows: &[Stored], steps: &[(&Stored, Option<Changes
     }
     out.push_str("</body></html>\n");
     out
+}
+
+/// A limit as a reader writes it: at most six decimals, trailing zeros dropped (a limit
+/// converted through SI, 2.9999999999999996, reads 3).
+fn short_number(value: f64) -> String {
+    let text = format!("{value:.6}");
+    let text = text.trim_end_matches('0').trim_end_matches('.');
+    if text == "-0" { "0" } else { text }.to_string()
 }
 
 /// The report of a verification.
@@ -464,6 +472,13 @@ mod tests {
         // span 4.0..5.0 over 64 px: 4.5 sits at 8 + 0.5 * 64 = 40, the limit at the top (8)
         assert!(svg.contains("points=\"8.0,72.0 232.0,40.0\""), "{svg}");
         assert!(svg.contains("y1=\"8.0\""), "{svg}");
+    }
+
+    #[test]
+    fn a_limit_through_si_reads_as_written() {
+        assert_eq!(short_number(2.9999999999999996), "3");
+        assert_eq!(short_number(1.625), "1.625");
+        assert_eq!(short_number(362.0), "362");
     }
 
     #[test]
