@@ -125,6 +125,23 @@ fn the_listing_as_a_table_json_and_csv_and_filtered() {
         filtered.stdout
     );
 
+    let illegal = season(&["list", log, "--result", "illegal"]);
+    assert!(
+        illegal.stdout.ends_with("0 inspection(s)\n"),
+        "{}",
+        illegal.stdout
+    );
+    let open4 = season(&["list", log, "--class", "open4", "--result", "legal"]);
+    assert!(
+        open4.stdout.ends_with("1 inspection(s)\n"),
+        "{}",
+        open4.stdout
+    );
+
+    let missing = season(&["verify", "no-such-season.sqlite"]);
+    assert_eq!(missing.code, 2);
+    assert!(missing.stderr.contains("L05"), "{}", missing.stderr);
+
     let bad = season(&["list", log, "--from", "22.05.2027"]);
     assert_eq!(bad.code, 2);
     assert!(bad.stderr.contains("L08"), "{}", bad.stderr);
