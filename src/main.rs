@@ -7,7 +7,7 @@ use clap::{CommandFactory, FromArgMatches, Parser, Subcommand, ValueEnum};
 use gonogo::color::{self, ColorChoice, Stream};
 use gonogo::commands::check::{self, CheckFormat, CheckRequest, Role};
 use gonogo::commands::sheet::{self, SheetFormat};
-use gonogo::commands::{Failure, diff, explain, field, fmt, headroom, impact, lint, units};
+use gonogo::commands::{Failure, diff, explain, field, fmt, headroom, impact, lint, season, units};
 use gonogo::diagnostic::{Problem, RenderStyle, codes};
 use gonogo::evaluate::montecarlo::{self, Draws};
 use gonogo::exit::Exit;
@@ -16,6 +16,7 @@ use gonogo::report::diff::DiffFormat;
 use gonogo::report::headroom::HeadroomFormat;
 use gonogo::report::impact::ImpactFormat;
 use gonogo::report::units::UnitsFormat;
+use gonogo::season::show::{HistoryFormat, ListFormat};
 
 /// Stack for the worker thread: deep but bounded syntax trees are walked recursively.
 const STACK_BYTES: usize = 256 * 1024 * 1024;
@@ -234,6 +235,12 @@ enum Command {
     /// Serve the Language Server Protocol on standard input and output, for editors:
     /// diagnostics as you type, hover, definition, references, completion, outline, format.
     Lsp,
+    /// Read a season log back (made by `check --record`): list its inspections, show one
+    /// engine's history, verify it, export its files.
+    Season {
+        #[command(subcommand)]
+        action: SeasonAction,
+    },
     /// Print a shell completion script (bash, zsh, fish, elvish or powershell).
     Completions {
         /// The shell.
@@ -266,6 +273,132 @@ enum Command {
         #[arg(long)]
         write: bool,
     },
+}
+
+/// What `season` does with a log.
+#[derive(Subcommand)]
+enum SeasonAction {
+    /// The inspections recorded, in order, narrowed by any filter given.
+    ///
+    /// Example: gonogo season list season.sqlite --class street_stock --result illegal
+    List {
+        /// The season log.
+        log: PathBuf,
+        /// Only this engine.
+        #[arg(long)]
+        engine: Option<String>,
+        /// Only this car number.
+        #[arg(long)]
+        car: Option<String>,
+        /// Only this class.
+        #[arg(long)]
+        class: Option<String>,
+        /// Only this event, exactly as declared.
+        #[arg(long)]
+        event: Option<String>,
+        /// Only inspections on or after this date (YYYY-MM-DD).
+        #[arg(long, value_name = "DATE")]
+        from: Option<String>,
+        /// Only inspections on or before this date (YYYY-MM-DD).
+        #[arg(long, value_name = "DATE")]
+        to: Option<String>,
+        /// Only this result.
+        #[arg(long, value_enum)]
+        result: Option<SeasonResult>,
+        /// Output format.
+        #[arg(long, value_enum, default_value_t = ListFormat::Table)]
+        format: ListFormat,
+    },
+    /// Every inspection of one engine in order, the measurements that changed between them,
+    /// seals that do not match and sealed measurements that moved.
+    ///
+    /// Example: gonogo season history season.sqlite TV-27-003 --format html
+    History {
+        /// The season log.
+        log: PathBuf,
+        /// The engine's identifier, as declared.
+        engine: String,
+        /// Output format.
+        #[arg(long, value_enum, default_value_t = HistoryFormat::Text)]
+        format: HistoryFormat,
+    },
+    /// Check the hash chain and every stored file, and check every inspection again with this
+    /// gonogo; exit 1 when the chain is broken or any verdict would differ.
+    ///
+    /// Example: gonogo season verify season.sqlite
+    Verify {
+        /// The season log.
+        log: PathBuf,
+    },
+    /// Write every stored declaration and rulebook into a folder; refused, writing nothing,
+    /// when any of the files exists.
+    ///
+    /// Example: gonogo season export season.sqlite season-files
+    Export {
+        /// The season log.
+        log: PathBuf,
+        /// The folder to write into (created when missing).
+        folder: PathBuf,
+    },
+}
+
+/// A result a listing can be narrowed to.
+#[derive(Clone, Copy, Debug, ValueEnum)]
+enum SeasonResult {
+    /// Every rule legal.
+    Legal,
+    /// At least one rule illegal.
+    Illegal,
+    /// Nothing illegal, but not every call clear.
+    NotAllClear,
+}
+
+impl SeasonResult {
+    /// The word stored in the log.
+    fn word(self) -> &'static str {
+        match self {
+            SeasonResult::Legal => "legal",
+            SeasonResult::Illegal => "illegal",
+            SeasonResult::NotAllClear => "not-all-clear",
+        }
+    }
+}
+
+/// Runs one `season` action.
+fn run_season(reply: &Reply, action: SeasonAction) -> Exit {
+    let done =
+        |result: Result<String, Failure>| reply.finish(result.map(|text| (text, Exit::Clean)));
+    match action {
+        SeasonAction::List {
+            log,
+            engine,
+            car,
+            class,
+            event,
+            from,
+            to,
+            result,
+            format,
+        } => {
+            let filter = gonogo::season::query::Filter {
+                engine,
+                car,
+                class,
+                event,
+                from,
+                to,
+                result: result.map(|r| r.word().to_string()),
+            };
+            done(season::list(&log, &filter, format))
+        }
+        SeasonAction::History {
+            log,
+            engine,
+            format,
+        } => done(season::history(&log, &engine, format)),
+        SeasonAction::Verify { log } => reply.finish(season::verify(&log)),
+        SeasonAction::Export { log, folder } => done(season::export(&log, &folder)),
+    }
 }
 
 /// `--monte-carlo=N`: a whole number of draws, at least [`montecarlo::MIN_DRAWS`].
@@ -591,6 +724,7 @@ fn run(cli: Cli) -> Exit {
                 Exit::BadInput
             }
         },
+        Command::Season { action } => run_season(&reply, action),
         Command::Completions { shell } => {
             let mut script = Vec::new();
             clap_complete::generate(shell, &mut Cli::command(), "gonogo", &mut script);
@@ -668,7 +802,8 @@ fn stdin_at_most_once(command: &Command) -> Result<(), Problem> {
         Command::Completions { .. }
         | Command::Man { .. }
         | Command::Units { .. }
-        | Command::Lsp => Vec::new(),
+        | Command::Lsp
+        | Command::Season { .. } => Vec::new(),
     };
     if named.iter().filter(|p| gonogo::source::is_stdin(p)).count() > 1 {
         return Err(Problem::unlocated(

@@ -217,6 +217,50 @@ pub const PAGES: &[Notes] = &[
         environment: &[],
     },
     Notes {
+        name: "season",
+        exit: &[
+            (
+                0,
+                "the document was written; for `verify`, the chain is intact and every \
+                 inspection checked again gives the recorded verdicts",
+            ),
+            (
+                1,
+                "`verify` only: the chain or a stored file is broken, or a verdict would now \
+                 differ",
+            ),
+            (
+                2,
+                "the log could not be used (missing, not a gonogo log, from a newer gonogo), \
+                 no inspection of the engine, a bad date, an export file exists, or the output \
+                 could not be written",
+            ),
+        ],
+        examples: &[
+            Example {
+                command: "gonogo season list season.sqlite --class street_stock --result illegal",
+                what: "the illegal Street Stock inspections of the season, as a table",
+            },
+            Example {
+                command: "gonogo season list season.sqlite --from 2027-05-01 --to 2027-05-31 --format csv",
+                what: "May's inspections for a spreadsheet",
+            },
+            Example {
+                command: "gonogo season history season.sqlite TV-27-003 --format html --output tv-27-003.html",
+                what: "one engine over the season, with a plot per changed measurement",
+            },
+            Example {
+                command: "gonogo season verify season.sqlite",
+                what: "check the chain and make every call again; exit 1 if anything differs",
+            },
+            Example {
+                command: "gonogo season export season.sqlite season-files",
+                what: "every stored declaration and rulebook written back out as files",
+            },
+        ],
+        environment: &[],
+    },
+    Notes {
         name: "sheet",
         exit: DOCUMENT_OR_REFUSAL,
         examples: &[

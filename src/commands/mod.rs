@@ -11,6 +11,7 @@ pub mod fmt;
 pub mod headroom;
 pub mod impact;
 pub mod lint;
+pub mod season;
 pub mod sheet;
 pub mod sides;
 pub mod sweep;

@@ -6,7 +6,8 @@
 //! refuses files that are not ours), [`chain`] the canonical encoding and hash of an entry,
 //! [`record`] appends one run's inspections in one transaction, [`query`] reads them back,
 //! [`seals`] compares the seals and sealed measurements of an engine's inspections,
-//! [`verify`] re-runs them and checks the chain, [`export`] writes the stored files back out,
+//! [`verify`] re-runs them and checks the chain, [`show`] renders listings, histories and
+//! verifications, [`export`] writes the stored files back out,
 //! [`clock`] the time an entry is stamped with, [`hook`] what `check --record` calls.
 //!
 //! Every reader and writer of the log goes through [`Log`]: it is the seam a shared server
@@ -20,6 +21,7 @@ pub mod query;
 pub mod record;
 pub mod schema;
 pub mod seals;
+pub mod show;
 pub mod verify;
 
 pub use schema::Log;
