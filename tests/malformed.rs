@@ -17,6 +17,8 @@ const WARNINGS_ONLY: &[&str] = &[
     "override-changes-nothing.rules",
     "empty-bulletin.rules",
     "duplicate-list-entry.rules",
+    "duplicate-entry-ignoring-case.rules",
+    "entry-covered-by-pattern.rules",
     "unused-define.rules",
     "byte-order-mark.rules",
 ];
