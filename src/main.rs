@@ -5,7 +5,7 @@ use std::process::ExitCode;
 
 use clap::{CommandFactory, FromArgMatches, Parser, Subcommand, ValueEnum};
 use gonogo::color::{self, ColorChoice, Stream};
-use gonogo::commands::check::{self, CheckFormat, CheckRequest, Role};
+use gonogo::commands::check::{self, CheckFormat, CheckRequest, CheckSort, Role};
 use gonogo::commands::sheet::{self, SheetFormat};
 use gonogo::commands::{Failure, diff, explain, field, fmt, headroom, impact, lint, season, units};
 use gonogo::diagnostic::{Problem, RenderStyle, codes};
@@ -103,6 +103,10 @@ enum Command {
         /// declaration cannot be read.
         #[arg(long, value_name = "FILE")]
         record: Option<PathBuf>,
+        /// The order of the engines: `file` (as named, the default) or `result` (illegal
+        /// first, then not all clear, then legal; file order within each).
+        #[arg(long, value_enum, default_value_t = CheckSort::File)]
+        sort: CheckSort,
         /// Engine declarations (YAML), or folders of them (searched recursively).
         #[arg(required = true)]
         declarations: Vec<PathBuf>,
@@ -600,6 +604,7 @@ fn run(cli: Cli) -> Exit {
             monte_carlo,
             seed,
             record,
+            sort,
             declarations,
         } => {
             let Ok(declarations) = reply.walk_field(&declarations) else {
@@ -615,6 +620,7 @@ fn run(cli: Cli) -> Exit {
                 jobs,
                 monte_carlo: draws.map(|d| (d, seed.unwrap_or(montecarlo::DEFAULT_SEED))),
                 produced: gonogo::report::provenance::produced_now(),
+                sort,
             };
             match record {
                 Some(log) => reply.finish(check::run_recording(&request, &log)),

@@ -3,7 +3,7 @@
 
 mod common;
 
-use common::{Scratch, gonogo};
+use common::{OrPanic, Scratch, gonogo};
 
 fn demo_rulebooks() -> Vec<String> {
     let files: Vec<String> =
@@ -647,4 +647,106 @@ fn fmt_of_two_files_without_check_or_write_is_a_usage_error() {
     ]);
     assert_eq!(run.code, 2);
     assert!(run.stdout.is_empty());
+}
+
+/// The field table of every demo engine, sorted by result: the car number column (a dash
+/// where a declaration gives none) and illegal engines, then not all clear, then legal, each
+/// group in file order.
+#[test]
+fn check_sort_result_puts_illegal_and_unclear_engines_first() {
+    let run = gonogo(&[
+        "check",
+        "--rules",
+        RULES,
+        "--sort",
+        "result",
+        "engines-demo",
+    ]);
+    assert_eq!(run.code, 1, "{}", run.stderr);
+    let field = &run.stdout[run.stdout.rfind("\nfield\n").unwrap_or(0)..];
+    insta::assert_snapshot!("field_sorted_by_result", field);
+}
+
+#[test]
+fn check_default_order_is_file_order() {
+    let run = gonogo(&["check", "--rules", RULES, "engines-demo"]);
+    let field = &run.stdout[run.stdout.rfind("\nfield\n").unwrap_or(0)..];
+    let cars: Vec<&str> = field
+        .lines()
+        .skip(3)
+        .filter_map(|l| l.split_whitespace().nth(1))
+        .collect();
+    // engines-demo in path order: limited2-after-bulletin (58), -aluminium-light (83), …
+    assert_eq!(cars[..3], ["58", "83", "71"], "{field}");
+}
+
+#[test]
+fn check_sort_result_is_the_same_bytes_on_one_thread_and_two() {
+    for format in ["text", "json", "markdown", "html"] {
+        let on = |jobs: &str| {
+            gonogo(&[
+                "check",
+                "--rules",
+                RULES,
+                "--sort",
+                "result",
+                "--format",
+                format,
+                "--jobs",
+                jobs,
+                "engines-demo",
+            ])
+            .stdout
+        };
+        assert_eq!(on("1"), on("2"), "--format {format}");
+    }
+}
+
+#[test]
+fn check_sort_result_orders_every_format() {
+    let run = gonogo(&[
+        "check",
+        "--rules",
+        RULES,
+        "--sort",
+        "result",
+        "--format",
+        "json",
+        "engines-demo/limited2-legal.yaml",
+        "engines-demo/limited2-close-bore.yaml",
+        "engines-demo/limited2-four-barrel.yaml",
+    ]);
+    let doc: serde_json::Value = serde_json::from_str(&run.stdout).or_panic("json");
+    let cars: Vec<&str> = doc["engines"]
+        .as_array()
+        .or_panic("engines")
+        .iter()
+        .filter_map(|e| e["car"].as_str())
+        .collect();
+    // four-barrel is illegal, close-bore not all clear, legal last
+    assert_eq!(cars, ["17", "71", "14"]);
+}
+
+#[test]
+fn the_field_table_gives_a_dash_for_an_engine_without_a_car_number() {
+    let legal = std::fs::read_to_string("engines-demo/limited2-legal.yaml").or_panic("demo");
+    let no_car: String = legal
+        .lines()
+        .filter(|l| !l.starts_with("car:"))
+        .map(|l| format!("{l}\n"))
+        .collect();
+    let scratch = Scratch::new("no-car.yaml", no_car.as_bytes());
+    let run = gonogo(&[
+        "check",
+        "--rules",
+        RULES,
+        "engines-demo/limited2-close-bore.yaml",
+        scratch.path(),
+    ]);
+    let row = run
+        .stdout
+        .lines()
+        .rfind(|l| l.trim_start().starts_with("TV-27-014"))
+        .or_panic("the car-less engine's row");
+    assert_eq!(row.split_whitespace().nth(1), Some("—"), "{}", run.stdout);
 }

@@ -17,6 +17,8 @@ const WARNINGS_ONLY: &[&str] = &[
     "override-changes-nothing.rules",
     "empty-bulletin.rules",
     "duplicate-list-entry.rules",
+    "duplicate-entry-ignoring-case.rules",
+    "entry-covered-by-pattern.rules",
     "unused-define.rules",
     "byte-order-mark.rules",
 ];
@@ -112,4 +114,25 @@ fn lint_text(paths: &[std::path::PathBuf]) -> (String, gonogo::exit::Exit) {
         linted.render(gonogo::commands::lint::LintFormat::Text, RenderStyle::PLAIN),
         linted.exit(),
     )
+}
+
+/// After a dimension error in a rule's test or a condition, lint adds no warning that only
+/// follows from it (never fails, never met, never holds); the same tests written without the
+/// error still give theirs (`never-met.rules`, `condition-never-holds.rules`).
+#[test]
+fn a_dimension_error_brings_no_follow_on_warning() {
+    let (report, _) =
+        lint_text(&["tests/malformed/dimension-error-without-follow-on.rules".into()]);
+    assert_eq!(
+        report.matches("C17 dimension-mismatch").count(),
+        4,
+        "{report}"
+    );
+    for follow_on in ["C33", "C34", "C35"] {
+        assert!(!report.contains(follow_on), "{follow_on} in:\n{report}");
+    }
+    let (genuine, _) = lint_text(&["tests/malformed/never-met.rules".into()]);
+    assert!(genuine.contains("C35 never-met"), "{genuine}");
+    let (genuine, _) = lint_text(&["tests/malformed/condition-never-holds.rules".into()]);
+    assert!(genuine.contains("C34 never-holds"), "{genuine}");
 }

@@ -84,7 +84,12 @@ impl<'a> Checker<'a> {
     }
 
     /// Reports `cond` if, together with the enclosing conditions, it can never hold.
+    /// A condition with an error already reported is left alone, and so is what it encloses:
+    /// whatever its bounds say would only follow from that error.
     fn check_condition_holds(&mut self, cond: &Condition, outer: &[&Condition]) -> bool {
+        if self.error_within(cond.span()) {
+            return false;
+        }
         let mut bounds = Vec::new();
         for c in outer.iter().copied().chain([cond]) {
             self.conjuncts(c, &mut bounds);

@@ -257,6 +257,17 @@ pub enum CheckError {
         /// The second one.
         at: Span,
     },
+    /// An exact entry that a pattern of its own list already matches (a warning).
+    EntryCoveredByPattern {
+        /// The entry.
+        entry: String,
+        /// The list.
+        list: String,
+        /// The entry as written.
+        at: Span,
+        /// The pattern that matches it.
+        pattern_at: Span,
+    },
     /// A pattern of an approved list that matches an entry of a banned list (a warning).
     ApprovedAndBanned {
         /// The approved list.
@@ -726,6 +737,7 @@ impl CheckError {
             CheckError::ConditionalDrop { .. } => codes::check::CONDITIONAL_DROP,
             CheckError::NothingToDrop { .. } => codes::check::NOTHING_TO_DROP,
             CheckError::DuplicateEntry { .. } => codes::check::DUPLICATE_ENTRY,
+            CheckError::EntryCoveredByPattern { .. } => codes::check::ENTRY_COVERED_BY_PATTERN,
             CheckError::ApprovedAndBanned { .. } => codes::check::APPROVED_AND_BANNED,
             CheckError::PartApprovedAndBanned { .. } => codes::check::PART_APPROVED_AND_BANNED,
             CheckError::PatternTooLarge { .. } => codes::check::PATTERN_TOO_LARGE,
@@ -788,6 +800,7 @@ impl CheckError {
             CheckError::EmptyBulletin { .. }
             | CheckError::OverrideChangesNothing { .. }
             | CheckError::DuplicateEntry { .. }
+            | CheckError::EntryCoveredByPattern { .. }
             | CheckError::ApprovedAndBanned { .. }
             | CheckError::UnusedMeasurement { .. }
             | CheckError::UnusedDefine { .. }
@@ -872,6 +885,9 @@ impl CheckError {
             }
             CheckError::DuplicateEntry { entry, list, .. } => {
                 format!("`{entry}` is listed twice in `{list}`")
+            }
+            CheckError::EntryCoveredByPattern { entry, list, .. } => {
+                format!("`{entry}` is already matched by a pattern of `{list}`")
             }
             CheckError::ApprovedAndBanned {
                 approved,
@@ -1130,6 +1146,9 @@ impl CheckError {
             ],
             CheckError::ConditionalDrop { at, .. } => vec![(*at, "inside `when`")],
             CheckError::DuplicateEntry { at, .. } => vec![(*at, "listed again")],
+            CheckError::EntryCoveredByPattern { at, pattern_at, .. } => {
+                vec![(*at, "already covered"), (*pattern_at, "by this pattern")]
+            }
             CheckError::ApprovedAndBanned { at, banned_at, .. } => {
                 vec![(*at, "matches a banned part"), (*banned_at, "banned here")]
             }
@@ -1315,6 +1334,9 @@ impl CheckError {
                 "check the section number against the class it extends"
             }
             CheckError::DuplicateEntry { .. } => "remove the second entry",
+            CheckError::EntryCoveredByPattern { .. } => {
+                "remove the entry, or narrow the pattern if the entry is the only part meant"
+            }
             CheckError::ApprovedAndBanned { .. } => {
                 "narrow the pattern so it leaves out the banned part"
             }

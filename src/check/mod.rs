@@ -130,6 +130,17 @@ impl<'a> Checker<'a> {
         self.problems.push(problem);
     }
 
+    /// Whether an error already reported points inside `span` (its primary label there): a
+    /// lint warning about that code would only follow from the error, so none is given.
+    fn error_within(&self, span: crate::source::Span) -> bool {
+        self.problems.iter().any(|p| {
+            p.level == Level::Error
+                && p.labels.first().is_some_and(|(at, _)| {
+                    at.file == span.file && at.start >= span.start && at.end <= span.end
+                })
+        })
+    }
+
     /// The bodies of every class and bulletin, as written.
     fn bodies(&self) -> Vec<&'a [ast::ClassItem]> {
         self.classes

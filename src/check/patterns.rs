@@ -10,6 +10,7 @@ use super::Checker;
 use super::error::CheckError;
 use super::model::{PartEntry, PartsList};
 use crate::parse::ast::{ListEntry, Pattern};
+use crate::source::Span;
 
 /// Largest compiled program a pattern may have, in bytes.
 pub const PATTERN_SIZE_LIMIT: usize = 256 * 1024;
@@ -27,6 +28,7 @@ impl<'a> Checker<'a> {
         for (name, list) in lists {
             let mut entries = Vec::new();
             let mut seen: HashSet<String> = HashSet::new();
+            let mut patterns: Vec<(regex::Regex, Span)> = Vec::new();
             for entry in &list.entries {
                 match entry {
                     ListEntry::Exact(text) => {
@@ -49,11 +51,13 @@ impl<'a> Checker<'a> {
                     }
                     ListEntry::Pattern(p) => {
                         if let Some(re) = self.compile_pattern(p, list.ignore_case) {
+                            patterns.push((re.clone(), p.span));
                             entries.push(PartEntry::Pattern(re, p.source.clone()));
                         }
                     }
                 }
             }
+            self.warn_covered_entries(name, &list.entries, &patterns);
             self.compiled_lists.insert(
                 name,
                 PartsList {
@@ -65,6 +69,33 @@ impl<'a> Checker<'a> {
                     span: list.name.span,
                 },
             );
+        }
+    }
+
+    /// Warns about each exact entry of a list that a pattern of the same list (compiled as the
+    /// list reads, `ignoring case` included) already matches: the entry adds nothing.
+    fn warn_covered_entries(
+        &mut self,
+        list: &str,
+        entries: &[ListEntry],
+        patterns: &[(regex::Regex, Span)],
+    ) {
+        for entry in entries {
+            let ListEntry::Exact(text) = entry else {
+                continue;
+            };
+            if let Some((_, pattern_at)) = patterns.iter().find(|(re, _)| re.is_match(&text.value))
+            {
+                self.error(
+                    CheckError::EntryCoveredByPattern {
+                        entry: text.value.clone(),
+                        list: list.to_string(),
+                        at: text.span,
+                        pattern_at: *pattern_at,
+                    }
+                    .into(),
+                );
+            }
         }
     }
 

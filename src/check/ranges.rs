@@ -117,6 +117,9 @@ impl Checker<'_> {
         let allowed = limit.evaluated(|e| self.constant(e))?.interval()?;
         let subject = &limit.subject;
         let test = &rule.rule.require;
+        if self.error_within(test.span) {
+            return None; // the error already reported says what is wrong with this test
+        }
         let reach = self.interval(subject, 0)?;
         if !reach.is_finite() {
             return None;

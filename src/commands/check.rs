@@ -54,6 +54,17 @@ pub enum CheckFormat {
     Markdown,
 }
 
+/// The order of the engines in a `check` report.
+#[derive(Clone, Copy, Debug, Default, PartialEq, Eq, clap::ValueEnum)]
+pub enum CheckSort {
+    /// As the declarations were named (folders in path order).
+    #[default]
+    File,
+    /// Illegal engines first, then those not all clear, then legal ones; file order within
+    /// each group.
+    Result,
+}
+
 /// What `check` was asked to do.
 pub struct CheckRequest<'a> {
     /// The rulebook.
@@ -74,6 +85,8 @@ pub struct CheckRequest<'a> {
     /// When the report is produced (RFC 3339, UTC), as its provenance states:
     /// [`crate::report::provenance::produced_now`] for a user's run, a fixed time in tests.
     pub produced: String,
+    /// The order of the engines in the report (`--sort`).
+    pub sort: CheckSort,
 }
 
 /// Runs `check`: the report and the exit status, or every problem of every declaration.
@@ -133,6 +146,8 @@ fn run_with(request: &CheckRequest, log: Option<&Path>) -> Result<(String, Exit)
             .iter_mut()
             .for_each(|r| montecarlo::attach(r, &settings));
     }
+    let texts: Vec<&str> = engines.iter().map(|(_, _, t)| &**t).collect();
+    let (reports, texts) = sorted(reports, texts, request.sort);
     let exit = reports
         .iter()
         .map(EngineReport::exit)
@@ -151,13 +166,31 @@ fn run_with(request: &CheckRequest, log: Option<&Path>) -> Result<(String, Exit)
     };
     let out = match log {
         Some(log) => {
-            let texts: Vec<&str> = engines.iter().map(|(_, _, t)| &**t).collect();
             let season = crate::season::hook::run_check(log, request, &reports, &texts)?;
             season.attach(out, request.format)
         }
         None => out,
     };
     Ok((out, exit))
+}
+
+/// The reports, with the declaration texts they came from, in the order `--sort` asks for;
+/// the sort is stable, so file order holds within each group whatever the thread count.
+fn sorted<'e, 't>(
+    reports: Vec<EngineReport<'e>>,
+    texts: Vec<&'t str>,
+    sort: CheckSort,
+) -> (Vec<EngineReport<'e>>, Vec<&'t str>) {
+    use crate::evaluate::outcome::EngineResult;
+    let mut pairs: Vec<(EngineReport, &str)> = reports.into_iter().zip(texts).collect();
+    if sort == CheckSort::Result {
+        pairs.sort_by_key(|(r, _)| match r.result() {
+            EngineResult::Illegal => 0,
+            EngineResult::NotAllClear => 1,
+            EngineResult::Legal => 2,
+        });
+    }
+    pairs.into_iter().unzip()
 }
 
 /// A progress bar on standard error for long runs, only when standard error is a terminal

@@ -90,11 +90,12 @@ fn rule_lines(out: &mut String, rule: &RuleView, v: &EngineView) {
 }
 
 /// The closing table of a run over several engines: each engine's result and the rule that
-/// decided it (the first illegal one, else the one with the least probability of conformance).
+/// decided it (the first illegal one, else the one with the least probability of conformance),
+/// with the car number (a dash where the declaration gives none).
 pub fn field_summary(reports: &[EngineReport]) -> String {
-    let rows: Vec<[String; 4]> = reports.iter().map(summary_row).collect();
-    let header = ["engine", "class", "result", "closest call"].map(str::to_string);
-    let widths: Vec<usize> = (0..4)
+    let rows: Vec<[String; 5]> = reports.iter().map(summary_row).collect();
+    let header = ["engine", "car", "class", "result", "closest call"].map(str::to_string);
+    let widths: Vec<usize> = (0..5)
         .map(|c| {
             rows.iter()
                 .chain([&header])
@@ -103,7 +104,7 @@ pub fn field_summary(reports: &[EngineReport]) -> String {
                 .unwrap_or(0)
         })
         .collect();
-    let line = |r: &[String; 4]| {
+    let line = |r: &[String; 5]| {
         let cells: Vec<String> = r
             .iter()
             .zip(&widths)
@@ -125,15 +126,17 @@ pub fn field_summary(reports: &[EngineReport]) -> String {
     out
 }
 
-fn summary_row(r: &EngineReport) -> [String; 4] {
+fn summary_row(r: &EngineReport) -> [String; 5] {
     let engine = r
         .declaration
         .identity
         .engine
         .clone()
         .unwrap_or_else(|| r.declaration.path.display().to_string());
+    let car = r.declaration.identity.car.as_deref().unwrap_or("—");
     [
         engine,
+        car.to_string(),
         r.class.name.clone(),
         r.result().short_words().to_string(),
         super::view::closest_call(r)
