@@ -34,6 +34,7 @@ fn run(
         jobs: None,
         monte_carlo: None,
         produced: "2027-05-11T01:46:40Z".to_string(),
+        sections: None,
     };
     check::run(&request).map_err(|failure| failure.render(RenderStyle::PLAIN))
 }
@@ -172,6 +173,7 @@ fn the_verdicts_of_every_demo_engine() {
         jobs: Some(1),
         monte_carlo: None,
         produced: "2027-05-11T01:46:40Z".to_string(),
+        sections: None,
     };
     let (json, _) =
         check::run(&request).unwrap_or_else(|e| panic!("{}", e.render(RenderStyle::PLAIN)));

@@ -29,6 +29,7 @@ fn sheet(declaration: &Path) -> String {
         jobs: None,
         monte_carlo: None,
         produced: "2027-05-11T01:46:40Z".to_string(),
+        sections: None,
     };
     check::run(&request)
         .map(|(html, _)| html)
@@ -80,6 +81,7 @@ fn the_close_bore_markdown_report() {
         jobs: None,
         monte_carlo: None,
         produced: "2027-05-11T01:46:40Z".to_string(),
+        sections: None,
     };
     let (markdown, _) = check::run(&request).unwrap_or_else(|e| panic!("{e}"));
     assert!(

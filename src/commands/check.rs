@@ -8,7 +8,7 @@ use std::sync::Arc;
 use super::{Failure, checked_rulebook};
 use crate::check::model::CheckedRulebook;
 use crate::diagnostic::Problem;
-use crate::evaluate::check_engine;
+use crate::evaluate::check_engine_scoped;
 use crate::evaluate::montecarlo::{self, Draws, Settings};
 use crate::evaluate::outcome::EngineReport;
 use crate::exit::Exit;
@@ -74,6 +74,9 @@ pub struct CheckRequest<'a> {
     /// When the report is produced (RFC 3339, UTC), as its provenance states:
     /// [`crate::report::provenance::produced_now`] for a user's run, a fixed time in tests.
     pub produced: String,
+    /// The sections inspected (`--sections`), in place of each declaration's own scope;
+    /// `None` leaves each declaration's (every rule when it states none).
+    pub sections: Option<&'a [String]>,
 }
 
 /// Runs `check`: the report and the exit status, or every problem of every declaration.
@@ -118,7 +121,8 @@ fn run_with(request: &CheckRequest, log: Option<&Path>) -> Result<(String, Exit)
     let decision = request.role.map(Role::decision);
     let mut reports: Vec<EngineReport> =
         parallel::map(&engines, threads, |(declaration, class, _)| {
-            check_engine(&rulebook, &rulebook.classes[*class], declaration, decision)
+            let class = &rulebook.classes[*class];
+            check_engine_scoped(&rulebook, class, declaration, decision, request.sections)
         });
     reports
         .iter_mut()

@@ -177,6 +177,7 @@ fn check_in(log: &Log, stored: &Stored, folder: &Path) -> Result<String, String>
         jobs: Some(1),
         monte_carlo: None,
         produced: crate::report::provenance::produced_now(),
+        sections: None,
     };
     let (report, _) =
         crate::commands::check::run(&request).map_err(|f| first_line(&f.to_string()))?;
