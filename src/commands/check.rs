@@ -124,6 +124,9 @@ fn run_with(request: &CheckRequest, log: Option<&Path>) -> Result<(String, Exit)
             let class = &rulebook.classes[*class];
             check_engine_scoped(&rulebook, class, declaration, decision, request.sections)
         });
+    if let Some(problem) = reports.iter().find_map(scope_problem) {
+        return Err(Failure::one(problem));
+    }
     reports
         .iter_mut()
         .for_each(|r| r.produced = Some(request.produced.clone()));
@@ -162,6 +165,26 @@ fn run_with(request: &CheckRequest, log: Option<&Path>) -> Result<(String, Exit)
         None => out,
     };
     Ok((out, exit))
+}
+
+/// C66 when a section of the engine's scope names no rule of its class: a mistyped section
+/// would otherwise inspect nothing and call the engine legal.
+fn scope_problem(report: &EngineReport) -> Option<Problem> {
+    let scope = report.scope.as_ref()?;
+    let sections: Vec<&str> = report.outcomes.iter().map(|o| o.section()).collect();
+    let unmatched = scope.unmatched(&sections);
+    let first = unmatched.first()?;
+    let message = format!(
+        "section {first} of the scope ({}) names no rule of class {} for {}",
+        scope.from.words(),
+        report.class.name,
+        report.declaration.path.display()
+    );
+    let help = format!(
+        "give the section of a rule or of a part above one; the class's rules are {}",
+        sections.join(", ")
+    );
+    Some(Problem::unlocated(crate::diagnostic::codes::check::BAD_SECTIONS, message).with_help(help))
 }
 
 /// A progress bar on standard error for long runs, only when standard error is a terminal

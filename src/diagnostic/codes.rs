@@ -272,6 +272,9 @@ pub mod check {
     pub const NOT_FINITE: Code = Code::new(Stage::Check, 63, "not-finite");
     /// `C64 too-many-rules`
     pub const TOO_MANY_RULES: Code = Code::new(Stage::Check, 64, "too-many-rules");
+    /// `C66 bad-sections`: a section of an inspection's scope (`--sections` or the
+    /// declaration's) that names no rule of the class checked.
+    pub const BAD_SECTIONS: Code = Code::new(Stage::Check, 66, "bad-sections");
 }
 
 /// Codes of loading an engine declaration.
@@ -511,6 +514,7 @@ pub const ALL: &[Code] = &[
     check::DIVISION_BY_ZERO,
     check::NOT_FINITE,
     check::TOO_MANY_RULES,
+    check::BAD_SECTIONS,
     load::BAD_COVERAGE,
     load::BAD_DATE,
     load::BAD_QUANTITY,

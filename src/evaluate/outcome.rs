@@ -88,6 +88,21 @@ impl Scope {
         crate::load::inspection::in_scope(&self.sections, section)
     }
 
+    /// The scope's sections that cover none of `sections` (a rule's section numbers): a scope
+    /// that names no rule inspects nothing there, which is a mistake in the input.
+    pub fn unmatched(&self, sections: &[&str]) -> Vec<&str> {
+        self.sections
+            .iter()
+            .filter(|s| {
+                let one = std::slice::from_ref(*s);
+                !sections
+                    .iter()
+                    .any(|section| crate::load::inspection::in_scope(one, section))
+            })
+            .map(String::as_str)
+            .collect()
+    }
+
     /// `5, 6.2`.
     pub fn words(&self) -> String {
         self.sections.join(", ")
