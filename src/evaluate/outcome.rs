@@ -470,3 +470,20 @@ impl EngineReport<'_> {
             .count()
     }
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn a_scope_section_covering_no_rule_is_unmatched() {
+        let scope = Scope {
+            sections: vec!["5".to_string(), "6.2".to_string(), "4.21".to_string()],
+            from: ScopeFrom::CommandLine,
+        };
+        let rules = ["4.2", "5.1", "5.3", "6.2", "6.21"];
+        // 5 covers 5.1, 6.2 is a rule itself; 4.21 covers neither 4.2 nor 6.21
+        assert_eq!(scope.unmatched(&rules), ["4.21"]);
+        assert_eq!(scope.words(), "5, 6.2, 4.21");
+    }
+}
