@@ -107,6 +107,11 @@ enum Command {
         /// first, then not all clear, then legal; file order within each).
         #[arg(long, value_enum, default_value_t = CheckSort::File)]
         sort: CheckSort,
+        /// Inspect only these sections, joined by commas (`--sections 5,6.2`: section 5 and
+        /// 6.2 with everything under them); the other rules are reported as not in scope.
+        /// Wins over the scope in a declaration's `inspection:` block.
+        #[arg(long, value_name = "SECTIONS", value_delimiter = ',', value_parser = section)]
+        sections: Option<Vec<String>>,
         /// Engine declarations (YAML), or folders of them (searched recursively).
         #[arg(required = true)]
         declarations: Vec<PathBuf>,
@@ -419,6 +424,18 @@ fn draws(text: &str) -> Result<usize, String> {
     Ok(n)
 }
 
+/// One section of `--sections`: whole numbers joined by dots, as a declaration's scope.
+fn section(text: &str) -> Result<String, String> {
+    let written = text.trim();
+    if gonogo::load::inspection::is_section_number(written) {
+        return Ok(written.to_string());
+    }
+    Err(format!(
+        "`{text}` is not a section number; give section numbers like 6.2, joined by commas \
+         (`--sections 5,6.2`)"
+    ))
+}
+
 fn main() -> ExitCode {
     let parsed = gonogo::manual::with_help_notes(Cli::command())
         .try_get_matches()
@@ -605,6 +622,7 @@ fn run(cli: Cli) -> Exit {
             seed,
             record,
             sort,
+            sections,
             declarations,
         } => {
             let Ok(declarations) = reply.walk_field(&declarations) else {
@@ -621,6 +639,7 @@ fn run(cli: Cli) -> Exit {
                 monte_carlo: draws.map(|d| (d, seed.unwrap_or(montecarlo::DEFAULT_SEED))),
                 produced: gonogo::report::provenance::produced_now(),
                 sort,
+                sections: sections.as_deref(),
             };
             match record {
                 Some(log) => reply.finish(check::run_recording(&request, &log)),

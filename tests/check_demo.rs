@@ -35,6 +35,7 @@ fn run(
         monte_carlo: None,
         produced: "2027-05-11T01:46:40Z".to_string(),
         sort: gonogo::commands::check::CheckSort::File,
+        sections: None,
     };
     check::run(&request).map_err(|failure| failure.render(RenderStyle::PLAIN))
 }
@@ -174,6 +175,7 @@ fn the_verdicts_of_every_demo_engine() {
         monte_carlo: None,
         produced: "2027-05-11T01:46:40Z".to_string(),
         sort: gonogo::commands::check::CheckSort::File,
+        sections: None,
     };
     let (json, _) =
         check::run(&request).unwrap_or_else(|e| panic!("{}", e.render(RenderStyle::PLAIN)));

@@ -30,6 +30,7 @@ fn sheet(declaration: &Path) -> String {
         monte_carlo: None,
         produced: "2027-05-11T01:46:40Z".to_string(),
         sort: gonogo::commands::check::CheckSort::File,
+        sections: None,
     };
     check::run(&request)
         .map(|(html, _)| html)
@@ -82,6 +83,7 @@ fn the_close_bore_markdown_report() {
         monte_carlo: None,
         produced: "2027-05-11T01:46:40Z".to_string(),
         sort: gonogo::commands::check::CheckSort::File,
+        sections: None,
     };
     let (markdown, _) = check::run(&request).unwrap_or_else(|e| panic!("{e}"));
     assert!(

@@ -50,6 +50,7 @@ fn an_unfilled_template_checks_to_not_checked() {
             monte_carlo: None,
             produced: "2027-05-11T01:46:40Z".to_string(),
             sort: gonogo::commands::check::CheckSort::File,
+            sections: None,
         };
         let result = check::run(&request);
         let _ = std::fs::remove_file(&path);

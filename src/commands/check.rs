@@ -8,7 +8,7 @@ use std::sync::Arc;
 use super::{Failure, checked_rulebook};
 use crate::check::model::CheckedRulebook;
 use crate::diagnostic::Problem;
-use crate::evaluate::check_engine;
+use crate::evaluate::check_engine_scoped;
 use crate::evaluate::montecarlo::{self, Draws, Settings};
 use crate::evaluate::outcome::EngineReport;
 use crate::exit::Exit;
@@ -87,6 +87,9 @@ pub struct CheckRequest<'a> {
     pub produced: String,
     /// The order of the engines in the report (`--sort`).
     pub sort: CheckSort,
+    /// The sections inspected (`--sections`), in place of each declaration's own scope;
+    /// `None` leaves each declaration's (every rule when it states none).
+    pub sections: Option<&'a [String]>,
 }
 
 /// Runs `check`: the report and the exit status, or every problem of every declaration.
@@ -131,8 +134,12 @@ fn run_with(request: &CheckRequest, log: Option<&Path>) -> Result<(String, Exit)
     let decision = request.role.map(Role::decision);
     let mut reports: Vec<EngineReport> =
         parallel::map(&engines, threads, |(declaration, class, _)| {
-            check_engine(&rulebook, &rulebook.classes[*class], declaration, decision)
+            let class = &rulebook.classes[*class];
+            check_engine_scoped(&rulebook, class, declaration, decision, request.sections)
         });
+    if let Some(problem) = reports.iter().find_map(scope_problem) {
+        return Err(Failure::one(problem));
+    }
     reports
         .iter_mut()
         .for_each(|r| r.produced = Some(request.produced.clone()));
@@ -191,6 +198,26 @@ fn sorted<'e, 't>(
         });
     }
     pairs.into_iter().unzip()
+}
+
+/// C66 when a section of the engine's scope names no rule of its class: a mistyped section
+/// would otherwise inspect nothing and call the engine legal.
+fn scope_problem(report: &EngineReport) -> Option<Problem> {
+    let scope = report.scope.as_ref()?;
+    let sections: Vec<&str> = report.outcomes.iter().map(|o| o.section()).collect();
+    let unmatched = scope.unmatched(&sections);
+    let first = unmatched.first()?;
+    let message = format!(
+        "section {first} of the scope ({}) names no rule of class {} for {}",
+        scope.from.words(),
+        report.class.name,
+        report.declaration.path.display()
+    );
+    let help = format!(
+        "give the section of a rule or of a part above one; the class's rules are {}",
+        sections.join(", ")
+    );
+    Some(Problem::unlocated(crate::diagnostic::codes::check::BAD_SECTIONS, message).with_help(help))
 }
 
 /// A progress bar on standard error for long runs, only when standard error is a terminal

@@ -114,6 +114,8 @@ pub enum Verdict {
     NotChecked,
     /// Its condition does not hold.
     NotApplicable,
+    /// Its section lies outside the inspection's scope: it was not evaluated at all.
+    NotInScope,
 }
 
 impl Verdict {
@@ -124,6 +126,7 @@ impl Verdict {
             Verdict::Illegal => "ILLEGAL",
             Verdict::NotChecked => "NOT CHECKED",
             Verdict::NotApplicable => "NOT APPLICABLE",
+            Verdict::NotInScope => "NOT IN SCOPE",
         }
     }
 }

@@ -29,6 +29,84 @@ pub enum Applies {
     /// Its condition could not be computed (a measurement it reads is missing, or a value
     /// outside its domain): whether the rule applies is not known.
     NotComputed,
+    /// The rule's section lies outside the inspection's scope: its condition was not
+    /// evaluated.
+    NotInScope,
+}
+
+/// Where an inspection's scope came from.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, serde::Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum ScopeFrom {
+    /// The declaration's `inspection.scope`.
+    Declaration,
+    /// `check --sections`, which wins over the declaration.
+    CommandLine,
+}
+
+impl ScopeFrom {
+    /// `from the declaration`, `from the command line`.
+    pub fn words(self) -> &'static str {
+        match self {
+            ScopeFrom::Declaration => "from the declaration",
+            ScopeFrom::CommandLine => "from the command line",
+        }
+    }
+}
+
+/// The sections an inspection covered; a rule outside them is not in scope.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct Scope {
+    /// The section numbers, as written (`5`, `6.2`).
+    pub sections: Vec<String>,
+    /// Where they came from.
+    pub from: ScopeFrom,
+}
+
+impl Scope {
+    /// The scope in force: `command_line` (`--sections`) when given, else the declaration's;
+    /// `None` is every rule of the class.
+    pub fn chosen(command_line: Option<&[String]>, declaration: &Declaration) -> Option<Scope> {
+        let from_declaration = || {
+            let sections = declaration.inspection.scope.clone()?;
+            Some(Scope {
+                sections,
+                from: ScopeFrom::Declaration,
+            })
+        };
+        match command_line {
+            Some(sections) => Some(Scope {
+                sections: sections.to_vec(),
+                from: ScopeFrom::CommandLine,
+            }),
+            None => from_declaration(),
+        }
+    }
+
+    /// Whether a rule's section lies in the scope ([`crate::load::inspection::in_scope`]).
+    pub fn covers(&self, section: &str) -> bool {
+        crate::load::inspection::in_scope(&self.sections, section)
+    }
+
+    /// The scope's sections that cover none of `sections` (a rule's section numbers): a scope
+    /// that names no rule inspects nothing there, which is a mistake in the input.
+    pub fn unmatched(&self, sections: &[&str]) -> Vec<&str> {
+        self.sections
+            .iter()
+            .filter(|s| {
+                let one = std::slice::from_ref(*s);
+                !sections
+                    .iter()
+                    .any(|section| crate::load::inspection::in_scope(one, section))
+            })
+            .map(String::as_str)
+            .collect()
+    }
+
+    /// `5, 6.2`.
+    pub fn words(&self) -> String {
+        self.sections.join(", ")
+    }
 }
 
 /// A numeric limit checked.
@@ -150,6 +228,25 @@ pub enum Trace<'a> {
     },
 }
 
+impl<'a> Outcome<'a> {
+    /// A rule outside the inspection's scope: not evaluated at all, so no finding, no numbers
+    /// and no trace.
+    pub fn not_in_scope(rule: &'a ClassRule, decision: DecisionRule) -> Outcome<'a> {
+        Outcome {
+            rule,
+            decision,
+            applies: Applies::NotInScope,
+            verdict: Verdict::NotInScope,
+            checked: None,
+            missing: Vec::new(),
+            not_finite: false,
+            outside_domain: Vec::new(),
+            error: None,
+            trace: Vec::new(),
+        }
+    }
+}
+
 /// One rule's outcome.
 #[derive(Clone, Debug)]
 pub struct Outcome<'a> {
@@ -202,15 +299,14 @@ impl Outcome<'_> {
     /// The symbol reports print beside the verdict, so it never rests on colour alone. It says
     /// what the measurement shows, whatever the decision rule makes of it (the verdict's word
     /// says that): ✓ proven pass, (✓) pass not proven, (✗) fail not proven, ✗ proven fail,
-    /// ? not checked, – not applicable. A call is not proven when its finding is conditional
+    /// ? not checked, – not applicable, ○ not in scope. A call is not proven when its finding is conditional
     /// or its condition uncertain; a rule without a finding takes its side from its verdict.
     pub fn mark(&self) -> &'static str {
-        if matches!(self.verdict, Verdict::NotChecked | Verdict::NotApplicable) {
-            return if self.verdict == Verdict::NotChecked {
-                "?"
-            } else {
-                "–"
-            };
+        match self.verdict {
+            Verdict::NotChecked => return "?",
+            Verdict::NotApplicable => return "–",
+            Verdict::NotInScope => return "○",
+            Verdict::Legal | Verdict::Illegal => {}
         }
         let passes = self
             .checked
@@ -302,6 +398,9 @@ pub struct EngineReport<'a> {
     pub outcomes: Vec<Outcome<'a>>,
     /// When the report was produced (RFC 3339, UTC), set by the command that makes it.
     pub produced: Option<String>,
+    /// The sections inspected, when not every rule of the class: rules outside them are not
+    /// in scope.
+    pub scope: Option<Scope>,
 }
 
 impl EngineReport<'_> {
@@ -314,14 +413,16 @@ impl EngineReport<'_> {
         }
     }
 
-    /// How many rules got each verdict: legal, illegal, not checked, not applicable.
-    pub fn counts(&self) -> [usize; 4] {
+    /// How many rules got each verdict: legal, illegal, not checked, not applicable, not in
+    /// scope.
+    pub fn counts(&self) -> [usize; 5] {
         let count = |v: Verdict| self.outcomes.iter().filter(|o| o.verdict == v).count();
         [
             count(Verdict::Legal),
             count(Verdict::Illegal),
             count(Verdict::NotChecked),
             count(Verdict::NotApplicable),
+            count(Verdict::NotInScope),
         ]
     }
 
@@ -367,5 +468,22 @@ impl EngineReport<'_> {
                     || o.applies == Applies::Uncertain
             })
             .count()
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn a_scope_section_covering_no_rule_is_unmatched() {
+        let scope = Scope {
+            sections: vec!["5".to_string(), "6.2".to_string(), "4.21".to_string()],
+            from: ScopeFrom::CommandLine,
+        };
+        let rules = ["4.2", "5.1", "5.3", "6.2", "6.21"];
+        // 5 covers 5.1, 6.2 is a rule itself; 4.21 covers neither 4.2 nor 6.21
+        assert_eq!(scope.unmatched(&rules), ["4.21"]);
+        assert_eq!(scope.words(), "5, 6.2, 4.21");
     }
 }

@@ -113,7 +113,7 @@ fn engine(out: &mut String, v: &EngineView) {
     let _ = writeln!(
         out,
         "<p class=\"key\">Marks: {}. The mark says what the measurement shows; the word, the call under the decision rule in force.</p>",
-        escape(super::view::MARKS)
+        escape(&v.marks())
     );
     calls(out, v);
     seals(out, v);
@@ -128,7 +128,7 @@ fn engine(out: &mut String, v: &EngineView) {
 
 fn identity(out: &mut String, v: &EngineView) {
     out.push_str("<table class=\"identity\">\n");
-    let rows = [
+    let mut rows = vec![
         ("Engine", v.engine.clone()),
         ("Car", v.car.clone()),
         ("Event", v.event.clone()),
@@ -138,6 +138,9 @@ fn identity(out: &mut String, v: &EngineView) {
         ("Rules in force", Some(v.rules_in_force())),
         ("Declaration", Some(v.file.clone())),
     ];
+    if let Some(inspected) = v.inspected.words() {
+        rows.push(("Inspected", Some(inspected)));
+    }
     for pair in rows.chunks(2) {
         out.push_str("<tr>");
         for (label, value) in pair {
@@ -241,7 +244,7 @@ fn class_of(rule: &RuleView) -> &'static str {
         Verdict::Legal => "legal",
         Verdict::Illegal => "illegal",
         Verdict::NotChecked => "uncertain",
-        Verdict::NotApplicable => "na",
+        Verdict::NotApplicable | Verdict::NotInScope => "na",
     }
 }
 

@@ -45,7 +45,10 @@ fn engine(v: &EngineView) -> String {
         v.file
     );
     let _ = writeln!(out, "**{} {}**\n", v.result.mark(), v.result_words());
-    let _ = writeln!(out, "Marks: {}\n", super::view::MARKS);
+    if let Some(inspected) = v.inspected.words() {
+        let _ = writeln!(out, "Inspected: {inspected}\n");
+    }
+    let _ = writeln!(out, "Marks: {}\n", v.marks());
     for rule in &v.rules {
         rule_lines(&mut out, rule, v);
     }

@@ -38,12 +38,15 @@ fn header(out: &mut String, v: &EngineView) {
     if !parts.is_empty() {
         let _ = writeln!(out, "{}", parts.join(" · "));
     }
+    if let Some(inspected) = v.inspected.words() {
+        let _ = writeln!(out, "inspected: {inspected}");
+    }
     let _ = writeln!(out, "decision rule: {}", v.decision_words());
     let _ = writeln!(out, "rules in force: {}", v.rules_in_force());
     let _ = writeln!(out, "declaration: {}", v.file);
     provenance(out, v);
     let _ = writeln!(out, "\nresult: {}", v.result_words());
-    let _ = writeln!(out, "marks: {}", super::view::MARKS);
+    let _ = writeln!(out, "marks: {}", v.marks());
 }
 
 /// The provenance block: who made the report and when, then the fingerprints in full, so a

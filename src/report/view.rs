@@ -27,6 +27,53 @@ use crate::units::{self, Unit};
 /// measurement shows, the verdict's word what the decision rule in force makes of it.
 pub const MARKS: &str = "✓ proven pass · (✓) pass, not proven · (✗) fail, not proven · ✗ proven fail · ? not checked · – not applicable";
 
+/// The mark of a rule not in scope, and its entry in the key (added only when a scope
+/// applies, so a full inspection's key is unchanged).
+pub const NOT_IN_SCOPE_MARK: &str = "○ not in scope";
+
+/// Why the engine was inspected and what the inspection covered, from the declaration's
+/// `inspection:` block and `check --sections`.
+#[derive(Clone, Debug, Default, PartialEq, Eq, Serialize)]
+pub struct InspectedView {
+    /// Why (`after-feature`, `protest`, `claim`, `random-draw`, or the declaration's words).
+    pub reason: Option<String>,
+    /// The protest's, claim's or draw's reference.
+    pub reference: Option<String>,
+    /// The sections inspected; `null` is every rule of the class.
+    pub scope: Option<Vec<String>>,
+    /// Where the scope came from: `declaration` or `command_line`; `null` without a scope.
+    pub scope_from: Option<crate::evaluate::outcome::ScopeFrom>,
+}
+
+impl InspectedView {
+    fn of(r: &EngineReport) -> InspectedView {
+        let inspection = &r.declaration.inspection;
+        InspectedView {
+            reason: inspection.reason.as_ref().map(|x| x.words().to_string()),
+            reference: inspection.reference.clone(),
+            scope: r.scope.as_ref().map(|s| s.sections.clone()),
+            scope_from: r.scope.as_ref().map(|s| s.from),
+        }
+    }
+
+    /// `protest PR-27-11 · scope 5, 6.2 (from the declaration)`; `None` for a full inspection
+    /// with no stated reason.
+    pub fn words(&self) -> Option<String> {
+        let why = match (&self.reason, &self.reference) {
+            (Some(reason), Some(reference)) => Some(format!("{reason} {reference}")),
+            (Some(reason), None) => Some(reason.clone()),
+            (None, Some(reference)) => Some(reference.clone()),
+            (None, None) => None,
+        };
+        let scope = self.scope.as_ref().map(|sections| {
+            let from = self.scope_from.map_or("", |f| f.words());
+            format!("scope {} ({from})", sections.join(", "))
+        });
+        let parts: Vec<String> = [why, scope].into_iter().flatten().collect();
+        (!parts.is_empty()).then(|| parts.join(" · "))
+    }
+}
+
 /// One engine checked against one class, as every report shows it.
 #[derive(Clone, Debug, Serialize)]
 pub struct EngineView {
@@ -56,6 +103,8 @@ pub struct EngineView {
     pub heading: String,
     /// The bulletins in force on the declaration's date, by id.
     pub bulletins: Vec<String>,
+    /// Why the engine was inspected and the scope that applied.
+    pub inspected: InspectedView,
     /// The decision rule applied, in the rulebook's words.
     pub decision: &'static str,
     /// Where the decision rule came from.
@@ -123,15 +172,22 @@ pub struct Counts {
     pub not_checked: usize,
     /// Not applicable.
     pub not_applicable: usize,
+    /// Outside the inspection's scope: not evaluated.
+    pub not_in_scope: usize,
     /// Conditional findings or uncertain conditions, any verdict.
     pub conditional: usize,
 }
 
 impl Counts {
-    /// `18 legal, 0 illegal, 0 not checked, 2 not applicable; 0 conditional`.
+    /// `18 legal, 0 illegal, 0 not checked, 2 not applicable; 0 conditional`, with
+    /// `, 4 not in scope` after the not applicable when any rule is outside the scope.
     pub fn words(&self) -> String {
+        let scope = match self.not_in_scope {
+            0 => String::new(),
+            n => format!(", {n} not in scope"),
+        };
         format!(
-            "{} legal, {} illegal, {} not checked, {} not applicable; {} conditional",
+            "{} legal, {} illegal, {} not checked, {} not applicable{scope}; {} conditional",
             self.legal, self.illegal, self.not_checked, self.not_applicable, self.conditional
         )
     }
@@ -531,7 +587,7 @@ impl EngineView {
             .iter()
             .map(|o| RuleView::new(o, r, &mut book))
             .collect();
-        let [legal, illegal, not_checked, not_applicable] = r.counts();
+        let [legal, illegal, not_checked, not_applicable, not_in_scope] = r.counts();
         let id = &r.declaration.identity;
         let result = r.result();
         EngineView {
@@ -548,6 +604,7 @@ impl EngineView {
             class_title: r.class.title.clone(),
             heading: r.heading(),
             bulletins: r.bulletins.to_vec(),
+            inspected: InspectedView::of(r),
             decision: r.decision.words(),
             decision_from: if r.decision_overridden {
                 DecisionFrom::CommandLine
@@ -561,6 +618,7 @@ impl EngineView {
                 illegal,
                 not_checked,
                 not_applicable,
+                not_in_scope,
                 conditional: r.conditional_count(),
             },
             closest_call: closest_call(r),
@@ -590,6 +648,14 @@ impl EngineView {
             ""
         };
         format!("{edition}{bulletins}{undated}")
+    }
+
+    /// The key of the marks: [`MARKS`], and the not-in-scope mark when a scope applies.
+    pub fn marks(&self) -> String {
+        match self.inspected.scope {
+            Some(_) => format!("{MARKS} · {NOT_IN_SCOPE_MARK}"),
+            None => MARKS.to_string(),
+        }
     }
 
     /// `guarded rejection (the rulebook's)`.
@@ -845,6 +911,7 @@ impl RuleView {
             Applies::NotMeasured => {
                 "not judged: the rule reads an optional measurement that is not given"
             }
+            Applies::NotInScope => "not evaluated: the rule is outside the inspection's scope",
             // a rule without conditions shows no condition
             Applies::Always => "no condition",
         }

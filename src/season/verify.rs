@@ -178,6 +178,7 @@ fn check_in(log: &Log, stored: &Stored, folder: &Path) -> Result<String, String>
         monte_carlo: None,
         produced: crate::report::provenance::produced_now(),
         sort: crate::commands::check::CheckSort::File,
+        sections: None,
     };
     let (report, _) =
         crate::commands::check::run(&request).map_err(|f| first_line(&f.to_string()))?;
