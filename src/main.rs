@@ -150,8 +150,12 @@ enum Command {
         /// The new edition.
         new: PathBuf,
         /// Engine declarations, or folders of them (searched recursively).
-        #[arg(required = true)]
+        #[arg(required_unless_present = "log")]
         declarations: Vec<PathBuf>,
+        /// A season log (`check --record`): each engine's latest recorded declaration joins
+        /// the field, read from the bytes stored in the log.
+        #[arg(long, value_name = "FILE")]
+        log: Option<PathBuf>,
         /// Whose decision rule to apply (the new edition's by default).
         #[arg(long = "as", value_enum)]
         role: Option<Role>,
@@ -664,6 +668,7 @@ fn run(cli: Cli) -> Exit {
             old,
             new,
             declarations,
+            log,
             role,
             sides,
             all,
@@ -676,6 +681,7 @@ fn run(cli: Cli) -> Exit {
                 old: &old,
                 new: &new,
                 declarations: &declarations,
+                log: log.as_deref(),
                 role,
                 sides: sides.request(),
                 all,
@@ -806,12 +812,14 @@ fn stdin_at_most_once(command: &Command) -> Result<(), Problem> {
             old,
             new,
             declarations,
+            log,
             sides,
             ..
         } => [old, new]
             .into_iter()
             .chain(&sides.with_bulletin)
             .chain(declarations)
+            .chain(log)
             .map(PathBuf::as_path)
             .collect(),
         Command::Diff {

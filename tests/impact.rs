@@ -29,6 +29,7 @@ fn run_with(
         old: Path::new(OLD),
         new: Path::new(new),
         declarations: named,
+        log: None,
         role: None,
         sides,
         all: false,

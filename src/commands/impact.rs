@@ -11,8 +11,9 @@ use crate::analyze::compare::When;
 use crate::analyze::impact::{Engine, impact};
 use crate::check::model::CheckedRulebook;
 use crate::diagnostic::Problem;
-use crate::load::{Declaration, LoadProblem, load_declaration};
+use crate::load::{Declaration, LoadProblem, declaration_from_text, load_declaration};
 use crate::report::impact::{Heading, ImpactFormat, render};
+use crate::season::schema::{Log, Mode};
 use crate::source::SourceMap;
 
 /// What `impact` was asked.
@@ -23,6 +24,8 @@ pub struct ImpactRequest<'a> {
     pub new: &'a std::path::Path,
     /// Declarations and folders of them, already walked.
     pub declarations: &'a [PathBuf],
+    /// A season log whose recorded declarations join the field (each engine's latest).
+    pub log: Option<&'a std::path::Path>,
     /// Whose decision rule, when not the rulebook's.
     pub role: Option<Role>,
     /// The dates each edition is taken on, and a draft bulletin.
@@ -44,7 +47,7 @@ pub type Field = (
 pub fn run(request: &ImpactRequest) -> Result<String, Failure> {
     let sides = load_sides(request.old, request.new, request.sides)?;
     let (old_book, new_book) = (&sides.old.book, &sides.new.book);
-    let (loaded, unreadable) = gather_field(request.declarations, old_book, new_book)?;
+    let (loaded, unreadable) = gather_field(request.declarations, request.log, old_book, new_book)?;
     if loaded.is_empty() {
         let list: Vec<String> = unreadable
             .iter()
@@ -87,9 +90,11 @@ pub fn run(request: &ImpactRequest) -> Result<String, Failure> {
     Ok(render(&heading, &result, &unreadable, request.format))
 }
 
-/// Every declaration named, read under both editions.
+/// Every declaration named, then each engine's latest declaration recorded in the season log,
+/// read under both editions.
 fn gather_field(
     named: &[PathBuf],
+    log: Option<&std::path::Path>,
     old: &CheckedRulebook,
     new: &CheckedRulebook,
 ) -> Result<Field, Failure> {
@@ -97,12 +102,39 @@ fn gather_field(
     let mut loaded = Vec::new();
     let mut unreadable = Vec::new();
     for path in &files {
-        match load_both(path, old, new) {
+        match load_both(path, None, old, new) {
+            Ok(both) => loaded.push(both),
+            Err(why) => unreadable.push((path.display().to_string(), why)),
+        }
+    }
+    for (path, text) in log.map(recorded).transpose()?.into_iter().flatten() {
+        match text.and_then(|t| load_both(&path, Some(t), old, new)) {
             Ok(both) => loaded.push(both),
             Err(why) => unreadable.push((path.display().to_string(), why)),
         }
     }
     Ok((loaded, unreadable))
+}
+
+/// A recorded declaration: its name, and its text or why it is not text.
+type Recorded = (PathBuf, Result<String, String>);
+
+/// Each engine's latest recorded declaration, named `LOG#SEQ (FILE)`, with its stored text
+/// (or why it is not text).
+fn recorded(log: &std::path::Path) -> Result<Vec<Recorded>, Failure> {
+    let opened = Log::open(log, Mode::Existing).map_err(Failure::one)?;
+    let latest = opened.latest_of_each_engine().map_err(Failure::one)?;
+    let mut field = Vec::with_capacity(latest.len());
+    for stored in latest {
+        let name = format!("{}#{} ({})", log.display(), stored.seq, stored.entry.file);
+        let bytes = opened
+            .blob(&stored.entry.declaration)
+            .map_err(Failure::one)?;
+        let text = String::from_utf8(bytes)
+            .map_err(|_| "the recorded declaration is not UTF-8 text".to_string());
+        field.push((PathBuf::from(name), text));
+    }
+    Ok(field)
 }
 
 /// `edition 2027 with its bulletins`, `edition 2027 on 2027-07-01 with draft TVB-27-09`.
@@ -142,14 +174,20 @@ fn every_problem(problems: &[Problem], sources: &SourceMap) -> String {
 /// The declaration read against each edition's schema, and its class (in both editions),
 /// found as `check` finds it. It is not dated against the editions: the field is checked
 /// under each edition as published, whatever season its declarations were measured in.
+/// `text` is the declaration's when it does not come from the file (a recorded one).
 fn load_both(
     path: &std::path::Path,
+    text: Option<String>,
     old: &CheckedRulebook,
     new: &CheckedRulebook,
 ) -> Result<(Declaration, Declaration, String), String> {
     let mut sources = SourceMap::default();
-    let o = load_declaration(path, old, &mut sources).map_err(|p| every_problem(&p, &sources))?;
-    let n = load_declaration(path, new, &mut sources).map_err(|p| every_problem(&p, &sources))?;
+    let read = |book: &CheckedRulebook, sources: &mut SourceMap| match &text {
+        Some(t) => declaration_from_text(path, t.clone(), book, sources),
+        None => load_declaration(path, book, sources),
+    };
+    let o = read(old, &mut sources).map_err(|p| every_problem(&p, &sources))?;
+    let n = read(new, &mut sources).map_err(|p| every_problem(&p, &sources))?;
     let (_, found) = class_of(path, &n, new, None)
         .map_err(|e| every_problem(&[LoadProblem::unlocated(e).problem()], &sources))?;
     let class = found.name.clone();

@@ -194,3 +194,15 @@ fn stored(row: &Row) -> rusqlite::Result<Stored> {
         entry_hash: row.get(23)?,
     })
 }
+
+impl Log {
+    /// The latest inspection of each engine, in the order recorded; an inspection whose
+    /// declaration names no engine counts as an engine of its own (`impact --log`'s field).
+    pub fn latest_of_each_engine(&self) -> Result<Vec<Stored>, Problem> {
+        let sql = format!(
+            "SELECT {COLUMNS} FROM inspection WHERE seq IN (SELECT max(seq) FROM inspection \
+             GROUP BY coalesce(engine, 'seq ' || seq)) ORDER BY seq"
+        );
+        self.select(&sql, Vec::new())
+    }
+}
