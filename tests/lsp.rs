@@ -381,6 +381,9 @@ fn a_rule_hovers_as_explain_gives_it_and_names_are_found_everywhere() {
         json!({"textDocument": {"uri": uri}, "options": {"tabSize": 2, "insertSpaces": true}}),
     );
     let edits = format["result"].as_array().or_panic("formatting edits");
+    // the demo is not yet in canonical form (two long lines, entries two to a line), so there
+    // is an edit to look at; an empty answer would leave this test asserting nothing
+    assert_eq!(edits.len(), 1, "{format}");
     for edit in edits {
         let text = edit["newText"].as_str().or_panic("new text");
         assert!(text.contains("\n# "), "a comment is lost: {text}");

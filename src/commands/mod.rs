@@ -141,7 +141,15 @@ pub fn load_editions(
     old: &std::path::Path,
     new: &std::path::Path,
 ) -> Result<(CheckedRulebook, CheckedRulebook), Failure> {
-    let (a, b) = (load_rulebook(old), load_rulebook(new));
+    checked_pair(load_rulebook(old), load_rulebook(new))
+}
+
+/// Two loaded editions as checked rulebooks of one series, or every problem of both (and a
+/// refusal when their series differ). Shared by `diff`, `impact` and their dated sides.
+pub fn checked_pair(
+    a: LoadedRulebook,
+    b: LoadedRulebook,
+) -> Result<(CheckedRulebook, CheckedRulebook), Failure> {
     let (Some(old_book), Some(new_book)) = (a.checked, b.checked) else {
         let mut failure = Failure::new(a.problems, a.sources);
         failure.0.push(ProblemSet {

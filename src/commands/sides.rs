@@ -6,7 +6,7 @@
 
 use std::path::Path;
 
-use super::{Failure, LoadedRulebook, ProblemSet, different_series, load_rulebook};
+use super::{Failure, LoadedRulebook, load_rulebook};
 use crate::analyze::compare::{When, same_edition};
 use crate::check::model::CheckedRulebook;
 use crate::diagnostic::{Level, Problem, codes};
@@ -83,20 +83,7 @@ pub fn load_sides(old: &Path, new: &Path, request: SideRequest) -> Result<Sides,
         None => load_rulebook(new),
     };
     let draft = request.draft.and_then(|_| draft_of(&b));
-    let (Some(old_book), Some(new_book)) = (a.checked, b.checked) else {
-        let mut failure = Failure::new(a.problems, a.sources);
-        failure.0.push(ProblemSet {
-            problems: b.problems,
-            sources: b.sources,
-        });
-        return Err(failure);
-    };
-    if old_book.series != new_book.series {
-        return Err(Failure::one(different_series(
-            &old_book.series,
-            &new_book.series,
-        )));
-    }
+    let (old_book, new_book) = super::checked_pair(a, b)?;
     let new_when = match (&draft, new_on) {
         (Some(d), None) => When::On(d.effective),
         (Some(d), Some(on)) if on < d.effective => {
