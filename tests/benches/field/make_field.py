@@ -12,6 +12,9 @@ as written stay as many. Files go into sub-folders of 1,000 so a folder listing 
 
 The rulebook is the demo's 2027 edition with its Street Stock class repeated under new names
 until the file reaches BYTES: every copy is a valid class, so `lint` finds no error.
+
+GONOGO_TEMPLATES=DIR takes the templates from DIR instead of engines-demo/ (same_bytes.sh uses
+it to make a field an older gonogo can read too).
 """
 
 import os
@@ -24,7 +27,7 @@ QUANTITY = re.compile(r'"(-?)(\d+)\.(\d+) ([A-Za-z%]+)"')
 
 
 def demo_engines():
-    folder = os.path.join(ROOT, "engines-demo")
+    folder = os.environ.get("GONOGO_TEMPLATES") or os.path.join(ROOT, "engines-demo")
     names = sorted(n for n in os.listdir(folder) if n.endswith(".yaml"))
     return [open(os.path.join(folder, n), encoding="utf-8").read() for n in names]
 
