@@ -564,6 +564,22 @@ impl<'a> Reply<'a> {
         }
     }
 
+    /// A document the command writes as it goes: into a [`gonogo::output::Pending`], given to the
+    /// destination only when the whole command succeeded, so a failure leaves it untouched.
+    fn stream(&self, run: impl FnOnce(&mut dyn std::io::Write) -> Result<Exit, Failure>) -> Exit {
+        let mut pending = match self.output.pending() {
+            Ok(pending) => pending,
+            Err(problem) => return self.fail(Failure::one(problem)),
+        };
+        match run(&mut pending) {
+            Ok(exit) => match pending.commit() {
+                Ok(()) => exit,
+                Err(problem) => self.fail(Failure::one(problem)),
+            },
+            Err(failure) => self.fail(failure),
+        }
+    }
+
     /// Writes the document; a failed write is rendered and exit 2.
     fn write(&self, text: &str, exit: Exit) -> Exit {
         match self.output.write(text) {
@@ -646,8 +662,8 @@ fn run(cli: Cli) -> Exit {
                 sections: sections.as_deref(),
             };
             match record {
-                Some(log) => reply.finish(check::run_recording(&request, &log)),
-                None => reply.finish(check::run(&request)),
+                Some(log) => reply.stream(|out| check::run_recording_to(&request, &log, out)),
+                None => reply.stream(|out| check::run_to(&request, out)),
             }
         }
         Command::Lint { files, format } => reply.lint(&lint::run(&files), format),

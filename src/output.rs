@@ -21,9 +21,13 @@
 //!   the text that was read: a file changed meanwhile is left alone (`W07 input-changed`),
 //!   so an edit saved while gonogo ran is never lost. Standard input cannot be written back
 //!   (`W08 rewrite-stdin`).
+//! - A long document (`check` over a field) is written as it is made, into a [`Pending`]: a
+//!   temporary file beside the target, renamed over it only when the whole run succeeded,
+//!   or for standard output and devices a spool (memory, then an unlinked temporary file)
+//!   copied there at the end. A run that fails half-way leaves the target as it was.
 
 use std::fs::{self, OpenOptions, Permissions};
-use std::io::{ErrorKind, IsTerminal, Write};
+use std::io::{BufWriter, ErrorKind, IsTerminal, Seek, Write};
 use std::path::{Path, PathBuf};
 
 use crate::diagnostic::Problem;
@@ -82,6 +86,100 @@ impl Destination {
             Destination::File(target) => target.write(text.as_bytes()),
         }
     }
+
+    /// A document to be written here bit by bit and given over only by [`Pending::commit`].
+    /// A file's temporary twin is made now, so a folder that cannot be written is said at once.
+    pub fn pending(&self) -> Result<Pending<'_>, Problem> {
+        let spool = match self {
+            Destination::File(Target {
+                given,
+                kind: Kind::New(path) | Kind::Replace(path, _),
+            }) => Spool::Beside(BufWriter::new(
+                Twin::beside(path).map_err(|e| write_failed(given, &e))?,
+            )),
+            _ => Spool::Anywhere(tempfile::SpooledTempFile::new(STDOUT_IN_MEMORY)),
+        };
+        Ok(Pending {
+            destination: self,
+            spool,
+        })
+    }
+}
+
+/// Bytes of a document for standard output or a device kept in memory before the rest
+/// goes to an unlinked temporary file.
+const STDOUT_IN_MEMORY: usize = 8 << 20;
+
+/// A document on its way to a [`Destination`]: written with [`Write`], given over by
+/// [`Pending::commit`]. Dropped without a commit, it leaves the destination untouched and
+/// its temporary file is removed.
+pub struct Pending<'d> {
+    destination: &'d Destination,
+    spool: Spool,
+}
+
+enum Spool {
+    /// A temporary file beside the target, renamed over it at the end.
+    Beside(BufWriter<Twin>),
+    /// Memory, then an unlinked temporary file; copied to standard output or a device.
+    Anywhere(tempfile::SpooledTempFile),
+}
+
+impl Write for Pending<'_> {
+    fn write(&mut self, bytes: &[u8]) -> std::io::Result<usize> {
+        match &mut self.spool {
+            Spool::Beside(file) => file.write(bytes),
+            Spool::Anywhere(spool) => spool.write(bytes),
+        }
+    }
+
+    fn flush(&mut self) -> std::io::Result<()> {
+        match &mut self.spool {
+            Spool::Beside(file) => file.flush(),
+            Spool::Anywhere(spool) => spool.flush(),
+        }
+    }
+}
+
+impl Pending<'_> {
+    /// Gives the whole document to its destination: renames the temporary file over the
+    /// target (refused, and nothing written, when the target is a file this run read), or
+    /// copies the spool to standard output or the device.
+    pub fn commit(self) -> Result<(), Problem> {
+        match (self.spool, self.destination) {
+            (Spool::Beside(file), Destination::File(target)) => {
+                target.refuse_an_input()?;
+                let twin = file
+                    .into_inner()
+                    .map_err(|e| write_failed(&target.given, e.error()))?;
+                let permissions = match &target.kind {
+                    Kind::Replace(_, permissions) => Some(permissions.clone()),
+                    _ => None,
+                };
+                twin.persist(permissions)
+                    .map_err(|e| write_failed(&target.given, &e))
+            }
+            (Spool::Anywhere(mut spool), Destination::File(target)) => {
+                target.refuse_an_input()?;
+                spool
+                    .rewind()
+                    .and_then(|()| copy_directly(&target.path(), &mut spool))
+                    .map_err(|e| write_failed(&target.given, &e))
+            }
+            (Spool::Anywhere(mut spool), Destination::Stdout) => copy_to_stdout(&mut spool),
+            // a twin is only made for a file
+            (Spool::Beside(_), Destination::Stdout) => Ok(()),
+        }
+    }
+}
+
+/// A failure to write a run's spool, which holds the document until the run ends.
+pub fn spool_failed(e: &std::io::Error) -> Problem {
+    Problem::unlocated(
+        codes::WRITE_FAILED,
+        format!("cannot write the report as it is made: {e}"),
+    )
+    .with_help("check that the temporary folder ($TMPDIR) and the output's folder have room")
 }
 
 impl Target {
@@ -106,6 +204,9 @@ impl Target {
                 format!("`{}` is a folder", given.display()),
             )
             .with_help("name a file to write to, in a folder that exists"));
+        }
+        if metadata.is_file() {
+            crate::source::watch(given);
         }
         if !metadata.is_file() || is_system_path(given) {
             return Ok(target(Kind::Direct(given.to_path_buf())));
@@ -138,6 +239,13 @@ impl Target {
             Kind::Direct(path) => write_directly(path, bytes),
         };
         written.map_err(|e| write_failed(&self.given, &e))
+    }
+
+    /// The path written to.
+    fn path(&self) -> PathBuf {
+        match &self.kind {
+            Kind::New(path) | Kind::Replace(path, _) | Kind::Direct(path) => path.clone(),
+        }
     }
 
     /// Refuses a target that names a file this run has read, however it was named.
@@ -263,31 +371,65 @@ fn replace_atomically(
     bytes: &[u8],
     permissions: Option<Permissions>,
 ) -> std::io::Result<()> {
-    let folder = match path.parent() {
-        Some(p) if !p.as_os_str().is_empty() => p.to_path_buf(),
-        _ => PathBuf::from("."),
-    };
-    let name = path
-        .file_name()
-        .map(|n| n.to_string_lossy().into_owned())
-        .unwrap_or_default();
-    let temporary = folder.join(format!(".{name}.{}.partial", std::process::id()));
-    let written = write_new(&temporary, bytes, permissions)
-        .and_then(|()| fs::rename(&temporary, path))
-        .and_then(|()| sync_folder(&folder));
-    if written.is_err() {
-        let _ = fs::remove_file(&temporary);
-    }
-    written
+    let mut twin = Twin::beside(path)?;
+    twin.write_all(bytes)?;
+    twin.persist(permissions)
 }
 
-fn write_new(path: &Path, bytes: &[u8], permissions: Option<Permissions>) -> std::io::Result<()> {
-    let mut file = OpenOptions::new().write(true).create_new(true).open(path)?;
-    file.write_all(bytes)?;
-    if let Some(permissions) = permissions {
-        file.set_permissions(permissions)?;
+/// The temporary file that becomes a target: made in the target's folder (so the rename is
+/// atomic) under a hidden name ending `.partial`, removed if dropped before [`Twin::persist`].
+pub struct Twin {
+    file: tempfile::NamedTempFile,
+    path: PathBuf,
+    folder: PathBuf,
+}
+
+impl Twin {
+    /// A new twin for `path`, with the mode a new file would get (0666 less the umask).
+    fn beside(path: &Path) -> std::io::Result<Twin> {
+        let folder = match path.parent() {
+            Some(p) if !p.as_os_str().is_empty() => p.to_path_buf(),
+            _ => PathBuf::from("."),
+        };
+        let name = path
+            .file_name()
+            .map(|n| n.to_string_lossy().into_owned())
+            .unwrap_or_default();
+        let prefix = format!(".{name}.");
+        let mut builder = tempfile::Builder::new();
+        builder.prefix(&prefix).suffix(".partial");
+        #[cfg(unix)]
+        {
+            use std::os::unix::fs::PermissionsExt;
+            builder.permissions(Permissions::from_mode(0o666));
+        }
+        Ok(Twin {
+            file: builder.tempfile_in(&folder)?,
+            path: path.to_path_buf(),
+            folder,
+        })
     }
-    file.sync_all()
+
+    /// Syncs the twin, gives it `permissions`, renames it over the target and syncs the
+    /// folder.
+    fn persist(self, permissions: Option<Permissions>) -> std::io::Result<()> {
+        if let Some(permissions) = permissions {
+            self.file.as_file().set_permissions(permissions)?;
+        }
+        self.file.as_file().sync_all()?;
+        self.file.persist(&self.path).map_err(|e| e.error)?;
+        sync_folder(&self.folder)
+    }
+}
+
+impl Write for Twin {
+    fn write(&mut self, bytes: &[u8]) -> std::io::Result<usize> {
+        self.file.write(bytes)
+    }
+
+    fn flush(&mut self) -> std::io::Result<()> {
+        self.file.flush()
+    }
 }
 
 /// Syncs a folder so a rename in it survives a crash (Unix; elsewhere nothing to do).
@@ -313,6 +455,33 @@ fn write_directly(path: &Path, bytes: &[u8]) -> std::io::Result<()> {
         .open(path)?;
     file.write_all(bytes)?;
     file.flush()
+}
+
+/// [`write_directly`] for a spooled document.
+fn copy_directly(path: &Path, spool: &mut impl std::io::Read) -> std::io::Result<()> {
+    let regular = fs::metadata(path).is_ok_and(|m| m.is_file());
+    let mut file = OpenOptions::new()
+        .write(true)
+        .truncate(regular)
+        .open(path)?;
+    std::io::copy(spool, &mut file)?;
+    file.flush()
+}
+
+/// [`to_stdout`] for a spooled document.
+fn copy_to_stdout(spool: &mut tempfile::SpooledTempFile) -> Result<(), Problem> {
+    let copied = spool.rewind().and_then(|()| {
+        let mut out = std::io::stdout().lock();
+        std::io::copy(spool, &mut out).and_then(|_| out.flush())
+    });
+    match copied {
+        Err(e) if e.kind() != ErrorKind::BrokenPipe => Err(Problem::unlocated(
+            codes::WRITE_FAILED,
+            format!("cannot write to standard output: {e}"),
+        )
+        .with_help("check that the disk or device standard output goes to has room")),
+        _ => Ok(()),
+    }
 }
 
 #[cfg(test)]

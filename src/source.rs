@@ -259,12 +259,33 @@ pub fn device_inode(_metadata: &std::fs::Metadata) -> Option<(u64, u64)> {
     None
 }
 
-/// Every file this process has read, as the path it was read by and its key.
+/// The files whose reading is remembered: the files this process will write (an existing
+/// `--output` file), so a field of any size is read without a log that grows with it.
+static WATCHED: Mutex<Vec<FileKey>> = Mutex::new(Vec::new());
+
+/// Every watched file this process has read, as the path it was read by and its key; and
+/// standard input when it is a regular file.
 static READ_LOG: Mutex<Vec<(PathBuf, FileKey)>> = Mutex::new(Vec::new());
 
+/// Remembers from now on whether this process reads the file `path` names (see
+/// [`was_read`]); call it before reading anything.
+pub fn watch(path: &Path) {
+    if let (Some(key), Ok(mut watched)) = (FileKey::of_path(path), WATCHED.lock()) {
+        watched.push(key);
+    }
+}
+
 fn note_read(path: &Path, file: &std::fs::File) {
+    let Ok(watched) = WATCHED.lock() else {
+        return;
+    };
+    if watched.is_empty() {
+        return;
+    }
     let key = FileKey::of_open(path, file);
-    if let Ok(mut log) = READ_LOG.lock() {
+    if watched.iter().any(|w| w.same_file(&key))
+        && let Ok(mut log) = READ_LOG.lock()
+    {
         log.push((path.to_path_buf(), key));
     }
 }
@@ -295,7 +316,8 @@ fn note_stdin() {
 #[cfg(not(unix))]
 fn note_stdin() {}
 
-/// The path by which this process read the file `key` names, if it read it.
+/// The path by which this process read the file `key` names, if it read it: known for
+/// standard input and for files [`watch`]ed before they were read.
 pub fn was_read(key: &FileKey) -> Option<PathBuf> {
     let log = READ_LOG.lock().ok()?;
     log.iter()

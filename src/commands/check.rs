@@ -2,10 +2,11 @@
 //! JSON. Every declaration is loaded before anything is written, so bad input gives its
 //! diagnostics and exit 2, never half a report.
 
+use std::io::Write;
 use std::path::{Path, PathBuf};
 use std::sync::Arc;
 
-use super::{Failure, checked_rulebook};
+use super::{Failure, ProblemSet, checked_rulebook};
 use crate::check::model::CheckedRulebook;
 use crate::diagnostic::Problem;
 use crate::evaluate::check_engine_scoped;
@@ -15,7 +16,9 @@ use crate::exit::Exit;
 use crate::load::{Declaration, LoadError, LoadProblem, load_declaration};
 use crate::parallel;
 use crate::parse::ast::DecisionRule;
-use crate::report::{json, text};
+use crate::report::document::{Document, Layout, Rendered};
+use crate::season::hook::inspected;
+use crate::season::record::Inspected;
 use crate::source::SourceMap;
 use crate::suggest::find_class;
 
@@ -94,7 +97,7 @@ pub struct CheckRequest<'a> {
 
 /// Runs `check`: the report and the exit status, or every problem of every declaration.
 pub fn run(request: &CheckRequest) -> Result<(String, Exit), Failure> {
-    run_with(request, None)
+    in_memory(|out| run_to(request, out))
 }
 
 /// Runs `check --record LOG`: as [`run`], and every engine checked is appended to the season
@@ -102,102 +105,214 @@ pub fn run(request: &CheckRequest) -> Result<(String, Exit), Failure> {
 /// shows of each engine's seals and sealed measurements. Nothing is recorded when any
 /// declaration could not be read.
 pub fn run_recording(request: &CheckRequest, log: &Path) -> Result<(String, Exit), Failure> {
-    run_with(request, Some(log))
+    in_memory(|out| run_recording_to(request, log, out))
 }
+
+/// Runs `check`, writing the report to `out` one batch of engines at a time, so memory does
+/// not grow with the field (see [`Document`]); the exit status, or every problem of every
+/// declaration. On a failure `out` holds part of a report: give it a spool that is thrown
+/// away unless this succeeds ([`crate::output::Pending`]).
+pub fn run_to(request: &CheckRequest, out: &mut dyn Write) -> Result<Exit, Failure> {
+    run_with(request, None, out)
+}
+
+/// [`run_recording`], writing to `out` as [`run_to`] does. What the log keeps of each engine
+/// (its declaration, report and identity) is held until the end of the run, where it is
+/// recorded in one transaction.
+pub fn run_recording_to(
+    request: &CheckRequest,
+    log: &Path,
+    out: &mut dyn Write,
+) -> Result<Exit, Failure> {
+    run_with(request, Some(log), out)
+}
+
+/// A run's report gathered in memory.
+fn in_memory(
+    run: impl FnOnce(&mut dyn Write) -> Result<Exit, Failure>,
+) -> Result<(String, Exit), Failure> {
+    let mut out = Vec::new();
+    let exit = run(&mut out)?;
+    // every layout writes only strings, so the bytes are UTF-8
+    Ok((String::from_utf8_lossy(&out).into_owned(), exit))
+}
+
+/// Declarations loaded, checked and rendered together: enough to keep every thread busy,
+/// few enough that a batch's declarations and reports stay small whatever the field.
+const BATCH: usize = 256;
 
 /// A declaration read, the position of its class, and its text as read.
 type Loaded = (Declaration, usize, Arc<str>);
 
-fn run_with(request: &CheckRequest, log: Option<&Path>) -> Result<(String, Exit), Failure> {
+fn run_with(
+    request: &CheckRequest,
+    log: Option<&Path>,
+    out: &mut dyn Write,
+) -> Result<Exit, Failure> {
     let rulebook = checked_rulebook(request.rules)?;
     let paths = declaration_files(request.declarations).map_err(Failure::one)?;
-    let threads = parallel::threads(request.jobs);
     let progress = Progress::new(paths.len());
-    let loaded: Vec<Result<Loaded, Failure>> = parallel::map(&paths, threads, |path| {
-        let mut sources = SourceMap::default();
-        let engine = load_with_class(path, &rulebook, request.class, &mut sources)
-            .map(|(d, class)| (d, class, sources.file(0).text.clone()))
-            .map_err(|problems| Failure::new(problems, sources));
-        progress.advance();
-        engine
-    });
+    let mut field = Field::new(request, log.is_some());
+    for batch in paths.chunks(BATCH) {
+        field.batch(&rulebook, batch, &progress)?;
+    }
     progress.finish();
-    if loaded.iter().any(Result::is_err) {
-        let sets = loaded
-            .into_iter()
-            .filter_map(Result::err)
-            .flat_map(|f| f.0)
-            .collect();
-        return Err(Failure(sets));
-    }
-    let engines: Vec<Loaded> = loaded.into_iter().filter_map(Result::ok).collect();
-    let decision = request.role.map(Role::decision);
-    let mut reports: Vec<EngineReport> =
-        parallel::map(&engines, threads, |(declaration, class, _)| {
-            let class = &rulebook.classes[*class];
-            check_engine_scoped(&rulebook, class, declaration, decision, request.sections)
-        });
-    if let Some(problem) = reports.iter().find_map(scope_problem) {
-        return Err(Failure::one(problem));
-    }
-    reports
-        .iter_mut()
-        .for_each(|r| r.produced = Some(request.produced.clone()));
-    if let Some((draws, seed)) = request.monte_carlo {
-        let settings = Settings {
-            draws,
-            seed,
-            threads,
-        };
-        reports
-            .iter_mut()
-            .for_each(|r| montecarlo::attach(r, &settings));
-    }
-    let texts: Vec<&str> = engines.iter().map(|(_, _, t)| &**t).collect();
-    let (reports, texts) = sorted(reports, texts, request.sort);
-    let exit = reports
-        .iter()
-        .map(EngineReport::exit)
-        .fold(Exit::Clean, worse);
-    let out = match request.format {
-        CheckFormat::Json => json::document(&reports),
-        CheckFormat::Html => crate::report::html::page(&reports),
-        CheckFormat::Markdown => crate::report::markdown::document(&reports),
-        CheckFormat::Text => {
-            let mut out: Vec<String> = parallel::map(&reports, threads, text::engine);
-            if reports.len() > 1 {
-                out.push(text::field_summary(&reports));
-            }
-            out.join("\n")
-        }
-    };
-    let out = match log {
-        Some(log) => {
-            let season = crate::season::hook::run_check(log, request, &reports, &texts)?;
-            season.attach(out, request.format)
-        }
-        None => out,
-    };
-    Ok((out, exit))
+    field.finish(log, out)
 }
 
-/// The reports, with the declaration texts they came from, in the order `--sort` asks for;
-/// the sort is stable, so file order holds within each group whatever the thread count.
-fn sorted<'e, 't>(
-    reports: Vec<EngineReport<'e>>,
-    texts: Vec<&'t str>,
-    sort: CheckSort,
-) -> (Vec<EngineReport<'e>>, Vec<&'t str>) {
+/// A run's state as its batches go by: the document so far, or the problems found.
+struct Field<'r> {
+    request: &'r CheckRequest<'r>,
+    threads: usize,
+    layout: Layout,
+    document: Document,
+    exit: Exit,
+    /// Every problem of every declaration that could not be read.
+    failures: Vec<ProblemSet>,
+    /// The first engine whose scope names no rule (C66).
+    scope: Option<Problem>,
+    /// What the log will keep of each engine, when recording.
+    kept: Option<Vec<Inspected>>,
+}
+
+impl<'r> Field<'r> {
+    fn new(request: &'r CheckRequest<'r>, recording: bool) -> Field<'r> {
+        let layout = layout(request.format);
+        let groups = match request.sort {
+            CheckSort::File => 1,
+            CheckSort::Result => 3,
+        };
+        Field {
+            request,
+            threads: parallel::threads(request.jobs),
+            layout,
+            document: Document::new(layout, groups),
+            exit: Exit::Clean,
+            failures: Vec::new(),
+            scope: None,
+            kept: recording.then(Vec::new),
+        }
+    }
+
+    /// Loads a batch of declarations; when every declaration so far has loaded, checks them
+    /// and adds them to the document. After a problem the rest are only loaded, so every
+    /// declaration's problems are reported together.
+    fn batch(
+        &mut self,
+        rulebook: &CheckedRulebook,
+        paths: &[PathBuf],
+        progress: &Progress,
+    ) -> Result<(), Failure> {
+        let request = self.request;
+        let loaded = parallel::map(paths, self.threads, |path| {
+            let mut sources = SourceMap::default();
+            let engine = load_with_class(path, rulebook, request.class, &mut sources)
+                .map(|(d, class)| (d, class, sources.file(0).text.clone()))
+                .map_err(|problems| Failure::new(problems, sources));
+            progress.advance();
+            engine
+        });
+        let mut engines: Vec<Loaded> = Vec::with_capacity(loaded.len());
+        for engine in loaded {
+            match engine {
+                Ok(engine) => engines.push(engine),
+                Err(failure) => self.failures.extend(failure.0),
+            }
+        }
+        if self.failures.is_empty() && self.scope.is_none() {
+            self.check(rulebook, &engines)?;
+        }
+        Ok(())
+    }
+
+    /// Checks a batch of loaded declarations and adds their reports to the document.
+    fn check(&mut self, rulebook: &CheckedRulebook, engines: &[Loaded]) -> Result<(), Failure> {
+        let request = self.request;
+        let decision = request.role.map(Role::decision);
+        let mut reports: Vec<EngineReport> =
+            parallel::map(engines, self.threads, |(declaration, class, _)| {
+                let class = &rulebook.classes[*class];
+                check_engine_scoped(rulebook, class, declaration, decision, request.sections)
+            });
+        if let Some(problem) = reports.iter().find_map(scope_problem) {
+            self.scope = Some(problem);
+            return Ok(());
+        }
+        for report in &mut reports {
+            report.produced = Some(request.produced.clone());
+        }
+        if let Some((draws, seed)) = request.monte_carlo {
+            let settings = Settings {
+                draws,
+                seed,
+                threads: self.threads,
+            };
+            reports
+                .iter_mut()
+                .for_each(|r| montecarlo::attach(r, &settings));
+        }
+        if let Some(kept) = &mut self.kept {
+            let texts = engines.iter().map(|(_, _, text)| text);
+            kept.extend(reports.iter().zip(texts).map(|(r, t)| inspected(r, t)));
+        }
+        let layout = self.layout;
+        let rendered = parallel::map(&reports, self.threads, |r| Rendered::new(layout, r));
+        for (report, engine) in reports.iter().zip(rendered) {
+            self.exit = worse(self.exit, report.exit());
+            let group = group_of(report, request.sort);
+            self.document
+                .add(group, engine)
+                .map_err(|e| Failure::one(crate::output::spool_failed(&e)))?;
+        }
+        Ok(())
+    }
+
+    /// The document written out, with the season log's notes when recording; or every
+    /// problem found, and nothing recorded.
+    fn finish(self, log: Option<&Path>, out: &mut dyn Write) -> Result<Exit, Failure> {
+        if !self.failures.is_empty() {
+            return Err(Failure(self.failures));
+        }
+        if let Some(problem) = self.scope {
+            return Err(Failure::one(problem));
+        }
+        let closing = match (log, &self.kept) {
+            (Some(log), Some(kept)) => {
+                let recorded = crate::season::hook::run_check(log, self.request, kept)?;
+                recorded.closing(self.request.format)
+            }
+            _ => String::new(),
+        };
+        self.document
+            .finish(out, &closing)
+            .map_err(|e| Failure::one(crate::output::spool_failed(&e)))?;
+        Ok(self.exit)
+    }
+}
+
+/// The layout of a format.
+fn layout(format: CheckFormat) -> Layout {
+    match format {
+        CheckFormat::Text => Layout::Text,
+        CheckFormat::Json => Layout::Json,
+        CheckFormat::Html => Layout::Html,
+        CheckFormat::Markdown => Layout::Markdown,
+    }
+}
+
+/// The document group an engine's report goes to under `--sort`: one group in file order;
+/// illegal, then not all clear, then legal engines by result. Each group keeps file order,
+/// whatever the thread count.
+fn group_of(report: &EngineReport, sort: CheckSort) -> usize {
     use crate::evaluate::outcome::EngineResult;
-    let mut pairs: Vec<(EngineReport, &str)> = reports.into_iter().zip(texts).collect();
-    if sort == CheckSort::Result {
-        pairs.sort_by_key(|(r, _)| match r.result() {
+    match sort {
+        CheckSort::File => 0,
+        CheckSort::Result => match report.result() {
             EngineResult::Illegal => 0,
             EngineResult::NotAllClear => 1,
             EngineResult::Legal => 2,
-        });
+        },
     }
-    pairs.into_iter().unzip()
 }
 
 /// C66 when a section of the engine's scope names no rule of its class: a mistyped section

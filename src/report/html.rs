@@ -64,34 +64,45 @@ ul.trace { margin: .1em 0 .1em 1em; padding: 0; font-size: 8pt; }
 
 /// The whole page for one or more engines.
 pub fn page(reports: &[EngineReport]) -> String {
-    let views: Vec<EngineView> = reports.iter().map(EngineView::new).collect();
-    page_of(&views)
+    super::document::whole(super::document::Layout::Html, reports)
 }
 
 /// The whole page for one or more engines' views.
 pub fn page_of(views: &[EngineView]) -> String {
-    let mut out =
-        String::from("<!doctype html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n");
-    let title = views
-        .first()
-        .map(|v| format!("Tech sheet — {} — {}", v.series, v.class))
-        .unwrap_or_default();
-    let _ = writeln!(
-        out,
-        "<title>{}</title>\n<style>{STYLE}</style>\n</head>\n<body>",
-        escape(&title)
-    );
-    for (i, v) in views.iter().enumerate() {
-        if i > 0 {
-            out.push_str("<div style=\"break-before: page; page-break-before: always\"></div>\n");
-        }
-        engine(&mut out, v);
-    }
-    out.push_str("</body>\n</html>\n");
+    let title = views.first().map(title).unwrap_or_default();
+    let engines: Vec<String> = views.iter().map(engine).collect();
+    format!("{}{}{FOOT}", head(&title), engines.join(PAGE_BREAK))
+}
+
+/// The page's title when `view` is its first engine.
+pub fn title(view: &EngineView) -> String {
+    format!("Tech sheet — {} — {}", view.series, view.class)
+}
+
+/// The page up to its first engine: the head with its title and style, and the body's start.
+pub fn head(title: &str) -> String {
+    format!(
+        "<!doctype html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n<title>{}</title>\n<style>{STYLE}</style>\n</head>\n<body>\n",
+        escape(title)
+    )
+}
+
+/// What stands between two engines' sheets: a page break.
+pub const PAGE_BREAK: &str =
+    "<div style=\"break-before: page; page-break-before: always\"></div>\n";
+
+/// The page after its last engine.
+pub const FOOT: &str = "</body>\n</html>\n";
+
+/// One engine's tech sheet: page one (identity, result, the calls, seals, signatures,
+/// provenance) and every rule in detail.
+pub fn engine(v: &EngineView) -> String {
+    let mut out = String::new();
+    engine_into(&mut out, v);
     out
 }
 
-fn engine(out: &mut String, v: &EngineView) {
+fn engine_into(out: &mut String, v: &EngineView) {
     let _ = writeln!(out, "<h1>{}</h1>", escape(&v.heading));
     identity(out, v);
     let closest = v

@@ -10,8 +10,7 @@ use crate::evaluate::outcome::EngineReport;
 
 /// The report for one or more engines.
 pub fn document(reports: &[EngineReport]) -> String {
-    let views: Vec<EngineView> = reports.iter().map(EngineView::new).collect();
-    document_of(&views)
+    super::document::whole(super::document::Layout::Markdown, reports)
 }
 
 /// The report for one or more engines' views.
@@ -23,7 +22,8 @@ pub fn document_of(views: &[EngineView]) -> String {
         .join("\n---\n\n")
 }
 
-fn engine(v: &EngineView) -> String {
+/// One engine's report: identity, result, each rule, the signature lines and provenance.
+pub fn engine(v: &EngineView) -> String {
     let mut out = String::new();
     let _ = writeln!(out, "# {}\n", v.heading);
     let _ = writeln!(

@@ -2,6 +2,7 @@
 //! HTML for people and serialised as JSON for programs; and the reports of the other commands.
 
 pub mod diff;
+pub mod document;
 pub mod explain;
 pub mod format;
 pub mod headroom;

@@ -5,7 +5,7 @@
 use std::fmt::Write;
 
 use super::view::{EngineView, Line, RuleView};
-use crate::evaluate::outcome::{EngineReport, EngineResult};
+use crate::evaluate::outcome::EngineReport;
 
 /// The whole report for one engine.
 pub fn engine(report: &EngineReport) -> String {
@@ -90,60 +90,4 @@ fn rule_lines(out: &mut String, rule: &RuleView, v: &EngineView) {
             }
         }
     }
-}
-
-/// The closing table of a run over several engines: each engine's result and the rule that
-/// decided it (the first illegal one, else the one with the least probability of conformance),
-/// with the car number (a dash where the declaration gives none).
-pub fn field_summary(reports: &[EngineReport]) -> String {
-    let rows: Vec<[String; 5]> = reports.iter().map(summary_row).collect();
-    let header = ["engine", "car", "class", "result", "closest call"].map(str::to_string);
-    let widths: Vec<usize> = (0..5)
-        .map(|c| {
-            rows.iter()
-                .chain([&header])
-                .map(|r| r[c].chars().count())
-                .max()
-                .unwrap_or(0)
-        })
-        .collect();
-    let line = |r: &[String; 5]| {
-        let cells: Vec<String> = r
-            .iter()
-            .zip(&widths)
-            .map(|(cell, w)| format!("{cell:<w$}"))
-            .collect();
-        format!("  {}\n", cells.join("  ").trim_end())
-    };
-    let mut out = String::from("field\n");
-    out.push_str(&line(&header));
-    rows.iter().for_each(|r| out.push_str(&line(r)));
-    let count = |e: EngineResult| reports.iter().filter(|r| r.result() == e).count();
-    out.push_str(&format!(
-        "{}: {} legal, {} illegal, {} not all clear\n",
-        super::format::count(reports.len(), "engine", "engines"),
-        count(EngineResult::Legal),
-        count(EngineResult::Illegal),
-        count(EngineResult::NotAllClear)
-    ));
-    out
-}
-
-fn summary_row(r: &EngineReport) -> [String; 5] {
-    let engine = r
-        .declaration
-        .identity
-        .engine
-        .clone()
-        .unwrap_or_else(|| r.declaration.path.display().to_string());
-    let car = r.declaration.identity.car.as_deref().unwrap_or("—");
-    [
-        engine,
-        car.to_string(),
-        r.class.name.clone(),
-        r.result().short_words().to_string(),
-        super::view::closest_call(r)
-            .map(|c| c.words())
-            .unwrap_or_default(),
-    ]
 }

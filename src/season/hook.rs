@@ -29,21 +29,15 @@ pub struct Recorded {
 pub fn run_check(
     log: &Path,
     request: &CheckRequest,
-    reports: &[EngineReport],
-    texts: &[&str],
+    engines: &[Inspected],
 ) -> Result<Recorded, Failure> {
     let rulebook = rulebook_bytes(request.rules)?;
     let mut opened = Log::open(log, Mode::Create).map_err(Failure::one)?;
-    let engines: Vec<Inspected> = reports
-        .iter()
-        .zip(texts)
-        .map(|(report, text)| inspected(report, text))
-        .collect();
     let given = Given {
         class: request.class.map(str::to_string),
         role: request.role.map(|r| role_word(r).to_string()),
     };
-    let sequence = record(&mut opened, &rulebook, &engines, &given).map_err(Failure::one)?;
+    let sequence = record(&mut opened, &rulebook, engines, &given).map_err(Failure::one)?;
     let mut flagged = Vec::new();
     for engine in engines.iter().filter_map(|e| e.identity.engine.as_deref()) {
         let history = opened.history(engine).map_err(Failure::one)?;
@@ -70,13 +64,14 @@ pub fn role_word(role: Role) -> &'static str {
     }
 }
 
-fn inspected<'a>(report: &'a EngineReport, text: &'a str) -> Inspected<'a> {
+/// What the log keeps of a checked engine whose declaration read as `text`.
+pub fn inspected(report: &EngineReport, text: &std::sync::Arc<str>) -> Inspected {
     let document = json::document(std::slice::from_ref(report));
     Inspected {
-        text,
+        text: text.clone(),
         file: report.declaration.path.display().to_string(),
-        identity: &report.declaration.identity,
-        inspection: &report.declaration.inspection,
+        identity: report.declaration.identity.clone(),
+        inspection: report.declaration.inspection.clone(),
         class: report.class.name.clone(),
         decision: report.decision.words().to_string(),
         result: super::verify::result_of(&document),
@@ -102,27 +97,22 @@ fn rulebook_bytes(path: &Path) -> Result<RulebookBytes, Failure> {
 }
 
 impl Recorded {
-    /// The report with the log's notes added: a closing section in text and Markdown, a
-    /// section before the end of the HTML page. The JSON document is left as its schema
-    /// fixes it; `season history` gives the same flags as JSON.
-    pub fn attach(&self, out: String, format: CheckFormat) -> String {
+    /// What the log's notes add to the report, written after its engines (and the text
+    /// field table) and before an HTML page's end: a closing section in text and Markdown, a
+    /// section in the HTML page. The JSON document is left as its schema fixes it; `season
+    /// history` gives the same flags as JSON.
+    pub fn closing(&self, format: CheckFormat) -> String {
         match format {
-            CheckFormat::Json => out,
-            CheckFormat::Text => format!("{out}\n{}", self.text("")),
-            CheckFormat::Markdown => format!("{out}\n## Season log\n\n{}", self.text("- ")),
+            CheckFormat::Json => String::new(),
+            CheckFormat::Text => format!("\n{}", self.text("")),
+            CheckFormat::Markdown => format!("\n## Season log\n\n{}", self.text("- ")),
             CheckFormat::Html => {
                 let lines: String = self
                     .text("")
                     .lines()
                     .map(|l| format!("<li>{}</li>", crate::report::html::escape(l)))
                     .collect();
-                let section = format!(
-                    "<section class=\"season\"><h2>Season log</h2><ul>{lines}</ul></section>\n"
-                );
-                match out.rfind("</body>") {
-                    Some(at) => format!("{}{section}{}", &out[..at], &out[at..]),
-                    None => out + &section,
-                }
+                format!("<section class=\"season\"><h2>Season log</h2><ul>{lines}</ul></section>\n")
             }
         }
     }

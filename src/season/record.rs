@@ -20,16 +20,17 @@ pub struct RulebookBytes {
     pub files: Vec<(String, Vec<u8>)>,
 }
 
-/// One engine of the run, checked.
-pub struct Inspected<'a> {
+/// One engine of the run, checked: all the log keeps of it, owned, so a run can gather its
+/// engines while each one's declaration and report are let go.
+pub struct Inspected {
     /// The declaration's exact text, as checked.
-    pub text: &'a str,
+    pub text: std::sync::Arc<str>,
     /// Its file name as given.
     pub file: String,
     /// The identity it declares.
-    pub identity: &'a crate::load::declaration::Identity,
+    pub identity: crate::load::declaration::Identity,
     /// Its inspection block.
-    pub inspection: &'a Inspection,
+    pub inspection: Inspection,
     /// The class it was checked against.
     pub class: String,
     /// The decision rule applied, in words.
@@ -86,8 +87,8 @@ fn entry_of(
     recorded_at: i64,
     previous_hash: String,
 ) -> Entry {
-    let identity = engine.identity;
-    let inspection = engine.inspection;
+    let identity = &engine.identity;
+    let inspection = &engine.inspection;
     Entry {
         engine: identity.engine.clone(),
         car: identity.car.clone(),

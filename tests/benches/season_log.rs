@@ -91,12 +91,13 @@ fn bulk_log() -> (PathBuf, Duration) {
             identity
         })
         .collect();
+    let shared: std::sync::Arc<str> = text.as_str().into();
     let engines: Vec<Inspected> = (0..ENGINES * EACH)
         .map(|n| Inspected {
-            text: &text,
+            text: shared.clone(),
             file: "open4-44.yaml".to_string(),
-            identity: &identities[n % ENGINES],
-            inspection: &declaration.inspection,
+            identity: identities[n % ENGINES].clone(),
+            inspection: declaration.inspection.clone(),
             class: "open4".to_string(),
             decision: "guarded rejection".to_string(),
             result: "legal".to_string(),
