@@ -520,6 +520,11 @@ fn color_in_raw_arguments(args: impl Iterator<Item = std::ffi::OsString>) -> Col
     choice
 }
 
+/// Says on standard error what a walk of the folders left out.
+fn say_note(note: &str) {
+    to_stderr(&format!("gonogo: note: {note}\n"));
+}
+
 /// Where a command's document and problems go, and how each is coloured.
 struct Reply<'a> {
     /// Standard output or `--output`.
@@ -609,7 +614,7 @@ impl<'a> Reply<'a> {
         match field::walk(named) {
             Ok(found) => {
                 for note in found.notes() {
-                    to_stderr(&format!("gonogo: note: {note}\n"));
+                    say_note(&note);
                 }
                 Ok(found.files)
             }
@@ -645,9 +650,6 @@ fn run(cli: Cli) -> Exit {
             sections,
             declarations,
         } => {
-            let Ok(declarations) = reply.walk_field(&declarations) else {
-                return Exit::BadInput;
-            };
             let draws = monte_carlo.map(|n| n.map_or(Draws::Adaptive, Draws::Fixed));
             let request = CheckRequest {
                 rules: &rules,
@@ -655,6 +657,7 @@ fn run(cli: Cli) -> Exit {
                 role,
                 format,
                 declarations: &declarations,
+                notes: Some(&say_note),
                 jobs,
                 monte_carlo: draws.map(|d| (d, seed.unwrap_or(montecarlo::DEFAULT_SEED))),
                 produced: gonogo::report::provenance::produced_now(),

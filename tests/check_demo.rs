@@ -26,6 +26,7 @@ fn run(
 ) -> Result<(String, Exit), String> {
     let declarations = [relative(declaration)];
     let request = CheckRequest {
+        notes: None,
         rules: Path::new(RULES),
         class: None,
         role,
@@ -166,6 +167,7 @@ fn the_verdicts_of_every_demo_engine() {
         .map(|p| relative(p))
         .collect();
     let request = CheckRequest {
+        notes: None,
         rules: Path::new(RULES),
         class: None,
         role: None,

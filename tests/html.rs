@@ -21,6 +21,7 @@ fn sheet(declaration: &Path) -> String {
         .unwrap_or(declaration)
         .to_path_buf()];
     let request = CheckRequest {
+        notes: None,
         rules: Path::new(RULES),
         class: None,
         role: None,
@@ -74,6 +75,7 @@ fn the_close_bore_tech_sheet() {
 fn the_close_bore_markdown_report() {
     let declarations = [PathBuf::from("engines-demo/limited2-close-bore.yaml")];
     let request = CheckRequest {
+        notes: None,
         rules: Path::new(RULES),
         class: None,
         role: None,

@@ -41,6 +41,7 @@ fn an_unfilled_template_checks_to_not_checked() {
         std::fs::write(&path, sheet_of(class, SheetFormat::Yaml)).unwrap_or_else(|e| panic!("{e}"));
         let declarations = [path.clone()];
         let request = CheckRequest {
+            notes: None,
             rules: Path::new(RULES),
             class: None,
             role: None,

@@ -78,8 +78,12 @@ pub struct CheckRequest<'a> {
     pub role: Option<Role>,
     /// Output format.
     pub format: CheckFormat,
-    /// The declarations.
+    /// The declaration files and folders named, walked as [`super::field::walk`] walks them
+    /// (each file once, folders' files sorted), one batch at a time.
     pub declarations: &'a [PathBuf],
+    /// Where what the walk of the folders left out is said (see [`super::field::Field::notes`]),
+    /// once the walk is done; `None` drops it.
+    pub notes: Option<&'a (dyn Fn(&str) + Sync)>,
     /// Threads to use; every core when `None`.
     pub jobs: Option<usize>,
     /// A Monte Carlo check of every numeric rule (`--monte-carlo`): how many draws, and the
@@ -150,13 +154,26 @@ fn run_with(
     out: &mut dyn Write,
 ) -> Result<Exit, Failure> {
     let rulebook = checked_rulebook(request.rules)?;
-    let paths = declaration_files(request.declarations).map_err(Failure::one)?;
-    let progress = Progress::new(paths.len());
+    let mut walk = super::field::Walk::new(request.declarations);
+    let progress = Progress::default();
     let mut field = Field::new(request, log.is_some());
-    for batch in paths.chunks(BATCH) {
-        field.batch(&rulebook, batch, &progress)?;
+    loop {
+        let mut batch = Vec::with_capacity(BATCH);
+        for next in walk.by_ref().take(BATCH) {
+            match next {
+                Ok(path) => batch.push(path),
+                Err(problem) => field.failures.extend(Failure::one(problem).0),
+            }
+        }
+        if batch.is_empty() {
+            break;
+        }
+        field.batch(&rulebook, &batch, &progress)?;
     }
     progress.finish();
+    if let Some(say) = request.notes {
+        walk.notes().iter().for_each(|note| say(note));
+    }
     field.finish(log, out)
 }
 
@@ -335,30 +352,43 @@ fn scope_problem(report: &EngineReport) -> Option<Problem> {
     Some(Problem::unlocated(crate::diagnostic::codes::check::BAD_SECTIONS, message).with_help(help))
 }
 
-/// A progress bar on standard error for long runs, only when standard error is a terminal
-/// (never in pipes or CI) and colour is not turned off.
-struct Progress(Option<indicatif::ProgressBar>);
+/// A count of the declarations read on standard error for long runs, only when standard
+/// error is a terminal (never in pipes or CI); it appears once a run reaches
+/// [`Progress::LONG_RUN`] declarations (the walk does not count the field beforehand).
+#[derive(Default)]
+struct Progress {
+    read: std::sync::atomic::AtomicUsize,
+    bar: std::sync::OnceLock<Option<indicatif::ProgressBar>>,
+}
 
 impl Progress {
     /// Declarations from which a run counts as long.
     const LONG_RUN: usize = 200;
 
-    fn new(total: usize) -> Progress {
-        use std::io::IsTerminal;
-        let show = total >= Self::LONG_RUN
-            && std::io::stderr().is_terminal()
-            && std::env::var_os("CI").is_none();
-        Progress(show.then(|| indicatif::ProgressBar::new(total as u64)))
-    }
-
     fn advance(&self) {
-        if let Some(bar) = &self.0 {
-            bar.inc(1);
+        use std::sync::atomic::Ordering;
+        let read = self.read.fetch_add(1, Ordering::Relaxed) + 1;
+        if read < Self::LONG_RUN {
+            return;
+        }
+        if let Some(bar) = self.bar.get_or_init(Self::bar) {
+            bar.set_position(read as u64);
         }
     }
 
+    /// The counter, when standard error is a terminal outside CI.
+    fn bar() -> Option<indicatif::ProgressBar> {
+        use std::io::IsTerminal;
+        if !std::io::stderr().is_terminal() || std::env::var_os("CI").is_some() {
+            return None;
+        }
+        let style =
+            indicatif::ProgressStyle::with_template("{spinner} {pos} declarations read").ok()?;
+        Some(indicatif::ProgressBar::new_spinner().with_style(style))
+    }
+
     fn finish(&self) {
-        if let Some(bar) = &self.0 {
+        if let Some(Some(bar)) = self.bar.get() {
             bar.finish_and_clear();
         }
     }

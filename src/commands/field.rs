@@ -63,26 +63,112 @@ impl Field {
 /// Walks the named paths into the field, or says which folder could not be read or held no
 /// declaration.
 pub fn walk(named: &[PathBuf]) -> Result<Field, Problem> {
-    let mut walker = Walker::default();
-    for path in named {
-        if path.is_dir() {
-            let mut found = Vec::new();
-            let dropped_before = walker.field.duplicates;
-            walker
-                .folder(path, &mut found)
-                .map_err(|e| unreadable_folder(path, &e))?;
-            if found.is_empty() && walker.field.duplicates == dropped_before {
-                return Err(empty_folder(path));
-            }
-            found.sort();
-            for file in found {
-                walker.take(file);
-            }
-        } else {
-            walker.take(path.clone());
+    let mut walk = Walk::new(named);
+    let files = walk.by_ref().collect::<Result<Vec<_>, _>>()?;
+    let mut field = walk.into_field();
+    field.files = files;
+    Ok(field)
+}
+
+/// The field's files one at a time, in [`walk`]'s order, holding only the entries of the
+/// folders being walked and the keys of the files taken: how `check` reads a field of any
+/// size. A folder's entries are visited sorted by name, depth first, which is the order of
+/// the full paths sorted. The walk ends after the first problem it gives.
+pub struct Walk<'n> {
+    named: std::slice::Iter<'n, PathBuf>,
+    walker: Walker,
+    /// Entries still to visit, the next one last.
+    pending: Vec<Next>,
+    /// The named folder being walked, which a problem inside it names.
+    current: PathBuf,
+    /// Files given so far.
+    given: usize,
+    stopped: bool,
+}
+
+/// An entry still to visit.
+enum Next {
+    /// A file (or a dangling link, whose read will say so).
+    File(PathBuf),
+    /// A folder to enter.
+    Folder(PathBuf),
+    /// The end of a named folder, and the files given and names dropped when it began.
+    EndOfNamed(PathBuf, usize, usize),
+}
+
+impl<'n> Walk<'n> {
+    /// A walk of the named files and folders, in their order.
+    pub fn new(named: &'n [PathBuf]) -> Walk<'n> {
+        Walk {
+            named: named.iter(),
+            walker: Walker::default(),
+            pending: Vec::new(),
+            current: PathBuf::new(),
+            given: 0,
+            stopped: false,
         }
     }
-    Ok(walker.field)
+
+    /// What the walk found besides the files (the files themselves are not kept).
+    pub fn into_field(self) -> Field {
+        self.walker.field
+    }
+
+    /// What the walk has left out so far, one line each (see [`Field::notes`]).
+    pub fn notes(&self) -> Vec<String> {
+        self.walker.field.notes()
+    }
+
+    /// The next entry to visit, from the named paths when the current folder is done.
+    fn next_entry(&mut self) -> Option<Next> {
+        if let Some(next) = self.pending.pop() {
+            return Some(next);
+        }
+        let path = self.named.next()?;
+        if !path.is_dir() {
+            return Some(Next::File(path.clone()));
+        }
+        self.current = path.clone();
+        let end = Next::EndOfNamed(path.clone(), self.given, self.walker.field.duplicates);
+        self.pending.push(end);
+        Some(Next::Folder(path.clone()))
+    }
+
+    fn fail(&mut self, problem: Problem) -> Option<Result<PathBuf, Problem>> {
+        self.stopped = true;
+        Some(Err(problem))
+    }
+}
+
+impl Iterator for Walk<'_> {
+    type Item = Result<PathBuf, Problem>;
+
+    fn next(&mut self) -> Option<Self::Item> {
+        while !self.stopped {
+            match self.next_entry()? {
+                Next::File(path) => {
+                    if self.walker.take(&path) {
+                        self.given += 1;
+                        return Some(Ok(path));
+                    }
+                }
+                Next::Folder(folder) => {
+                    let start = self.pending.len();
+                    if let Err(e) = self.walker.enter(&folder, &mut self.pending) {
+                        let problem = unreadable_folder(&self.current, &e);
+                        return self.fail(problem);
+                    }
+                    self.pending[start..].reverse();
+                }
+                Next::EndOfNamed(folder, given, dropped) => {
+                    if self.given == given && self.walker.field.duplicates == dropped {
+                        return self.fail(empty_folder(&folder));
+                    }
+                }
+            }
+        }
+        None
+    }
 }
 
 #[derive(Default)]
@@ -97,45 +183,58 @@ struct Walker {
 }
 
 impl Walker {
-    /// Adds a file unless it is one already taken: the same file as [`crate::source::FileKey::same_file`]
-    /// says, looked up in a set, so a field of a million files is walked in linear time.
-    fn take(&mut self, path: PathBuf) {
-        if !is_stdin(&path)
-            && let Ok(metadata) = std::fs::metadata(&path)
-        {
-            let new = match device_inode(&metadata) {
-                Some(id) => self.inodes.insert(id),
-                None => match path.canonicalize() {
-                    Ok(canonical) => self.canonical.insert(canonical),
-                    Err(_) => true,
-                },
-            };
-            if !new {
-                self.field.duplicates += 1;
-                return;
-            }
+    /// Whether a file is new, not one already taken: the same file as
+    /// [`crate::source::FileKey::same_file`] says, looked up in a set, so a field of a million
+    /// files is walked in linear time. A file taken twice is counted as dropped.
+    fn take(&mut self, path: &Path) -> bool {
+        if is_stdin(path) {
+            return true;
         }
-        self.field.files.push(path);
+        let Ok(metadata) = std::fs::metadata(path) else {
+            return true;
+        };
+        let new = match device_inode(&metadata) {
+            Some(id) => self.inodes.insert(id),
+            None => match path.canonicalize() {
+                Ok(canonical) => self.canonical.insert(canonical),
+                Err(_) => true,
+            },
+        };
+        if !new {
+            self.field.duplicates += 1;
+        }
+        new
     }
 
-    /// Collects the YAML files under `folder` into `found`, entering each folder once.
-    fn folder(&mut self, folder: &Path, found: &mut Vec<PathBuf>) -> std::io::Result<()> {
+    /// Adds the YAML files and the folders of `folder` to `pending`, sorted by name, unless
+    /// the folder was entered before; counts what is left out.
+    fn enter(&mut self, folder: &Path, pending: &mut Vec<Next>) -> std::io::Result<()> {
         let canonical = folder.canonicalize()?;
         if !self.folders.insert(canonical) {
             self.field.duplicates += 1;
             return Ok(());
         }
+        let mut entries = Vec::new();
         for entry in std::fs::read_dir(folder)? {
             let path = entry?.path();
             match std::fs::metadata(&path) {
-                Ok(m) if m.is_dir() => self.folder(&path, found)?,
+                Ok(m) if m.is_dir() => entries.push(Next::Folder(path)),
                 _ if !is_yaml(&path) => self.field.not_yaml += 1,
                 Ok(m) if !m.is_file() => self.field.special.push((path, kind_of(&m))),
                 // a regular file, or a dangling link whose read will say so
-                _ => found.push(path),
+                _ => entries.push(Next::File(path)),
             }
         }
+        entries.sort_by(|a, b| name_of(a).cmp(&name_of(b)));
+        pending.extend(entries);
         Ok(())
+    }
+}
+
+/// The file or folder name of an entry, by which a folder's entries are sorted.
+fn name_of(next: &Next) -> Option<&std::ffi::OsStr> {
+    match next {
+        Next::File(path) | Next::Folder(path) | Next::EndOfNamed(path, ..) => path.file_name(),
     }
 }
 

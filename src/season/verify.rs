@@ -169,6 +169,7 @@ fn check_in(log: &Log, stored: &Stored, folder: &Path) -> Result<String, String>
     let role = entry.role_given.as_deref().and_then(role_of);
     let declarations = [name];
     let request = CheckRequest {
+        notes: None,
         rules: &root,
         class: entry.class_given.as_deref(),
         role,
