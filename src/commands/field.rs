@@ -296,6 +296,45 @@ mod tests {
         assert!(!is_yaml(Path::new("yaml")));
     }
 
+    /// Every file under `dir`, collected whole and sorted as paths: the order the walk must
+    /// give without collecting.
+    fn sorted_whole(dir: &Path, out: &mut Vec<PathBuf>) {
+        for entry in std::fs::read_dir(dir).into_iter().flatten().flatten() {
+            let path = entry.path();
+            if path.is_dir() {
+                sorted_whole(&path, out);
+            } else if is_yaml(&path) {
+                out.push(path);
+            }
+        }
+        out.sort();
+    }
+
+    #[test]
+    fn the_lazy_walk_gives_the_files_in_sorted_path_order() {
+        let root = std::env::temp_dir().join(format!("gonogo-walk-{}", std::process::id()));
+        let _ = std::fs::remove_dir_all(&root);
+        // '-' sorts before '.' and '/', so string order and path order differ here
+        for file in [
+            "a/x.yaml",
+            "a-b/x.yaml",
+            "a.yaml",
+            "a/b/c.yml",
+            "a/a.yaml",
+            "B.YAML",
+            "a-b.yaml",
+        ] {
+            let path = root.join(file);
+            let _ = std::fs::create_dir_all(path.parent().unwrap_or(&root));
+            let _ = std::fs::write(&path, "engine: x\n");
+        }
+        let mut expected = Vec::new();
+        sorted_whole(&root, &mut expected);
+        let walked = walk(std::slice::from_ref(&root)).map(|f| f.files);
+        let _ = std::fs::remove_dir_all(&root);
+        assert_eq!(walked.ok(), Some(expected));
+    }
+
     #[test]
     fn notes_count_in_words() {
         let field = Field {
