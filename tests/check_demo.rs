@@ -74,6 +74,7 @@ fn cell(rule: &serde_json::Value) -> String {
         Some("conditional_pass") => "p",
         Some("conditional_fail") => "f",
         Some("fail") => "F",
+        Some("open") => "o",
         None => "",
         Some(other) => panic!("a finding outside the schema: {other}"),
     };
@@ -87,7 +88,7 @@ fn verdict_table(engines: &[serde_json::Value]) -> String {
     classes.dedup();
     let mut out = String::from(
         "✓ legal  ~ legal, not certain  ✗ illegal  ? not checked  – not applicable  · not in force\n\
-         P pass  p conditional pass  f conditional fail  F fail\n",
+         P pass  p conditional pass  f conditional fail  F fail  o open (gauge results)\n",
     );
     for class in classes {
         let of_class: Vec<&serde_json::Value> =

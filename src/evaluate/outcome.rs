@@ -350,7 +350,8 @@ impl Outcome<'_> {
     /// what the measurement shows, whatever the decision rule makes of it (the verdict's word
     /// says that): ✓ proven pass, (✓) pass not proven, (✗) fail not proven, ✗ proven fail,
     /// ? not checked, – not applicable, ○ not in scope. A call is not proven when its finding is conditional
-    /// or its condition uncertain; a rule without a finding takes its side from its verdict.
+    /// or its condition uncertain; a rule without a finding, or with an open one, takes its side
+    /// from its verdict.
     pub fn mark(&self) -> &'static str {
         match self.verdict {
             Verdict::NotChecked => return "?",
@@ -358,12 +359,13 @@ impl Outcome<'_> {
             Verdict::NotInScope => return "○",
             Verdict::Legal | Verdict::Illegal => {}
         }
-        let passes = self
-            .checked
-            .as_ref()
-            .map_or(self.verdict == Verdict::Legal, |c| {
-                matches!(c.finding, Finding::Pass | Finding::ConditionalPass)
-            });
+        let legal = self.verdict == Verdict::Legal;
+        let passes = self.checked.as_ref().map_or(legal, |c| match c.finding {
+            Finding::Pass | Finding::ConditionalPass => true,
+            // open gauge results show no side: the verdict gives it
+            Finding::Open => legal,
+            Finding::ConditionalFail | Finding::Fail => false,
+        });
         match (passes, self.is_uncertain()) {
             (true, false) => "✓",
             (true, true) => "(✓)",

@@ -313,11 +313,8 @@ impl<'de> Visitor<'de> for GaugeSeed<'_> {
                     })?
                 }
                 "result" => {
-                    let text = map.next_value_seed(TextSeed {
-                        cx,
-                        path: path.clone(),
-                    })?;
-                    result = text.flatten().map(|t| (t, path));
+                    let kind = tags.first().map(|(kind, _)| *kind);
+                    result = map.next_value_seed(ResultSeed { cx, path, kind })?;
                 }
                 kind => {
                     let text = map.next_value_seed(TextSeed { cx, path })?.flatten();
@@ -346,14 +343,13 @@ impl<'de> Visitor<'de> for GaugeSeed<'_> {
         let Some((said, result_path)) = result else {
             return Err(refuse(GaugeFault::NoResult { kind }));
         };
+        // a result read before the gauge's kind was known is checked against it now
         let went = went(kind, &said).ok_or_else(|| {
-            cx.refuse(
-                &result_path,
-                LoadError::BadGauge(GaugeFault::UnknownResult {
-                    written: said.clone(),
-                    kind,
-                }),
-            )
+            let fault = GaugeFault::UnknownResult {
+                written: said.clone(),
+                kind,
+            };
+            cx.refuse(&result_path, LoadError::BadGauge(fault))
         })?;
         Ok(Some(GaugeResult {
             kind,
@@ -378,6 +374,50 @@ fn went(kind: GaugeKind, said: &str) -> Option<bool> {
         .iter()
         .position(|r| *r == words)
         .map(|at| at == 0)
+}
+
+/// A gauge's `result`, checked while it is read against the gauge's kind when that came
+/// first (else against both kinds' words, and against its kind once the result is read).
+struct ResultSeed<'a> {
+    cx: Context<'a>,
+    path: DeclPath,
+    kind: Option<GaugeKind>,
+}
+
+impl<'de> DeserializeSeed<'de> for ResultSeed<'_> {
+    type Value = Option<(String, DeclPath)>;
+
+    fn deserialize<D: Deserializer<'de>>(self, d: D) -> Result<Self::Value, D::Error> {
+        let path = self.path.clone();
+        self.cx
+            .collector
+            .guard(&path, d, |d| d.deserialize_str(self))
+    }
+}
+
+impl Visitor<'_> for ResultSeed<'_> {
+    type Value = (String, DeclPath);
+
+    fn expecting(&self, f: &mut fmt::Formatter) -> fmt::Result {
+        f.write_str(
+            "`entered` or `did not enter` for a plug, `went over` or `did not go over` for a ring",
+        )
+    }
+
+    fn visit_str<E: de::Error>(self, v: &str) -> Result<Self::Value, E> {
+        let kinds = match self.kind {
+            Some(kind) => vec![kind],
+            None => vec![GaugeKind::Plug, GaugeKind::Ring],
+        };
+        if kinds.iter().any(|k| went(*k, v).is_some()) {
+            return Ok((v.to_string(), self.path));
+        }
+        let fault = GaugeFault::UnknownResult {
+            written: v.trim().to_string(),
+            kind: kinds[0],
+        };
+        Err(self.cx.refuse(&self.path, LoadError::BadGauge(fault)))
+    }
 }
 
 /// A gauge's `size`: a quantity of the measurement's dimension with its stated `± U`.

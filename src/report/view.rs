@@ -124,7 +124,8 @@ pub struct EngineView {
     pub inputs: Vec<InputView>,
     /// Every derived value a rule reads, once.
     pub derived: Vec<DerivedView>,
-    /// Every go/no-go gauge result a rule reads, once.
+    /// Every go/no-go gauge result a rule reads, once (left out of the JSON when none).
+    #[serde(skip_serializing_if = "Vec::is_empty")]
     pub gauges: Vec<GaugeView>,
     /// Each rule, in rulebook order.
     pub rules: Vec<RuleView>,
@@ -844,7 +845,7 @@ impl RuleView {
             .checked
             .as_ref()
             .filter(|_| o.verdict != Verdict::NotChecked);
-        RuleView {
+        let mut view = RuleView {
             section: o.section().to_string(),
             title: o.title().to_string(),
             verdict: o.verdict,
@@ -878,9 +879,7 @@ impl RuleView {
                 .iter()
                 .map(|b| breach_view(b, r, book))
                 .collect(),
-            gauge: checked
-                .and_then(|c| c.gauge.as_ref())
-                .map(|call| gauge_call_view(call, r, book)),
+            gauge: None,
             gauge_gaps: o.gauge_gaps.iter().map(|g| gauge_gap_view(g, r)).collect(),
             internal_error: o.error.clone(),
             decision: (o.decision != r.decision).then(|| o.decision.words()),
@@ -892,7 +891,12 @@ impl RuleView {
                     .map(|t| book.trace(t, r, limit_unit))
                     .collect()
             },
-        }
+        };
+        // after the trace, so gauge results are numbered in the order the trace reads them
+        view.gauge = checked
+            .and_then(|c| c.gauge.as_ref())
+            .map(|call| gauge_call_view(call, r, book));
+        view
     }
 
     /// `✓ 3.1  Displacement — LEGAL · pass` without the mark and layout: the title, the
@@ -991,7 +995,7 @@ impl RuleView {
             lines.push(fact("not computed", None, breach.reason.clone()));
         }
         for gap in &self.gauge_gaps {
-            lines.push(fact("not decided", None, gap.reason.clone()));
+            lines.push(fact("undecided", None, gap.reason.clone()));
         }
         if let Some(error) = &self.internal_error {
             let text = format!("{error} (a mistake in gonogo; please report it)");
