@@ -1668,6 +1668,15 @@ pub fn closest_call(r: &EngineReport) -> Option<ClosestCall> {
     if let Some(o) = r.outcomes.iter().find(|o| o.verdict == Verdict::NotChecked) {
         return Some(call(o, "not checked".to_string()));
     }
+    // a call by gauge results that proves nothing has no probability to rank it by, and is
+    // the least known
+    let by_gauge = r.outcomes.iter().find_map(|o| {
+        let c = o.checked.as_ref()?;
+        (c.gauge.is_some() && c.finding.is_conditional()).then_some((o, c))
+    });
+    if let Some((o, c)) = by_gauge {
+        return Some(call(o, format!("{}, by gauge", c.finding.words())));
+    }
     let closeness = |n: &Numeric| {
         (
             n.probability,
