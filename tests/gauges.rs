@@ -160,6 +160,7 @@ const GAUGE_RULES: &str = "series \"Tamsin Valley Stock Car Club\"\n\
     \x20 rule 4.4 \"Throttle bores\"\n    require carburetor.throttle_bore <= 1-11/16 in\n  end\n\
     \x20 rule 4.6 \"Throttle bore, minimum\"\n    require carburetor.throttle_bore >= 1-1/2 in\n  end\n\
     \x20 rule 4.7 \"Throttle bore squared\"\n    require carburetor.throttle_bore * carburetor.throttle_bore <= 2.9 in²\n  end\n\
+    \x20 rule 4.8 \"Throttle bore range\"\n    require carburetor.throttle_bore between 1-1/2 in and 1-11/16 in\n  end\n\
     \x20 rule 4.9 \"Throttle bore exactly\"\n    require carburetor.throttle_bore == 1-11/16 in\n  end\n\
     end\n";
 
@@ -205,6 +206,40 @@ fn the_go_plug_proves_the_lower_limit() {
             assert_eq!(o.checked.as_ref().map(|c| c.finding), Some(Finding::Pass));
         });
     }
+}
+
+/// The go plug and a no-go plug of 1.6873 in ± 0.0002 in that did not enter: the bore is at
+/// least 1.6848 in and less than 1.6875 in.
+const GO_AND_NO_GO: &str = "class: hobby\ncomponents:\n  carburetor:\n    throttle_bore:\n      \
+    gauges:\n        - {plug: \"TV-G-0411\", size: \"1.6850 in ± 0.0002 in (k = 2)\", result: entered}\n        \
+    - {plug: \"TV-G-0413\", size: \"1.6873 in ± 0.0002 in (k = 2)\", result: did not enter}\n";
+
+#[test]
+fn a_range_is_decided_side_by_side() {
+    // one go plug proves the low side (1.6848 ≥ 1.5) and leaves the high side open
+    let case = Case::new("range-open", GAUGE_RULES, GO_PLUG_ONLY);
+    case.check(Some(DecisionRule::GuardedAcceptance), |r| {
+        let o = outcome(r, "4.8");
+        let c = o.checked.as_ref().unwrap_or_else(|| panic!("checked"));
+        assert_eq!(c.finding, Finding::Open);
+        let sides: Vec<Finding> = c
+            .gauge
+            .iter()
+            .flat_map(|g| &g.sides)
+            .map(|s| s.finding)
+            .collect();
+        assert_eq!(sides, [Finding::Pass, Finding::Open]);
+        assert_eq!(o.verdict, Verdict::Illegal);
+    });
+    // with the no-go plug both sides are proven (ISO 14253-1), even for the builder
+    let case = Case::new("range-both", GAUGE_RULES, GO_AND_NO_GO);
+    case.check(Some(DecisionRule::GuardedAcceptance), |r| {
+        for section in ["4.4", "4.8"] {
+            let o = outcome(r, section);
+            assert_eq!(o.verdict, Verdict::Legal, "{section}");
+            assert_eq!(o.checked.as_ref().map(|c| c.finding), Some(Finding::Pass));
+        }
+    });
 }
 
 #[test]
