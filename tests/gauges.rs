@@ -288,3 +288,50 @@ fn the_json_of_a_gauged_engine_fits_its_schema_and_lists_each_result_once() {
     assert_eq!(rule["gauge"]["sides"][0]["finding"], "pass");
     assert_eq!(rule["gauge"]["sides"][0]["decided_by"], 1);
 }
+
+const RING_RULES: &str = "series \"Tamsin Valley Stock Car Club\"\n\
+    edition \"2027\" effective 2027-03-06\ndecision guarded rejection\n\
+    measure header.primary_od: length range 1 in to 2 in \"Ring gauge over the tube\"\n\
+    class hobby \"Hobby\"\n\
+    \x20 rule 6.1 \"Header primary tubes\"\n    require header.primary_od <= 1-3/4 in\n  end\n\
+    end\n";
+
+#[test]
+fn a_ring_that_went_over_proves_a_diameter_at_most_its_size_plus_u() {
+    // a ring of 1.7496 in ± 0.0002 in goes over only a tube of at most its true size, so the
+    // tube is at most 1.7498 in ≤ 1.75 in: conformity proven (ISO 14253-1, from memory)
+    let engine = "class: hobby\ncomponents:\n  header:\n    primary_od:\n      gauges:\n        \
+        - {ring: \"TV-R-0031\", size: \"1.7496 in ± 0.0002 in (k = 2)\", result: went over}\n";
+    let case = Case::new("ring", RING_RULES, engine);
+    let text = case.check(Some(DecisionRule::GuardedAcceptance), |r| {
+        let o = outcome(r, "6.1");
+        assert_eq!(o.verdict, Verdict::Legal);
+        assert_eq!(o.checked.as_ref().map(|c| c.finding), Some(Finding::Pass));
+        gonogo::report::text::engine(r)
+    });
+    let said = "ring TV-R-0031 1.7496 in (U = 0.0002 in, k = 2) went over: header.primary_od is at most 1.7498 in";
+    assert!(text.contains(said), "{text}");
+}
+
+#[test]
+fn a_gauge_size_without_an_uncertainty_is_refused_at_load() {
+    let case = Case::new("no-u", RING_RULES, "class: hobby\n");
+    let book = rulebook(&case.dir.join("book.rules"));
+    for size in ["1.7496 in", "1.7496 in ± 0 in"] {
+        let text = format!(
+            "class: hobby\ncomponents:\n  header:\n    primary_od:\n      gauges:\n        \
+             - {{ring: \"TV-R-0031\", size: \"{size}\", result: went over}}\n"
+        );
+        let mut sources = gonogo::source::SourceMap::default();
+        let problems = gonogo::load::declaration_from_text(
+            Path::new("engine.yaml"),
+            text,
+            &book,
+            &mut sources,
+        )
+        .err()
+        .unwrap_or_else(|| panic!("{size} was accepted"));
+        let codes: Vec<String> = problems.iter().map(|p| p.code.to_string()).collect();
+        assert_eq!(codes, ["D36 bad-gauge"], "{size}");
+    }
+}

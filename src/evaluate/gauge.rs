@@ -5,11 +5,12 @@
 //! coverage of k, so the result proves `bore ≥ s − U` (one-sided, at a coverage no less than
 //! the two-sided interval's). A plug that does not enter proves `bore < s + U`. A ring gauge is
 //! the mirror image: one that goes over proves `diameter ≤ s + U`, one that does not proves
-//! `diameter > s − U`. ISO 14253-1 (the rules for proving conformity and nonconformity, 5.2
-//! and 5.3 of the 1998 edition, from memory) lets conformity be claimed only when the whole
-//! uncertainty interval lies inside the specification, and nonconformity only when it lies
-//! wholly outside; JCGM 106:2012 (8, acceptance limits, from memory) puts the same rule as
-//! guard bands of U. Applied to a bound:
+//! `diameter > s − U`. ISO 14253-1:2017 (details from memory, as REFERENCES.md records them;
+//! clause numbers not confirmed) counts the uncertainty against whoever makes the claim:
+//! conformity is proven only when the whole uncertainty interval lies inside the
+//! specification, nonconformity only when it lies wholly outside; ILAC-G8:09/2019 §4.2 writes
+//! the decision rules as guard bands (w = U for guarded acceptance and rejection, w = 0 for
+//! simple acceptance). Applied to a bound:
 //!
 //! * `≤ L` is proven met when a plug of s ≤ L − U did not enter (bore < s + U ≤ L), and
 //!   proven failed when a plug of s > L + U entered (bore ≥ s − U > L);

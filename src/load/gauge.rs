@@ -122,8 +122,8 @@ impl GaugeResult {
     /// The bound the result proves whatever the gauge's true size within its expanded
     /// uncertainty: the true size lies in `size ± U` (at the coverage of `k`), so a plug that
     /// entered proves the bore is at least `size − U`, and one that did not enter proves it is
-    /// less than `size + U` (ISO 14253-1:2017, 8: the uncertainty counts against whoever
-    /// claims the proof; JCGM 106:2012, 8.3).
+    /// less than `size + U` (ISO 14253-1:2017, from memory: the uncertainty counts against
+    /// whoever makes the claim).
     pub fn proven(&self) -> Bound {
         let below = self.bounds_below();
         Bound {
@@ -451,8 +451,11 @@ impl Visitor<'_> for SizeSeed<'_> {
     fn visit_str<E: de::Error>(self, v: &str) -> Result<Size, E> {
         let reading = read_text(v, self.measurement).map_err(|e| self.cx.refuse(&self.path, e))?;
         match reading.stated {
-            Some((expanded, k)) => Ok((reading.value, expanded, k, reading.unit, reading.written)),
-            None => Err(self
+            // a gauge's size is never known exactly: a `± 0` is no uncertainty stated
+            Some((expanded, k)) if expanded > 0.0 => {
+                Ok((reading.value, expanded, k, reading.unit, reading.written))
+            }
+            _ => Err(self
                 .cx
                 .refuse(&self.path, LoadError::BadGauge(GaugeFault::NoUncertainty))),
         }
@@ -493,8 +496,9 @@ mod tests {
 
     #[test]
     fn a_plug_that_entered_bounds_the_bore_from_below_less_its_uncertainty() {
-        // a plug enters only a bore at least its own size; its true size may be U smaller
-        // than stated (ISO 14253-1: the uncertainty counts against the one who proves)
+        // a plug enters only a bore at least its own size (common practice, no source); its
+        // true size may be U smaller than stated (ISO 14253-1, from memory: the uncertainty
+        // counts against whoever makes the claim)
         let p = plug(1.6875, true).proven();
         assert!(p.below && !p.strict);
         assert!((p.at - 1.6873).abs() < 1e-12);
