@@ -156,17 +156,21 @@ impl Drop for Case {
 const GAUGE_RULES: &str = "series \"Tamsin Valley Stock Car Club\"\n\
     edition \"2027\" effective 2027-03-06\ndecision guarded rejection\n\
     measure carburetor.throttle_bore: length range 1 in to 2 in \"Go/no-go gauge\"\n\
+    measure carburetor.spacer_bore: length range 1 in to 2 in \"Caliper\"\n\
     class hobby \"Hobby\"\n\
     \x20 rule 4.4 \"Throttle bores\"\n    require carburetor.throttle_bore <= 1-11/16 in\n  end\n\
     \x20 rule 4.6 \"Throttle bore, minimum\"\n    require carburetor.throttle_bore >= 1-1/2 in\n  end\n\
     \x20 rule 4.7 \"Throttle bore squared\"\n    require carburetor.throttle_bore * carburetor.throttle_bore <= 2.9 in²\n  end\n\
     \x20 rule 4.8 \"Throttle bore range\"\n    require carburetor.throttle_bore between 1-1/2 in and 1-11/16 in\n  end\n\
+    \x20 rule 4.10 \"Throttle bore, measured limit\"\n    require carburetor.throttle_bore <= carburetor.spacer_bore\n  end\n\
     \x20 rule 4.9 \"Throttle bore exactly\"\n    require carburetor.throttle_bore == 1-11/16 in\n  end\n\
     end\n";
 
 /// Only the go plug was tried: 1.6850 in ± 0.0002 in entered, so the bore is at least
-/// 1.6848 in and nothing bounds it from above.
-const GO_PLUG_ONLY: &str = "class: hobby\ncomponents:\n  carburetor:\n    throttle_bore:\n      \
+/// 1.6848 in and nothing bounds it from above. The spacer's bore, a limit of rule 4.10, is a
+/// measured value with its own uncertainty.
+const GO_PLUG_ONLY: &str = "class: hobby\ncomponents:\n  carburetor:\n    \
+    spacer_bore: \"1.7000 in ± 0.0005 in\"\n    throttle_bore:\n      \
     gauges:\n        - {plug: \"TV-G-0411\", size: \"1.6850 in ± 0.0002 in (k = 2)\", result: entered}\n";
 
 #[test]
@@ -210,7 +214,8 @@ fn the_go_plug_proves_the_lower_limit() {
 
 /// The go plug and a no-go plug of 1.6873 in ± 0.0002 in that did not enter: the bore is at
 /// least 1.6848 in and less than 1.6875 in.
-const GO_AND_NO_GO: &str = "class: hobby\ncomponents:\n  carburetor:\n    throttle_bore:\n      \
+const GO_AND_NO_GO: &str = "class: hobby\ncomponents:\n  carburetor:\n    \
+    spacer_bore: \"1.7000 in\"\n    throttle_bore:\n      \
     gauges:\n        - {plug: \"TV-G-0411\", size: \"1.6850 in ± 0.0002 in (k = 2)\", result: entered}\n        \
     - {plug: \"TV-G-0413\", size: \"1.6873 in ± 0.0002 in (k = 2)\", result: did not enter}\n";
 
@@ -231,10 +236,11 @@ fn a_range_is_decided_side_by_side() {
         assert_eq!(sides, [Finding::Pass, Finding::Open]);
         assert_eq!(o.verdict, Verdict::Illegal);
     });
-    // with the no-go plug both sides are proven (ISO 14253-1), even for the builder
+    // with the no-go plug both sides are proven (ISO 14253-1), even for the builder; rule
+    // 4.10's limit, the spacer's bore written without an uncertainty, is exact
     let case = Case::new("range-both", GAUGE_RULES, GO_AND_NO_GO);
     case.check(Some(DecisionRule::GuardedAcceptance), |r| {
-        for section in ["4.4", "4.8"] {
+        for section in ["4.4", "4.8", "4.10"] {
             let o = outcome(r, section);
             assert_eq!(o.verdict, Verdict::Legal, "{section}");
             assert_eq!(o.checked.as_ref().map(|c| c.finding), Some(Finding::Pass));
@@ -246,7 +252,11 @@ fn a_range_is_decided_side_by_side() {
 fn a_rule_that_needs_the_gauged_value_is_not_checked_and_names_the_gauge() {
     let case = Case::new("value", GAUGE_RULES, GO_PLUG_ONLY);
     let text = case.check(None, |r| {
-        for (section, why) in [("4.7", GaugeWhy::NeedsAValue), ("4.9", GaugeWhy::Equality)] {
+        for (section, why) in [
+            ("4.7", GaugeWhy::NeedsAValue),
+            ("4.9", GaugeWhy::Equality),
+            ("4.10", GaugeWhy::UnsureLimit),
+        ] {
             let o = outcome(r, section);
             assert_eq!(o.verdict, Verdict::NotChecked, "{section}");
             assert!(
