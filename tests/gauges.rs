@@ -164,6 +164,10 @@ const GAUGE_RULES: &str = "series \"Tamsin Valley Stock Car Club\"\n\
     \x20 rule 4.8 \"Throttle bore range\"\n    require carburetor.throttle_bore between 1-1/2 in and 1-11/16 in\n  end\n\
     \x20 rule 4.10 \"Throttle bore, measured limit\"\n    require carburetor.throttle_bore <= carburetor.spacer_bore\n  end\n\
     \x20 rule 4.9 \"Throttle bore exactly\"\n    require carburetor.throttle_bore == 1-11/16 in\n  end\n\
+    \x20 when carburetor.throttle_bore > 1.6 in\n    rule 4.11 \"Spacer for a large throttle bore\"\n      \
+    require carburetor.spacer_bore >= 1.69 in\n    end\n  end\n\
+    \x20 when carburetor.throttle_bore > 1.69 in\n    rule 4.12 \"Spacer for a larger throttle bore\"\n      \
+    require carburetor.spacer_bore >= 1.75 in\n    end\n  end\n\
     end\n";
 
 /// Only the go plug was tried: 1.6850 in ± 0.0002 in entered, so the bore is at least
@@ -344,4 +348,19 @@ fn a_gauge_size_without_an_uncertainty_is_refused_at_load() {
         let codes: Vec<String> = problems.iter().map(|p| p.code.to_string()).collect();
         assert_eq!(codes, ["D36 bad-gauge"], "{size}");
     }
+}
+
+#[test]
+fn a_condition_on_a_gauged_measurement_holds_only_where_the_bound_proves_it() {
+    use gonogo::evaluate::outcome::Applies;
+    // the go plug proves the bore at least 1.6848 in: `> 1.6 in` holds; `> 1.69 in` is open,
+    // an uncertain condition, which under guarded rejection cannot prove a violation
+    let case = Case::new("condition", GAUGE_RULES, GO_PLUG_ONLY);
+    case.check(None, |r| {
+        assert_eq!(outcome(r, "4.11").applies, Applies::Holds);
+        let o = outcome(r, "4.12");
+        assert_eq!(o.applies, Applies::Uncertain);
+        // the spacer's 1.7000 in fails `>= 1.75 in`, but the rule may not apply
+        assert_eq!(o.verdict, Verdict::Legal);
+    });
 }
