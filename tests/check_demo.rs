@@ -75,6 +75,7 @@ fn cell(rule: &serde_json::Value) -> String {
         Some("conditional_pass") => "p",
         Some("conditional_fail") => "f",
         Some("fail") => "F",
+        Some("open") => "o",
         None => "",
         Some(other) => panic!("a finding outside the schema: {other}"),
     };
@@ -88,7 +89,7 @@ fn verdict_table(engines: &[serde_json::Value]) -> String {
     classes.dedup();
     let mut out = String::from(
         "✓ legal  ~ legal, not certain  ✗ illegal  ? not checked  – not applicable  · not in force\n\
-         P pass  p conditional pass  f conditional fail  F fail\n",
+         P pass  p conditional pass  f conditional fail  F fail  o open (gauge results)\n",
     );
     for class in classes {
         let of_class: Vec<&serde_json::Value> =
@@ -383,9 +384,14 @@ fn json_blocks(json: &str) -> Blocks {
                 source["name"].as_str().unwrap_or("?")
             ));
             for entry in rule["trace"].as_array().into_iter().flatten() {
-                let target = match (entry["input"].as_u64(), entry["derived"].as_u64()) {
-                    (Some(id), _) => &engine["inputs"][id as usize],
-                    (_, Some(id)) => &engine["derived"][id as usize],
+                let target = match (
+                    entry["input"].as_u64(),
+                    entry["derived"].as_u64(),
+                    entry["gauge"].as_u64(),
+                ) {
+                    (Some(id), _, _) => &engine["inputs"][id as usize],
+                    (_, Some(id), _) => &engine["derived"][id as usize],
+                    (_, _, Some(id)) => &engine["gauges"][id as usize],
                     _ => entry,
                 };
                 strings_of(target, &mut block);
@@ -474,6 +480,11 @@ fn facts_of(
             Trace::Text { value, .. } => facts.push(value.to_string()),
             Trace::Derived { derived, .. } => facts.push(derived.formula.clone()),
             Trace::Missing { name } => facts.push(name.to_string()),
+            // a gauge result: its tag and what it did, as the declaration writes them
+            Trace::Gauge { result, .. } => {
+                facts.push(result.tag.clone());
+                facts.push(result.kind.result_words(result.went).to_string());
+            }
         }
     }
     facts

@@ -87,7 +87,11 @@ fn a_check_report_refers_only_to_inputs_and_derived_values_it_lists() {
     let doc = check_document("inspector");
     for engine in doc["engines"].as_array().into_iter().flatten() {
         let count = |key: &str| engine[key].as_array().map_or(0, Vec::len) as u64;
-        for (key, list) in [("inputs", "inputs"), ("derived", "derived")] {
+        for (key, list) in [
+            ("inputs", "inputs"),
+            ("derived", "derived"),
+            ("gauges", "gauges"),
+        ] {
             for (at, entry) in engine[list].as_array().into_iter().flatten().enumerate() {
                 assert_eq!(entry["id"], at, "{key} ids are their positions");
             }
@@ -100,6 +104,16 @@ fn a_check_report_refers_only_to_inputs_and_derived_values_it_lists() {
                 if let Some(id) = entry["derived"].as_u64() {
                     assert!(id < count("derived"), "{entry} names no derived value");
                 }
+                if let Some(id) = entry["gauge"].as_u64() {
+                    assert!(id < count("gauges"), "{entry} names no gauge result");
+                }
+            }
+            let sides = rule["gauge"]["sides"].as_array().into_iter().flatten();
+            for id in sides.filter_map(|s| s["decided_by"].as_u64()) {
+                assert!(
+                    id < count("gauges"),
+                    "{rule} decided by no listed gauge result"
+                );
             }
         }
     }

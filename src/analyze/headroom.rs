@@ -150,6 +150,13 @@ fn numeric_of(outcome: &Outcome) -> Result<(Numeric, Finding), String> {
     if !outcome.missing.is_empty() {
         return Err(format!("missing {}", outcome.missing.join(", ")));
     }
+    let gauged = outcome.checked.as_ref().is_some_and(|c| c.gauge.is_some());
+    if gauged || !outcome.gauge_gaps.is_empty() {
+        return Err(
+            "read from go/no-go gauge results, which give bounds, not a value: no margin to move"
+                .into(),
+        );
+    }
     if let Some(b) = outcome.outside_domain.first() {
         let cylinder = b
             .cylinder

@@ -354,6 +354,14 @@ pub mod load {
     pub const BAD_SCOPE: Code = Code::new(Stage::Load, 34, "bad-scope");
     /// `D35 bad-seal`
     pub const BAD_SEAL: Code = Code::new(Stage::Load, 35, "bad-seal");
+    /// `D36 bad-gauge`
+    pub const BAD_GAUGE: Code = Code::new(Stage::Load, 36, "bad-gauge");
+    /// `D37 gauged-and-measured`
+    pub const GAUGED_AND_MEASURED: Code = Code::new(Stage::Load, 37, "gauged-and-measured");
+    /// `D38 cannot-gauge`
+    pub const CANNOT_GAUGE: Code = Code::new(Stage::Load, 38, "cannot-gauge");
+    /// `D39 gauges-disagree`
+    pub const GAUGES_DISAGREE: Code = Code::new(Stage::Load, 39, "gauges-disagree");
 }
 
 /// Codes of comparing editions and fields.

@@ -20,6 +20,11 @@ pub enum Finding {
     Fail,
     /// Outside the limit, by less than the expanded uncertainty.
     ConditionalFail,
+    /// Neither side shown: go/no-go gauge results that bound the measurand only on the side
+    /// the limit does not need (a plug that entered, against an upper limit above its size).
+    /// No value is known, so neither conformity nor nonconformity is proven
+    /// ([`super::gauge`]).
+    Open,
     /// Inside the limit, by less than the expanded uncertainty.
     ConditionalPass,
     /// Inside the limit by at least the expanded uncertainty: conformity proven.
@@ -33,13 +38,18 @@ impl Finding {
             Finding::Pass => "pass",
             Finding::ConditionalPass => "conditional pass",
             Finding::ConditionalFail => "conditional fail",
+            Finding::Open => "open",
             Finding::Fail => "fail",
         }
     }
 
-    /// True for the two findings inside the uncertainty band.
+    /// True for the findings that prove neither conformity nor nonconformity: the two inside
+    /// the uncertainty band, and an open gauge result.
     pub fn is_conditional(self) -> bool {
-        matches!(self, Finding::ConditionalPass | Finding::ConditionalFail)
+        matches!(
+            self,
+            Finding::ConditionalPass | Finding::ConditionalFail | Finding::Open
+        )
     }
 }
 
@@ -131,7 +141,10 @@ impl Verdict {
     }
 }
 
-/// The verdict a decision rule gives a finding (DESIGN.md section 5).
+/// The verdict a decision rule gives a finding (DESIGN.md section 5). An open finding is
+/// legal under guarded rejection (no violation proven) and illegal under guarded acceptance
+/// (conformity not proven); simple acceptance has no measured value to accept, and the rule
+/// evaluation calls such a rule not checked before asking here (where it would be illegal).
 pub fn verdict(finding: Finding, rule: DecisionRule) -> Verdict {
     let legal = match rule {
         // the inspector's rule: illegal only on a proven fail

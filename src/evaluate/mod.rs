@@ -9,6 +9,7 @@ pub mod dual;
 pub mod exact;
 pub mod expr;
 pub mod finding;
+pub mod gauge;
 pub mod joint;
 pub mod montecarlo;
 pub mod outcome;

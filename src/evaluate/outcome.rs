@@ -2,11 +2,13 @@
 //! units; each carries the unit it should be shown in.
 
 use super::finding::{Finding, Verdict};
+use super::gauge::SideFinding;
 use super::joint::AllCylinders;
 use super::montecarlo::MonteCarlo;
 use super::value::{Breach, Evaluated, Unevaluated};
 use crate::check::model::{CheckedRulebook, Class, ClassRule, Derived, NearMatch};
 use crate::load::InputId;
+use crate::load::gauge::GaugeResult;
 use crate::load::{Declaration, Input, Place};
 use crate::parse::ast::DecisionRule;
 use crate::units::Unit;
@@ -155,6 +157,43 @@ pub struct Checked {
     /// the value is still not on the list, the finding stands, and the report asks for the
     /// tag to be read again.
     pub near_match: Option<NearMatch>,
+    /// For a limit on a measurement recorded as go/no-go gauge results, what the results
+    /// prove about each side of it.
+    pub gauge: Option<GaugeCall>,
+}
+
+/// A limit decided from gauge results ([`super::gauge`]).
+#[derive(Clone, Debug, PartialEq)]
+pub struct GaugeCall {
+    /// The measurement, by position in the schema.
+    pub measurement: usize,
+    /// Each side of the limit with its finding: one, or two for a range (low first).
+    pub sides: Vec<SideFinding>,
+    /// The unit to show the limit in: the gauge sizes' own.
+    pub unit: Option<&'static Unit>,
+}
+
+/// Why a rule on a gauged measurement cannot be decided from its gauge results.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, serde::Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum GaugeWhy {
+    /// The measurement is read inside an expression, or as a limit: that needs its value.
+    NeedsAValue,
+    /// `==` or `!=`: a bound never proves a value equal to another.
+    Equality,
+    /// The limit carries an uncertainty of its own, or differs by cylinder.
+    UnsureLimit,
+    /// The results leave the rule open, and simple acceptance decides on a measured value.
+    OpenUnderSimpleAcceptance,
+}
+
+/// A gauged measurement a rule could not be decided from, and why.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub struct GaugeGap {
+    /// The measurement, by position in the schema.
+    pub measurement: usize,
+    /// Why.
+    pub why: GaugeWhy,
 }
 
 impl Checked {
@@ -226,6 +265,13 @@ pub enum Trace<'a> {
         /// The measurement.
         name: &'a str,
     },
+    /// One go/no-go gauge result of a gauged measurement.
+    Gauge {
+        /// The measurement.
+        name: &'a str,
+        /// The result.
+        result: &'a GaugeResult,
+    },
 }
 
 impl<'a> Outcome<'a> {
@@ -241,6 +287,7 @@ impl<'a> Outcome<'a> {
             missing: Vec::new(),
             not_finite: false,
             outside_domain: Vec::new(),
+            gauge_gaps: Vec::new(),
             error: None,
             trace: Vec::new(),
         }
@@ -268,6 +315,9 @@ pub struct Outcome<'a> {
     /// The values outside the domain of the formula or operation that needed them, each
     /// cylinder's own: the reason the rule is not checked.
     pub outside_domain: Vec<Breach>,
+    /// The gauged measurements it could not be decided from, and why: a reason it is not
+    /// checked.
+    pub gauge_gaps: Vec<GaugeGap>,
     /// Why it could not be evaluated, when that is not a missing measurement: an internal
     /// error of gonogo, never a finding.
     pub error: Option<String>,
@@ -300,7 +350,8 @@ impl Outcome<'_> {
     /// what the measurement shows, whatever the decision rule makes of it (the verdict's word
     /// says that): ✓ proven pass, (✓) pass not proven, (✗) fail not proven, ✗ proven fail,
     /// ? not checked, – not applicable, ○ not in scope. A call is not proven when its finding is conditional
-    /// or its condition uncertain; a rule without a finding takes its side from its verdict.
+    /// or its condition uncertain; a rule without a finding, or with an open one, takes its side
+    /// from its verdict.
     pub fn mark(&self) -> &'static str {
         match self.verdict {
             Verdict::NotChecked => return "?",
@@ -308,12 +359,13 @@ impl Outcome<'_> {
             Verdict::NotInScope => return "○",
             Verdict::Legal | Verdict::Illegal => {}
         }
-        let passes = self
-            .checked
-            .as_ref()
-            .map_or(self.verdict == Verdict::Legal, |c| {
-                matches!(c.finding, Finding::Pass | Finding::ConditionalPass)
-            });
+        let legal = self.verdict == Verdict::Legal;
+        let passes = self.checked.as_ref().map_or(legal, |c| match c.finding {
+            Finding::Pass | Finding::ConditionalPass => true,
+            // open gauge results show no side: the verdict gives it
+            Finding::Open => legal,
+            Finding::ConditionalFail | Finding::Fail => false,
+        });
         match (passes, self.is_uncertain()) {
             (true, false) => "✓",
             (true, true) => "(✓)",

@@ -8,12 +8,13 @@ use super::dual::Dual;
 use super::exact::End;
 use super::expr::Evaluator;
 use super::finding::{Finding, Verdict, finding, probability, probability_between, verdict};
-use super::outcome::{Applies, Checked, Numeric, Outcome, Trace};
+use super::gauge::{self, LimitSide};
+use super::outcome::{Applies, Checked, GaugeCall, GaugeGap, GaugeWhy, Numeric, Outcome, Trace};
 use super::value::{Evaluated, Unevaluated, Value, both};
 use crate::check::limit::{Limit, Side};
 use crate::check::model::{CheckedRulebook, ClassRule};
-use crate::check::resolved::{Condition, Expr, Read, Term, Test, TestKind};
-use crate::load::Supplied;
+use crate::check::resolved::{Condition, Expr, ExprKind, Read, Term, Test, TestKind};
+use crate::load::{Declaration, Supplied};
 use crate::parse::ast::DecisionRule;
 use crate::units::Unit;
 
@@ -39,6 +40,7 @@ impl<'a> Evaluator<'a> {
             missing: Vec::new(),
             not_finite: false,
             outside_domain: Vec::new(),
+            gauge_gaps: Vec::new(),
             error: None,
             trace: Vec::new(),
         };
@@ -46,7 +48,7 @@ impl<'a> Evaluator<'a> {
         match self.conditions(&r.when, decision) {
             Err(why) => {
                 outcome.applies = Applies::NotComputed;
-                outcome.record(why, self.rulebook);
+                outcome.record(why, self.rulebook, self.declaration);
                 return outcome;
             }
             Ok(Truth::False) => {
@@ -60,7 +62,23 @@ impl<'a> Evaluator<'a> {
         }
         // bad input must not turn into a verdict: a value that is not a number decides nothing
         match self.test(&r.test).and_then(Checked::finite) {
-            Err(why) => outcome.record(why, self.rulebook),
+            Err(why) => outcome.record(why, self.rulebook, self.declaration),
+            // simple acceptance decides on a measured value, and open gauge results give none
+            Ok(Checked {
+                finding: Finding::Open,
+                gauge: Some(call),
+                ..
+            }) if decision == DecisionRule::SimpleAcceptance => {
+                let gap = GaugeGap {
+                    measurement: call.measurement,
+                    why: GaugeWhy::OpenUnderSimpleAcceptance,
+                };
+                outcome.record(
+                    Unevaluated::Gauged(vec![gap]),
+                    self.rulebook,
+                    self.declaration,
+                );
+            }
             Ok(checked) => {
                 let mut v = verdict(checked.finding, decision);
                 // The inspector's rule gives the doubt to the competitor: a rule that may not
@@ -131,7 +149,10 @@ impl<'a> Evaluator<'a> {
     /// The finding of one test.
     pub fn test(&mut self, t: &Test) -> Evaluated<Checked> {
         match &t.kind {
-            TestKind::Limit { limit, unit } => self.limit(limit, *unit),
+            TestKind::Limit { limit, unit } => match self.gauged_subject(&limit.subject) {
+                Some(index) => self.gauged_limit(limit, index),
+                None => self.limit(limit, *unit),
+            },
             TestKind::TextEqual { left, equal, right } => {
                 let (a, b) = both(self.text(left), self.text(right))?;
                 Ok(binary_finding((a == b) == *equal, a))
@@ -188,6 +209,80 @@ impl<'a> Evaluator<'a> {
                 Err(Unevaluated::internal("a range without its upper limit"))
             }
         }
+    }
+
+    /// The position of the measurement a limit tests, when it is one measurement recorded as
+    /// gauge results.
+    fn gauged_subject(&self, subject: &Expr) -> Option<usize> {
+        let ExprKind::Measurement(m) = &subject.kind else {
+            return None;
+        };
+        self.declaration.gauged(m.index()).map(|_| m.index())
+    }
+
+    /// A limit on a gauged measurement, decided from what its results prove
+    /// ([`super::gauge`]): each side of the limit on its own, the worse side deciding a range.
+    /// A limit with an uncertainty of its own or one per cylinder, and `==` or `!=`, cannot
+    /// be decided from bounds.
+    fn gauged_limit(&mut self, limit: &Limit<Expr>, index: usize) -> Evaluated<Checked> {
+        let gap = |why| {
+            Unevaluated::Gauged(vec![GaugeGap {
+                measurement: index,
+                why,
+            }])
+        };
+        let (first, second) = limit.limits();
+        let first = self.number(first);
+        let second = second.map(|e| self.number(e)).transpose();
+        let (first, second) = both(first, second)?;
+        let slack = self.allowance(limit.allowance.as_ref())?;
+        let exact = |v: &Value| match v {
+            Value::Single(d) if self.combined(d) == 0.0 => Some(d.value),
+            _ => None,
+        };
+        let a = exact(&first).ok_or_else(|| gap(GaugeWhy::UnsureLimit))?;
+        let results = self
+            .declaration
+            .gauged(index)
+            .map(|g| g.results.as_slice())
+            .unwrap_or_default();
+        let side = |upper, strict, at| LimitSide { upper, strict, at };
+        let sides = match &limit.side {
+            Side::Upper { strict, .. } => {
+                vec![gauge::decide(results, side(true, *strict, a + slack))]
+            }
+            Side::Lower { strict, .. } => {
+                vec![gauge::decide(results, side(false, *strict, a - slack))]
+            }
+            Side::Equal { .. } | Side::NotEqual { .. } => return Err(gap(GaugeWhy::Equality)),
+            Side::Between { .. } => {
+                let b = second
+                    .as_ref()
+                    .and_then(exact)
+                    .ok_or_else(|| gap(GaugeWhy::UnsureLimit))?;
+                gauge::decide_between(results, a - slack, b + slack).to_vec()
+            }
+        };
+        let finding = sides
+            .iter()
+            .map(|s| s.finding)
+            .min()
+            .unwrap_or(Finding::Open);
+        let unit = results
+            .first()
+            .and_then(|r| r.unit)
+            .and_then(crate::units::lookup);
+        Ok(Checked {
+            finding,
+            numeric: None,
+            observed: None,
+            near_match: None,
+            gauge: Some(GaugeCall {
+                measurement: index,
+                sides,
+                unit,
+            }),
+        })
     }
 
     /// A written allowance in SI units (0 without one); the checker made it a constant.
@@ -276,6 +371,7 @@ impl<'a> Evaluator<'a> {
             numeric: Some(numeric.0),
             observed: None,
             near_match: None,
+            gauge: None,
         })
     }
 
@@ -331,6 +427,7 @@ impl<'a> Evaluator<'a> {
                 numeric: Some(numeric),
                 observed: None,
                 near_match: None,
+                gauge: None,
             };
             if worst.as_ref().is_none_or(|w| rank(&candidate) < rank(w)) {
                 worst = Some(candidate);
@@ -441,7 +538,11 @@ impl<'a> Evaluator<'a> {
                 };
                 let name = m.name.as_str();
                 match declaration.supplied(id.index()) {
-                    None => lines.push(Trace::Missing { name }),
+                    None => match declaration.gauged(id.index()) {
+                        Some(g) => lines
+                            .extend(g.results.iter().map(|result| Trace::Gauge { name, result })),
+                        None => lines.push(Trace::Missing { name }),
+                    },
                     Some(Supplied::Text(value, place, written)) => lines.push(Trace::Text {
                         name,
                         value,
@@ -487,9 +588,25 @@ impl Outcome<'_> {
     /// measurements does not apply to the engine ("not applicable, optional, not measured");
     /// one that misses a required measurement, alone or beside optional ones, stays not
     /// checked.
-    fn record(&mut self, why: Unevaluated, rulebook: &CheckedRulebook) {
+    /// A gauged measurement an expression needed is not missing: it has bounds and no value,
+    /// and the rule is not checked for that reason ([`GaugeWhy::NeedsAValue`]).
+    fn record(&mut self, why: Unevaluated, rulebook: &CheckedRulebook, declaration: &Declaration) {
         match why {
-            Unevaluated::Missing(missing) => self.missing = missing.0.into_iter().collect(),
+            Unevaluated::Missing(missing) => {
+                for name in missing.0 {
+                    let gauged = rulebook
+                        .measurement_index(&name)
+                        .filter(|i| declaration.gauged(*i).is_some());
+                    match gauged {
+                        Some(measurement) => self.gauge_gaps.push(GaugeGap {
+                            measurement,
+                            why: GaugeWhy::NeedsAValue,
+                        }),
+                        None => self.missing.push(name),
+                    }
+                }
+            }
+            Unevaluated::Gauged(gaps) => self.gauge_gaps = gaps,
             Unevaluated::Domain(breaches) => {
                 self.not_finite = true;
                 self.outside_domain = breaches;
@@ -538,5 +655,6 @@ fn binary_finding(holds: bool, observed: String) -> Checked {
         numeric: None,
         observed: Some(observed),
         near_match: None,
+        gauge: None,
     }
 }

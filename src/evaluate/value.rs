@@ -29,6 +29,8 @@ pub enum Unevaluated {
     Missing(Missing),
     /// Values outside the domain of a formula or operation, each cylinder's own.
     Domain(Vec<Breach>),
+    /// Measurements recorded as gauge results that the test cannot be decided from.
+    Gauged(Vec<super::outcome::GaugeGap>),
     /// A state the checker and the loader rule out (a mistake in gonogo), with what went wrong.
     Internal(String),
 }
@@ -103,13 +105,22 @@ impl Unevaluated {
     }
 
     /// Both reasons together: the first internal error; else every missing measurement
-    /// (a value outside its domain shows once they are given); else every breach.
+    /// (a value outside its domain shows once they are given); else every gauged measurement
+    /// that cannot decide; else every breach.
     pub fn join(self, other: Unevaluated) -> Unevaluated {
         match (self, other) {
             (Unevaluated::Internal(e), _) | (_, Unevaluated::Internal(e)) => {
                 Unevaluated::Internal(e)
             }
             (Unevaluated::Missing(a), Unevaluated::Missing(b)) => Unevaluated::Missing(a.join(b)),
+            (Unevaluated::Missing(m), Unevaluated::Gauged(_))
+            | (Unevaluated::Gauged(_), Unevaluated::Missing(m)) => Unevaluated::Missing(m),
+            (Unevaluated::Gauged(mut a), Unevaluated::Gauged(b)) => {
+                a.extend(b.into_iter().filter(|g| !a.contains(g)).collect::<Vec<_>>());
+                Unevaluated::Gauged(a)
+            }
+            (Unevaluated::Gauged(g), Unevaluated::Domain(_))
+            | (Unevaluated::Domain(_), Unevaluated::Gauged(g)) => Unevaluated::Gauged(g),
             (Unevaluated::Missing(m), Unevaluated::Domain(_))
             | (Unevaluated::Domain(_), Unevaluated::Missing(m)) => Unevaluated::Missing(m),
             (Unevaluated::Domain(mut a), Unevaluated::Domain(b)) => {

@@ -239,6 +239,9 @@ pub struct Declaration {
     pub calibrations: BTreeMap<InputId, InputId>,
     /// Why it was inspected, what the inspection covered and the seals on it.
     pub inspection: super::inspection::Inspection,
+    /// The measurements recorded as go/no-go gauge results, by position in the schema: each
+    /// has no measured value (its slot of `supplied` is `None`).
+    pub gauged: BTreeMap<usize, super::gauge::Gauged>,
 }
 
 impl Declaration {
@@ -250,6 +253,11 @@ impl Declaration {
     /// What was supplied for the measurement at this position of the schema.
     pub fn supplied(&self, measurement: usize) -> Option<&Supplied> {
         self.supplied.get(measurement).and_then(Option::as_ref)
+    }
+
+    /// The gauge results recorded for the measurement at this position of the schema.
+    pub fn gauged(&self, measurement: usize) -> Option<&super::gauge::Gauged> {
+        self.gauged.get(&measurement)
     }
 
     /// The shared calibration input added to reading `id`, if its instrument has one.

@@ -32,6 +32,8 @@ pub enum KeyKind {
     Inspection,
     /// One seal's `number` and `at`.
     Seal,
+    /// One gauge result's `plug` or `ring`, `size` and `result`.
+    Gauge,
 }
 
 impl KeyKind {
@@ -45,6 +47,7 @@ impl KeyKind {
             KeyKind::Instrument => "an instrument key",
             KeyKind::Inspection => "an inspection key",
             KeyKind::Seal => "a seal key",
+            KeyKind::Gauge => "a gauge key",
         }
     }
 }
@@ -114,6 +117,35 @@ pub enum SealFault {
         /// The number.
         number: String,
     },
+}
+
+/// What is wrong with a gauge result of a measurement's `gauges:`.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub enum GaugeFault {
+    /// Neither `plug` nor `ring`, or one without the gauge's tag.
+    NoKind,
+    /// Both `plug` and `ring` in one result.
+    TwoKinds,
+    /// No `size`.
+    NoSize,
+    /// A size without its `± U`: a gauge's size is known only to its calibration.
+    NoUncertainty,
+    /// No `result`.
+    NoResult {
+        /// The gauge's kind.
+        kind: super::gauge::GaugeKind,
+    },
+    /// A result that is not one of the kind's two.
+    UnknownResult {
+        /// As written.
+        written: String,
+        /// The gauge's kind.
+        kind: super::gauge::GaugeKind,
+    },
+    /// An empty list of results.
+    Empty,
+    /// Plug and ring results on one measurement: a feature is a hole or a shaft.
+    MixedKinds,
 }
 
 /// One thing wrong with a declaration.
@@ -328,6 +360,27 @@ pub enum LoadError {
     BadScope(ScopeFault),
     /// A bad seal.
     BadSeal(SealFault),
+    /// A bad gauge result.
+    BadGauge(GaugeFault),
+    /// Gauge results beside a measured value (`value`, `values`, `readings`, `instrument`).
+    GaugedAndMeasured {
+        /// The measured form written beside `gauges`.
+        beside: &'static str,
+    },
+    /// Gauge results for a measurement that cannot be gauged.
+    CannotGauge {
+        /// The measurement.
+        measurement: String,
+        /// True when it is text, false when it is measured on every cylinder.
+        text: bool,
+    },
+    /// Two gauge results that no single size gives together.
+    GaugesDisagree {
+        /// The result bounding from below, in words (`plug TV-G-0412 1.6875 in entered`).
+        low: String,
+        /// The result bounding from above.
+        high: String,
+    },
 }
 
 impl LoadError {
@@ -372,6 +425,10 @@ impl LoadError {
             LoadError::NoReference { .. } => codes::load::NO_REFERENCE,
             LoadError::BadScope(_) => codes::load::BAD_SCOPE,
             LoadError::BadSeal(_) => codes::load::BAD_SEAL,
+            LoadError::BadGauge(_) => codes::load::BAD_GAUGE,
+            LoadError::GaugedAndMeasured { .. } => codes::load::GAUGED_AND_MEASURED,
+            LoadError::CannotGauge { .. } => codes::load::CANNOT_GAUGE,
+            LoadError::GaugesDisagree { .. } => codes::load::GAUGES_DISAGREE,
         }
     }
 
@@ -524,6 +581,23 @@ impl LoadError {
             LoadError::BadSeal(SealFault::Twice { number }) => {
                 format!("seal `{number}` is listed twice")
             }
+            LoadError::BadGauge(fault) => gauge_message(fault),
+            LoadError::GaugedAndMeasured { beside } => {
+                format!("this measurement gives both gauge results and `{beside}`")
+            }
+            LoadError::CannotGauge { measurement, text } => {
+                if *text {
+                    format!("`{measurement}` is text, which a gauge does not measure")
+                } else {
+                    format!(
+                        "`{measurement}` is measured on every cylinder, and gauge results are \
+                         read for one value of the engine"
+                    )
+                }
+            }
+            LoadError::GaugesDisagree { low, high } => {
+                format!("no size gives both results: {low}, but {high}")
+            }
         }
     }
 
@@ -573,6 +647,10 @@ impl LoadError {
             LoadError::BadScope(_) => "not a section".to_string(),
             LoadError::BadSeal(SealFault::NoNumber) => "no number".to_string(),
             LoadError::BadSeal(SealFault::Twice { .. }) => "listed again here".to_string(),
+            LoadError::BadGauge(fault) => gauge_label(fault).to_string(),
+            LoadError::GaugedAndMeasured { .. } => "here".to_string(),
+            LoadError::CannotGauge { .. } => "gauge results".to_string(),
+            LoadError::GaugesDisagree { .. } => "these results".to_string(),
         }
     }
 
@@ -737,6 +815,21 @@ impl LoadError {
             LoadError::BadSeal(SealFault::Twice { .. }) => {
                 "list each seal once; check the number against the seal".to_string()
             }
+            LoadError::BadGauge(fault) => gauge_help(fault),
+            LoadError::GaugedAndMeasured { .. } => {
+                "keep one: `gauges` for go/no-go results, or the measured value".to_string()
+            }
+            LoadError::CannotGauge { text: true, .. } => {
+                "write the text as it reads on the part".to_string()
+            }
+            LoadError::CannotGauge { text: false, .. } => {
+                "measure each cylinder and write the values under `values:`".to_string()
+            }
+            LoadError::GaugesDisagree { .. } => {
+                "try both gauges again and check their tags and sizes against the calibration \
+                 record"
+                    .to_string()
+            }
         }
     }
 
@@ -764,6 +857,66 @@ impl LoadError {
             return LoadError::Unsupported(YamlFeature::Tag { tag });
         }
         LoadError::Yaml { message }
+    }
+}
+
+/// What is wrong with a gauge result, without where.
+fn gauge_message(fault: &GaugeFault) -> String {
+    match fault {
+        GaugeFault::NoKind => "this gauge result names no gauge".to_string(),
+        GaugeFault::TwoKinds => "this gauge result names both a plug and a ring".to_string(),
+        GaugeFault::NoSize => "this gauge result has no `size`".to_string(),
+        GaugeFault::NoUncertainty => {
+            "a gauge's size needs its expanded uncertainty, from its calibration".to_string()
+        }
+        GaugeFault::NoResult { kind } => {
+            format!(
+                "this gauge result does not say whether the {} went",
+                kind.words()
+            )
+        }
+        GaugeFault::UnknownResult { written, kind } => {
+            format!("`{written}` is not a result of a {} gauge", kind.words())
+        }
+        GaugeFault::Empty => "this list has no gauge results".to_string(),
+        GaugeFault::MixedKinds => "this measurement has both plug and ring results".to_string(),
+    }
+}
+
+fn gauge_label(fault: &GaugeFault) -> &'static str {
+    match fault {
+        GaugeFault::NoKind => "no gauge",
+        GaugeFault::TwoKinds => "plug and ring",
+        GaugeFault::NoSize => "no size",
+        GaugeFault::NoUncertainty => "no uncertainty",
+        GaugeFault::NoResult { .. } => "no result",
+        GaugeFault::UnknownResult { .. } => "unknown result",
+        GaugeFault::Empty => "empty",
+        GaugeFault::MixedKinds => "plug and ring",
+    }
+}
+
+fn gauge_help(fault: &GaugeFault) -> String {
+    match fault {
+        GaugeFault::NoKind | GaugeFault::TwoKinds => {
+            "write `plug:` (a bore) or `ring:` (a diameter) with the gauge's tag, like \
+             `plug: \"TV-G-0412\"`"
+                .to_string()
+        }
+        GaugeFault::NoSize | GaugeFault::NoUncertainty => {
+            "write the size from its calibration with its `±`, like \
+             `size: \"1.6875 in ± 0.0002 in (k = 2)\"`"
+                .to_string()
+        }
+        GaugeFault::NoResult { kind } | GaugeFault::UnknownResult { kind, .. } => {
+            let [went, not] = kind.results();
+            format!("write `result: {went}` or `result: {not}`")
+        }
+        GaugeFault::Empty => "list each gauge tried, or leave the measurement out".to_string(),
+        GaugeFault::MixedKinds => {
+            "a bore takes plugs and a diameter takes rings: keep the results of one kind"
+                .to_string()
+        }
     }
 }
 

@@ -7,6 +7,7 @@ mod collect;
 pub mod declaration;
 pub mod depth;
 pub mod error;
+pub mod gauge;
 pub mod inspection;
 pub mod path;
 mod reading;

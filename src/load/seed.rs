@@ -19,6 +19,7 @@ use super::declaration::{
     UncertaintySource,
 };
 use super::error::{CoverageAt, KeyKind, LoadError, MERGE_KEY, Twice, YamlFeature};
+use super::gauge::{GaugeResult, Gauged, GaugesSeed};
 use super::inspection::InspectionSeed;
 use super::path::DeclPath;
 use super::reading::{Reading, read_instrument_quantity, read_number, read_text};
@@ -1165,7 +1166,7 @@ impl<'de> Visitor<'de> for ValueSeed<'_> {
     }
 
     fn visit_map<A: MapAccess<'de>>(self, mut map: A) -> Result<(), A::Error> {
-        const KEYS: &[&str] = &["value", "values", "readings", "instrument"];
+        const KEYS: &[&str] = &["value", "values", "readings", "instrument", "gauges"];
         let cx = self.cx;
         let before = cx.collector.skipped();
         let mut seen = Vec::new();
@@ -1201,6 +1202,13 @@ impl<'de> Visitor<'de> for ValueSeed<'_> {
                         per_cylinder: self.measurement.per_cylinder,
                     })?;
                 }
+                "gauges" => {
+                    given.gauges = map.next_value_seed(GaugesSeed {
+                        cx,
+                        path: self.path.key("gauges"),
+                        measurement: self.measurement,
+                    })?;
+                }
                 _ => {
                     let path = self.path.key("instrument");
                     given.instrument = map
@@ -1229,6 +1237,8 @@ struct Given {
     /// measurement is per cylinder.
     repeated: Option<Vec<(Reading, TypeA)>>,
     instrument: Option<(String, DeclPath)>,
+    /// `gauges:`: go/no-go results in place of a measured value.
+    gauges: Option<Vec<GaugeResult>>,
 }
 
 impl Given {
@@ -1251,7 +1261,10 @@ impl Given {
 }
 
 impl ValueSeed<'_> {
-    fn finish_map<E: de::Error>(self, given: Given) -> Result<(), E> {
+    fn finish_map<E: de::Error>(self, mut given: Given) -> Result<(), E> {
+        if let Some(results) = given.gauges.take() {
+            return self.gauged(results, &given);
+        }
         let stated = given
             .single
             .iter()
@@ -1282,6 +1295,33 @@ impl ValueSeed<'_> {
                 path,
             });
         }
+        Ok(())
+    }
+}
+
+impl ValueSeed<'_> {
+    /// Records gauge results for the measurement, which then has no measured value: a
+    /// mapping that also gives one is refused.
+    fn gauged<E: de::Error>(&self, results: Vec<GaugeResult>, given: &Given) -> Result<(), E> {
+        let beside = [
+            (given.single.is_some(), "value"),
+            (given.list.is_some(), "values"),
+            (given.repeated.is_some(), "readings"),
+            (given.instrument.is_some(), "instrument"),
+        ]
+        .into_iter()
+        .find_map(|(is, name)| is.then_some(name));
+        if let Some(beside) = beside {
+            return Err(self.refuse(LoadError::GaugedAndMeasured { beside }));
+        }
+        let mut state = self.cx.state.borrow_mut();
+        state.declaration.gauged.insert(
+            self.index,
+            Gauged {
+                results,
+                place: self.place,
+            },
+        );
         Ok(())
     }
 }

@@ -17,9 +17,12 @@ use crate::check::builtins::Reduce;
 use crate::check::model::{Derived, Origin, Slip, ValueKind};
 use crate::check::resolved::{Expr, ExprKind, Term, TestKind};
 use crate::evaluate::finding::{Finding, Verdict};
+use crate::evaluate::gauge::{LimitSide, SideFinding};
 use crate::evaluate::outcome::{Applies, EngineReport, EngineResult, Numeric, Outcome, Trace};
+use crate::evaluate::outcome::{GaugeCall, GaugeGap, GaugeWhy};
 use crate::evaluate::value::Breach;
 use crate::load::InputId;
+use crate::load::gauge::{Bound, GaugeKind, GaugeResult};
 use crate::load::{Input, InputName, Supplied, UncertaintySource};
 use crate::units::{self, Unit};
 
@@ -121,6 +124,9 @@ pub struct EngineView {
     pub inputs: Vec<InputView>,
     /// Every derived value a rule reads, once.
     pub derived: Vec<DerivedView>,
+    /// Every go/no-go gauge result a rule reads, once (left out of the JSON when none).
+    #[serde(skip_serializing_if = "Vec::is_empty")]
+    pub gauges: Vec<GaugeView>,
     /// Each rule, in rulebook order.
     pub rules: Vec<RuleView>,
     /// What produced the report: version, fingerprints of the inputs, time.
@@ -439,6 +445,12 @@ pub struct RuleView {
     /// The values outside the domain of the formula or operation that needed them.
     #[serde(skip_serializing_if = "Vec::is_empty")]
     pub outside_domain: Vec<BreachView>,
+    /// For a limit on a gauged measurement, what its gauge results prove about each side.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub gauge: Option<GaugeCallView>,
+    /// The gauged measurements the rule could not be decided from, and why.
+    #[serde(skip_serializing_if = "Vec::is_empty")]
+    pub gauge_gaps: Vec<GaugeGapView>,
     /// Why the rule could not be evaluated when that is gonogo's own mistake, not the input's.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub internal_error: Option<String>,
@@ -501,6 +513,8 @@ pub enum TraceRef {
     Derived(usize),
     /// A measurement the declaration does not give.
     Missing(String),
+    /// [`EngineView::gauges`]`[id]`.
+    Gauge(usize),
 }
 
 /// One fact of a rule as a report states it: a label, what it is about in the rulebook's or
@@ -544,6 +558,8 @@ pub enum TraceLine<'v> {
     Derived(&'v DerivedView),
     /// A measurement the declaration does not give.
     Missing(&'v str),
+    /// A go/no-go gauge result and what it proves.
+    Gauge(&'v GaugeView),
 }
 
 impl TraceLine<'_> {
@@ -566,6 +582,7 @@ impl TraceLine<'_> {
             } => format!("{label} = {values}  [{origin}]"),
             TraceLine::Derived(d) => format!("{} = {}", d.name, d.formula),
             TraceLine::Missing(name) => format!("{name}: missing"),
+            TraceLine::Gauge(g) => format!("{}  [{}]", g.words, g.origin),
         }
     }
 
@@ -624,6 +641,7 @@ impl EngineView {
             closest_call: closest_call(r),
             inputs: book.inputs,
             derived: book.derived,
+            gauges: book.gauges,
             rules,
             provenance: super::provenance::Provenance::of(r),
             seals: Seals {
@@ -790,6 +808,7 @@ impl EngineView {
             }
             TraceRef::Derived(id) => self.derived.get(*id).map(TraceLine::Derived),
             TraceRef::Missing(name) => Some(TraceLine::Missing(name)),
+            TraceRef::Gauge(id) => self.gauges.get(*id).map(TraceLine::Gauge),
         }
     }
 }
@@ -826,7 +845,7 @@ impl RuleView {
             .checked
             .as_ref()
             .filter(|_| o.verdict != Verdict::NotChecked);
-        RuleView {
+        let mut view = RuleView {
             section: o.section().to_string(),
             title: o.title().to_string(),
             verdict: o.verdict,
@@ -860,6 +879,8 @@ impl RuleView {
                 .iter()
                 .map(|b| breach_view(b, r, book))
                 .collect(),
+            gauge: None,
+            gauge_gaps: o.gauge_gaps.iter().map(|g| gauge_gap_view(g, r)).collect(),
             internal_error: o.error.clone(),
             decision: (o.decision != r.decision).then(|| o.decision.words()),
             shows_finding: checked.is_some_and(|c| c.is_finite()),
@@ -870,7 +891,12 @@ impl RuleView {
                     .map(|t| book.trace(t, r, limit_unit))
                     .collect()
             },
-        }
+        };
+        // after the trace, so gauge results are numbered in the order the trace reads them
+        view.gauge = checked
+            .and_then(|c| c.gauge.as_ref())
+            .map(|call| gauge_call_view(call, r, book));
+        view
     }
 
     /// `✓ 3.1  Displacement — LEGAL · pass` without the mark and layout: the title, the
@@ -895,6 +921,8 @@ impl RuleView {
         match (self.verdict, self.finding) {
             (Verdict::Illegal, Some(Finding::ConditionalPass)) => ": not proven legal",
             (Verdict::Legal, Some(Finding::ConditionalFail)) => ": not proven illegal",
+            (Verdict::Illegal, Some(Finding::Open)) => ": not proven legal",
+            (Verdict::Legal, Some(Finding::Open)) => ": not proven illegal",
             _ => "",
         }
     }
@@ -966,6 +994,9 @@ impl RuleView {
         for breach in &self.outside_domain {
             lines.push(fact("not computed", None, breach.reason.clone()));
         }
+        for gap in &self.gauge_gaps {
+            lines.push(fact("undecided", None, gap.reason.clone()));
+        }
         if let Some(error) = &self.internal_error {
             let text = format!("{error} (a mistake in gonogo; please report it)");
             lines.push(fact("not computed", None, text));
@@ -1012,6 +1043,11 @@ impl RuleView {
                     near.words
                 ),
             ));
+        }
+        if let Some(call) = &self.gauge {
+            for side in &call.sides {
+                lines.push(fact("gauge", side.words.clone()));
+            }
         }
         let Some(n) = &self.numeric else { return };
         let s = &n.shown;
@@ -1343,6 +1379,7 @@ struct Book {
     numbers: HashMap<InputId, usize>,
     texts: HashMap<String, usize>,
     derived: Vec<DerivedView>,
+    gauges: Vec<GaugeView>,
 }
 
 impl Book {
@@ -1387,7 +1424,18 @@ impl Book {
                 TraceRef::Derived(self.derived(derived, values, uncertainties, unit))
             }
             Trace::Missing { name } => TraceRef::Missing(name.to_string()),
+            Trace::Gauge { name, result } => TraceRef::Gauge(self.gauge(name, result)),
         }
+    }
+
+    /// A gauge result's id, each result once.
+    fn gauge(&mut self, measurement: &str, result: &GaugeResult) -> usize {
+        if let Some(g) = self.gauges.iter().find(|g| g.origin == result.origin) {
+            return g.id;
+        }
+        let id = self.gauges.len();
+        self.gauges.push(gauge_view(id, measurement, result));
+        id
     }
 
     fn number(&mut self, input_id: InputId, r: &EngineReport) -> usize {
@@ -1620,6 +1668,15 @@ pub fn closest_call(r: &EngineReport) -> Option<ClosestCall> {
     if let Some(o) = r.outcomes.iter().find(|o| o.verdict == Verdict::NotChecked) {
         return Some(call(o, "not checked".to_string()));
     }
+    // a call by gauge results that proves nothing has no probability to rank it by, and is
+    // the least known
+    let by_gauge = r.outcomes.iter().find_map(|o| {
+        let c = o.checked.as_ref()?;
+        (c.gauge.is_some() && c.finding.is_conditional()).then_some((o, c))
+    });
+    if let Some((o, c)) = by_gauge {
+        return Some(call(o, format!("{}, by gauge", c.finding.words())));
+    }
     let closeness = |n: &Numeric| {
         (
             n.probability,
@@ -1641,6 +1698,297 @@ pub fn closest_call(r: &EngineReport) -> Option<ClosestCall> {
             let p = probability(n.probability, n.expanded > 0.0);
             call(o, format!("{}, p {p}", c.finding.words()))
         })
+}
+
+/// One go/no-go gauge result, in the unit its size was written in.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct GaugeView {
+    /// Its id within the engine: its position in [`EngineView::gauges`].
+    pub id: usize,
+    /// The measurement it was tried on.
+    pub measurement: String,
+    /// Where it was written: `components.carburetor.throttle_bore.gauges[2]`.
+    pub origin: String,
+    /// `plug` or `ring`.
+    pub kind: GaugeKind,
+    /// The gauge's tag.
+    pub tag: String,
+    /// Its size as written, with its `± U`.
+    pub size_written: String,
+    /// The unit of `size`, `expanded_uncertainty` and `proves.value`.
+    pub unit: Option<&'static str>,
+    /// Its stated size.
+    pub size: f64,
+    /// The expanded uncertainty of its size, U.
+    pub expanded_uncertainty: f64,
+    /// The coverage factor of U.
+    pub k: f64,
+    /// The result as the declaration writes it: `entered`, `did not enter`, `went over`,
+    /// `did not go over`.
+    pub result: &'static str,
+    /// The bound the result proves, its size's U counted.
+    pub proves: BoundView,
+    /// `plug TV-G-0412 1.6875 in (U = 0.0002 in, k = 2) entered: carburetor.throttle_bore is
+    /// at least 1.6873 in`.
+    #[serde(skip)]
+    pub words: String,
+}
+
+/// A one-sided bound on a measurand.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct BoundView {
+    /// `at_least`, `more_than`, `at_most` or `less_than`.
+    pub side: &'static str,
+    /// Where it lies, in the gauge's unit.
+    pub value: f64,
+    /// `at least 1.6873 in`.
+    #[serde(skip)]
+    pub words: String,
+}
+
+/// A limit decided from gauge results: what they prove about each side of it.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct GaugeCallView {
+    /// The gauged measurement.
+    pub measurement: String,
+    /// The unit of each side's `limit`.
+    pub unit: Option<&'static str>,
+    /// Each side of the limit: one, or two for a range (low first).
+    pub sides: Vec<GaugeSideView>,
+}
+
+/// One side of a limit against gauge results.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct GaugeSideView {
+    /// `at_most`, `less_than`, `at_least` or `more_than`.
+    pub side: &'static str,
+    /// The limit, allowance included, in the call's unit.
+    pub limit: f64,
+    /// What the results prove about it.
+    pub finding: Finding,
+    /// The result that decided it, by id in [`EngineView::gauges`]; null when open.
+    pub decided_by: Option<usize>,
+    /// The side in words, with the result that decided it and what it proves.
+    #[serde(skip)]
+    pub words: String,
+}
+
+/// A gauged measurement a rule could not be decided from.
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct GaugeGapView {
+    /// The measurement.
+    pub measurement: String,
+    /// Its gauges: `plug TV-G-0411`.
+    pub gauges: Vec<String>,
+    /// Why, as data.
+    pub why: GaugeWhy,
+    /// Why, in words.
+    pub reason: String,
+}
+
+/// The decimal places to show a gauge's numbers with: the most of its size's and its U's
+/// as written (`1.6875 in ± 0.0002 in` has 4), so `s − U` reads at the same resolution.
+fn gauge_places(written: &str) -> Option<usize> {
+    let places = |part: &str| {
+        let number = part.split_whitespace().next()?;
+        let (_, decimals) = number.split_once('.')?;
+        Some(decimals.chars().take_while(char::is_ascii_digit).count())
+    };
+    let (size, u) = match written.split_once('±') {
+        Some((size, u)) => (size, Some(u)),
+        None => match written.split_once("+/-") {
+            Some((size, u)) => (size, Some(u)),
+            None => (written, None),
+        },
+    };
+    match (places(size), u.and_then(places)) {
+        (Some(a), Some(b)) => Some(a.max(b)),
+        (a, b) => a.or(b),
+    }
+}
+
+/// `1.6873 in`: a value in a gauge's unit with its places, else six significant digits.
+fn gauge_number(value: f64, places: Option<usize>, unit: Option<&str>) -> String {
+    let number = match places {
+        Some(p) => format!("{value:.p$}"),
+        None => super::format::shortest(value),
+    };
+    match unit {
+        Some(u) => format!("{number} {u}"),
+        None => number,
+    }
+}
+
+/// The side of a bound and its words: `at least`, `more than`, `at most`, `less than`.
+fn bound_side(below: bool, strict: bool) -> (&'static str, &'static str) {
+    match (below, strict) {
+        (true, false) => ("at_least", "at least"),
+        (true, true) => ("more_than", "more than"),
+        (false, false) => ("at_most", "at most"),
+        (false, true) => ("less_than", "less than"),
+    }
+}
+
+/// A bound in the unit shown.
+fn bound_view(b: Bound, scale: f64, places: Option<usize>, unit: Option<&str>) -> BoundView {
+    let (side, words) = bound_side(b.below, b.strict);
+    let value = b.at / scale;
+    BoundView {
+        side,
+        value,
+        words: format!("{words} {}", gauge_number(value, places, unit)),
+    }
+}
+
+fn gauge_view(id: usize, measurement: &str, g: &GaugeResult) -> GaugeView {
+    let scale = g.unit.and_then(units::lookup).map_or(1.0, |u| u.to_si);
+    let places = gauge_places(&g.written);
+    let size = gauge_number(g.size / scale, places, g.unit);
+    let u = gauge_number(g.expanded / scale, places, g.unit);
+    let proves = bound_view(g.proven(), scale, places, g.unit);
+    let result = g.kind.result_words(g.went);
+    let k = super::format::shortest(g.k);
+    GaugeView {
+        id,
+        measurement: measurement.to_string(),
+        origin: g.origin.clone(),
+        kind: g.kind,
+        tag: g.tag.clone(),
+        size_written: g.written.clone(),
+        unit: g.unit,
+        size: g.size / scale,
+        expanded_uncertainty: g.expanded / scale,
+        k: g.k,
+        result,
+        words: format!(
+            "{} {size} (U = {u}, k = {k}) {result}: {measurement} is {}",
+            g.name(),
+            proves.words
+        ),
+        proves,
+    }
+}
+
+fn gauged_name(r: &EngineReport, measurement: usize) -> String {
+    r.rulebook
+        .measurements
+        .get(measurement)
+        .map_or_else(|| "?".to_string(), |m| m.name.clone())
+}
+
+fn gauge_results<'r>(r: &'r EngineReport, measurement: usize) -> &'r [GaugeResult] {
+    r.declaration
+        .gauged(measurement)
+        .map(|g| g.results.as_slice())
+        .unwrap_or_default()
+}
+
+fn gauge_call_view(call: &GaugeCall, r: &EngineReport, book: &mut Book) -> GaugeCallView {
+    let name = gauged_name(r, call.measurement);
+    let results = gauge_results(r, call.measurement);
+    let places = results
+        .iter()
+        .filter_map(|g| gauge_places(&g.written))
+        .max();
+    let scale = call.unit.map_or(1.0, |u| u.to_si);
+    let unit = call.unit.map(|u| u.symbol);
+    let sides = call
+        .sides
+        .iter()
+        .map(|side| {
+            let decided = side.decided_by.and_then(|i| results.get(i));
+            let decided_by = decided.map(|g| book.gauge(&name, g));
+            GaugeSideView {
+                side: bound_side(!side.limit.upper, side.limit.strict).0,
+                limit: side.limit.at / scale,
+                finding: side.finding,
+                decided_by,
+                words: side_words(side, decided, &name, (scale, places, unit)),
+            }
+        })
+        .collect();
+    GaugeCallView {
+        measurement: name,
+        unit,
+        sides,
+    }
+}
+
+/// One side of a limit against gauge results in words, ISO 14253-1's reading of each finding
+/// ([`crate::evaluate::gauge`]).
+fn side_words(
+    side: &SideFinding,
+    decided: Option<&GaugeResult>,
+    name: &str,
+    (scale, places, unit): (f64, Option<usize>, Option<&str>),
+) -> String {
+    let l: LimitSide = side.limit;
+    let limit = format!(
+        "{} {}",
+        bound_side(!l.upper, l.strict).1,
+        gauge_number(l.at / scale, places, unit)
+    );
+    let Some(g) = decided else {
+        let from = if l.upper { "above" } else { "below" };
+        return format!(
+            "no gauge result bounds {name} from {from}, which the limit ({limit}) needs: \
+             neither conformity nor nonconformity is proven"
+        );
+    };
+    let size = gauge_number(g.size / scale, places, unit);
+    let tried = format!("{} {size} {}", g.name(), g.kind.result_words(g.went));
+    let proven = bound_view(g.proven(), scale, places, unit).words;
+    let nominal = bound_view(g.nominal(), scale, places, unit).words;
+    match side.finding {
+        Finding::Pass => format!(
+            "{tried}: {name} is {proven} with the gauge's U counted, inside the limit \
+             ({limit}): conformity proven (ISO 14253-1)"
+        ),
+        Finding::Fail => format!(
+            "{tried}: {name} is {proven} with the gauge's U counted, beyond the limit \
+             ({limit}): nonconformity proven (ISO 14253-1)"
+        ),
+        Finding::ConditionalPass => format!(
+            "{tried}: {name} is {nominal} at the gauge's stated size, inside the limit \
+             ({limit}), but only {proven} with its U counted: conformity not proven"
+        ),
+        Finding::ConditionalFail => format!(
+            "{tried}: {name} is {nominal} at the gauge's stated size, beyond the limit \
+             ({limit}), but only {proven} with its U counted: nonconformity not proven"
+        ),
+        Finding::Open => format!("{tried}: neither conformity nor nonconformity is proven"),
+    }
+}
+
+fn gauge_gap_view(gap: &GaugeGap, r: &EngineReport) -> GaugeGapView {
+    let name = gauged_name(r, gap.measurement);
+    let gauges: Vec<String> = r
+        .declaration
+        .gauged(gap.measurement)
+        .map(|g| g.names())
+        .unwrap_or_default();
+    let gauged = format!("{name} was gauged ({})", gauges.join(", "));
+    let reason = match gap.why {
+        GaugeWhy::NeedsAValue => format!(
+            "{gauged}, which gives bounds, not a value: the rule reads it inside an \
+             expression or as a limit"
+        ),
+        GaugeWhy::Equality => format!("{gauged}: a bound never proves `==` or `!=`"),
+        GaugeWhy::UnsureLimit => format!(
+            "{gauged}: the limit carries an uncertainty of its own or differs by cylinder, \
+             which gonogo does not decide from bounds"
+        ),
+        GaugeWhy::OpenUnderSimpleAcceptance => format!(
+            "{gauged}, and the results leave the rule open: simple acceptance decides on a \
+             measured value, which gauges do not give"
+        ),
+    };
+    GaugeGapView {
+        measurement: name,
+        gauges,
+        why: gap.why,
+        reason,
+    }
 }
 
 #[cfg(test)]
