@@ -46,19 +46,107 @@ pub fn engine(view: &EngineView) -> String {
     indented(view)
 }
 
-/// A value pretty-printed and indented as an element of the `engines` array.
+/// A value pretty-printed and indented as an element of the `engines` array, written in one
+/// pass by [`Nested`].
 fn indented(value: &impl serde::Serialize) -> String {
-    // serialising plain data to a string cannot fail; an empty object would fail the schema
-    let object = serde_json::to_string_pretty(value).unwrap_or_default();
-    let mut out = String::with_capacity(object.len() + object.len() / 8);
-    for (i, line) in object.split('\n').enumerate() {
-        if i > 0 {
-            out.push('\n');
-        }
-        out.push_str(ENGINE_INDENT);
-        out.push_str(line);
+    let mut out = ENGINE_INDENT.as_bytes().to_vec();
+    let mut serializer = serde_json::Serializer::with_formatter(&mut out, Nested::in_engines());
+    // serialising plain data to memory cannot fail; an empty object would fail the schema
+    if value.serialize(&mut serializer).is_err() {
+        return String::new();
     }
-    out
+    String::from_utf8(out).unwrap_or_default()
+}
+
+/// `serde_json`'s pretty layout (two spaces a level, `": "` after a key, an empty array or
+/// object as `[]` or `{}`) begun `depth` levels in, so an engine is laid out as it stands
+/// inside the document without re-indenting its text.
+struct Nested {
+    depth: usize,
+    has_value: bool,
+}
+
+impl Nested {
+    /// Inside the document's object and its `engines` array.
+    fn in_engines() -> Nested {
+        Nested {
+            depth: 2,
+            has_value: false,
+        }
+    }
+
+    fn line<W: ?Sized + std::io::Write>(&self, out: &mut W, first: bool) -> std::io::Result<()> {
+        out.write_all(if first { b"\n" } else { b",\n" })?;
+        (0..self.depth).try_for_each(|_| out.write_all(b"  "))
+    }
+
+    fn close<W: ?Sized + std::io::Write>(
+        &mut self,
+        out: &mut W,
+        end: &[u8],
+    ) -> std::io::Result<()> {
+        self.depth -= 1;
+        if self.has_value {
+            out.write_all(b"\n")?;
+            (0..self.depth).try_for_each(|_| out.write_all(b"  "))?;
+        }
+        out.write_all(end)
+    }
+}
+
+impl serde_json::ser::Formatter for Nested {
+    fn begin_array<W: ?Sized + std::io::Write>(&mut self, out: &mut W) -> std::io::Result<()> {
+        self.depth += 1;
+        self.has_value = false;
+        out.write_all(b"[")
+    }
+
+    fn end_array<W: ?Sized + std::io::Write>(&mut self, out: &mut W) -> std::io::Result<()> {
+        self.close(out, b"]")
+    }
+
+    fn begin_array_value<W: ?Sized + std::io::Write>(
+        &mut self,
+        out: &mut W,
+        first: bool,
+    ) -> std::io::Result<()> {
+        self.line(out, first)
+    }
+
+    fn end_array_value<W: ?Sized + std::io::Write>(&mut self, _: &mut W) -> std::io::Result<()> {
+        self.has_value = true;
+        Ok(())
+    }
+
+    fn begin_object<W: ?Sized + std::io::Write>(&mut self, out: &mut W) -> std::io::Result<()> {
+        self.depth += 1;
+        self.has_value = false;
+        out.write_all(b"{")
+    }
+
+    fn end_object<W: ?Sized + std::io::Write>(&mut self, out: &mut W) -> std::io::Result<()> {
+        self.close(out, b"}")
+    }
+
+    fn begin_object_key<W: ?Sized + std::io::Write>(
+        &mut self,
+        out: &mut W,
+        first: bool,
+    ) -> std::io::Result<()> {
+        self.line(out, first)
+    }
+
+    fn begin_object_value<W: ?Sized + std::io::Write>(
+        &mut self,
+        out: &mut W,
+    ) -> std::io::Result<()> {
+        out.write_all(b": ")
+    }
+
+    fn end_object_value<W: ?Sized + std::io::Write>(&mut self, _: &mut W) -> std::io::Result<()> {
+        self.has_value = true;
+        Ok(())
+    }
 }
 
 /// The document after its last engine.
@@ -103,7 +191,8 @@ mod tests {
     #[test]
     fn pieces_put_together_are_the_pretty_printed_document() {
         let engine = serde_json::json!({
-            "id": "TV-1", "rules": [], "empty": {}, "nested": {"a": [1, {"b": "x\ny"}]}
+            "id": "TV-1", "rules": [], "empty": {}, "nested": {"a": [1, {"b": "x\ny"}, [], [[2]]]},
+            "last": [{"c": null, "d": [true, 1.5e-7]}]
         });
         for count in 0..3 {
             let engines = vec![engine.clone(); count];
