@@ -337,3 +337,45 @@ fn a_draft_bulletin_is_shown_as_what_it_would_change() {
         "bulletin TVB-27-09 (draft) of edition 2027, in force from 2027-08-02\n    5.3 Net valve lift: tightened, limit 0.49 in → 0.48 in"
     ), "{out}");
 }
+
+/// A small edition whose one parts list is written with `entries`, `ignoring case` or not.
+fn heads_edition(folder: &Path, name: &str, ignoring: &str, entries: &str) -> std::path::PathBuf {
+    let text = format!(
+        "series \"Tamsin Valley\"\nedition \"{name}\" effective 2027-01-01\ndecision guarded rejection\n\
+         measure head.casting: text \"Casting number between the centre ports\"\n\
+         approved list heads \"Approved heads\"{ignoring}\n  {entries}\nend\n\
+         class hobby \"Hobby\"\n  rule 5.1 \"Approved heads\"\n    require head.casting in heads\n  end\nend\n"
+    );
+    let path = folder.join(format!("{name}.rules"));
+    std::fs::write(&path, text).unwrap_or_else(|e| panic!("{e}"));
+    path
+}
+
+#[test]
+fn a_list_that_starts_ignoring_case_is_a_change_and_case_variants_are_not_entries() {
+    let folder = std::env::temp_dir().join(format!("gonogo-diff-case-{}", std::process::id()));
+    std::fs::create_dir_all(&folder).unwrap_or_else(|e| panic!("{e}"));
+    let strict = heads_edition(&folder, "a", "", "\"TVH-2204\"");
+    let blind = heads_edition(&folder, "b", " ignoring case", "\"TVH-2204\"");
+    let blind_lower = heads_edition(&folder, "c", " ignoring case", "\"tvh-2204\"");
+    let run = |old: &Path, new: &Path, format| {
+        diff::run(old, new, None, SideRequest::default(), format).unwrap_or_else(|e| panic!("{e}"))
+    };
+    let text = run(&strict, &blind, DiffFormat::Text);
+    let json: serde_json::Value =
+        serde_json::from_str(&run(&strict, &blind, DiffFormat::Json)).unwrap_or_default();
+    let back: serde_json::Value =
+        serde_json::from_str(&run(&blind, &strict, DiffFormat::Json)).unwrap_or_default();
+    // both ignore case: the same entry written in another case is no change at all
+    let same: serde_json::Value =
+        serde_json::from_str(&run(&blind, &blind_lower, DiffFormat::Json)).unwrap_or_default();
+    let _ = std::fs::remove_dir_all(&folder);
+    assert!(text.contains("now ignoring case"), "{text}");
+    assert_eq!(
+        json["lists"][0]["ignoring_case"],
+        serde_json::json!({"old": false, "new": true})
+    );
+    assert_eq!(json["lists"][0]["added"], serde_json::json!([]));
+    assert_eq!(back["lists"][0]["ignoring_case"]["new"], false);
+    assert_eq!(same["lists"], serde_json::json!([]));
+}

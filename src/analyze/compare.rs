@@ -150,6 +150,20 @@ pub struct ListDiff {
     pub added: Vec<String>,
     /// Entries only in the old edition.
     pub removed: Vec<String>,
+    /// Whether the list ignores case, old then new, when that changed: a list that starts
+    /// ignoring case takes every case of its entries, one that stops takes only the case
+    /// written.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub ignoring_case: Option<CaseChange>,
+}
+
+/// A parts list's `ignoring case`, before and after.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, serde::Serialize)]
+pub struct CaseChange {
+    /// In the old edition.
+    pub old: bool,
+    /// In the new edition.
+    pub new: bool,
 }
 
 /// Everything that differs between two editions.
@@ -313,7 +327,22 @@ fn mark_lapses(changes: &mut [RuleDiff], old: &[ClassRule]) {
 }
 
 fn only_in(a: &[String], b: &[String]) -> Vec<String> {
-    a.iter().filter(|x| !b.contains(x)).cloned().collect()
+    entries_only_in(a, b, false)
+}
+
+/// The entries of `a` not in `b`; with `fold`, compared without case.
+fn entries_only_in(a: &[String], b: &[String], fold: bool) -> Vec<String> {
+    let same = |x: &String, y: &String| {
+        if fold {
+            x.eq_ignore_ascii_case(y)
+        } else {
+            x == y
+        }
+    };
+    a.iter()
+        .filter(|x| !b.iter().any(|y| same(x, y)))
+        .cloned()
+        .collect()
 }
 
 fn class_rules(
@@ -641,11 +670,11 @@ fn entry_text(e: &PartEntry) -> String {
 }
 
 fn lists(old: &CheckedRulebook, new: &CheckedRulebook) -> Vec<ListDiff> {
-    let entries = |b: &CheckedRulebook, name: &str| -> Vec<String> {
+    let list = |b: &'_ CheckedRulebook, name: &str| -> (Vec<String>, bool) {
         b.lists
             .iter()
             .find(|l| l.name == name)
-            .map(|l| l.entries.iter().map(entry_text).collect())
+            .map(|l| (l.entries.iter().map(entry_text).collect(), l.ignore_case))
             .unwrap_or_default()
     };
     let mut names: Vec<String> = new
@@ -659,13 +688,21 @@ fn lists(old: &CheckedRulebook, new: &CheckedRulebook) -> Vec<ListDiff> {
     names
         .into_iter()
         .filter_map(|name| {
-            let (o, n) = (entries(old, &name), entries(new, &name));
+            let ((o, old_case), (n, new_case)) = (list(old, &name), list(new, &name));
+            // entries of a list ignoring case on both sides compare without case
+            let fold = old_case && new_case;
             let diff = ListDiff {
-                added: only_in(&n, &o),
-                removed: only_in(&o, &n),
+                added: entries_only_in(&n, &o, fold),
+                removed: entries_only_in(&o, &n, fold),
+                ignoring_case: (old_case != new_case).then_some(CaseChange {
+                    old: old_case,
+                    new: new_case,
+                }),
                 name,
             };
-            (!diff.added.is_empty() || !diff.removed.is_empty()).then_some(diff)
+            let changed =
+                !diff.added.is_empty() || !diff.removed.is_empty() || diff.ignoring_case.is_some();
+            changed.then_some(diff)
         })
         .collect()
 }

@@ -273,6 +273,15 @@ fn lines(d: &EditionDiff, drafts: &[String], markdown: bool) -> String {
             if !l.removed.is_empty() {
                 parts.push(format!("removed {}", l.removed.join(", ")));
             }
+            match l.ignoring_case {
+                Some(c) if c.new => {
+                    parts.push("now ignoring case: an entry in any case is on the list".to_string())
+                }
+                Some(_) => parts.push(
+                    "no longer ignoring case: an entry must match the case written".to_string(),
+                ),
+                None => {}
+            }
             let _ = writeln!(
                 out,
                 "{item}{}: {}",
