@@ -1,7 +1,7 @@
 //! Classes: `extends` resolved (unknown and cyclic parents reported), and each class's rules
 //! flattened through inheritance, `override`, `drop`, `when` groups and bulletins.
 
-use std::collections::{BTreeMap, HashMap};
+use std::collections::{BTreeMap, HashMap, HashSet};
 
 use super::Checker;
 use super::error::{CheckError, ClassReference};
@@ -22,10 +22,13 @@ pub const MAX_EXTENDS: usize = 64;
 pub const MAX_RULES: usize = 25_000;
 
 /// The classes flattened so far, by class and date, so that each is flattened once however
-/// many classes extend it, and the count of their rules against [`MAX_RULES`].
+/// many classes extend it, and the count of their rules against [`MAX_RULES`]. Only a class
+/// some class extends is kept (`parents`): any other is flattened once at each of its dates,
+/// so a copy kept of its rules would never be read.
 #[derive(Default)]
 struct Flattened<'a> {
     done: BTreeMap<(&'a str, Option<Date>), Vec<ClassRule>>,
+    parents: HashSet<&'a str>,
     rules: usize,
     over: bool,
 }
@@ -278,7 +281,16 @@ impl<'a> Checker<'a> {
     pub(super) fn flatten_all(&mut self) -> Vec<ClassState> {
         let edition_date = self.edition.map(|e| e.effective.date);
         let mut states = Vec::new();
-        let mut flattened = Flattened::default();
+        let mut flattened = Flattened {
+            parents: self
+                .classes
+                .values()
+                .filter_map(|c| c.extends.as_ref())
+                .filter_map(|p| self.classes.get_key_value(p.text.as_str()))
+                .map(|(key, _)| *key)
+                .collect(),
+            ..Flattened::default()
+        };
         for name in self.class_order.clone() {
             if !self.sound_classes.contains(name) {
                 continue;
@@ -383,7 +395,9 @@ impl<'a> Checker<'a> {
             flattened.over = true;
             return Vec::new();
         }
-        flattened.done.insert((name, date), rules.clone());
+        if flattened.parents.contains(name) {
+            flattened.done.insert((name, date), rules.clone());
+        }
         rules
     }
 
