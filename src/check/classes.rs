@@ -411,6 +411,7 @@ impl<'a> Checker<'a> {
         inherited: Vec<ClassRule>,
     ) -> Vec<ClassRule> {
         let mut rules = Flat::new(inherited);
+        rules.reserve(rules_in(&class.body));
         let own = Source {
             origin: Origin::Class(name.to_string()),
             class: name.to_string(),
@@ -582,6 +583,17 @@ struct Flat {
     by_section: HashMap<String, usize>,
 }
 
+/// The rules a class body writes, those under `when` included.
+fn rules_in(body: &[ClassItem]) -> usize {
+    body.iter()
+        .map(|item| match item {
+            ClassItem::Rule(_) => 1,
+            ClassItem::When(group) => rules_in(&group.body),
+            _ => 0,
+        })
+        .sum()
+}
+
 impl Flat {
     /// Starts from the rules a class inherits.
     fn new(inherited: Vec<ClassRule>) -> Flat {
@@ -594,6 +606,11 @@ impl Flat {
             rules: inherited.into_iter().map(Some).collect(),
             by_section,
         }
+    }
+
+    /// Room for `more` rules placed after these.
+    fn reserve(&mut self, more: usize) {
+        self.rules.reserve(more);
     }
 
     /// The rule with this section number.
@@ -628,7 +645,9 @@ impl Flat {
     /// The rules in section order, whichever class or bulletin placed them: numbered parts
     /// compare as numbers, so 4.10 follows 4.9 (a stable sort keeps equal numbers as placed).
     fn into_rules(self) -> Vec<ClassRule> {
-        let mut rules: Vec<ClassRule> = self.rules.into_iter().flatten().collect();
+        // room for every rule at once: a rule is large, and growing copies them all
+        let mut rules: Vec<ClassRule> = Vec::with_capacity(self.rules.len());
+        rules.extend(self.rules.into_iter().flatten());
         rules.sort_by_cached_key(|r| section_key(&r.rule.section.text));
         rules
     }
