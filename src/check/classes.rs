@@ -1,7 +1,7 @@
 //! Classes: `extends` resolved (unknown and cyclic parents reported), and each class's rules
 //! flattened through inheritance, `override`, `drop`, `when` groups and bulletins.
 
-use std::collections::{BTreeMap, HashMap};
+use std::collections::{BTreeMap, HashMap, HashSet};
 
 use super::Checker;
 use super::error::{CheckError, ClassReference};
@@ -22,10 +22,13 @@ pub const MAX_EXTENDS: usize = 64;
 pub const MAX_RULES: usize = 25_000;
 
 /// The classes flattened so far, by class and date, so that each is flattened once however
-/// many classes extend it, and the count of their rules against [`MAX_RULES`].
+/// many classes extend it, and the count of their rules against [`MAX_RULES`]. Only a class
+/// some class extends is kept (`parents`): any other is flattened once at each of its dates,
+/// so a copy kept of its rules would never be read.
 #[derive(Default)]
 struct Flattened<'a> {
     done: BTreeMap<(&'a str, Option<Date>), Vec<ClassRule>>,
+    parents: HashSet<&'a str>,
     rules: usize,
     over: bool,
 }
@@ -278,7 +281,16 @@ impl<'a> Checker<'a> {
     pub(super) fn flatten_all(&mut self) -> Vec<ClassState> {
         let edition_date = self.edition.map(|e| e.effective.date);
         let mut states = Vec::new();
-        let mut flattened = Flattened::default();
+        let mut flattened = Flattened {
+            parents: self
+                .classes
+                .values()
+                .filter_map(|c| c.extends.as_ref())
+                .filter_map(|p| self.classes.get_key_value(p.text.as_str()))
+                .map(|(key, _)| *key)
+                .collect(),
+            ..Flattened::default()
+        };
         for name in self.class_order.clone() {
             if !self.sound_classes.contains(name) {
                 continue;
@@ -383,7 +395,9 @@ impl<'a> Checker<'a> {
             flattened.over = true;
             return Vec::new();
         }
-        flattened.done.insert((name, date), rules.clone());
+        if flattened.parents.contains(name) {
+            flattened.done.insert((name, date), rules.clone());
+        }
         rules
     }
 
@@ -397,6 +411,7 @@ impl<'a> Checker<'a> {
         inherited: Vec<ClassRule>,
     ) -> Vec<ClassRule> {
         let mut rules = Flat::new(inherited);
+        rules.reserve(rules_in(&class.body));
         let own = Source {
             origin: Origin::Class(name.to_string()),
             class: name.to_string(),
@@ -568,6 +583,17 @@ struct Flat {
     by_section: HashMap<String, usize>,
 }
 
+/// The rules a class body writes, those under `when` included.
+fn rules_in(body: &[ClassItem]) -> usize {
+    body.iter()
+        .map(|item| match item {
+            ClassItem::Rule(_) => 1,
+            ClassItem::When(group) => rules_in(&group.body),
+            _ => 0,
+        })
+        .sum()
+}
+
 impl Flat {
     /// Starts from the rules a class inherits.
     fn new(inherited: Vec<ClassRule>) -> Flat {
@@ -580,6 +606,11 @@ impl Flat {
             rules: inherited.into_iter().map(Some).collect(),
             by_section,
         }
+    }
+
+    /// Room for `more` rules placed after these.
+    fn reserve(&mut self, more: usize) {
+        self.rules.reserve(more);
     }
 
     /// The rule with this section number.
@@ -614,7 +645,9 @@ impl Flat {
     /// The rules in section order, whichever class or bulletin placed them: numbered parts
     /// compare as numbers, so 4.10 follows 4.9 (a stable sort keeps equal numbers as placed).
     fn into_rules(self) -> Vec<ClassRule> {
-        let mut rules: Vec<ClassRule> = self.rules.into_iter().flatten().collect();
+        // room for every rule at once: a rule is large, and growing copies them all
+        let mut rules: Vec<ClassRule> = Vec::with_capacity(self.rules.len());
+        rules.extend(self.rules.into_iter().flatten());
         rules.sort_by_cached_key(|r| section_key(&r.rule.section.text));
         rules
     }

@@ -117,6 +117,9 @@ struct Checker<'a> {
     test_patterns: HashMap<(u32, usize), regex::Regex>,
     /// Patterns compiled so far, across every file (see [`patterns::MAX_PATTERNS`]).
     patterns_compiled: usize,
+    /// Every pattern that compiled, by its text and whether it ignores case, so that the
+    /// same pattern written in many places (a class copied under new names) is built once.
+    regex_by_text: HashMap<(String, bool), regex::Regex>,
     /// How deep each derived value stands on others (see [`chains::MAX_DEFINE_DEPTH`]).
     define_depths: HashMap<&'a str, usize>,
     /// The position of each measurement in `measure_order`.

@@ -165,13 +165,18 @@ impl PartsList {
             })
         };
         let lower = id.to_lowercase();
+        // one edit changes the length by at most one character: farther apart in length, the
+        // distance is at least two and is not computed
+        let one_edit = |a: &str, b: &str| {
+            a.chars().count().abs_diff(b.chars().count()) <= 1 && strsim::osa_distance(a, b) == 1
+        };
         let slip_of = |entry: &str| {
             let entry_lower = entry.to_lowercase();
             if entry_lower == lower {
                 Some(Slip::Case)
-            } else if strsim::osa_distance(entry, id) == 1 {
+            } else if one_edit(entry, id) {
                 Some(Slip::OneEdit)
-            } else if strsim::osa_distance(&entry_lower, &lower) == 1 {
+            } else if one_edit(&entry_lower, &lower) {
                 Some(if self.ignore_case {
                     Slip::OneEdit
                 } else {
@@ -544,6 +549,8 @@ mod tests {
             Some(("TVH-2204".to_string(), Slip::CaseAndOneEdit))
         );
         assert_eq!(near(&heads, "TVH-2422"), None, "two edits are not a slip");
+        assert_eq!(near(&heads, "TVH-220444"), None, "nor two added");
+        assert_eq!(near(&heads, "TVH-22"), None, "nor two removed");
     }
 
     #[test]

@@ -178,12 +178,20 @@ impl<'a> Checker<'a> {
             }
             return None;
         }
+        let case_insensitive = pattern.ignore_case || ignore_case;
+        let key = (pattern.source.clone(), case_insensitive);
+        if let Some(re) = self.regex_by_text.get(&key) {
+            return Some(re.clone());
+        }
         let built = RegexBuilder::new(&pattern.source)
-            .case_insensitive(pattern.ignore_case || ignore_case)
+            .case_insensitive(case_insensitive)
             .size_limit(PATTERN_SIZE_LIMIT)
             .build();
         match built {
-            Ok(re) => Some(re),
+            Ok(re) => {
+                self.regex_by_text.insert(key, re.clone());
+                Some(re)
+            }
             Err(regex::Error::CompiledTooBig(limit)) => {
                 self.error(
                     CheckError::PatternTooLarge {

@@ -316,12 +316,18 @@ impl<'a> Evaluator<'a> {
             Value::PerCylinder(ds) => Some(ds.len()),
             Value::Single(_) => None,
         });
+        if values.len() != N {
+            return Err(Unevaluated::internal(
+                "a formula given the wrong number of values",
+            ));
+        }
         let one = |i: usize| -> Evaluated<Dual> {
-            let x: Vec<&Dual> = values.iter().map(|v| v.at(i)).collect::<Evaluated<_>>()?;
+            // the arguments at cylinder i, on the stack: the first one missing is the error
+            let mut x: [&Dual; N] = [&NOTHING; N];
+            for (slot, v) in x.iter_mut().zip(&values) {
+                *slot = v.at(i)?;
+            }
             formula_in_domain(formula, &x, cylinders.map(|_| i + 1))?;
-            let x: [&Dual; N] = x
-                .try_into()
-                .map_err(|_| Unevaluated::internal("a formula given the wrong number of values"))?;
             Ok((bound.apply)(x))
         };
         match cylinders {
@@ -330,6 +336,12 @@ impl<'a> Evaluator<'a> {
         }
     }
 }
+
+/// A placeholder for a formula's argument before it is read (never passed on).
+static NOTHING: Dual = Dual {
+    value: 0.0,
+    partials: Vec::new(),
+};
 
 fn binary(op: BinaryOp, l: &Value, r: &Value) -> Value {
     match op {
@@ -344,12 +356,12 @@ fn binary(op: BinaryOp, l: &Value, r: &Value) -> Value {
 
 /// Outside its domain, the first requirement of a formula its arguments break, with the
 /// inputs of the arguments that requirement reads.
-fn formula_in_domain(
+fn formula_in_domain<const N: usize>(
     formula: &'static Formula,
-    x: &[&Dual],
+    x: &[&Dual; N],
     cylinder: Option<usize>,
 ) -> Evaluated<()> {
-    let values: Vec<f64> = x.iter().map(|d| d.value).collect();
+    let values: [f64; N] = std::array::from_fn(|k| x[k].value);
     let Some((requirement, value)) = formula.breach(&values) else {
         return Ok(());
     };

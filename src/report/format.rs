@@ -77,12 +77,8 @@ impl Digits {
         if !u.is_finite() || u <= 0.0 {
             return Digits::Significant;
         }
-        // `{:.1e}` rounds to two significant digits in decimal, so 0.0999 gives 1.0e-1
-        let text = format!("{:.1e}", u);
-        match text
-            .split_once('e')
-            .and_then(|(_, e)| e.parse::<i32>().ok())
-        {
+        // two significant digits in decimal, as `{:.1e}` rounds them: 0.0999 gives 1.0e-1
+        match two_digit_exponent(u) {
             Some(exponent) => Digits::Place(1 - exponent),
             None => Digits::Significant,
         }
@@ -142,10 +138,121 @@ impl Digits {
     /// A value in SI units shown in `unit` with these digits (`4.0312 in`), or a plain number.
     pub fn quantity(self, si: f64, unit: Option<&Unit>) -> String {
         match unit {
-            Some(u) => format!("{} {}", self.number(si / u.to_si), u.symbol),
+            Some(u) => with_symbol(self.number(si / u.to_si), u.symbol),
             None => self.number(si),
         }
     }
+}
+
+/// `number` and then ` symbol`, in the one string.
+fn with_symbol(mut number: String, symbol: &str) -> String {
+    number.reserve(1 + symbol.len());
+    number.push(' ');
+    number.push_str(symbol);
+    number
+}
+
+/// The decimal exponent `{:.1e}` prints for `u` (positive, finite): the E with
+/// 10 ≤ round(u·10^(1−E)) ≤ 99, the rounding exact and halves to even ([`scaled`]).
+/// Where [`scaled`] cannot reach, the formatter is asked.
+fn two_digit_exponent(u: f64) -> Option<i32> {
+    let mut exponent = u.log10().floor() as i32;
+    // log10 can be one off next to a power of ten; the exact rounding decides
+    for _ in 0..4 {
+        match scaled(u, 1 - exponent) {
+            Some(q) if q >= 100 => exponent += 1,
+            Some(q) if q < 10 => exponent -= 1,
+            Some(_) => return Some(exponent),
+            None => break,
+        }
+    }
+    let text = format!("{u:.1e}");
+    text.split_once('e')
+        .and_then(|(_, e)| e.parse::<i32>().ok())
+}
+
+/// |v|·10^place rounded to an integer, computed exactly from the double's binary value
+/// m·2^e, a half going to the even neighbour: the rounding Rust's `{:.N}` and `{:.Ne}`
+/// make. `None` when v is not finite or the exact fraction does not fit 128 bits.
+fn scaled(v: f64, place: i32) -> Option<u128> {
+    if !v.is_finite() {
+        return None;
+    }
+    let bits = v.abs().to_bits();
+    let (biased, fraction) = ((bits >> 52) as i32, bits & ((1 << 52) - 1));
+    let (m, e) = if biased == 0 {
+        (fraction, -1074)
+    } else {
+        (fraction | 1 << 52, biased - 1075)
+    };
+    if m == 0 {
+        return Some(0);
+    }
+    let ten = 10u128.checked_pow(place.unsigned_abs())?;
+    let (mut numerator, mut denominator) = if place >= 0 {
+        ((m as u128).checked_mul(ten)?, 1u128)
+    } else {
+        (m as u128, ten)
+    };
+    if e >= 0 {
+        numerator = shifted(numerator, e.unsigned_abs())?;
+    } else {
+        denominator = shifted(denominator, e.unsigned_abs())?;
+    }
+    if denominator > 1 << 126 {
+        return None;
+    }
+    let (q, r) = if denominator.is_power_of_two() {
+        let shift = denominator.trailing_zeros();
+        (numerator >> shift, numerator & (denominator - 1))
+    } else {
+        (numerator / denominator, numerator % denominator)
+    };
+    let twice = 2 * r;
+    Some(
+        if twice > denominator || (twice == denominator && q % 2 == 1) {
+            q + 1
+        } else {
+            q
+        },
+    )
+}
+
+/// x·2^s, `None` when it does not fit.
+fn shifted(x: u128, s: u32) -> Option<u128> {
+    (s < 128 && x.leading_zeros() >= s).then(|| x << s)
+}
+
+/// `format!("{v:.decimals$}")`, the same text, made from [`scaled`] without the formatter
+/// where the exact value fits (the sign of a negative value kept, as the formatter keeps it).
+fn decimal(v: f64, decimals: usize) -> String {
+    let exact = i32::try_from(decimals)
+        .ok()
+        .and_then(|d| scaled(v, d))
+        .and_then(|q| u64::try_from(q).ok());
+    let Some(q) = exact else {
+        return format!("{v:.decimals$}");
+    };
+    // the digits of q, at least one before the point, from the right
+    let mut digits = [0u8; 48];
+    let mut at = digits.len();
+    let mut rest = q;
+    while rest > 0 || digits.len() - at <= decimals {
+        at -= 1;
+        digits[at] = b'0' + (rest % 10) as u8;
+        rest /= 10;
+    }
+    let (whole, fraction) = digits[at..].split_at(digits.len() - at - decimals);
+    let mut text = String::with_capacity(whole.len() + fraction.len() + 2);
+    if v.is_sign_negative() {
+        text.push('-');
+    }
+    text.push_str(std::str::from_utf8(whole).unwrap_or_default());
+    if !fraction.is_empty() {
+        text.push('.');
+        text.push_str(std::str::from_utf8(fraction).unwrap_or_default());
+    }
+    text
 }
 
 /// A bare number as serde_yaml hands it over (a double, its text lost): the shortest text
@@ -194,22 +301,22 @@ fn fixed(v: f64, place: i32) -> String {
         v.abs().log10().floor() as i32
     };
     let place = place.min(MAX_SIGNIFICANT - 1 - magnitude).min(20);
-    let text = if place >= 0 {
-        let decimals = place as usize;
-        format!("{v:.decimals$}")
+    let mut text = if place >= 0 {
+        decimal(v, place as usize)
     } else {
         let scale = 10f64.powi(-place);
-        let zeros = "0".repeat((-place) as usize);
-        match format!("{:.0}", (v / scale).round()) {
+        match decimal((v / scale).round(), 0) {
             t if t == "0" || t == "-0" => "0".to_string(),
-            t => format!("{t}{zeros}"),
+            mut t => {
+                t.extend(std::iter::repeat_n('0', (-place) as usize));
+                t
+            }
         }
     };
     if text.starts_with('-') && text.chars().all(|c| matches!(c, '-' | '0' | '.')) {
-        text[1..].to_string()
-    } else {
-        text
+        text.remove(0);
     }
+    text
 }
 
 /// A value to six significant digits, trailing zeros trimmed.
@@ -236,19 +343,18 @@ fn significant(v: f64, digits: i32) -> String {
     }
     let magnitude = v.abs().log10().floor() as i32;
     let decimals = (digits - 1 - magnitude).clamp(0, 10) as usize;
-    let text = format!("{v:.decimals$}");
-    let text = if text.contains('.') {
-        text.trim_end_matches('0').trim_end_matches('.').to_string()
-    } else {
-        text
-    };
+    let mut text = decimal(v, decimals);
+    if text.contains('.') {
+        let kept = text.trim_end_matches('0').trim_end_matches('.').len();
+        text.truncate(kept);
+    }
     if text == "-0" { "0".to_string() } else { text }
 }
 
 /// A value in SI units shown in `unit` (`4.0312 in`), or as a plain number.
 pub fn quantity(si: f64, unit: Option<&Unit>) -> String {
     match unit {
-        Some(u) => format!("{} {}", number(si / u.to_si), u.symbol),
+        Some(u) => with_symbol(number(si / u.to_si), u.symbol),
         None => number(si),
     }
 }
@@ -268,6 +374,7 @@ pub fn probability(p: f64, uncertain: bool) -> String {
 #[cfg(test)]
 mod tests {
     use super::*;
+    use rand::SeedableRng;
 
     #[test]
     fn a_count_takes_the_singular_for_one_only() {
@@ -324,6 +431,76 @@ mod tests {
             with_uncertainty(355.926_300_6, 0.0),
             ("355.926".into(), "0".into())
         );
+    }
+
+    #[test]
+    fn decimals_are_the_formatters_to_the_byte() {
+        // the reference is Rust's own `{:.N}` (exact, halves to even): random doubles over
+        // every magnitude the reports meet and beyond, each place from 0 to 20, exact ties
+        let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(7);
+        for _ in 0..20_000 {
+            let bits: u64 = rand::RngExt::random(&mut rng);
+            let v = f64::from_bits(bits);
+            let magnitude: i32 = rand::RngExt::random_range(&mut rng, -30..30);
+            let w = rand::RngExt::random_range(&mut rng, -10.0..10.0) * 10f64.powi(magnitude);
+            for x in [v, w] {
+                let d: usize = rand::RngExt::random_range(&mut rng, 0..=20);
+                assert_eq!(decimal(x, d), format!("{x:.d$}"), "{x:e} to {d}");
+            }
+        }
+        for (x, d) in [
+            (0.125, 2),
+            (0.375, 2),
+            (2.5, 0),
+            (3.5, 0),
+            (-2.5, 0),
+            (0.5, 0),
+        ] {
+            assert_eq!(decimal(x, d), format!("{x:.d$}"), "{x} to {d}");
+        }
+        for x in [
+            0.0,
+            -0.0,
+            -0.001,
+            1e21,
+            1e300,
+            5e-324,
+            f64::MAX,
+            f64::MIN_POSITIVE,
+        ] {
+            for d in [0, 1, 2, 6, 20] {
+                assert_eq!(decimal(x, d), format!("{x:.d$}"), "{x:e} to {d}");
+            }
+        }
+    }
+
+    #[test]
+    fn the_two_digit_exponent_is_the_formatters() {
+        // against `{:.1e}`: random positive doubles, and the values beside the powers of ten
+        // and beside 9.95·10^k where the rounding carries into the next decade
+        let reference = |u: f64| {
+            let text = format!("{u:.1e}");
+            text.split_once('e')
+                .and_then(|(_, e)| e.parse::<i32>().ok())
+        };
+        let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(8);
+        let mut values: Vec<f64> = (0..20_000)
+            .map(|_| f64::from_bits(rand::RngExt::random::<u64>(&mut rng) >> 1))
+            .filter(|u| u.is_finite() && *u > 0.0)
+            .collect();
+        for k in -30..30 {
+            for base in [1.0, 9.95, 9.9499, 9.9501, 0.999_999_999_999] {
+                let u = base * 10f64.powi(k);
+                values.extend([
+                    u,
+                    f64::from_bits(u.to_bits() + 1),
+                    f64::from_bits(u.to_bits() - 1),
+                ]);
+            }
+        }
+        for u in values {
+            assert_eq!(two_digit_exponent(u), reference(u), "{u:e}");
+        }
     }
 
     #[test]

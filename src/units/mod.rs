@@ -237,6 +237,16 @@ mod tests {
         }
     }
 
+    #[test]
+    fn every_symbol_finds_its_own_unit_and_nothing_else_is_found() {
+        for u in UNITS {
+            assert_eq!(lookup(u.symbol), Some(u), "{}", u.symbol);
+        }
+        for other in ["", "IN", "mm ", "furlong"] {
+            assert!(lookup(other).is_none(), "{other:?}");
+        }
+    }
+
     /// Whether a unit's exact factor is `numerator / denominator`, by cross-multiplication.
     fn exactly(symbol: &str, numerator: u128, denominator: u128) -> bool {
         lookup(symbol).and_then(|u| u.exact).is_some_and(|r| {

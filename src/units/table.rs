@@ -207,18 +207,14 @@ pub const UNITS: &[Unit] = &[
     unit("%", Dimension::NONE, 0.01, Ratio::milli(2)),
 ];
 
-/// Finds a unit by its exact symbol.
+/// Finds a unit by its exact symbol (every symbol is one unit's: the units tests check it).
 pub fn lookup(symbol: &str) -> Option<&'static Unit> {
-    static SORTED: std::sync::OnceLock<Vec<&'static Unit>> = std::sync::OnceLock::new();
-    let sorted = SORTED.get_or_init(|| {
-        let mut all: Vec<&'static Unit> = UNITS.iter().collect();
-        all.sort_by_key(|u| u.symbol);
-        all
-    });
-    sorted
-        .binary_search_by_key(&symbol, |u| u.symbol)
-        .ok()
-        .map(|i| sorted[i])
+    type BySymbol = std::collections::HashMap<&'static str, &'static Unit>;
+    static BY_SYMBOL: std::sync::OnceLock<BySymbol> = std::sync::OnceLock::new();
+    BY_SYMBOL
+        .get_or_init(|| UNITS.iter().map(|u| (u.symbol, u)).collect())
+        .get(symbol)
+        .copied()
 }
 
 /// The symbol gonogo uses when it shows a value of this dimension in US customary terms,
