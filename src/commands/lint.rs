@@ -4,7 +4,7 @@ use std::path::PathBuf;
 
 use serde::Serialize;
 
-use super::{ProblemSet, load_rulebook, render_all};
+use super::{ProblemSet, lint_rulebook_in, render_all};
 use crate::diagnostic::{Level, Problem, RenderStyle, summary};
 use crate::exit::Exit;
 use crate::source::SourceMap;
@@ -56,7 +56,7 @@ pub fn run(paths: &[PathBuf]) -> Linted {
         paths
             .iter()
             .map(|path| {
-                let loaded = load_rulebook(path);
+                let loaded = lint_rulebook_in(path, SourceMap::default());
                 LintedFile {
                     path: path.clone(),
                     found: ProblemSet {

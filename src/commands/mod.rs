@@ -42,15 +42,23 @@ pub fn load_rulebook(path: &std::path::Path) -> LoadedRulebook {
 
 /// [`load_rulebook`] reading through `sources`, which may hold texts that stand in for files
 /// (see [`SourceMap::with_open`]).
-pub fn load_rulebook_in(path: &std::path::Path, mut sources: SourceMap) -> LoadedRulebook {
+pub fn load_rulebook_in(path: &std::path::Path, sources: SourceMap) -> LoadedRulebook {
+    let mut loaded = lint_rulebook_in(path, sources);
+    if let Some(book) = &mut loaded.checked {
+        book.sha256 = crate::digest::rulebook_sha256(&loaded.files, &loaded.sources);
+    }
+    loaded
+}
+
+/// [`load_rulebook_in`] without the rulebook's fingerprint (its `sha256` left empty), for
+/// what never shows it: `lint` and the language server. Hashing a large rulebook costs more
+/// than a tenth of its checking.
+pub fn lint_rulebook_in(path: &std::path::Path, mut sources: SourceMap) -> LoadedRulebook {
     let (files, mut problems) = read_rulebook(path, &mut sources);
     let mut checked = None;
     if !files.files.is_empty() && !problems.iter().any(|p| p.level == Level::Error) {
         let (model, found) = crate::check::check(&files);
-        checked = model.map(|mut book| {
-            book.sha256 = crate::digest::rulebook_sha256(&files, &sources);
-            book
-        });
+        checked = model;
         problems.extend(found);
     }
     LoadedRulebook {

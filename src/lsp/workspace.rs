@@ -6,7 +6,7 @@
 use std::collections::HashMap;
 use std::path::{Path, PathBuf};
 
-use crate::commands::{LoadedRulebook, load_rulebook_in};
+use crate::commands::{LoadedRulebook, lint_rulebook_in};
 use crate::parse::ast::Item;
 use crate::parse::includes::read_rulebook;
 use crate::parse::parse_rulebook;
@@ -70,7 +70,7 @@ impl Workspace {
     /// The rulebook `path` belongs to, read, checked and indexed.
     pub fn analyse(&self, path: &Path) -> Analysis {
         let root = self.root_of(path);
-        let loaded = load_rulebook_in(&root, self.sources());
+        let loaded = lint_rulebook_in(&root, self.sources());
         let index = Index::build(&loaded.files);
         Analysis { loaded, index }
     }
