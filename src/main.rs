@@ -440,6 +440,11 @@ fn section(text: &str) -> Result<String, String> {
     ))
 }
 
+/// The allocator: mimalloc, whose small allocations cost far less than the system's (a check
+/// of a field spends about a third of its instructions allocating and freeing otherwise).
+#[global_allocator]
+static ALLOCATOR: mimalloc::MiMalloc = mimalloc::MiMalloc;
+
 fn main() -> ExitCode {
     let parsed = gonogo::manual::with_help_notes(Cli::command())
         .try_get_matches()
