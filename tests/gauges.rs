@@ -364,3 +364,26 @@ fn a_condition_on_a_gauged_measurement_holds_only_where_the_bound_proves_it() {
         assert_eq!(o.verdict, Verdict::Legal);
     });
 }
+
+#[test]
+fn a_condition_the_gauges_leave_open_is_not_checked_under_simple_acceptance() {
+    use gonogo::evaluate::outcome::Applies;
+    // 4.12's condition `> 1.69 in` is open on a go plug of 1.6850 in: simple acceptance has no
+    // measured value to take as true or false, so the rule is not checked, never judged as if
+    // its condition held (found by trying a no-go plug under a `when`)
+    let case = Case::new("condition-simple", GAUGE_RULES, GO_PLUG_ONLY);
+    case.check(Some(DecisionRule::SimpleAcceptance), |r| {
+        let o = outcome(r, "4.12");
+        assert_eq!(o.applies, Applies::NotComputed);
+        assert_eq!(o.verdict, Verdict::NotChecked);
+        assert!(
+            o.gauge_gaps
+                .iter()
+                .any(|g| g.why == GaugeWhy::OpenUnderSimpleAcceptance),
+            "{:?}",
+            o.gauge_gaps
+        );
+        // the proven condition of 4.11 still holds under simple acceptance
+        assert_eq!(outcome(r, "4.11").applies, Applies::Holds);
+    });
+}

@@ -63,23 +63,11 @@ impl<'a> Evaluator<'a> {
         // bad input must not turn into a verdict: a value that is not a number decides nothing
         match self.test(&r.test).and_then(Checked::finite) {
             Err(why) => outcome.record(why, self.rulebook, self.declaration),
-            // simple acceptance decides on a measured value, and open gauge results give none
-            Ok(Checked {
-                finding: Finding::Open,
-                gauge: Some(call),
-                ..
-            }) if decision == DecisionRule::SimpleAcceptance => {
-                let gap = GaugeGap {
-                    measurement: call.measurement,
-                    why: GaugeWhy::OpenUnderSimpleAcceptance,
-                };
-                outcome.record(
-                    Unevaluated::Gauged(vec![gap]),
-                    self.rulebook,
-                    self.declaration,
-                );
-            }
             Ok(checked) => {
+                if let Some(why) = open_under_simple_acceptance(&checked, decision) {
+                    outcome.record(why, self.rulebook, self.declaration);
+                    return outcome;
+                }
                 let mut v = verdict(checked.finding, decision);
                 // The inspector's rule gives the doubt to the competitor: a rule that may not
                 // apply cannot prove a violation.
@@ -119,6 +107,11 @@ impl<'a> Evaluator<'a> {
             Condition::Test(t) => {
                 // a condition that cannot be computed is unknown, as with a missing measurement
                 let checked = self.test(t).and_then(Checked::finite)?;
+                // nor can one on gauge results that leave it open, under simple acceptance:
+                // there is no measured value to take as true
+                if let Some(why) = open_under_simple_acceptance(&checked, decision) {
+                    return Err(why);
+                }
                 Ok(truth_of(checked.finding, decision))
             }
             Condition::Not(inner) => Ok(match self.condition(inner, decision)? {
@@ -656,5 +649,23 @@ fn binary_finding(holds: bool, observed: String) -> Checked {
         observed: Some(observed),
         near_match: None,
         gauge: None,
+    }
+}
+/// Why a test on gauge results that leave it open decides nothing under simple acceptance,
+/// which decides on a measured value and gauges give none: the gap to report; `None` for any
+/// other test or decision rule.
+fn open_under_simple_acceptance(checked: &Checked, decision: DecisionRule) -> Option<Unevaluated> {
+    match checked {
+        Checked {
+            finding: Finding::Open,
+            gauge: Some(call),
+            ..
+        } if decision == DecisionRule::SimpleAcceptance => {
+            Some(Unevaluated::Gauged(vec![GaugeGap {
+                measurement: call.measurement,
+                why: GaugeWhy::OpenUnderSimpleAcceptance,
+            }]))
+        }
+        _ => None,
     }
 }

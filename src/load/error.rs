@@ -596,7 +596,10 @@ impl LoadError {
                 }
             }
             LoadError::GaugesDisagree { low, high } => {
-                format!("no size gives both results: {low}, but {high}")
+                format!(
+                    "no size gives both results, even with the gauges' uncertainties counted: \
+                     {low}, but {high}"
+                )
             }
         }
     }

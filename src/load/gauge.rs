@@ -160,12 +160,15 @@ impl Gauged {
 }
 
 /// The first two results of one measurement that no single size satisfies together, if any:
-/// a bound from below at or above a bound from above (a plug that entered at least as large
-/// as one that did not), read at the gauges' stated sizes.
+/// a bound from below at or above a bound from above, each read with its gauge's U counted
+/// (a plug that entered proves at least its size − U, one that did not proves less than its
+/// size + U). Results that contradict only at the stated sizes are possible — a gauge's true
+/// size is known to within its U — and are kept; the rule then decides at most conditionally
+/// on them.
 pub fn disagreement(results: &[GaugeResult]) -> Option<(&GaugeResult, &GaugeResult)> {
     for low in results.iter().filter(|r| r.bounds_below()) {
         for high in results.iter().filter(|r| !r.bounds_below()) {
-            let (a, b) = (low.nominal(), high.nominal());
+            let (a, b) = (low.proven(), high.proven());
             if a.at > b.at || (a.at == b.at && (a.strict || b.strict)) {
                 return Some((low, high));
             }
@@ -513,8 +516,12 @@ mod tests {
         assert!(disagreement(&[plug(1.6870, true), plug(1.6875, false)]).is_none());
         // entered the larger plug, not the smaller: no bore does that
         assert!(disagreement(&[plug(1.6875, true), plug(1.6870, false)]).is_some());
-        // the same size both entered and did not
-        assert!(disagreement(&[plug(1.6875, true), plug(1.6875, false)]).is_some());
+        // the same size both entered and did not: possible within the gauges' U (0.0002 in)
+        assert!(disagreement(&[plug(1.6875, true), plug(1.6875, false)]).is_none());
+        // a larger plug entered and a smaller did not, within U: 1.6850 <= bore < 1.6852
+        assert!(disagreement(&[plug(1.6852, true), plug(1.6850, false)]).is_none());
+        // ... but not beyond it: 1.6858 - U is above 1.6850 + U
+        assert!(disagreement(&[plug(1.6858, true), plug(1.6850, false)]).is_some());
     }
 
     #[test]
