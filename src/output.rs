@@ -88,15 +88,14 @@ impl Destination {
     }
 
     /// A document to be written here bit by bit and given over only by [`Pending::commit`].
-    /// A file's temporary twin is made now, so a folder that cannot be written is said at once.
+    /// A file's temporary twin is made at the first write, so it is never among the files a
+    /// run reads from the target's folder.
     pub fn pending(&self) -> Result<Pending<'_>, Problem> {
         let spool = match self {
             Destination::File(Target {
-                given,
                 kind: Kind::New(path) | Kind::Replace(path, _),
-            }) => Spool::Beside(BufWriter::new(
-                Twin::beside(path).map_err(|e| write_failed(given, &e))?,
-            )),
+                ..
+            }) => Spool::Beside(None, path.clone()),
             _ => Spool::Anywhere(tempfile::SpooledTempFile::new(STDOUT_IN_MEMORY)),
         };
         Ok(Pending {
@@ -119,8 +118,9 @@ pub struct Pending<'d> {
 }
 
 enum Spool {
-    /// A temporary file beside the target, renamed over it at the end.
-    Beside(BufWriter<Twin>),
+    /// A temporary file beside the target (made at the first write), renamed over it at
+    /// the end.
+    Beside(Option<BufWriter<Twin>>, PathBuf),
     /// Memory, then an unlinked temporary file; copied to standard output or a device.
     Anywhere(tempfile::SpooledTempFile),
 }
@@ -128,14 +128,18 @@ enum Spool {
 impl Write for Pending<'_> {
     fn write(&mut self, bytes: &[u8]) -> std::io::Result<usize> {
         match &mut self.spool {
-            Spool::Beside(file) => file.write(bytes),
+            Spool::Beside(Some(file), _) => file.write(bytes),
+            Spool::Beside(twin, path) => twin
+                .insert(BufWriter::new(Twin::beside(path)?))
+                .write(bytes),
             Spool::Anywhere(spool) => spool.write(bytes),
         }
     }
 
     fn flush(&mut self) -> std::io::Result<()> {
         match &mut self.spool {
-            Spool::Beside(file) => file.flush(),
+            Spool::Beside(Some(file), _) => file.flush(),
+            Spool::Beside(None, _) => Ok(()),
             Spool::Anywhere(spool) => spool.flush(),
         }
     }
@@ -147,11 +151,14 @@ impl Pending<'_> {
     /// copies the spool to standard output or the device.
     pub fn commit(self) -> Result<(), Problem> {
         match (self.spool, self.destination) {
-            (Spool::Beside(file), Destination::File(target)) => {
+            (Spool::Beside(file, path), Destination::File(target)) => {
                 target.refuse_an_input()?;
-                let twin = file
-                    .into_inner()
-                    .map_err(|e| write_failed(&target.given, e.error()))?;
+                let twin = match file {
+                    Some(file) => file.into_inner().map_err(|e| e.into_error()),
+                    // an empty document still replaces the target
+                    None => Twin::beside(&path),
+                }
+                .map_err(|e| write_failed(&target.given, &e))?;
                 let permissions = match &target.kind {
                     Kind::Replace(_, permissions) => Some(permissions.clone()),
                     _ => None,
@@ -168,18 +175,24 @@ impl Pending<'_> {
             }
             (Spool::Anywhere(mut spool), Destination::Stdout) => copy_to_stdout(&mut spool),
             // a twin is only made for a file
-            (Spool::Beside(_), Destination::Stdout) => Ok(()),
+            (Spool::Beside(..), Destination::Stdout) => Ok(()),
         }
     }
 }
 
-/// A failure to write a run's spool, which holds the document until the run ends.
+/// A failure to write a run's spool, which holds the document until the run ends: in memory,
+/// then a temporary file in `$TMPDIR` (or beside `--output`).
 pub fn spool_failed(e: &std::io::Error) -> Problem {
     Problem::unlocated(
         codes::WRITE_FAILED,
-        format!("cannot write the report as it is made: {e}"),
+        format!(
+            "cannot write the report as it is made (temporary folder `{}`): {e}",
+            std::env::temp_dir().display()
+        ),
     )
-    .with_help("check that the temporary folder ($TMPDIR) and the output's folder have room")
+    .with_help(
+        "check that the temporary folder ($TMPDIR) and the output's folder exist and have room",
+    )
 }
 
 impl Target {
@@ -376,8 +389,23 @@ fn replace_atomically(
     twin.persist(permissions)
 }
 
+/// Twins not yet renamed into place, by path: removed by [`remove_unfinished`] when the
+/// process is interrupted, which no destructor sees.
+static UNFINISHED: std::sync::Mutex<Vec<PathBuf>> = std::sync::Mutex::new(Vec::new());
+
+/// Removes every temporary twin not yet renamed into place; for an interrupted run (Ctrl-C,
+/// SIGTERM), so it leaves the target as it was and no `.partial` file beside it.
+pub fn remove_unfinished() {
+    if let Ok(mut unfinished) = UNFINISHED.lock() {
+        for path in unfinished.drain(..) {
+            let _ = fs::remove_file(path);
+        }
+    }
+}
+
 /// The temporary file that becomes a target: made in the target's folder (so the rename is
-/// atomic) under a hidden name ending `.partial`, removed if dropped before [`Twin::persist`].
+/// atomic) under a hidden name ending `.partial`, removed if dropped before [`Twin::persist`]
+/// or if the process is interrupted ([`remove_unfinished`]).
 pub struct Twin {
     file: tempfile::NamedTempFile,
     path: PathBuf,
@@ -403,8 +431,20 @@ impl Twin {
             use std::os::unix::fs::PermissionsExt;
             builder.permissions(Permissions::from_mode(0o666));
         }
+        let file = builder.tempfile_in(&folder).map_err(|e| {
+            std::io::Error::new(
+                e.kind(),
+                format!(
+                    "cannot make a temporary file in `{}`: {e}",
+                    folder.display()
+                ),
+            )
+        })?;
+        if let Ok(mut unfinished) = UNFINISHED.lock() {
+            unfinished.push(file.path().to_path_buf());
+        }
         Ok(Twin {
-            file: builder.tempfile_in(&folder)?,
+            file,
             path: path.to_path_buf(),
             folder,
         })
@@ -417,6 +457,9 @@ impl Twin {
             self.file.as_file().set_permissions(permissions)?;
         }
         self.file.as_file().sync_all()?;
+        if let Ok(mut unfinished) = UNFINISHED.lock() {
+            unfinished.retain(|p| p != self.file.path());
+        }
         self.file.persist(&self.path).map_err(|e| e.error)?;
         sync_folder(&self.folder)
     }

@@ -195,3 +195,57 @@ fn a_bad_declaration_in_a_later_batch_leaves_no_report_and_the_output_file_as_it
 fn tail(text: &str) -> &str {
     &text[text.len().saturating_sub(600)..]
 }
+
+/// Whether a hidden `.NAME.XXXXXX.partial` twin is in `folder`.
+fn has_twin(folder: &Folder) -> bool {
+    folder.names().iter().any(|n| n.ends_with(".partial"))
+}
+
+#[test]
+fn a_run_interrupted_while_writing_leaves_the_target_as_it_was_and_no_temporary_file() {
+    let (field, _) = field("interrupt");
+    let out = Folder::new("interrupt-out");
+    let target = out.join("report.json");
+    let field_path = field.0.to_string_lossy().into_owned();
+    // the twin exists only while the finished report is copied into it: catch that moment
+    let mut caught = 0;
+    for _ in 0..8 {
+        if caught == 2 {
+            break;
+        }
+        std::fs::write(&target, "kept\n").unwrap_or_default();
+        let mut child = std::process::Command::new(env!("CARGO_BIN_EXE_gonogo"))
+            .args([
+                "check", "--rules", RULES, "--format", "json", "--output", &target,
+            ])
+            .arg(&field_path)
+            .current_dir(env!("CARGO_MANIFEST_DIR"))
+            .stderr(std::process::Stdio::null())
+            .spawn()
+            .unwrap_or_else(|e| panic!("cannot run gonogo: {e}"));
+        while child.try_wait().ok().flatten().is_none() && !has_twin(&out) {
+            std::thread::sleep(std::time::Duration::from_micros(200));
+        }
+        if child.try_wait().ok().flatten().is_none() {
+            let _ = std::process::Command::new("kill")
+                .args(["-INT", &child.id().to_string()])
+                .status();
+            let status = child.wait().ok().and_then(|s| s.code());
+            // killed before the twin was renamed, or just after: either way nothing is left
+            if status == Some(130) {
+                caught += 1;
+                assert_eq!(
+                    std::fs::read_to_string(&target).unwrap_or_default(),
+                    "kept\n"
+                );
+            }
+        }
+        let _ = child.wait();
+        assert!(
+            !has_twin(&out),
+            "a temporary file was left: {:?}",
+            out.names()
+        );
+    }
+    assert!(caught > 0, "no run was caught while writing its report");
+}
