@@ -194,6 +194,7 @@ fn calls(out: &mut String, v: &EngineView) {
                     n.shown.value, n.shown.limit, n.shown.expanded_uncertainty
                 )
             })
+            .or_else(|| gauge_proof(rule))
             .or_else(|| rule.observed.clone())
             .unwrap_or_else(|| "—".to_string());
         let _ = writeln!(
@@ -209,6 +210,17 @@ fn calls(out: &mut String, v: &EngineView) {
         );
     }
     out.push_str("</table>\n");
+}
+
+/// What the gauge results proved about each side of a gauge-decided rule, for page one's
+/// "value and limit" column, or why the gauges could not decide it.
+fn gauge_proof(rule: &RuleView) -> Option<String> {
+    if let Some(call) = &rule.gauge {
+        let sides: Vec<&str> = call.sides.iter().map(|s| s.words.as_str()).collect();
+        return Some(sides.join("; "));
+    }
+    let reasons: Vec<&str> = rule.gauge_gaps.iter().map(|g| g.reason.as_str()).collect();
+    (!reasons.is_empty()).then(|| reasons.join("; "))
 }
 
 /// The provenance footer of the printed sheet: who made it and when, and the fingerprints in
