@@ -107,7 +107,7 @@ impl Destination {
 
 /// Bytes of a document for standard output or a device kept in memory before the rest
 /// goes to an unlinked temporary file.
-const STDOUT_IN_MEMORY: usize = 8 << 20;
+const STDOUT_IN_MEMORY: usize = 1 << 20;
 
 /// A document on its way to a [`Destination`]: written with [`Write`], given over by
 /// [`Pending::commit`]. Dropped without a commit, it leaves the destination untouched and

@@ -7,7 +7,7 @@
 //! the walk there. Inside a folder, a FIFO, a device or a socket is skipped with a note
 //! instead of being opened, so a walk never blocks; so is a file that is not YAML.
 
-use std::collections::HashSet;
+use std::collections::{HashMap, HashSet};
 use std::path::{Path, PathBuf};
 
 use crate::diagnostic::Problem;
@@ -174,8 +174,9 @@ impl Iterator for Walk<'_> {
 #[derive(Default)]
 struct Walker {
     field: Field,
-    /// Files taken, by device and inode (Unix).
-    inodes: HashSet<(u64, u64)>,
+    /// Files taken, by inode within each device (Unix): eight bytes a file, the one part
+    /// of a walk that grows with the field.
+    inodes: HashMap<u64, HashSet<u64>>,
     /// Files taken, by canonical path, where there is no inode to go by.
     canonical: HashSet<PathBuf>,
     /// Canonical paths of folders entered.
@@ -194,7 +195,7 @@ impl Walker {
             return true;
         };
         let new = match device_inode(&metadata) {
-            Some(id) => self.inodes.insert(id),
+            Some((device, inode)) => self.inodes.entry(device).or_default().insert(inode),
             None => match path.canonicalize() {
                 Ok(canonical) => self.canonical.insert(canonical),
                 Err(_) => true,

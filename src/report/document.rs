@@ -38,7 +38,7 @@ pub enum Layout {
 }
 
 /// Bytes a spool keeps in memory before it moves to a temporary file.
-const SPOOL_IN_MEMORY: usize = 4 << 20;
+const SPOOL_IN_MEMORY: usize = 1 << 20;
 
 /// One engine's part of a document, rendered: all the document needs of the engine.
 #[derive(Debug)]
