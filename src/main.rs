@@ -86,8 +86,8 @@ enum Command {
         /// Output format.
         #[arg(long, value_enum, default_value_t = CheckFormat::Text)]
         format: CheckFormat,
-        /// Threads for a field of declarations (every core by default).
-        #[arg(long)]
+        /// Threads for a field of declarations (every core by default; at least 1).
+        #[arg(long, value_parser = clap::builder::RangedU64ValueParser::<usize>::new().range(1..))]
         jobs: Option<usize>,
         /// Check the propagation of uncertainty by Monte Carlo (JCGM 101) on every numeric
         /// rule: `--monte-carlo` alone draws adaptively until the results settle (at most
