@@ -1,5 +1,5 @@
-//! `check` over a field of several batches (it loads, checks and writes 256 declarations at
-//! a time): the report is the same at any thread count and in any order asked for, each
+//! `check` over a field of several batches (it loads, checks and writes `BATCH` declarations
+//! at a time): the report is the same at any thread count and in any order asked for, each
 //! engine's part is what checking that engine alone gives, and a bad declaration in a later
 //! batch leaves no output at all, the `--output` file untouched and no temporary file behind.
 
@@ -8,10 +8,11 @@ mod common;
 use std::path::{Path, PathBuf};
 
 use common::{Run, files_under, gonogo};
+use gonogo::commands::check::BATCH;
 
 const RULES: &str = "rulebooks-demo/tamsin-2027.rules";
 
-/// Copies of every demo engine: this many of each, so the field spans three batches.
+/// Copies of every demo engine: this many of each, so the field spans at least three batches.
 const COPIES: usize = 27;
 
 /// A folder under the temporary folder, removed when dropped.
@@ -78,7 +79,7 @@ fn json(run: &Run) -> serde_json::Value {
 #[test]
 fn a_field_of_several_batches_is_the_same_at_any_thread_count() {
     let (folder, engines) = field("batches");
-    assert!(engines > 2 * 256, "the field must span three batches");
+    assert!(engines > 2 * BATCH, "the field must span three batches");
     for extra in [
         &["--format", "text"][..],
         &["--format", "json"],
@@ -99,7 +100,7 @@ fn each_engine_of_a_streamed_field_is_what_checking_it_alone_gives() {
     assert_eq!(listed.len(), engines);
     let names = folder.names();
     // the first and last engine, and those either side of each batch's edge
-    for at in [0, 255, 256, 511, 512, engines - 1] {
+    for at in [0, BATCH - 1, BATCH, 2 * BATCH - 1, 2 * BATCH, engines - 1] {
         let alone = gonogo(&[
             "check",
             "--rules",

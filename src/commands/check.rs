@@ -143,7 +143,7 @@ fn in_memory(
 
 /// Declarations loaded, checked and rendered together: enough to keep every thread busy,
 /// few enough that a batch's declarations and reports stay small whatever the field.
-const BATCH: usize = 128;
+pub const BATCH: usize = 128;
 
 /// A declaration read, the position of its class, and its text as read.
 type Loaded = (Declaration, usize, Arc<str>);
