@@ -18,7 +18,7 @@ use crate::parallel;
 use crate::parse::ast::DecisionRule;
 use crate::report::document::{Document, Layout, Rendered};
 use crate::season::hook::inspected;
-use crate::season::record::Inspected;
+use crate::season::record::Staging;
 use crate::source::SourceMap;
 use crate::suggest::find_class;
 
@@ -121,8 +121,9 @@ pub fn run_to(request: &CheckRequest, out: &mut dyn Write) -> Result<Exit, Failu
 }
 
 /// [`run_recording`], writing to `out` as [`run_to`] does. What the log keeps of each engine
-/// (its declaration, report and identity) is held until the end of the run, where it is
-/// recorded in one transaction.
+/// (its declaration, report and identity) is staged in a spool as it is checked and recorded
+/// at the end of the run in one transaction, so memory does not grow with the field here
+/// either.
 pub fn run_recording_to(
     request: &CheckRequest,
     log: &Path,
@@ -188,8 +189,8 @@ struct Field<'r> {
     failures: Vec<ProblemSet>,
     /// The first engine whose scope names no rule (C66).
     scope: Option<Problem>,
-    /// What the log will keep of each engine, when recording.
-    kept: Option<Vec<Inspected>>,
+    /// What the log will keep of each engine, staged, when recording.
+    kept: Option<Staging>,
 }
 
 impl<'r> Field<'r> {
@@ -207,7 +208,7 @@ impl<'r> Field<'r> {
             exit: Exit::Clean,
             failures: Vec::new(),
             scope: None,
-            kept: recording.then(Vec::new),
+            kept: recording.then(|| crate::season::hook::staging(request)),
         }
     }
 
@@ -269,8 +270,10 @@ impl<'r> Field<'r> {
                 .for_each(|r| montecarlo::attach(r, &settings));
         }
         if let Some(kept) = &mut self.kept {
-            let texts = engines.iter().map(|(_, _, text)| text);
-            kept.extend(reports.iter().zip(texts).map(|(r, t)| inspected(r, t)));
+            for (report, (_, _, text)) in reports.iter().zip(engines) {
+                kept.add(&inspected(report, text))
+                    .map_err(|e| Failure::one(crate::output::spool_failed(&e)))?;
+            }
         }
         let layout = self.layout;
         let rendered = parallel::map(&reports, self.threads, |r| Rendered::new(layout, r));
@@ -286,14 +289,14 @@ impl<'r> Field<'r> {
 
     /// The document written out, with the season log's notes when recording; or every
     /// problem found, and nothing recorded.
-    fn finish(self, log: Option<&Path>, out: &mut dyn Write) -> Result<Exit, Failure> {
+    fn finish(mut self, log: Option<&Path>, out: &mut dyn Write) -> Result<Exit, Failure> {
         if !self.failures.is_empty() {
             return Err(Failure(self.failures));
         }
         if let Some(problem) = self.scope {
             return Err(Failure::one(problem));
         }
-        let closing = match (log, &self.kept) {
+        let closing = match (log, &mut self.kept) {
             (Some(log), Some(kept)) => {
                 let recorded = crate::season::hook::run_check(log, self.request, kept)?;
                 recorded.closing(self.request.format)

@@ -13,8 +13,9 @@ use crate::digest::framed_sha256;
 pub const GENESIS: &str = "0000000000000000000000000000000000000000000000000000000000000000";
 
 /// One inspection as the chain covers it: every stored column but the sequence number and
-/// the entry's own hash.
-#[derive(Clone, Debug, Default, PartialEq, Eq)]
+/// the entry's own hash. Serialisable so a run can stage its entries in a spool
+/// ([`super::record::Staging`]) until it records them.
+#[derive(Clone, Debug, Default, PartialEq, Eq, serde::Serialize, serde::Deserialize)]
 pub struct Entry {
     /// The engine's identifier.
     pub engine: Option<String>,

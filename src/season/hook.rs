@@ -4,7 +4,7 @@
 
 use std::path::Path;
 
-use super::record::{Given, Inspected, RulebookBytes, record};
+use super::record::{Given, Inspected, RulebookBytes, Staging, record_staged};
 use super::schema::{Log, Mode};
 use super::seals::{Changes, compare};
 use crate::commands::Failure;
@@ -19,38 +19,53 @@ use crate::source::SourceMap;
 pub struct Recorded {
     /// The log's file name.
     pub log: String,
-    /// Sequence numbers, one per engine, in report order.
-    pub sequence: Vec<i64>,
+    /// The first and last sequence numbers given (the run's engines, in report order, were
+    /// numbered from one to the other); `None` when no engine was recorded.
+    pub sequence: Option<(i64, i64)>,
     /// Engine, its previous inspection's number, and what changed, for flagged engines.
     pub flagged: Vec<(String, i64, Changes)>,
 }
 
-/// Records a checked run into `log` (created when missing).
+/// The staging of a `check --record` run: what its command line gives every entry.
+pub fn staging(request: &CheckRequest) -> Staging {
+    Staging::new(Given {
+        class: request.class.map(str::to_string),
+        role: request.role.map(|r| role_word(r).to_string()),
+    })
+}
+
+/// Records a checked run's staged engines into `log` (created when missing), in one
+/// transaction; then reads them back once more for the engines whose seals the log flags.
 pub fn run_check(
     log: &Path,
     request: &CheckRequest,
-    engines: &[Inspected],
+    staged: &mut Staging,
 ) -> Result<Recorded, Failure> {
     let rulebook = rulebook_bytes(request.rules)?;
     let mut opened = Log::open(log, Mode::Create).map_err(Failure::one)?;
-    let given = Given {
-        class: request.class.map(str::to_string),
-        role: request.role.map(|r| role_word(r).to_string()),
-    };
-    let sequence = record(&mut opened, &rulebook, engines, &given).map_err(Failure::one)?;
-    let mut flagged = Vec::new();
-    for engine in engines.iter().filter_map(|e| e.identity.engine.as_deref()) {
-        let history = opened.history(engine).map_err(Failure::one)?;
+    let unreadable = |e: std::io::Error| Failure::one(super::spool_unreadable(log, &e));
+    let entries = staged.entries().map_err(unreadable)?;
+    let (first, last) = record_staged(&mut opened, &rulebook, entries).map_err(Failure::one)?;
+    let mut flagged: Vec<(String, i64, Changes)> = Vec::new();
+    for next in staged.entries().map_err(unreadable)? {
+        let (entry, _) = next.map_err(unreadable)?;
+        let Some(engine) = entry.engine else {
+            continue;
+        };
+        if flagged.iter().any(|(e, _, _)| *e == engine) {
+            continue;
+        }
+        let history = opened.history(&engine).map_err(Failure::one)?;
         if let [.., before, after] = history.as_slice() {
             let changes = compare(before, after);
-            if changes.flagged() && !flagged.iter().any(|(e, _, _)| e == engine) {
-                flagged.push((engine.to_string(), before.seq, changes));
+            if changes.flagged() {
+                flagged.push((engine, before.seq, changes));
             }
         }
     }
     Ok(Recorded {
         log: log.display().to_string(),
-        sequence,
+        sequence: first.zip(last),
         flagged,
     })
 }
@@ -121,10 +136,10 @@ impl Recorded {
         let mut lines = vec![format!(
             "{bullet}recorded in {}: {}",
             self.log,
-            match (self.sequence.first(), self.sequence.last()) {
-                (Some(a), Some(b)) if a == b => format!("inspection #{a}"),
-                (Some(a), Some(b)) => format!("inspections #{a} to #{b}"),
-                _ => "no inspection".to_string(),
+            match self.sequence {
+                Some((a, b)) if a == b => format!("inspection #{a}"),
+                Some((a, b)) => format!("inspections #{a} to #{b}"),
+                None => "no inspection".to_string(),
             }
         )];
         for (engine, previous, changes) in &self.flagged {

@@ -29,7 +29,20 @@ pub use schema::Log;
 use crate::diagnostic::{Problem, codes};
 use std::path::Path;
 
-/// The problem for an SQLite error while using the log at `path`.
+/// `L04` for a run whose staged inspections could not be read back from their spool.
+pub fn spool_unreadable(path: &Path, error: &std::io::Error) -> Problem {
+    Problem::unlocated(
+        codes::log::FAILED,
+        format!(
+            "the inspections staged for the season log `{}` could not be read back: {error}; \
+             nothing was recorded",
+            path.display()
+        ),
+    )
+    .with_help("check that the temporary folder ($TMPDIR) has room, and run the check again")
+}
+
+/// The problem for an SQLite error while using the log at `path` (`L04`).
 pub fn failed(path: &Path, error: &rusqlite::Error) -> Problem {
     Problem::unlocated(
         codes::log::FAILED,

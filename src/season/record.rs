@@ -13,6 +13,7 @@ use crate::load::inspection::{Inspection, Reason, Seal};
 
 /// A rulebook as recorded: its fingerprint and each file, in reading order, with its name
 /// (empty for the root file).
+#[derive(Default)]
 pub struct RulebookBytes {
     /// [`crate::digest::rulebook_sha256`].
     pub fingerprint: String,
@@ -57,6 +58,23 @@ pub fn record(
     engines: &[Inspected],
     given: &Given,
 ) -> Result<Vec<i64>, Problem> {
+    let staged = engines
+        .iter()
+        .map(|e| Ok((staged_entry(e, given), e.text.as_bytes().to_vec())));
+    let (first, last) = record_staged(log, rulebook, staged)?;
+    Ok(first
+        .map(|a| (a..=last.unwrap_or(a)).collect())
+        .unwrap_or_default())
+}
+
+/// Appends staged entries (each with its declaration's bytes) in one transaction, giving each
+/// its time, rulebook and place in the chain; the first and last sequence numbers given.
+/// Nothing is recorded when a staged entry cannot be read back.
+pub fn record_staged(
+    log: &mut Log,
+    rulebook: &RulebookBytes,
+    staged: impl Iterator<Item = std::io::Result<(Entry, Vec<u8>)>>,
+) -> Result<(Option<i64>, Option<i64>), Problem> {
     let path = log.path.clone();
     let fail = |e: rusqlite::Error| super::failed(&path, &e);
     let recorded_at = super::clock::now();
@@ -66,17 +84,90 @@ pub fn record(
         .map_err(fail)?;
     store_rulebook(&tx, rulebook).map_err(fail)?;
     let mut previous = last_hash(&tx).map_err(fail)?;
-    let mut sequence = Vec::with_capacity(engines.len());
-    for engine in engines {
-        let declaration = store_blob(&tx, engine.text.as_bytes()).map_err(fail)?;
-        let entry = entry_of(engine, given, rulebook, declaration, recorded_at, previous);
+    let (mut first, mut last) = (None, None);
+    for next in staged {
+        let (mut entry, text) = next.map_err(|e| super::spool_unreadable(&path, &e))?;
+        entry.declaration = store_blob(&tx, &text).map_err(fail)?;
+        entry.recorded_at = recorded_at;
+        entry.rulebook = rulebook.fingerprint.clone();
+        entry.previous_hash = previous;
         let hash = entry.hash();
         insert(&tx, &entry, &hash).map_err(fail)?;
-        sequence.push(tx.last_insert_rowid());
+        let seq = tx.last_insert_rowid();
+        first.get_or_insert(seq);
+        last = Some(seq);
         previous = hash;
     }
     tx.commit().map_err(fail)?;
-    Ok(sequence)
+    Ok((first, last))
+}
+
+/// The entries of a run, staged one by one as its engines are checked and read back when it
+/// records them: in memory, then an unlinked temporary file, so a field of any size is
+/// recorded without holding its reports.
+pub struct Staging {
+    spool: tempfile::SpooledTempFile,
+    given: Given,
+    count: usize,
+}
+
+impl Staging {
+    /// An empty staging for a run given `given` on its command line.
+    pub fn new(given: Given) -> Staging {
+        Staging {
+            spool: tempfile::SpooledTempFile::new(1 << 20),
+            given,
+            count: 0,
+        }
+    }
+
+    /// Stages one engine: its entry (as JSON) and its declaration's bytes, each framed by its
+    /// length.
+    pub fn add(&mut self, engine: &Inspected) -> std::io::Result<()> {
+        use std::io::Write;
+        let entry = serde_json::to_vec(&staged_entry(engine, &self.given))?;
+        for part in [&entry[..], engine.text.as_bytes()] {
+            self.spool.write_all(&(part.len() as u64).to_le_bytes())?;
+            self.spool.write_all(part)?;
+        }
+        self.count += 1;
+        Ok(())
+    }
+
+    /// Every staged entry with its declaration's bytes, from the first.
+    pub fn entries(
+        &mut self,
+    ) -> std::io::Result<impl Iterator<Item = std::io::Result<(Entry, Vec<u8>)>> + '_> {
+        use std::io::Seek;
+        self.spool.rewind()?;
+        let spool = &mut self.spool;
+        Ok((0..self.count).map(move |_| {
+            let entry = serde_json::from_slice(&read_part(spool)?)?;
+            Ok((entry, read_part(spool)?))
+        }))
+    }
+}
+
+/// One length-framed part of a staging spool.
+fn read_part(spool: &mut impl std::io::Read) -> std::io::Result<Vec<u8>> {
+    let mut length = [0u8; 8];
+    spool.read_exact(&mut length)?;
+    let mut bytes = vec![0u8; u64::from_le_bytes(length) as usize];
+    spool.read_exact(&mut bytes)?;
+    Ok(bytes)
+}
+
+/// An engine's entry as far as it is known before it is recorded: the time, the rulebook and
+/// the chain's hashes are set by [`record_staged`].
+fn staged_entry(engine: &Inspected, given: &Given) -> Entry {
+    entry_of(
+        engine,
+        given,
+        &RulebookBytes::default(),
+        String::new(),
+        0,
+        String::new(),
+    )
 }
 
 fn entry_of(
