@@ -12,8 +12,8 @@ use super::ast::{
 use super::error::{ParseError, SyntaxError};
 use super::expr::{Allowance, condition, expr, test};
 use super::lexical::{
-    Input, PResult, date, dotted_name, identifier, keyword, nested, number_piece, pattern, section,
-    span_between, string, symbol, ws,
+    Input, PResult, date, dotted_name, identifier, keyword, nested, next_word, number_piece,
+    pattern, section, span_between, string, symbol, ws,
 };
 
 /// Keywords that start a top-level item; parsing resumes at one of these after an error.
@@ -261,19 +261,27 @@ fn bulletin(input: Input) -> PResult<Bulletin> {
 }
 
 /// `body = { rule | when_group | drop } "end"`
+///
+/// The next word says which item follows: each of `rule`, `when` and `drop` either parses
+/// or fails for good once its first keyword is there, so the others need not be tried.
 fn body(mut input: Input) -> PResult<Vec<ClassItem>> {
     let mut items = Vec::new();
     loop {
-        if let Ok((rest, _)) = keyword("end").parse(input) {
-            return Ok((rest, items));
-        }
-        let (rest, item) = alt((
-            rule.map(ClassItem::Rule),
-            when_group.map(ClassItem::When),
-            drop_rule,
-        ))
-        .parse(input)
-        .map_err(|e| cut_with(e, "`rule`, `override rule`, `when`, `drop` or `end`"))?;
+        let (start, _) = ws(input)?;
+        let parsed = match next_word(&start) {
+            "end" => return Ok((nom::Input::take_from(&start, 3), items)),
+            "rule" | "override" => rule.map(ClassItem::Rule).parse(start),
+            "when" => when_group.map(ClassItem::When).parse(start),
+            "drop" => drop_rule(start),
+            _ => alt((
+                rule.map(ClassItem::Rule),
+                when_group.map(ClassItem::When),
+                drop_rule,
+            ))
+            .parse(start),
+        };
+        let (rest, item) =
+            parsed.map_err(|e| cut_with(e, "`rule`, `override rule`, `when`, `drop` or `end`"))?;
         items.push(item);
         input = rest;
     }

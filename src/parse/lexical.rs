@@ -5,7 +5,6 @@
 
 use std::cell::RefCell;
 
-use nom::bytes::complete::{tag, take_while, take_while1};
 use nom::character::complete::{char, digit1};
 use nom::combinator::recognize;
 use nom::{Err, IResult, Parser};
@@ -84,16 +83,34 @@ pub const KEYWORDS: &[&str] = &[
     "matches",
 ];
 
-/// Whether a word is reserved.
+/// Whether a word is reserved (one of [`KEYWORDS`]). Looked up among the keywords of its
+/// length, so that a name costs a few byte comparisons.
 pub fn is_keyword(word: &str) -> bool {
-    static SORTED: std::sync::OnceLock<Vec<&'static str>> = std::sync::OnceLock::new();
-    let sorted = SORTED.get_or_init(|| {
-        let mut all = KEYWORDS.to_vec();
-        all.sort_unstable();
-        all
-    });
-    sorted.binary_search(&word).is_ok()
+    KEYWORDS_BY_LENGTH
+        .get(word.len())
+        .is_some_and(|same_length| same_length.contains(&word))
 }
+
+/// [`KEYWORDS`] grouped by length in bytes: entry `n` holds those of `n` bytes.
+const KEYWORDS_BY_LENGTH: [&[&str]; 11] = [
+    &[],
+    &[],
+    &["to", "or", "in"],
+    &["per", "end", "and", "not"],
+    &["list", "when", "rule", "drop", "note"],
+    &["range", "class"],
+    &["series", "simple", "define", "banned", "amends"],
+    &[
+        "edition", "guarded", "include", "measure", "extends", "require", "penalty", "between",
+        "matches",
+    ],
+    &[
+        "decision", "cylinder", "required", "optional", "approved", "bulletin", "override",
+        "allowing",
+    ],
+    &["effective", "rejection"],
+    &["acceptance"],
+];
 
 /// The span from `start` to `end` (two positions in the same file).
 pub fn span_between(start: &Input, end: &Input) -> Span {
@@ -134,10 +151,13 @@ fn note_comment(span: Span) {
 /// Skips white space and `#` comments.
 pub fn ws(input: Input) -> PResult<()> {
     let text = *input.fragment();
+    // most tokens follow no white space: then the input is returned as it is, unsplit
+    if !text.as_bytes().first().is_some_and(|b| may_start_blank(*b)) {
+        return Ok((input, ()));
+    }
     let mut at = 0;
     loop {
-        let rest = &text[at..];
-        let blank = rest.len() - rest.trim_start().len();
+        let blank = blank_len(&text[at..]);
         at += blank;
         if text[at..].starts_with('#') {
             let length = text[at..].find('\n').unwrap_or(text.len() - at);
@@ -148,8 +168,29 @@ pub fn ws(input: Input) -> PResult<()> {
             break;
         }
     }
-    // most tokens follow no white space: then the input is returned as it is, unsplit
     Ok((if at == 0 { input } else { advance(input, at) }, ()))
+}
+
+/// Whether a text starting with byte `b` may start with white space or a comment: an ASCII
+/// blank, `#`, or the first byte of a character outside ASCII (some are white space).
+fn may_start_blank(b: u8) -> bool {
+    matches!(b, b' ' | b'\t' | b'\n' | b'\r' | 0x0b | 0x0c | b'#') || b >= 0x80
+}
+
+/// The length of the white space (as [`str::trim_start`] counts it) at the start of `text`:
+/// ASCII blanks counted byte by byte, the rest of the run by `trim_start` when a character
+/// outside ASCII follows them.
+fn blank_len(text: &str) -> usize {
+    let bytes = text.as_bytes();
+    let ascii = bytes
+        .iter()
+        .take_while(|b| matches!(b, b' ' | b'\t' | b'\n' | b'\r' | 0x0b | 0x0c))
+        .count();
+    if bytes.get(ascii).is_some_and(|b| *b >= 0x80) {
+        let tail = &text[ascii..];
+        return ascii + tail.len() - tail.trim_start().len();
+    }
+    ascii
 }
 
 fn is_name_start(c: char) -> bool {
@@ -160,19 +201,54 @@ fn is_name_char(c: char) -> bool {
     c.is_ascii_alphanumeric() || c == '_'
 }
 
+/// The length in bytes of the bare word of name characters at the start of `text` (a name
+/// character that is not a digit, then any name characters), 0 if there is none.
+fn word_len(text: &str) -> usize {
+    let bytes = text.as_bytes();
+    if !bytes.first().is_some_and(|b| is_name_start(char::from(*b))) {
+        return 0;
+    }
+    1 + bytes[1..]
+        .iter()
+        .take_while(|b| is_name_char(char::from(**b)))
+        .count()
+}
+
 /// A bare word of name characters, keyword or not, after white space.
 fn word(input: Input) -> PResult<Input> {
     let (input, _) = ws(input)?;
-    recognize((take_while1(is_name_start), take_while(is_name_char))).parse(input)
+    match word_len(input.fragment()) {
+        0 => Err(Err::Error(SyntaxError::expected(&input, "a name"))),
+        len => Ok(nom::Input::take_split(&input, len)),
+    }
+}
+
+/// The word at the start of `input`, keyword or not, without skipping white space; empty
+/// when a name character does not stand there.
+pub fn next_word<'a>(input: &Input<'a>) -> &'a str {
+    let text: &'a str = input.fragment();
+    &text[..word_len(text)]
+}
+
+/// Whether `text` starts with the word `kw` not followed by a name character.
+fn starts_with_word(text: &str, kw: &str) -> bool {
+    let (text, kw) = (text.as_bytes(), kw.as_bytes());
+    text.len() >= kw.len()
+        && text.iter().zip(kw).all(|(a, b)| a == b)
+        && !text
+            .get(kw.len())
+            .is_some_and(|b| is_name_char(char::from(*b)))
 }
 
 /// The keyword `kw`, not followed by a name character.
 pub fn keyword<'a>(kw: &'static str) -> impl Parser<Input<'a>, Output = Span, Error = SyntaxError> {
     move |input: Input<'a>| {
         let (start, _) = ws(input)?;
-        match word(start) {
-            Ok((rest, w)) if *w.fragment() == kw => Ok((rest, span_between(&start, &rest))),
-            _ => Err(Err::Error(SyntaxError::expected(&start, keyword_label(kw)))),
+        if starts_with_word(start.fragment(), kw) {
+            let rest = nom::Input::take_from(&start, kw.len());
+            Ok((rest, span_between(&start, &rest)))
+        } else {
+            Err(Err::Error(SyntaxError::expected(&start, keyword_label(kw))))
         }
     }
 }
@@ -236,9 +312,11 @@ pub fn symbol<'a>(
 ) -> impl Parser<Input<'a>, Output = Span, Error = SyntaxError> {
     move |input: Input<'a>| {
         let (start, _) = ws(input)?;
-        match tag::<_, _, SyntaxError>(sym).parse(start) {
-            Ok((rest, _)) => Ok((rest, span_between(&start, &rest))),
-            Err(_) => Err(Err::Error(SyntaxError::expected(&start, label))),
+        if start.fragment().starts_with(sym) {
+            let rest = nom::Input::take_from(&start, sym.len());
+            Ok((rest, span_between(&start, &rest)))
+        } else {
+            Err(Err::Error(SyntaxError::expected(&start, label)))
         }
     }
 }
@@ -246,49 +324,50 @@ pub fn symbol<'a>(
 /// A single identifier that is not a keyword.
 pub fn identifier(input: Input) -> PResult<Name> {
     let (start, _) = ws(input)?;
-    match word(start) {
-        Ok((rest, w)) if !is_keyword(w.fragment()) => Ok((
-            rest,
-            Name {
-                text: w.fragment().to_string(),
-                span: span_between(&start, &rest),
-            },
-        )),
-        _ => Err(Err::Error(SyntaxError::expected(&start, "a name"))),
+    let len = word_len(start.fragment());
+    let text = &start.fragment()[..len];
+    if len == 0 || is_keyword(text) {
+        return Err(Err::Error(SyntaxError::expected(&start, "a name")));
     }
+    let rest = nom::Input::take_from(&start, len);
+    Ok((
+        rest,
+        Name {
+            text: text.to_string(),
+            span: span_between(&start, &rest),
+        },
+    ))
 }
 
 /// A dotted name such as `carburetor.airflow`: identifiers joined by `.` with no spaces.
+/// The whole name is measured first and copied once.
 pub fn dotted_name(input: Input) -> PResult<Name> {
-    let (mut rest, mut name) = identifier(input)?;
-    while rest.fragment().starts_with('.') {
-        let (after_dot, _) = char::<_, SyntaxError>('.').parse(rest)?;
-        match identifier_here(after_dot) {
-            Ok((after, part)) => {
-                name.text.push('.');
-                name.text.push_str(&part);
-                name.span.end = after.location_offset();
-                rest = after;
-            }
-            Err(_) => {
-                return Err(Err::Failure(SyntaxError::expected(
-                    &after_dot,
-                    "a name after `.`",
-                )));
-            }
+    let (start, _) = ws(input)?;
+    let text = *start.fragment();
+    let first = word_len(text);
+    if first == 0 || is_keyword(&text[..first]) {
+        return Err(Err::Error(SyntaxError::expected(&start, "a name")));
+    }
+    let mut len = first;
+    while text.as_bytes().get(len) == Some(&b'.') {
+        let part = word_len(&text[len + 1..]);
+        if part == 0 || is_keyword(&text[len + 1..len + 1 + part]) {
+            let after_dot = nom::Input::take_from(&start, len + 1);
+            return Err(Err::Failure(SyntaxError::expected(
+                &after_dot,
+                "a name after `.`",
+            )));
         }
+        len += 1 + part;
     }
-    Ok((rest, name))
-}
-
-/// An identifier with no white space before it.
-fn identifier_here(input: Input) -> PResult<String> {
-    let (rest, w) =
-        recognize((take_while1(is_name_start), take_while(is_name_char))).parse(input)?;
-    if is_keyword(w.fragment()) {
-        return Err(Err::Error(SyntaxError::expected(&input, "a name")));
-    }
-    Ok((rest, w.fragment().to_string()))
+    let rest = nom::Input::take_from(&start, len);
+    Ok((
+        rest,
+        Name {
+            text: text[..len].to_string(),
+            span: span_between(&start, &rest),
+        },
+    ))
 }
 
 /// A string literal in double quotes. Escapes: `\"`, `\\`, `\n`, `\t`, `\u{XXXX}`.
@@ -301,6 +380,12 @@ pub fn string(input: Input) -> PResult<Text> {
         )));
     }
     let body = &start.fragment()[1..];
+    if let Some(len) = plain_string_len(body) {
+        let rest = advance(start, len + 2);
+        let value = body[..len].to_string();
+        let span = span_between(&start, &rest);
+        return Ok((rest, Text { value, span }));
+    }
     let mut value = String::new();
     let mut chars = body.char_indices();
     while let Some((at, c)) = chars.next() {
@@ -342,6 +427,20 @@ pub fn string(input: Input) -> PResult<Text> {
         1,
         ParseError::UnterminatedString,
     )))
+}
+
+/// The length of a string's body up to its closing quote when it holds no escape and nothing
+/// refused, so that it is its own value; `None` sends it through the full reading.
+fn plain_string_len(body: &str) -> Option<usize> {
+    for (at, c) in body.char_indices() {
+        match c {
+            '"' => return Some(at),
+            '\\' | '\n' => return None,
+            other if is_refused_control(other) => return None,
+            _ => {}
+        }
+    }
+    None
 }
 
 /// Whether a string may not hold `c`: every control character but the tab. (A line break
@@ -666,18 +765,33 @@ fn parse_date(text: &str) -> Option<Date> {
 /// A section number: digits, then `.`-separated parts of digits and letters (`3.1`, `12a`).
 pub fn section(input: Input) -> PResult<Section> {
     let (start, _) = ws(input)?;
-    let mut shape = recognize((
-        digit1,
-        take_while(|c: char| c.is_ascii_alphanumeric()),
-        nom::multi::many0((char('.'), take_while1(|c: char| c.is_ascii_alphanumeric()))),
-    ));
-    let (rest, text) = shape.parse(start).map_err(|_: Err<SyntaxError>| {
-        Err::Error(SyntaxError::expected(&start, "a section number like `3.1`"))
-    })?;
+    let text = *start.fragment();
+    let alphanumerics = |at: usize| {
+        text.as_bytes()[at.min(text.len())..]
+            .iter()
+            .take_while(|b| b.is_ascii_alphanumeric())
+            .count()
+    };
+    let whole = digits(text, 0);
+    if whole == 0 {
+        return Err(Err::Error(SyntaxError::expected(
+            &start,
+            "a section number like `3.1`",
+        )));
+    }
+    let mut len = whole + alphanumerics(whole);
+    while text.as_bytes().get(len) == Some(&b'.') {
+        let part = alphanumerics(len + 1);
+        if part == 0 {
+            break;
+        }
+        len += 1 + part;
+    }
+    let rest = nom::Input::take_from(&start, len);
     Ok((
         rest,
         Section {
-            text: text.fragment().to_string(),
+            text: text[..len].to_string(),
             span: span_between(&start, &rest),
         },
     ))
@@ -885,6 +999,91 @@ mod tests {
         let (_, p) = pattern(input(r"/^A\/B$/i")).unwrap_or_else(|_| panic!("parse"));
         assert_eq!(p.source, "^A/B$");
         assert!(p.ignore_case);
+    }
+
+    #[test]
+    fn the_keywords_by_length_are_the_keywords() {
+        let mut grouped: Vec<&str> = KEYWORDS_BY_LENGTH
+            .iter()
+            .flat_map(|g| g.iter().copied())
+            .collect();
+        let mut listed = KEYWORDS.to_vec();
+        grouped.sort_unstable();
+        listed.sort_unstable();
+        assert_eq!(grouped, listed);
+        for (len, group) in KEYWORDS_BY_LENGTH.iter().enumerate() {
+            assert!(group.iter().all(|kw| kw.len() == len), "{group:?}");
+        }
+        assert!(KEYWORDS.iter().all(|kw| is_keyword(kw)));
+        for not_reserved in [
+            "coverage", "ignoring", "case", "k", "ends", "rules", "", "i",
+        ] {
+            assert!(!is_keyword(not_reserved), "{not_reserved}");
+        }
+    }
+
+    #[test]
+    fn white_space_is_what_trim_start_skips() {
+        // every ASCII blank, and white space outside ASCII (U+00A0, U+2003), with comments
+        for text in [
+            " \t\n\r\u{b}\u{c}x",
+            "\u{a0}x",
+            " \u{2003} # note\n\u{85}x",
+            "x",
+            "",
+        ] {
+            let (rest, _) = ws(input(text)).unwrap_or_else(|_| panic!("ws"));
+            let expected =
+                text.trim_start()
+                    .split_once('#')
+                    .map_or(text.trim_start(), |(_, after)| {
+                        after
+                            .split_once('\n')
+                            .map_or("", |(_, next)| next.trim_start())
+                    });
+            assert_eq!(*rest.fragment(), expected, "{text:?}");
+        }
+        // U+001C to U+001F are separators but not white space
+        assert_eq!(
+            *ws(input("\u{1c}x"))
+                .map(|(r, _)| r)
+                .unwrap_or_else(|_| panic!("ws"))
+                .fragment(),
+            "\u{1c}x"
+        );
+    }
+
+    #[test]
+    fn a_keyword_is_a_whole_word() {
+        assert!(keyword("end").parse(input(" end")).is_ok());
+        assert!(keyword("end").parse(input("end.")).is_ok());
+        assert!(keyword("end").parse(input("ends")).is_err());
+        assert!(keyword("end").parse(input("end_")).is_err());
+        assert!(keyword("end").parse(input("end2")).is_err());
+        assert!(keyword("end").parse(input("en")).is_err());
+        assert!(keyword("in").parse(input("in\u{e9}")).is_ok());
+    }
+
+    #[test]
+    fn a_plain_string_and_one_with_escapes_read_alike() {
+        let read = |text: &str| {
+            string(input(text))
+                .map(|(rest, t)| (t.value, t.span, rest.location_offset()))
+                .ok()
+        };
+        assert_eq!(
+            read(r#""TVH-2204" x"#).map(|(v, _, at)| (v, at)),
+            Some(("TVH-2204".to_string(), 10))
+        );
+        assert_eq!(
+            read(r#""a\u{2d}b""#).map(|(v, _, at)| (v, at)),
+            Some(("a-b".to_string(), 10))
+        );
+        assert_eq!(
+            read("\"cast \u{2014} iron\"").map(|(v, _, _)| v),
+            Some("cast \u{2014} iron".to_string())
+        );
+        assert!(read("\"open\n\"").is_none());
     }
 
     #[test]
