@@ -12,8 +12,8 @@ use super::ast::{
 use super::error::{ParseError, SyntaxError};
 use super::lexical::{
     Input, MAX_CHAIN, NumberPiece, PResult, Piece, QuantityParts, chain_too_long, dotted_name,
-    identifier, keyword, nested, next_word, pattern, quantity_parts, span_between, string, symbol,
-    ws,
+    identifier, keyword, nested, next_word, pattern, peek, quantity_parts, span_between, string,
+    symbol, ws,
 };
 
 /// `expr = term { ("+" | "-") term }`
@@ -32,26 +32,25 @@ pub fn expr(input: Input) -> PResult<Expr> {
 
 /// `+` or `-`, but not the `+/-` that starts an uncertainty.
 fn plus_minus(input: Input) -> Option<(Input, BinaryOp)> {
-    let (start, _) = ws(input).ok()?;
-    let text = start.fragment();
+    let (skip, text) = peek(&input);
     let op = match text.as_bytes().first()? {
         _ if text.starts_with("+/-") => return None,
         b'+' => BinaryOp::Add,
         b'-' => BinaryOp::Subtract,
         _ => return None,
     };
-    Some((nom::Input::take_from(&start, 1), op))
+    Some((nom::Input::take_from(&input, skip + 1), op))
 }
 
 /// `*` or `/`.
 fn times_divide(input: Input) -> Option<(Input, BinaryOp)> {
-    let (start, _) = ws(input).ok()?;
-    let op = match start.fragment().as_bytes().first()? {
+    let (skip, text) = peek(&input);
+    let op = match text.as_bytes().first()? {
         b'*' => BinaryOp::Multiply,
         b'/' => BinaryOp::Divide,
         _ => return None,
     };
-    Some((nom::Input::take_from(&start, 1), op))
+    Some((nom::Input::take_from(&input, skip + 1), op))
 }
 
 fn binary(op: BinaryOp, left: Expr, right: Expr) -> Expr {
@@ -314,7 +313,7 @@ fn test_kind(input: Input, subject: Expr) -> PResult<TestKind> {
 
 /// Whether `input`, which starts with `not`, goes on with `in` or `matches`.
 fn membership_after_not(input: Input) -> bool {
-    let Ok((after, _)) = keyword("not").parse(input) else {
+    let Ok((after, _)) = keyword!("not").parse(input) else {
         return false;
     };
     ws(after).is_ok_and(|(next, _)| matches!(next_word(&next), "in" | "matches"))
@@ -345,9 +344,9 @@ fn comparison(input: Input, left: Expr) -> PResult<TestKind> {
 }
 
 fn between(input: Input, subject: Expr) -> PResult<TestKind> {
-    let (rest, _) = keyword("between").parse(input)?;
+    let (rest, _) = keyword!("between").parse(input)?;
     let (rest, low) = nom::combinator::cut(expr).parse(rest)?;
-    let (rest, _) = nom::combinator::cut(keyword("and")).parse(rest)?;
+    let (rest, _) = nom::combinator::cut(keyword!("and")).parse(rest)?;
     let (rest, high) = nom::combinator::cut(expr).parse(rest)?;
     Ok((
         rest,
@@ -361,9 +360,9 @@ fn between(input: Input, subject: Expr) -> PResult<TestKind> {
 }
 
 fn membership(input: Input, subject: Expr) -> PResult<TestKind> {
-    let (rest, negated) = opt(keyword("not")).parse(input)?;
+    let (rest, negated) = opt(keyword!("not")).parse(input)?;
     let negated = negated.is_some();
-    if let Ok((rest, _)) = keyword("in").parse(rest) {
+    if let Ok((rest, _)) = keyword!("in").parse(rest) {
         let (rest, list) = nom::combinator::cut(identifier).parse(rest)?;
         return Ok((
             rest,
@@ -374,7 +373,7 @@ fn membership(input: Input, subject: Expr) -> PResult<TestKind> {
             },
         ));
     }
-    let (rest, _) = keyword("matches").parse(rest).map_err(|e| match e {
+    let (rest, _) = keyword!("matches").parse(rest).map_err(|e| match e {
         Err::Error(mut err) => {
             if let super::error::SyntaxKind::Expected(what) = &mut err.kind {
                 what.push(if negated {
@@ -400,7 +399,7 @@ fn membership(input: Input, subject: Expr) -> PResult<TestKind> {
 
 /// `allowance = "allowing" expr`
 fn with_allowance(input: Input, mut kind: TestKind, allowance: Allowance) -> PResult<TestKind> {
-    let Ok((rest, at)) = keyword("allowing").parse(input) else {
+    let Ok((rest, at)) = keyword!("allowing").parse(input) else {
         return Ok((input, kind));
     };
     if allowance == Allowance::Refused {
@@ -432,7 +431,7 @@ fn with_allowance(input: Input, mut kind: TestKind, allowance: Allowance) -> PRe
 pub fn condition(input: Input) -> PResult<Condition> {
     let (mut rest, mut left) = and_condition(input)?;
     let mut count = 0;
-    while let Ok((after, _)) = keyword("or").parse(rest) {
+    while let Ok((after, _)) = keyword!("or").parse(rest) {
         count += 1;
         if count >= MAX_CHAIN {
             return Err(chain_too_long(&rest));
@@ -448,7 +447,7 @@ pub fn condition(input: Input) -> PResult<Condition> {
 fn and_condition(input: Input) -> PResult<Condition> {
     let (mut rest, mut left) = not_condition(input)?;
     let mut count = 0;
-    while let Ok((after, _)) = keyword("and").parse(rest) {
+    while let Ok((after, _)) = keyword!("and").parse(rest) {
         count += 1;
         if count >= MAX_CHAIN {
             return Err(chain_too_long(&rest));
@@ -464,7 +463,7 @@ fn and_condition(input: Input) -> PResult<Condition> {
 fn not_condition(input: Input) -> PResult<Condition> {
     let mut nots = Vec::new();
     let mut rest = input;
-    while let Ok((after, span)) = keyword("not").parse(rest) {
+    while let Ok((after, span)) = keyword!("not").parse(rest) {
         if nots.len() >= MAX_CHAIN {
             return Err(chain_too_long(&rest));
         }

@@ -150,10 +150,43 @@ fn note_comment(span: Span) {
 
 /// Skips white space and `#` comments.
 pub fn ws(input: Input) -> PResult<()> {
-    let text = *input.fragment();
+    let at = blank_prefix(&input);
     // most tokens follow no white space: then the input is returned as it is, unsplit
+    Ok((if at == 0 { input } else { advance(input, at) }, ()))
+}
+
+/// The text after the white space and comments at the start of `input`, and how many bytes
+/// those take, without moving the input: a parser that fails at the first character it
+/// looks at then costs no new position. (The comments are noted as [`ws`] notes them.)
+pub fn peek<'a>(input: &Input<'a>) -> (usize, &'a str) {
+    let text: &'a str = input.fragment();
+    let at = blank_prefix(input);
+    (at, &text[at..])
+}
+
+/// The input moved on past `skip` bytes of white space and `len` bytes of a token found by
+/// [`peek`], with the span of the token.
+fn take_token<'a>(input: &Input<'a>, skip: usize, len: usize) -> (Input<'a>, Span) {
+    let rest = nom::Input::take_from(input, skip + len);
+    let start = input.location_offset() + skip;
+    let span = Span::new(input.extra.file, start, rest.location_offset());
+    (rest, span)
+}
+
+/// The input moved on past the white space [`peek`] measured.
+fn skip_blank<'a>(input: Input<'a>, skip: usize) -> Input<'a> {
+    if skip == 0 {
+        input
+    } else {
+        nom::Input::take_from(&input, skip)
+    }
+}
+
+/// The length of the white space and comments at the start of `input`, each comment noted.
+fn blank_prefix(input: &Input) -> usize {
+    let text = *input.fragment();
     if !text.as_bytes().first().is_some_and(|b| may_start_blank(*b)) {
-        return Ok((input, ()));
+        return 0;
     }
     let mut at = 0;
     loop {
@@ -168,7 +201,7 @@ pub fn ws(input: Input) -> PResult<()> {
             break;
         }
     }
-    Ok((if at == 0 { input } else { advance(input, at) }, ()))
+    at
 }
 
 /// Whether a text starting with byte `b` may start with white space or a comment: an ASCII
@@ -240,25 +273,59 @@ fn starts_with_word(text: &str, kw: &str) -> bool {
             .is_some_and(|b| is_name_char(char::from(*b)))
 }
 
-/// The keyword `kw`, not followed by a name character.
-pub fn keyword<'a>(kw: &'static str) -> impl Parser<Input<'a>, Output = Span, Error = SyntaxError> {
+/// The keyword `kw`, not followed by a name character; `label` names it in "expected ..."
+/// messages. Written through the [`keyword!`] macro, which finds the label at compile time.
+pub fn keyword_labelled<'a>(
+    kw: &'static str,
+    label: &'static str,
+) -> impl Parser<Input<'a>, Output = Span, Error = SyntaxError> {
     move |input: Input<'a>| {
-        let (start, _) = ws(input)?;
-        if starts_with_word(start.fragment(), kw) {
-            let rest = nom::Input::take_from(&start, kw.len());
-            Ok((rest, span_between(&start, &rest)))
+        let (skip, text) = peek(&input);
+        if starts_with_word(text, kw) {
+            Ok(take_token(&input, skip, kw.len()))
         } else {
-            Err(Err::Error(SyntaxError::expected(&start, keyword_label(kw))))
+            Err(Err::Error(SyntaxError::expected_after(&input, skip, label)))
         }
     }
 }
 
+/// `keyword!("end")`: the parser for the keyword `end`, with its label looked up once, at
+/// compile time, rather than each time the keyword is not there.
+macro_rules! keyword {
+    ($kw:literal) => {
+        $crate::parse::lexical::keyword_labelled(
+            $kw,
+            const { $crate::parse::lexical::keyword_label($kw) },
+        )
+    };
+}
+pub(crate) use keyword;
+
 /// The label naming a keyword in "expected ..." messages.
-fn keyword_label(kw: &'static str) -> &'static str {
-    KEYWORD_LABELS
-        .iter()
-        .find(|(k, _)| *k == kw)
-        .map_or("a keyword", |(_, label)| label)
+pub const fn keyword_label(kw: &str) -> &'static str {
+    let mut i = 0;
+    while i < KEYWORD_LABELS.len() {
+        if same_bytes(KEYWORD_LABELS[i].0.as_bytes(), kw.as_bytes()) {
+            return KEYWORD_LABELS[i].1;
+        }
+        i += 1;
+    }
+    "a keyword"
+}
+
+/// Whether two byte strings are equal (usable at compile time).
+const fn same_bytes(a: &[u8], b: &[u8]) -> bool {
+    if a.len() != b.len() {
+        return false;
+    }
+    let mut i = 0;
+    while i < a.len() {
+        if a[i] != b[i] {
+            return false;
+        }
+        i += 1;
+    }
+    true
 }
 
 const KEYWORD_LABELS: &[(&str, &str)] = &[
@@ -311,43 +378,41 @@ pub fn symbol<'a>(
     label: &'static str,
 ) -> impl Parser<Input<'a>, Output = Span, Error = SyntaxError> {
     move |input: Input<'a>| {
-        let (start, _) = ws(input)?;
-        if start.fragment().starts_with(sym) {
-            let rest = nom::Input::take_from(&start, sym.len());
-            Ok((rest, span_between(&start, &rest)))
+        let (skip, text) = peek(&input);
+        if text.starts_with(sym) {
+            Ok(take_token(&input, skip, sym.len()))
         } else {
-            Err(Err::Error(SyntaxError::expected(&start, label)))
+            Err(Err::Error(SyntaxError::expected_after(&input, skip, label)))
         }
     }
 }
 
 /// A single identifier that is not a keyword.
 pub fn identifier(input: Input) -> PResult<Name> {
-    let (start, _) = ws(input)?;
-    let len = word_len(start.fragment());
-    let text = &start.fragment()[..len];
+    let (skip, text) = peek(&input);
+    let len = word_len(text);
+    let text = &text[..len];
     if len == 0 || is_keyword(text) {
-        return Err(Err::Error(SyntaxError::expected(&start, "a name")));
+        return Err(Err::Error(SyntaxError::expected_after(
+            &input, skip, "a name",
+        )));
     }
-    let rest = nom::Input::take_from(&start, len);
-    Ok((
-        rest,
-        Name {
-            text: text.to_string(),
-            span: span_between(&start, &rest),
-        },
-    ))
+    let (rest, span) = take_token(&input, skip, len);
+    let text = text.to_string();
+    Ok((rest, Name { text, span }))
 }
 
 /// A dotted name such as `carburetor.airflow`: identifiers joined by `.` with no spaces.
 /// The whole name is measured first and copied once.
 pub fn dotted_name(input: Input) -> PResult<Name> {
-    let (start, _) = ws(input)?;
-    let text = *start.fragment();
+    let (skip, text) = peek(&input);
     let first = word_len(text);
     if first == 0 || is_keyword(&text[..first]) {
-        return Err(Err::Error(SyntaxError::expected(&start, "a name")));
+        return Err(Err::Error(SyntaxError::expected_after(
+            &input, skip, "a name",
+        )));
     }
+    let start = skip_blank(input, skip);
     let mut len = first;
     while text.as_bytes().get(len) == Some(&b'.') {
         let part = word_len(&text[len + 1..]);
@@ -372,13 +437,15 @@ pub fn dotted_name(input: Input) -> PResult<Name> {
 
 /// A string literal in double quotes. Escapes: `\"`, `\\`, `\n`, `\t`, `\u{XXXX}`.
 pub fn string(input: Input) -> PResult<Text> {
-    let (start, _) = ws(input)?;
-    if !start.fragment().starts_with('"') {
-        return Err(Err::Error(SyntaxError::expected(
-            &start,
+    let (skip, text) = peek(&input);
+    if !text.starts_with('"') {
+        return Err(Err::Error(SyntaxError::expected_after(
+            &input,
+            skip,
             "a string in double quotes",
         )));
     }
+    let start = skip_blank(input, skip);
     let body = &start.fragment()[1..];
     if let Some(len) = plain_string_len(body) {
         let rest = advance(start, len + 2);
@@ -537,15 +604,15 @@ pub fn quantity_parts(input: Input) -> PResult<QuantityParts> {
 }
 
 fn uncertainty_parts(input: Input) -> PResult<UncertaintyParts> {
-    let (start, _) = ws(input)?;
-    let sign_len = if start.fragment().starts_with('±') {
+    let (skip, text) = peek(&input);
+    let sign_len = if text.starts_with('±') {
         '±'.len_utf8()
-    } else if start.fragment().starts_with("+/-") {
+    } else if text.starts_with("+/-") {
         3
     } else {
-        return Err(Err::Error(SyntaxError::expected(&start, "`±`")));
+        return Err(Err::Error(SyntaxError::expected_after(&input, skip, "`±`")));
     };
-    let rest = advance(start, sign_len);
+    let rest = advance(input, skip + sign_len);
     let (rest, value) = nom::combinator::cut(number_piece).parse(rest)?;
     let (rest, unit) = nom::combinator::opt(unit_piece).parse(rest)?;
     let (rest, coverage) = nom::combinator::opt(coverage_factor).parse(rest)?;
@@ -576,12 +643,14 @@ fn coverage_factor(input: Input) -> PResult<NumberPiece> {
 /// A number: `42`, `4.030`, `1.5e-3`, a fraction `5/8`, or a mixed fraction `1-5/8`
 /// (written with no spaces, as header tubes and valves are sized in the trade).
 pub fn number_piece(input: Input) -> PResult<NumberPiece> {
-    let (start, _) = ws(input)?;
-    let text = *start.fragment();
+    let (skip, text) = peek(&input);
     let whole = digits(text, 0);
     if whole == 0 {
-        return Err(Err::Error(SyntaxError::expected(&start, "a number")));
+        return Err(Err::Error(SyntaxError::expected_after(
+            &input, skip, "a number",
+        )));
     }
+    let start = skip_blank(input, skip);
     let (len, value) = match fraction(text, whole) {
         Some(found) => found,
         None => {
@@ -660,21 +729,16 @@ fn decimal_len(text: &str, whole: usize) -> usize {
 /// `^N` and one `/word` (`in`, `cm³`, `in^2`, `L/s`), or `°` or `%`. A keyword other than
 /// `in` is not a unit.
 pub fn unit_piece(input: Input) -> PResult<Piece> {
-    let (start, _) = ws(input)?;
-    let frag = *start.fragment();
+    let (skip, frag) = peek(&input);
     let len = unit_len(frag);
     let text = &frag[..len];
     if len == 0 || (text != "in" && is_keyword(text)) {
-        return Err(Err::Error(SyntaxError::expected(&start, "a unit")));
+        return Err(Err::Error(SyntaxError::expected_after(
+            &input, skip, "a unit",
+        )));
     }
-    let rest = advance(start, len);
-    Ok((
-        rest,
-        Piece {
-            text,
-            span: span_between(&start, &rest),
-        },
-    ))
+    let (rest, span) = take_token(&input, skip, len);
+    Ok((rest, Piece { text, span }))
 }
 
 /// Length in bytes of the unit symbol at the start of `text`, 0 if there is none.
@@ -764,8 +828,7 @@ fn parse_date(text: &str) -> Option<Date> {
 
 /// A section number: digits, then `.`-separated parts of digits and letters (`3.1`, `12a`).
 pub fn section(input: Input) -> PResult<Section> {
-    let (start, _) = ws(input)?;
-    let text = *start.fragment();
+    let (skip, text) = peek(&input);
     let alphanumerics = |at: usize| {
         text.as_bytes()[at.min(text.len())..]
             .iter()
@@ -774,8 +837,9 @@ pub fn section(input: Input) -> PResult<Section> {
     };
     let whole = digits(text, 0);
     if whole == 0 {
-        return Err(Err::Error(SyntaxError::expected(
-            &start,
+        return Err(Err::Error(SyntaxError::expected_after(
+            &input,
+            skip,
             "a section number like `3.1`",
         )));
     }
@@ -787,25 +851,22 @@ pub fn section(input: Input) -> PResult<Section> {
         }
         len += 1 + part;
     }
-    let rest = nom::Input::take_from(&start, len);
-    Ok((
-        rest,
-        Section {
-            text: text[..len].to_string(),
-            span: span_between(&start, &rest),
-        },
-    ))
+    let (rest, span) = take_token(&input, skip, len);
+    let text = text[..len].to_string();
+    Ok((rest, Section { text, span }))
 }
 
 /// A regular-expression literal `/.../` with an optional `i` flag; `\/` stands for `/`.
 pub fn pattern(input: Input) -> PResult<Pattern> {
-    let (start, _) = ws(input)?;
-    if !start.fragment().starts_with('/') {
-        return Err(Err::Error(SyntaxError::expected(
-            &start,
+    let (skip, text) = peek(&input);
+    if !text.starts_with('/') {
+        return Err(Err::Error(SyntaxError::expected_after(
+            &input,
+            skip,
             "a pattern like `/^AB-12[0-9]{2}$/`",
         )));
     }
+    let start = skip_blank(input, skip);
     let body = &start.fragment()[1..];
     let mut source = String::new();
     let mut chars = body.char_indices();
@@ -1055,13 +1116,13 @@ mod tests {
 
     #[test]
     fn a_keyword_is_a_whole_word() {
-        assert!(keyword("end").parse(input(" end")).is_ok());
-        assert!(keyword("end").parse(input("end.")).is_ok());
-        assert!(keyword("end").parse(input("ends")).is_err());
-        assert!(keyword("end").parse(input("end_")).is_err());
-        assert!(keyword("end").parse(input("end2")).is_err());
-        assert!(keyword("end").parse(input("en")).is_err());
-        assert!(keyword("in").parse(input("in\u{e9}")).is_ok());
+        assert!(keyword!("end").parse(input(" end")).is_ok());
+        assert!(keyword!("end").parse(input("end.")).is_ok());
+        assert!(keyword!("end").parse(input("ends")).is_err());
+        assert!(keyword!("end").parse(input("end_")).is_err());
+        assert!(keyword!("end").parse(input("end2")).is_err());
+        assert!(keyword!("end").parse(input("en")).is_err());
+        assert!(keyword!("in").parse(input("in\u{e9}")).is_ok());
     }
 
     #[test]
