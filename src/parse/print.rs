@@ -402,7 +402,8 @@ fn pattern_text(p: &Pattern) -> String {
 
 /// The canonical text of a test.
 pub fn test_text(test: &Test) -> String {
-    let mut out = String::new();
+    // room for a typical test, like `engine.displacement <= 362 ci`, without growing
+    let mut out = String::with_capacity(64);
     write_test(&mut out, test);
     out
 }
