@@ -182,48 +182,57 @@ fn skip_blank<'a>(input: Input<'a>, skip: usize) -> Input<'a> {
     }
 }
 
-/// The length of the white space and comments at the start of `input`, each comment noted.
+/// The length of the white space and comments at the start of `input`, each comment noted:
+/// ASCII blanks byte by byte, a comment up to its line break, and white space outside ASCII
+/// as [`str::trim_start`] counts it.
+#[inline]
 fn blank_prefix(input: &Input) -> usize {
-    let text = *input.fragment();
-    if !text.as_bytes().first().is_some_and(|b| may_start_blank(*b)) {
-        return 0;
+    // most tokens follow no white space: that is seen from the first byte, in line
+    match input.fragment().as_bytes().first() {
+        Some(b) if may_start_blank(*b) => blank_run(input),
+        _ => 0,
     }
+}
+
+/// [`blank_prefix`] past its first byte's test.
+#[inline(never)]
+fn blank_run(input: &Input) -> usize {
+    let text = *input.fragment();
+    let bytes = text.as_bytes();
     let mut at = 0;
     loop {
-        let blank = blank_len(&text[at..]);
-        at += blank;
-        if text[at..].starts_with('#') {
-            let length = text[at..].find('\n').unwrap_or(text.len() - at);
-            let start = input.location_offset() + at;
-            note_comment(Span::new(input.extra.file, start, start + length));
-            at += length;
-        } else if blank == 0 {
-            break;
+        while bytes.get(at).is_some_and(|b| is_ascii_blank(*b)) {
+            at += 1;
+        }
+        match bytes.get(at) {
+            Some(b'#') => {
+                let length = text[at..].find('\n').unwrap_or(text.len() - at);
+                let start = input.location_offset() + at;
+                note_comment(Span::new(input.extra.file, start, start + length));
+                at += length;
+            }
+            Some(b) if *b >= 0x80 => {
+                let tail = &text[at..];
+                let blank = tail.len() - tail.trim_start().len();
+                if blank == 0 {
+                    return at;
+                }
+                at += blank;
+            }
+            _ => return at,
         }
     }
-    at
+}
+
+/// Whether `b` is white space in ASCII (what [`char::is_whitespace`] says of it).
+fn is_ascii_blank(b: u8) -> bool {
+    matches!(b, b' ' | b'\t' | b'\n' | b'\r' | 0x0b | 0x0c)
 }
 
 /// Whether a text starting with byte `b` may start with white space or a comment: an ASCII
 /// blank, `#`, or the first byte of a character outside ASCII (some are white space).
 fn may_start_blank(b: u8) -> bool {
-    matches!(b, b' ' | b'\t' | b'\n' | b'\r' | 0x0b | 0x0c | b'#') || b >= 0x80
-}
-
-/// The length of the white space (as [`str::trim_start`] counts it) at the start of `text`:
-/// ASCII blanks counted byte by byte, the rest of the run by `trim_start` when a character
-/// outside ASCII follows them.
-fn blank_len(text: &str) -> usize {
-    let bytes = text.as_bytes();
-    let ascii = bytes
-        .iter()
-        .take_while(|b| matches!(b, b' ' | b'\t' | b'\n' | b'\r' | 0x0b | 0x0c))
-        .count();
-    if bytes.get(ascii).is_some_and(|b| *b >= 0x80) {
-        let tail = &text[ascii..];
-        return ascii + tail.len() - tail.trim_start().len();
-    }
-    ascii
+    is_ascii_blank(b) || b == b'#' || b >= 0x80
 }
 
 fn is_name_start(c: char) -> bool {
