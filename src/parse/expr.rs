@@ -39,7 +39,7 @@ fn plus_minus(input: Input) -> Option<(Input, BinaryOp)> {
         b'-' => BinaryOp::Subtract,
         _ => return None,
     };
-    Some((nom::Input::take_from(&input, skip + 1), op))
+    Some((input.take_from(skip + 1), op))
 }
 
 /// `*` or `/`.
@@ -50,7 +50,7 @@ fn times_divide(input: Input) -> Option<(Input, BinaryOp)> {
         b'/' => BinaryOp::Divide,
         _ => return None,
     };
-    Some((nom::Input::take_from(&input, skip + 1), op))
+    Some((input.take_from(skip + 1), op))
 }
 
 fn binary(op: BinaryOp, left: Expr, right: Expr) -> Expr {
@@ -253,7 +253,7 @@ fn compare_op_here(input: &Input) -> Option<(CompareOp, usize)> {
 fn compare_op(input: Input) -> PResult<CompareOp> {
     let (start, _) = ws(input)?;
     if let Some((op, len)) = compare_op_here(&start) {
-        return Ok((nom::Input::take_from(&start, len), op));
+        return Ok((start.take_from(len), op));
     }
     alt((
         symbol("<=", "`<=`").map(|_| CompareOp::AtMost),

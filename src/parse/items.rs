@@ -271,7 +271,7 @@ fn body(mut input: Input) -> PResult<Vec<ClassItem>> {
     loop {
         let (start, _) = ws(input)?;
         let parsed = match next_word(&start) {
-            "end" => return Ok((nom::Input::take_from(&start, 3), items)),
+            "end" => return Ok((start.take_from(3), items)),
             "rule" | "override" => rule.map(ClassItem::Rule).parse(start),
             "when" => when_group.map(ClassItem::When).parse(start),
             "drop" => drop_rule(start),

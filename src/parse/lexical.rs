@@ -5,10 +5,7 @@
 
 use std::cell::RefCell;
 
-use nom::character::complete::{char, digit1};
-use nom::combinator::recognize;
 use nom::{Err, IResult, Parser};
-use nom_locate::LocatedSpan;
 
 use super::ast::{Date, DateAt, Name, Pattern, Section, Text};
 use super::error::{ParseError, SyntaxError};
@@ -34,8 +31,53 @@ pub struct Context {
     pub depth: u32,
 }
 
-/// Parser input: the remaining text with its offset in the file.
-pub type Input<'a> = LocatedSpan<&'a str, Context>;
+/// Parser input: the remaining text with its offset in the file and the [`Context`]. (Only
+/// the byte offset is kept: spans and diagnostics find lines from it when they need them.)
+#[derive(Clone, Copy, Debug)]
+pub struct Input<'a> {
+    fragment: &'a str,
+    offset: usize,
+    /// The file and the nesting depth.
+    pub extra: Context,
+}
+
+impl<'a> Input<'a> {
+    /// The whole of `text`, at offset 0.
+    pub fn new_extra(text: &'a str, extra: Context) -> Input<'a> {
+        Input {
+            fragment: text,
+            offset: 0,
+            extra,
+        }
+    }
+
+    /// The text not yet parsed.
+    pub fn fragment(&self) -> &&'a str {
+        &self.fragment
+    }
+
+    /// The offset in bytes of [`Input::fragment`] in the file.
+    pub fn location_offset(&self) -> usize {
+        self.offset
+    }
+
+    /// The same position with its context changed by `change`.
+    pub fn map_extra(self, change: impl FnOnce(Context) -> Context) -> Input<'a> {
+        Input {
+            extra: change(self.extra),
+            ..self
+        }
+    }
+
+    /// The input `bytes` bytes further on (a character boundary, within the text).
+    pub fn take_from(&self, bytes: usize) -> Input<'a> {
+        Input {
+            fragment: &self.fragment[bytes..],
+            offset: self.offset + bytes,
+            extra: self.extra,
+        }
+    }
+}
 
 /// Parser result.
 pub type PResult<'a, T> = IResult<Input<'a>, T, SyntaxError>;
@@ -167,7 +209,7 @@ pub fn peek<'a>(input: &Input<'a>) -> (usize, &'a str) {
 /// The input moved on past `skip` bytes of white space and `len` bytes of a token found by
 /// [`peek`], with the span of the token.
 fn take_token<'a>(input: &Input<'a>, skip: usize, len: usize) -> (Input<'a>, Span) {
-    let rest = nom::Input::take_from(input, skip + len);
+    let rest = input.take_from(skip + len);
     let start = input.location_offset() + skip;
     let span = Span::new(input.extra.file, start, rest.location_offset());
     (rest, span)
@@ -178,7 +220,7 @@ fn skip_blank<'a>(input: Input<'a>, skip: usize) -> Input<'a> {
     if skip == 0 {
         input
     } else {
-        nom::Input::take_from(&input, skip)
+        input.take_from(skip)
     }
 }
 
@@ -254,15 +296,6 @@ fn word_len(text: &str) -> usize {
         .iter()
         .take_while(|b| is_name_char(char::from(**b)))
         .count()
-}
-
-/// A bare word of name characters, keyword or not, after white space.
-fn word(input: Input) -> PResult<Input> {
-    let (input, _) = ws(input)?;
-    match word_len(input.fragment()) {
-        0 => Err(Err::Error(SyntaxError::expected(&input, "a name"))),
-        len => Ok(nom::Input::take_split(&input, len)),
-    }
 }
 
 /// The word at the start of `input`, keyword or not, without skipping white space; empty
@@ -426,7 +459,7 @@ pub fn dotted_name(input: Input) -> PResult<Name> {
     while text.as_bytes().get(len) == Some(&b'.') {
         let part = word_len(&text[len + 1..]);
         if part == 0 || is_keyword(&text[len + 1..len + 1 + part]) {
-            let after_dot = nom::Input::take_from(&start, len + 1);
+            let after_dot = start.take_from(len + 1);
             return Err(Err::Failure(SyntaxError::expected(
                 &after_dot,
                 "a name after `.`",
@@ -434,7 +467,7 @@ pub fn dotted_name(input: Input) -> PResult<Name> {
         }
         len += 1 + part;
     }
-    let rest = nom::Input::take_from(&start, len);
+    let rest = start.take_from(len);
     Ok((
         rest,
         Name {
@@ -638,11 +671,13 @@ fn uncertainty_parts(input: Input) -> PResult<UncertaintyParts> {
 /// `"(" "k" "=" number ")"`
 fn coverage_factor(input: Input) -> PResult<NumberPiece> {
     let (rest, _) = symbol("(", "`(`").parse(input)?;
-    let k = word(rest).ok().filter(|(_, w)| *w.fragment() == "k");
-    let Some((rest, _)) = k else {
-        let (at, _) = ws(rest)?;
-        return Err(Err::Failure(SyntaxError::expected(&at, "`k`")));
-    };
+    let (skip, text) = peek(&rest);
+    if text.get(..word_len(text)) != Some("k") {
+        return Err(Err::Failure(SyntaxError::expected_after(
+            &rest, skip, "`k`",
+        )));
+    }
+    let rest = rest.take_from(skip + 1);
     let (rest, _) = nom::combinator::cut(symbol("=", "`=`")).parse(rest)?;
     let (rest, value) = nom::combinator::cut(number_piece).parse(rest)?;
     let (rest, _) = nom::combinator::cut(symbol(")", "`)`")).parse(rest)?;
@@ -793,28 +828,47 @@ fn unit_word_len(text: &str) -> usize {
 
 /// A date `YYYY-MM-DD` that exists on the calendar.
 pub fn date(input: Input) -> PResult<DateAt> {
-    let (start, _) = ws(input)?;
-    let mut shape = recognize((digit1, char('-'), digit1, char('-'), digit1));
-    let (rest, text) = shape.parse(start).map_err(|_: Err<SyntaxError>| {
-        Err::Error(SyntaxError::expected(&start, "a date like `2027-03-06`"))
-    })?;
-    let len = text.fragment().len();
-    match parse_date(text.fragment()) {
-        Some(date) => Ok((
-            rest,
-            DateAt {
-                date,
-                span: span_between(&start, &rest),
-            },
-        )),
+    let (skip, text) = peek(&input);
+    let Some(len) = date_shape_len(text) else {
+        return Err(Err::Error(SyntaxError::expected_after(
+            &input,
+            skip,
+            "a date like `2027-03-06`",
+        )));
+    };
+    let written = &text[..len];
+    match parse_date(written) {
+        Some(date) => {
+            let (rest, span) = take_token(&input, skip, len);
+            Ok((rest, DateAt { date, span }))
+        }
         None => Err(Err::Failure(SyntaxError::specific(
-            &start,
+            &input.take_from(skip),
             len,
             ParseError::BadDate {
-                written: text.fragment().to_string(),
+                written: written.to_string(),
             },
         ))),
     }
+}
+
+/// The length of the shape of a date at the start of `text`: digits, `-`, digits, `-`, digits.
+fn date_shape_len(text: &str) -> Option<usize> {
+    let mut len = 0;
+    for part in 0..3 {
+        if part > 0 {
+            if text.as_bytes().get(len) != Some(&b'-') {
+                return None;
+            }
+            len += 1;
+        }
+        let n = digits(text, len);
+        if n == 0 {
+            return None;
+        }
+        len += n;
+    }
+    Some(len)
 }
 
 fn parse_date(text: &str) -> Option<Date> {
@@ -930,7 +984,7 @@ pub fn advance(input: Input, bytes: usize) -> Input {
     while !text.is_char_boundary(at) {
         at -= 1;
     }
-    nom::Input::take_from(&input, at)
+    input.take_from(at)
 }
 
 /// Runs `inner` one nesting level deeper, failing cleanly past [`MAX_DEPTH`].
@@ -1062,6 +1116,20 @@ mod tests {
         assert!(date(input("2028-02-29")).is_ok());
         assert!(matches!(date(input("2027-02-29")), Err(Err::Failure(_))));
         assert!(matches!(date(input("2027-13-01")), Err(Err::Failure(_))));
+    }
+
+    #[test]
+    fn a_date_is_three_groups_of_digits_then_checked_on_the_calendar() {
+        // the shape with the wrong number of digits is a bad date, not another token
+        assert!(matches!(date(input("2027-3-6")), Err(Err::Failure(_))));
+        // no third group: not a date at all, so another parser may try
+        assert!(matches!(date(input("2027-03")), Err(Err::Error(_))));
+        assert!(matches!(date(input("x2027-03-06")), Err(Err::Error(_))));
+        let (rest, at) = date(input("  2027-03-06 x")).unwrap_or_else(|_| panic!("date"));
+        assert_eq!(
+            (at.span.start, at.span.end, rest.location_offset()),
+            (2, 12, 12)
+        );
     }
 
     #[test]
