@@ -12,8 +12,8 @@ use super::ast::{
 use super::error::{ParseError, SyntaxError};
 use super::expr::{Allowance, condition, expr, test};
 use super::lexical::{
-    Input, PResult, date, dotted_name, identifier, keyword, nested, next_word, number_piece,
-    pattern, section, span_between, string, symbol, ws,
+    Input, PResult, date, dotted_name, first_word, identifier, keyword, nested, next_word,
+    number_piece, pattern, peek, section, span_between, string, symbol, ws,
 };
 
 /// Keywords that start a top-level item; parsing resumes at one of these after an error.
@@ -327,9 +327,14 @@ fn rule(input: Input) -> PResult<Rule> {
     let (rest, _) = cut(keyword!("require")).parse(rest)?;
     let (rest, require) = cut(|i| test(i, Allowance::Allowed)).parse(rest)?;
     refuse_joined_tests(rest)?;
+    // each clause below starts past white space: skipped once here, not by each in turn
+    let (rest, _) = ws(rest)?;
     let (rest, decision) = opt(decision_line).parse(rest)?;
+    let (rest, _) = ws(rest)?;
     let (rest, penalty) = opt((keyword!("penalty"), cut(string)).map(|(_, s)| s)).parse(rest)?;
+    let (rest, _) = ws(rest)?;
     let (rest, note) = opt((keyword!("note"), cut(string)).map(|(_, s)| s)).parse(rest)?;
+    let (rest, _) = ws(rest)?;
     let (rest, _) = keyword!("end")
         .parse(rest)
         .map_err(|e| cut_with(e, "`decision`, `penalty`, `note` or `end`"))?;
@@ -351,18 +356,13 @@ fn rule(input: Input) -> PResult<Rule> {
 
 /// A `require` holds one test; `and` or `or` after it gets a specific error.
 fn refuse_joined_tests(input: Input) -> PResult<()> {
-    let joined = keyword!("and")
-        .parse(input)
-        .or_else(|_| keyword!("or").parse(input));
-    match joined {
-        Ok((_, span)) => {
-            let (start, _) = ws(input)?;
-            Err(Err::Failure(SyntaxError::specific(
-                &start,
-                span.end - span.start,
-                ParseError::JoinedRequire,
-            )))
-        }
-        Err(_) => Ok((input, ())),
+    let (skip, text) = peek(&input);
+    match first_word(text) {
+        joiner @ ("and" | "or") => Err(Err::Failure(SyntaxError::specific(
+            &input.take_from(skip),
+            joiner.len(),
+            ParseError::JoinedRequire,
+        ))),
+        _ => Ok((input, ())),
     }
 }

@@ -305,6 +305,12 @@ pub fn next_word<'a>(input: &Input<'a>) -> &'a str {
     &text[..word_len(text)]
 }
 
+/// The word of name characters at the start of `text`, keyword or not; empty when a name
+/// character does not stand there.
+pub fn first_word(text: &str) -> &str {
+    &text[..word_len(text)]
+}
+
 /// Whether `text` starts with the word `kw` not followed by a name character.
 fn starts_with_word(text: &str, kw: &str) -> bool {
     let (text, kw) = (text.as_bytes(), kw.as_bytes());
