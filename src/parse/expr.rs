@@ -208,7 +208,7 @@ fn quantity(input: Input) -> PResult<Expr> {
         rest,
         Expr {
             span,
-            kind: ExprKind::Quantity(owned_quantity(&parts)),
+            kind: ExprKind::Quantity(Box::new(owned_quantity(&parts))),
         },
     ))
 }
@@ -471,7 +471,7 @@ fn not_condition(input: Input) -> PResult<Condition> {
         rest = after;
     }
     let (rest, mut cond) = alt((
-        |i| test(i, Allowance::Refused).map(|(r, t)| (r, Condition::Test(t))),
+        |i| test(i, Allowance::Refused).map(|(r, t)| (r, Condition::Test(Box::new(t)))),
         parenthesised_condition,
     ))
     .parse(rest)?;
