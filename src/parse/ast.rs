@@ -450,13 +450,10 @@ pub enum TestKind {
 /// A condition: tests joined by `and`, `or`, `not`.
 #[derive(Clone, Debug)]
 #[derive_where(PartialEq)]
-#[allow(
-    clippy::large_enum_variant,
-    reason = "a rulebook's tree is small and built once; boxing would only add indirection"
-)]
 pub enum Condition {
-    /// One test.
-    Test(Test),
+    /// One test (boxed: a rule holds its optional condition inline, and a rule without one
+    /// should not pay for a test's size).
+    Test(Box<Test>),
     /// Both hold.
     And(Box<Condition>, Box<Condition>),
     /// Either holds.
@@ -518,8 +515,9 @@ impl BinaryOp {
 /// The kinds of expression.
 #[derive(Clone, Debug, PartialEq)]
 pub enum ExprKind {
-    /// A number with an optional unit and uncertainty.
-    Quantity(Quantity),
+    /// A number with an optional unit and uncertainty (boxed: it is by far the largest kind,
+    /// and every expression would otherwise be its size).
+    Quantity(Box<Quantity>),
     /// A string.
     Text(Text),
     /// A measurement or derived value.

@@ -560,6 +560,16 @@ impl SyntaxError {
         }
     }
 
+    /// Something else was expected `skip` bytes into `input` (past its white space).
+    pub fn expected_after(input: &Input, skip: usize, what: &'static str) -> SyntaxError {
+        SyntaxError {
+            file: input.extra.file,
+            offset: input.location_offset() + skip,
+            len: 0,
+            kind: SyntaxKind::Expected(Expected::one(what)),
+        }
+    }
+
     /// A specific complaint about the `len` bytes at `input`.
     pub fn specific(input: &Input, len: usize, error: ParseError) -> SyntaxError {
         SyntaxError {

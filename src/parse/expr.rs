@@ -12,18 +12,15 @@ use super::ast::{
 use super::error::{ParseError, SyntaxError};
 use super::lexical::{
     Input, MAX_CHAIN, NumberPiece, PResult, Piece, QuantityParts, chain_too_long, dotted_name,
-    identifier, keyword, nested, pattern, quantity_parts, span_between, string, symbol, ws,
+    identifier, keyword, nested, next_word, pattern, peek, quantity_parts, span_between, string,
+    symbol, ws,
 };
 
 /// `expr = term { ("+" | "-") term }`
 pub fn expr(input: Input) -> PResult<Expr> {
     let (mut rest, mut left) = term(input)?;
     for _ in 0..MAX_CHAIN {
-        let op = alt((
-            symbol("+", "`+`").map(|_| BinaryOp::Add),
-            symbol("-", "`-`").map(|_| BinaryOp::Subtract),
-        ));
-        let Ok((after_op, op)) = opt_plus_minus(rest, op) else {
+        let Some((after_op, op)) = plus_minus(rest) else {
             return Ok((rest, left));
         };
         let (after, right) = term(after_op)?;
@@ -34,15 +31,26 @@ pub fn expr(input: Input) -> PResult<Expr> {
 }
 
 /// `+` or `-`, but not the `+/-` that starts an uncertainty.
-fn opt_plus_minus<'a>(
-    input: Input<'a>,
-    mut op: impl Parser<Input<'a>, Output = BinaryOp, Error = SyntaxError>,
-) -> PResult<'a, BinaryOp> {
-    let (start, _) = ws(input)?;
-    if start.fragment().starts_with("+/-") {
-        return Err(Err::Error(SyntaxError::expected(&start, "`+`")));
-    }
-    op.parse(start)
+fn plus_minus(input: Input) -> Option<(Input, BinaryOp)> {
+    let (skip, text) = peek(&input);
+    let op = match text.as_bytes().first()? {
+        _ if text.starts_with("+/-") => return None,
+        b'+' => BinaryOp::Add,
+        b'-' => BinaryOp::Subtract,
+        _ => return None,
+    };
+    Some((input.take_from(skip + 1), op))
+}
+
+/// `*` or `/`.
+fn times_divide(input: Input) -> Option<(Input, BinaryOp)> {
+    let (skip, text) = peek(&input);
+    let op = match text.as_bytes().first()? {
+        b'*' => BinaryOp::Multiply,
+        b'/' => BinaryOp::Divide,
+        _ => return None,
+    };
+    Some((input.take_from(skip + 1), op))
 }
 
 fn binary(op: BinaryOp, left: Expr, right: Expr) -> Expr {
@@ -61,11 +69,7 @@ fn binary(op: BinaryOp, left: Expr, right: Expr) -> Expr {
 fn term(input: Input) -> PResult<Expr> {
     let (mut rest, mut left) = unary(input)?;
     for _ in 0..MAX_CHAIN {
-        let mut op = alt((
-            symbol("*", "`*`").map(|_| BinaryOp::Multiply),
-            symbol("/", "`/`").map(|_| BinaryOp::Divide),
-        ));
-        let Ok((after_op, op)) = op.parse(rest) else {
+        let Some((after_op, op)) = times_divide(rest) else {
             return Ok((rest, left));
         };
         let (after, right) = unary(after_op)?;
@@ -204,7 +208,7 @@ fn quantity(input: Input) -> PResult<Expr> {
         rest,
         Expr {
             span,
-            kind: ExprKind::Quantity(owned_quantity(&parts)),
+            kind: ExprKind::Quantity(Box::new(owned_quantity(&parts))),
         },
     ))
 }
@@ -230,8 +234,27 @@ pub fn owned_quantity(parts: &QuantityParts) -> Quantity {
     }
 }
 
+/// The comparison operator at the start of `input` (after white space is skipped) and its
+/// length, if one stands there; tried in the order of [`compare_op`].
+fn compare_op_here(input: &Input) -> Option<(CompareOp, usize)> {
+    let bytes = input.fragment().as_bytes();
+    match (bytes.first()?, bytes.get(1)) {
+        (b'<', Some(b'=')) => Some((CompareOp::AtMost, 2)),
+        (b'>', Some(b'=')) => Some((CompareOp::AtLeast, 2)),
+        (b'=', Some(b'=')) => Some((CompareOp::Equal, 2)),
+        (b'!', Some(b'=')) => Some((CompareOp::NotEqual, 2)),
+        (b'<', _) => Some((CompareOp::Below, 1)),
+        (b'>', _) => Some((CompareOp::Above, 1)),
+        _ => None,
+    }
+}
+
 /// `compare_op = "<=" | "<" | ">=" | ">" | "==" | "!="`
 fn compare_op(input: Input) -> PResult<CompareOp> {
+    let (start, _) = ws(input)?;
+    if let Some((op, len)) = compare_op_here(&start) {
+        return Ok((start.take_from(len), op));
+    }
     alt((
         symbol("<=", "`<=`").map(|_| CompareOp::AtMost),
         symbol(">=", "`>=`").map(|_| CompareOp::AtLeast),
@@ -259,12 +282,7 @@ pub enum Allowance {
 pub fn test(input: Input, allowance: Allowance) -> PResult<Test> {
     let (start, _) = ws(input)?;
     let (rest, subject) = expr(start)?;
-    let (rest, kind) = alt((
-        |i| comparison(i, subject.clone()),
-        |i| between(i, subject.clone()),
-        |i| membership(i, subject.clone()),
-    ))
-    .parse(rest)?;
+    let (rest, kind) = test_kind(rest, subject)?;
     let (rest, kind) = with_allowance(rest, kind, allowance)?;
     Ok((
         rest,
@@ -273,6 +291,42 @@ pub fn test(input: Input, allowance: Allowance) -> PResult<Test> {
             span: span_between(&start, &rest),
         },
     ))
+}
+
+/// What follows a test's subject: the first of a comparison, `between` and a membership or
+/// pattern test that parses. The next token says which one that is; a test that none of them
+/// starts goes through all three in turn, which gives the error naming what was expected.
+fn test_kind(input: Input, subject: Expr) -> PResult<TestKind> {
+    let (start, _) = ws(input)?;
+    if compare_op_here(&start).is_some() {
+        return comparison(start, subject);
+    }
+    match next_word(&start) {
+        "between" => between(start, subject),
+        // neither a comparison nor `between` starts with these words, and after them the
+        // membership test either parses or fails for good
+        "in" | "matches" => membership(start, subject),
+        "not" if membership_after_not(start) => membership(start, subject),
+        _ => all_test_kinds(start, subject),
+    }
+}
+
+/// Whether `input`, which starts with `not`, goes on with `in` or `matches`.
+fn membership_after_not(input: Input) -> bool {
+    let Ok((after, _)) = keyword!("not").parse(input) else {
+        return false;
+    };
+    ws(after).is_ok_and(|(next, _)| matches!(next_word(&next), "in" | "matches"))
+}
+
+/// Each kind of test tried in turn, as the grammar orders them.
+fn all_test_kinds(input: Input, subject: Expr) -> PResult<TestKind> {
+    alt((
+        |i| comparison(i, subject.clone()),
+        |i| between(i, subject.clone()),
+        |i| membership(i, subject.clone()),
+    ))
+    .parse(input)
 }
 
 fn comparison(input: Input, left: Expr) -> PResult<TestKind> {
@@ -290,9 +344,9 @@ fn comparison(input: Input, left: Expr) -> PResult<TestKind> {
 }
 
 fn between(input: Input, subject: Expr) -> PResult<TestKind> {
-    let (rest, _) = keyword("between").parse(input)?;
+    let (rest, _) = keyword!("between").parse(input)?;
     let (rest, low) = nom::combinator::cut(expr).parse(rest)?;
-    let (rest, _) = nom::combinator::cut(keyword("and")).parse(rest)?;
+    let (rest, _) = nom::combinator::cut(keyword!("and")).parse(rest)?;
     let (rest, high) = nom::combinator::cut(expr).parse(rest)?;
     Ok((
         rest,
@@ -306,9 +360,9 @@ fn between(input: Input, subject: Expr) -> PResult<TestKind> {
 }
 
 fn membership(input: Input, subject: Expr) -> PResult<TestKind> {
-    let (rest, negated) = opt(keyword("not")).parse(input)?;
+    let (rest, negated) = opt(keyword!("not")).parse(input)?;
     let negated = negated.is_some();
-    if let Ok((rest, _)) = keyword("in").parse(rest) {
+    if let Ok((rest, _)) = keyword!("in").parse(rest) {
         let (rest, list) = nom::combinator::cut(identifier).parse(rest)?;
         return Ok((
             rest,
@@ -319,7 +373,7 @@ fn membership(input: Input, subject: Expr) -> PResult<TestKind> {
             },
         ));
     }
-    let (rest, _) = keyword("matches").parse(rest).map_err(|e| match e {
+    let (rest, _) = keyword!("matches").parse(rest).map_err(|e| match e {
         Err::Error(mut err) => {
             if let super::error::SyntaxKind::Expected(what) = &mut err.kind {
                 what.push(if negated {
@@ -345,7 +399,7 @@ fn membership(input: Input, subject: Expr) -> PResult<TestKind> {
 
 /// `allowance = "allowing" expr`
 fn with_allowance(input: Input, mut kind: TestKind, allowance: Allowance) -> PResult<TestKind> {
-    let Ok((rest, at)) = keyword("allowing").parse(input) else {
+    let Ok((rest, at)) = keyword!("allowing").parse(input) else {
         return Ok((input, kind));
     };
     if allowance == Allowance::Refused {
@@ -377,7 +431,7 @@ fn with_allowance(input: Input, mut kind: TestKind, allowance: Allowance) -> PRe
 pub fn condition(input: Input) -> PResult<Condition> {
     let (mut rest, mut left) = and_condition(input)?;
     let mut count = 0;
-    while let Ok((after, _)) = keyword("or").parse(rest) {
+    while let Ok((after, _)) = keyword!("or").parse(rest) {
         count += 1;
         if count >= MAX_CHAIN {
             return Err(chain_too_long(&rest));
@@ -393,7 +447,7 @@ pub fn condition(input: Input) -> PResult<Condition> {
 fn and_condition(input: Input) -> PResult<Condition> {
     let (mut rest, mut left) = not_condition(input)?;
     let mut count = 0;
-    while let Ok((after, _)) = keyword("and").parse(rest) {
+    while let Ok((after, _)) = keyword!("and").parse(rest) {
         count += 1;
         if count >= MAX_CHAIN {
             return Err(chain_too_long(&rest));
@@ -409,7 +463,7 @@ fn and_condition(input: Input) -> PResult<Condition> {
 fn not_condition(input: Input) -> PResult<Condition> {
     let mut nots = Vec::new();
     let mut rest = input;
-    while let Ok((after, span)) = keyword("not").parse(rest) {
+    while let Ok((after, span)) = keyword!("not").parse(rest) {
         if nots.len() >= MAX_CHAIN {
             return Err(chain_too_long(&rest));
         }
@@ -417,7 +471,7 @@ fn not_condition(input: Input) -> PResult<Condition> {
         rest = after;
     }
     let (rest, mut cond) = alt((
-        |i| test(i, Allowance::Refused).map(|(r, t)| (r, Condition::Test(t))),
+        |i| test(i, Allowance::Refused).map(|(r, t)| (r, Condition::Test(Box::new(t)))),
         parenthesised_condition,
     ))
     .parse(rest)?;

@@ -5,11 +5,7 @@
 
 use std::cell::RefCell;
 
-use nom::bytes::complete::{tag, take_while, take_while1};
-use nom::character::complete::{char, digit1};
-use nom::combinator::recognize;
 use nom::{Err, IResult, Parser};
-use nom_locate::LocatedSpan;
 
 use super::ast::{Date, DateAt, Name, Pattern, Section, Text};
 use super::error::{ParseError, SyntaxError};
@@ -35,8 +31,53 @@ pub struct Context {
     pub depth: u32,
 }
 
-/// Parser input: the remaining text with its offset in the file.
-pub type Input<'a> = LocatedSpan<&'a str, Context>;
+/// Parser input: the remaining text with its offset in the file and the [`Context`]. (Only
+/// the byte offset is kept: spans and diagnostics find lines from it when they need them.)
+#[derive(Clone, Copy, Debug)]
+pub struct Input<'a> {
+    fragment: &'a str,
+    offset: usize,
+    /// The file and the nesting depth.
+    pub extra: Context,
+}
+
+impl<'a> Input<'a> {
+    /// The whole of `text`, at offset 0.
+    pub fn new_extra(text: &'a str, extra: Context) -> Input<'a> {
+        Input {
+            fragment: text,
+            offset: 0,
+            extra,
+        }
+    }
+
+    /// The text not yet parsed.
+    pub fn fragment(&self) -> &&'a str {
+        &self.fragment
+    }
+
+    /// The offset in bytes of [`Input::fragment`] in the file.
+    pub fn location_offset(&self) -> usize {
+        self.offset
+    }
+
+    /// The same position with its context changed by `change`.
+    pub fn map_extra(self, change: impl FnOnce(Context) -> Context) -> Input<'a> {
+        Input {
+            extra: change(self.extra),
+            ..self
+        }
+    }
+
+    /// The input `bytes` bytes further on (a character boundary, within the text).
+    pub fn take_from(&self, bytes: usize) -> Input<'a> {
+        Input {
+            fragment: &self.fragment[bytes..],
+            offset: self.offset + bytes,
+            extra: self.extra,
+        }
+    }
+}
 
 /// Parser result.
 pub type PResult<'a, T> = IResult<Input<'a>, T, SyntaxError>;
@@ -84,16 +125,34 @@ pub const KEYWORDS: &[&str] = &[
     "matches",
 ];
 
-/// Whether a word is reserved.
+/// Whether a word is reserved (one of [`KEYWORDS`]). Looked up among the keywords of its
+/// length, so that a name costs a few byte comparisons.
 pub fn is_keyword(word: &str) -> bool {
-    static SORTED: std::sync::OnceLock<Vec<&'static str>> = std::sync::OnceLock::new();
-    let sorted = SORTED.get_or_init(|| {
-        let mut all = KEYWORDS.to_vec();
-        all.sort_unstable();
-        all
-    });
-    sorted.binary_search(&word).is_ok()
+    KEYWORDS_BY_LENGTH
+        .get(word.len())
+        .is_some_and(|same_length| same_length.contains(&word))
 }
+
+/// [`KEYWORDS`] grouped by length in bytes: entry `n` holds those of `n` bytes.
+const KEYWORDS_BY_LENGTH: [&[&str]; 11] = [
+    &[],
+    &[],
+    &["to", "or", "in"],
+    &["per", "end", "and", "not"],
+    &["list", "when", "rule", "drop", "note"],
+    &["range", "class"],
+    &["series", "simple", "define", "banned", "amends"],
+    &[
+        "edition", "guarded", "include", "measure", "extends", "require", "penalty", "between",
+        "matches",
+    ],
+    &[
+        "decision", "cylinder", "required", "optional", "approved", "bulletin", "override",
+        "allowing",
+    ],
+    &["effective", "rejection"],
+    &["acceptance"],
+];
 
 /// The span from `start` to `end` (two positions in the same file).
 pub fn span_between(start: &Input, end: &Input) -> Span {
@@ -133,23 +192,89 @@ fn note_comment(span: Span) {
 
 /// Skips white space and `#` comments.
 pub fn ws(input: Input) -> PResult<()> {
-    let text = *input.fragment();
-    let mut at = 0;
-    loop {
-        let rest = &text[at..];
-        let blank = rest.len() - rest.trim_start().len();
-        at += blank;
-        if text[at..].starts_with('#') {
-            let length = text[at..].find('\n').unwrap_or(text.len() - at);
-            let start = input.location_offset() + at;
-            note_comment(Span::new(input.extra.file, start, start + length));
-            at += length;
-        } else if blank == 0 {
-            break;
-        }
-    }
+    let at = blank_prefix(&input);
     // most tokens follow no white space: then the input is returned as it is, unsplit
     Ok((if at == 0 { input } else { advance(input, at) }, ()))
+}
+
+/// The text after the white space and comments at the start of `input`, and how many bytes
+/// those take, without moving the input: a parser that fails at the first character it
+/// looks at then costs no new position. (The comments are noted as [`ws`] notes them.)
+pub fn peek<'a>(input: &Input<'a>) -> (usize, &'a str) {
+    let text: &'a str = input.fragment();
+    let at = blank_prefix(input);
+    (at, &text[at..])
+}
+
+/// The input moved on past `skip` bytes of white space and `len` bytes of a token found by
+/// [`peek`], with the span of the token.
+fn take_token<'a>(input: &Input<'a>, skip: usize, len: usize) -> (Input<'a>, Span) {
+    let rest = input.take_from(skip + len);
+    let start = input.location_offset() + skip;
+    let span = Span::new(input.extra.file, start, rest.location_offset());
+    (rest, span)
+}
+
+/// The input moved on past the white space [`peek`] measured.
+fn skip_blank<'a>(input: Input<'a>, skip: usize) -> Input<'a> {
+    if skip == 0 {
+        input
+    } else {
+        input.take_from(skip)
+    }
+}
+
+/// The length of the white space and comments at the start of `input`, each comment noted:
+/// ASCII blanks byte by byte, a comment up to its line break, and white space outside ASCII
+/// as [`str::trim_start`] counts it.
+#[inline]
+fn blank_prefix(input: &Input) -> usize {
+    // most tokens follow no white space: that is seen from the first byte, in line
+    match input.fragment().as_bytes().first() {
+        Some(b) if may_start_blank(*b) => blank_run(input),
+        _ => 0,
+    }
+}
+
+/// [`blank_prefix`] past its first byte's test.
+#[inline(never)]
+fn blank_run(input: &Input) -> usize {
+    let text = *input.fragment();
+    let bytes = text.as_bytes();
+    let mut at = 0;
+    loop {
+        while bytes.get(at).is_some_and(|b| is_ascii_blank(*b)) {
+            at += 1;
+        }
+        match bytes.get(at) {
+            Some(b'#') => {
+                let length = text[at..].find('\n').unwrap_or(text.len() - at);
+                let start = input.location_offset() + at;
+                note_comment(Span::new(input.extra.file, start, start + length));
+                at += length;
+            }
+            Some(b) if *b >= 0x80 => {
+                let tail = &text[at..];
+                let blank = tail.len() - tail.trim_start().len();
+                if blank == 0 {
+                    return at;
+                }
+                at += blank;
+            }
+            _ => return at,
+        }
+    }
+}
+
+/// Whether `b` is white space in ASCII (what [`char::is_whitespace`] says of it).
+fn is_ascii_blank(b: u8) -> bool {
+    matches!(b, b' ' | b'\t' | b'\n' | b'\r' | 0x0b | 0x0c)
+}
+
+/// Whether a text starting with byte `b` may start with white space or a comment: an ASCII
+/// blank, `#`, or the first byte of a character outside ASCII (some are white space).
+fn may_start_blank(b: u8) -> bool {
+    is_ascii_blank(b) || b == b'#' || b >= 0x80
 }
 
 fn is_name_start(c: char) -> bool {
@@ -160,29 +285,95 @@ fn is_name_char(c: char) -> bool {
     c.is_ascii_alphanumeric() || c == '_'
 }
 
-/// A bare word of name characters, keyword or not, after white space.
-fn word(input: Input) -> PResult<Input> {
-    let (input, _) = ws(input)?;
-    recognize((take_while1(is_name_start), take_while(is_name_char))).parse(input)
+/// The length in bytes of the bare word of name characters at the start of `text` (a name
+/// character that is not a digit, then any name characters), 0 if there is none.
+fn word_len(text: &str) -> usize {
+    let bytes = text.as_bytes();
+    if !bytes.first().is_some_and(|b| is_name_start(char::from(*b))) {
+        return 0;
+    }
+    1 + bytes[1..]
+        .iter()
+        .take_while(|b| is_name_char(char::from(**b)))
+        .count()
 }
 
-/// The keyword `kw`, not followed by a name character.
-pub fn keyword<'a>(kw: &'static str) -> impl Parser<Input<'a>, Output = Span, Error = SyntaxError> {
+/// The word at the start of `input`, keyword or not, without skipping white space; empty
+/// when a name character does not stand there.
+pub fn next_word<'a>(input: &Input<'a>) -> &'a str {
+    let text: &'a str = input.fragment();
+    &text[..word_len(text)]
+}
+
+/// The word of name characters at the start of `text`, keyword or not; empty when a name
+/// character does not stand there.
+pub fn first_word(text: &str) -> &str {
+    &text[..word_len(text)]
+}
+
+/// Whether `text` starts with the word `kw` not followed by a name character.
+fn starts_with_word(text: &str, kw: &str) -> bool {
+    let (text, kw) = (text.as_bytes(), kw.as_bytes());
+    text.len() >= kw.len()
+        && text.iter().zip(kw).all(|(a, b)| a == b)
+        && !text
+            .get(kw.len())
+            .is_some_and(|b| is_name_char(char::from(*b)))
+}
+
+/// The keyword `kw`, not followed by a name character; `label` names it in "expected ..."
+/// messages. Written through the [`keyword!`] macro, which finds the label at compile time.
+pub fn keyword_labelled<'a>(
+    kw: &'static str,
+    label: &'static str,
+) -> impl Parser<Input<'a>, Output = Span, Error = SyntaxError> {
     move |input: Input<'a>| {
-        let (start, _) = ws(input)?;
-        match word(start) {
-            Ok((rest, w)) if *w.fragment() == kw => Ok((rest, span_between(&start, &rest))),
-            _ => Err(Err::Error(SyntaxError::expected(&start, keyword_label(kw)))),
+        let (skip, text) = peek(&input);
+        if starts_with_word(text, kw) {
+            Ok(take_token(&input, skip, kw.len()))
+        } else {
+            Err(Err::Error(SyntaxError::expected_after(&input, skip, label)))
         }
     }
 }
 
+/// `keyword!("end")`: the parser for the keyword `end`, with its label looked up once, at
+/// compile time, rather than each time the keyword is not there.
+macro_rules! keyword {
+    ($kw:literal) => {
+        $crate::parse::lexical::keyword_labelled(
+            $kw,
+            const { $crate::parse::lexical::keyword_label($kw) },
+        )
+    };
+}
+pub(crate) use keyword;
+
 /// The label naming a keyword in "expected ..." messages.
-fn keyword_label(kw: &'static str) -> &'static str {
-    KEYWORD_LABELS
-        .iter()
-        .find(|(k, _)| *k == kw)
-        .map_or("a keyword", |(_, label)| label)
+pub const fn keyword_label(kw: &str) -> &'static str {
+    let mut i = 0;
+    while i < KEYWORD_LABELS.len() {
+        if same_bytes(KEYWORD_LABELS[i].0.as_bytes(), kw.as_bytes()) {
+            return KEYWORD_LABELS[i].1;
+        }
+        i += 1;
+    }
+    "a keyword"
+}
+
+/// Whether two byte strings are equal (usable at compile time).
+const fn same_bytes(a: &[u8], b: &[u8]) -> bool {
+    if a.len() != b.len() {
+        return false;
+    }
+    let mut i = 0;
+    while i < a.len() {
+        if a[i] != b[i] {
+            return false;
+        }
+        i += 1;
+    }
+    true
 }
 
 const KEYWORD_LABELS: &[(&str, &str)] = &[
@@ -235,72 +426,81 @@ pub fn symbol<'a>(
     label: &'static str,
 ) -> impl Parser<Input<'a>, Output = Span, Error = SyntaxError> {
     move |input: Input<'a>| {
-        let (start, _) = ws(input)?;
-        match tag::<_, _, SyntaxError>(sym).parse(start) {
-            Ok((rest, _)) => Ok((rest, span_between(&start, &rest))),
-            Err(_) => Err(Err::Error(SyntaxError::expected(&start, label))),
+        let (skip, text) = peek(&input);
+        if text.starts_with(sym) {
+            Ok(take_token(&input, skip, sym.len()))
+        } else {
+            Err(Err::Error(SyntaxError::expected_after(&input, skip, label)))
         }
     }
 }
 
 /// A single identifier that is not a keyword.
 pub fn identifier(input: Input) -> PResult<Name> {
-    let (start, _) = ws(input)?;
-    match word(start) {
-        Ok((rest, w)) if !is_keyword(w.fragment()) => Ok((
-            rest,
-            Name {
-                text: w.fragment().to_string(),
-                span: span_between(&start, &rest),
-            },
-        )),
-        _ => Err(Err::Error(SyntaxError::expected(&start, "a name"))),
+    let (skip, text) = peek(&input);
+    let len = word_len(text);
+    let text = &text[..len];
+    if len == 0 || is_keyword(text) {
+        return Err(Err::Error(SyntaxError::expected_after(
+            &input, skip, "a name",
+        )));
     }
+    let (rest, span) = take_token(&input, skip, len);
+    let text = text.to_string();
+    Ok((rest, Name { text, span }))
 }
 
 /// A dotted name such as `carburetor.airflow`: identifiers joined by `.` with no spaces.
+/// The whole name is measured first and copied once.
 pub fn dotted_name(input: Input) -> PResult<Name> {
-    let (mut rest, mut name) = identifier(input)?;
-    while rest.fragment().starts_with('.') {
-        let (after_dot, _) = char::<_, SyntaxError>('.').parse(rest)?;
-        match identifier_here(after_dot) {
-            Ok((after, part)) => {
-                name.text.push('.');
-                name.text.push_str(&part);
-                name.span.end = after.location_offset();
-                rest = after;
-            }
-            Err(_) => {
-                return Err(Err::Failure(SyntaxError::expected(
-                    &after_dot,
-                    "a name after `.`",
-                )));
-            }
+    let (skip, text) = peek(&input);
+    let first = word_len(text);
+    if first == 0 || is_keyword(&text[..first]) {
+        return Err(Err::Error(SyntaxError::expected_after(
+            &input, skip, "a name",
+        )));
+    }
+    let start = skip_blank(input, skip);
+    let mut len = first;
+    while text.as_bytes().get(len) == Some(&b'.') {
+        let part = word_len(&text[len + 1..]);
+        if part == 0 || is_keyword(&text[len + 1..len + 1 + part]) {
+            let after_dot = start.take_from(len + 1);
+            return Err(Err::Failure(SyntaxError::expected(
+                &after_dot,
+                "a name after `.`",
+            )));
         }
+        len += 1 + part;
     }
-    Ok((rest, name))
-}
-
-/// An identifier with no white space before it.
-fn identifier_here(input: Input) -> PResult<String> {
-    let (rest, w) =
-        recognize((take_while1(is_name_start), take_while(is_name_char))).parse(input)?;
-    if is_keyword(w.fragment()) {
-        return Err(Err::Error(SyntaxError::expected(&input, "a name")));
-    }
-    Ok((rest, w.fragment().to_string()))
+    let rest = start.take_from(len);
+    Ok((
+        rest,
+        Name {
+            text: text[..len].to_string(),
+            span: span_between(&start, &rest),
+        },
+    ))
 }
 
 /// A string literal in double quotes. Escapes: `\"`, `\\`, `\n`, `\t`, `\u{XXXX}`.
 pub fn string(input: Input) -> PResult<Text> {
-    let (start, _) = ws(input)?;
-    if !start.fragment().starts_with('"') {
-        return Err(Err::Error(SyntaxError::expected(
-            &start,
+    let (skip, text) = peek(&input);
+    if !text.starts_with('"') {
+        return Err(Err::Error(SyntaxError::expected_after(
+            &input,
+            skip,
             "a string in double quotes",
         )));
     }
+    let start = skip_blank(input, skip);
     let body = &start.fragment()[1..];
+    if let Some(len) = plain_string_len(body) {
+        let rest = advance(start, len + 2);
+        let value = body[..len].to_string();
+        let span = span_between(&start, &rest);
+        return Ok((rest, Text { value, span }));
+    }
     let mut value = String::new();
     let mut chars = body.char_indices();
     while let Some((at, c)) = chars.next() {
@@ -342,6 +542,20 @@ pub fn string(input: Input) -> PResult<Text> {
         1,
         ParseError::UnterminatedString,
     )))
+}
+
+/// The length of a string's body up to its closing quote when it holds no escape and nothing
+/// refused, so that it is its own value; `None` sends it through the full reading.
+fn plain_string_len(body: &str) -> Option<usize> {
+    for (at, c) in body.char_indices() {
+        match c {
+            '"' => return Some(at),
+            '\\' | '\n' => return None,
+            other if is_refused_control(other) => return None,
+            _ => {}
+        }
+    }
+    None
 }
 
 /// Whether a string may not hold `c`: every control character but the tab. (A line break
@@ -438,15 +652,15 @@ pub fn quantity_parts(input: Input) -> PResult<QuantityParts> {
 }
 
 fn uncertainty_parts(input: Input) -> PResult<UncertaintyParts> {
-    let (start, _) = ws(input)?;
-    let sign_len = if start.fragment().starts_with('±') {
+    let (skip, text) = peek(&input);
+    let sign_len = if text.starts_with('±') {
         '±'.len_utf8()
-    } else if start.fragment().starts_with("+/-") {
+    } else if text.starts_with("+/-") {
         3
     } else {
-        return Err(Err::Error(SyntaxError::expected(&start, "`±`")));
+        return Err(Err::Error(SyntaxError::expected_after(&input, skip, "`±`")));
     };
-    let rest = advance(start, sign_len);
+    let rest = advance(input, skip + sign_len);
     let (rest, value) = nom::combinator::cut(number_piece).parse(rest)?;
     let (rest, unit) = nom::combinator::opt(unit_piece).parse(rest)?;
     let (rest, coverage) = nom::combinator::opt(coverage_factor).parse(rest)?;
@@ -463,11 +677,13 @@ fn uncertainty_parts(input: Input) -> PResult<UncertaintyParts> {
 /// `"(" "k" "=" number ")"`
 fn coverage_factor(input: Input) -> PResult<NumberPiece> {
     let (rest, _) = symbol("(", "`(`").parse(input)?;
-    let k = word(rest).ok().filter(|(_, w)| *w.fragment() == "k");
-    let Some((rest, _)) = k else {
-        let (at, _) = ws(rest)?;
-        return Err(Err::Failure(SyntaxError::expected(&at, "`k`")));
-    };
+    let (skip, text) = peek(&rest);
+    if text.get(..word_len(text)) != Some("k") {
+        return Err(Err::Failure(SyntaxError::expected_after(
+            &rest, skip, "`k`",
+        )));
+    }
+    let rest = rest.take_from(skip + 1);
     let (rest, _) = nom::combinator::cut(symbol("=", "`=`")).parse(rest)?;
     let (rest, value) = nom::combinator::cut(number_piece).parse(rest)?;
     let (rest, _) = nom::combinator::cut(symbol(")", "`)`")).parse(rest)?;
@@ -477,12 +693,14 @@ fn coverage_factor(input: Input) -> PResult<NumberPiece> {
 /// A number: `42`, `4.030`, `1.5e-3`, a fraction `5/8`, or a mixed fraction `1-5/8`
 /// (written with no spaces, as header tubes and valves are sized in the trade).
 pub fn number_piece(input: Input) -> PResult<NumberPiece> {
-    let (start, _) = ws(input)?;
-    let text = *start.fragment();
+    let (skip, text) = peek(&input);
     let whole = digits(text, 0);
     if whole == 0 {
-        return Err(Err::Error(SyntaxError::expected(&start, "a number")));
+        return Err(Err::Error(SyntaxError::expected_after(
+            &input, skip, "a number",
+        )));
     }
+    let start = skip_blank(input, skip);
     let (len, value) = match fraction(text, whole) {
         Some(found) => found,
         None => {
@@ -561,21 +779,16 @@ fn decimal_len(text: &str, whole: usize) -> usize {
 /// `^N` and one `/word` (`in`, `cm³`, `in^2`, `L/s`), or `°` or `%`. A keyword other than
 /// `in` is not a unit.
 pub fn unit_piece(input: Input) -> PResult<Piece> {
-    let (start, _) = ws(input)?;
-    let frag = *start.fragment();
+    let (skip, frag) = peek(&input);
     let len = unit_len(frag);
     let text = &frag[..len];
     if len == 0 || (text != "in" && is_keyword(text)) {
-        return Err(Err::Error(SyntaxError::expected(&start, "a unit")));
+        return Err(Err::Error(SyntaxError::expected_after(
+            &input, skip, "a unit",
+        )));
     }
-    let rest = advance(start, len);
-    Ok((
-        rest,
-        Piece {
-            text,
-            span: span_between(&start, &rest),
-        },
-    ))
+    let (rest, span) = take_token(&input, skip, len);
+    Ok((rest, Piece { text, span }))
 }
 
 /// Length in bytes of the unit symbol at the start of `text`, 0 if there is none.
@@ -621,28 +834,47 @@ fn unit_word_len(text: &str) -> usize {
 
 /// A date `YYYY-MM-DD` that exists on the calendar.
 pub fn date(input: Input) -> PResult<DateAt> {
-    let (start, _) = ws(input)?;
-    let mut shape = recognize((digit1, char('-'), digit1, char('-'), digit1));
-    let (rest, text) = shape.parse(start).map_err(|_: Err<SyntaxError>| {
-        Err::Error(SyntaxError::expected(&start, "a date like `2027-03-06`"))
-    })?;
-    let len = text.fragment().len();
-    match parse_date(text.fragment()) {
-        Some(date) => Ok((
-            rest,
-            DateAt {
-                date,
-                span: span_between(&start, &rest),
-            },
-        )),
+    let (skip, text) = peek(&input);
+    let Some(len) = date_shape_len(text) else {
+        return Err(Err::Error(SyntaxError::expected_after(
+            &input,
+            skip,
+            "a date like `2027-03-06`",
+        )));
+    };
+    let written = &text[..len];
+    match parse_date(written) {
+        Some(date) => {
+            let (rest, span) = take_token(&input, skip, len);
+            Ok((rest, DateAt { date, span }))
+        }
         None => Err(Err::Failure(SyntaxError::specific(
-            &start,
+            &input.take_from(skip),
             len,
             ParseError::BadDate {
-                written: text.fragment().to_string(),
+                written: written.to_string(),
             },
         ))),
     }
+}
+
+/// The length of the shape of a date at the start of `text`: digits, `-`, digits, `-`, digits.
+fn date_shape_len(text: &str) -> Option<usize> {
+    let mut len = 0;
+    for part in 0..3 {
+        if part > 0 {
+            if text.as_bytes().get(len) != Some(&b'-') {
+                return None;
+            }
+            len += 1;
+        }
+        let n = digits(text, len);
+        if n == 0 {
+            return None;
+        }
+        len += n;
+    }
+    Some(len)
 }
 
 fn parse_date(text: &str) -> Option<Date> {
@@ -665,33 +897,45 @@ fn parse_date(text: &str) -> Option<Date> {
 
 /// A section number: digits, then `.`-separated parts of digits and letters (`3.1`, `12a`).
 pub fn section(input: Input) -> PResult<Section> {
-    let (start, _) = ws(input)?;
-    let mut shape = recognize((
-        digit1,
-        take_while(|c: char| c.is_ascii_alphanumeric()),
-        nom::multi::many0((char('.'), take_while1(|c: char| c.is_ascii_alphanumeric()))),
-    ));
-    let (rest, text) = shape.parse(start).map_err(|_: Err<SyntaxError>| {
-        Err::Error(SyntaxError::expected(&start, "a section number like `3.1`"))
-    })?;
-    Ok((
-        rest,
-        Section {
-            text: text.fragment().to_string(),
-            span: span_between(&start, &rest),
-        },
-    ))
+    let (skip, text) = peek(&input);
+    let alphanumerics = |at: usize| {
+        text.as_bytes()[at.min(text.len())..]
+            .iter()
+            .take_while(|b| b.is_ascii_alphanumeric())
+            .count()
+    };
+    let whole = digits(text, 0);
+    if whole == 0 {
+        return Err(Err::Error(SyntaxError::expected_after(
+            &input,
+            skip,
+            "a section number like `3.1`",
+        )));
+    }
+    let mut len = whole + alphanumerics(whole);
+    while text.as_bytes().get(len) == Some(&b'.') {
+        let part = alphanumerics(len + 1);
+        if part == 0 {
+            break;
+        }
+        len += 1 + part;
+    }
+    let (rest, span) = take_token(&input, skip, len);
+    let text = text[..len].to_string();
+    Ok((rest, Section { text, span }))
 }
 
 /// A regular-expression literal `/.../` with an optional `i` flag; `\/` stands for `/`.
 pub fn pattern(input: Input) -> PResult<Pattern> {
-    let (start, _) = ws(input)?;
-    if !start.fragment().starts_with('/') {
-        return Err(Err::Error(SyntaxError::expected(
-            &start,
+    let (skip, text) = peek(&input);
+    if !text.starts_with('/') {
+        return Err(Err::Error(SyntaxError::expected_after(
+            &input,
+            skip,
             "a pattern like `/^AB-12[0-9]{2}$/`",
         )));
     }
+    let start = skip_blank(input, skip);
     let body = &start.fragment()[1..];
     let mut source = String::new();
     let mut chars = body.char_indices();
@@ -746,7 +990,7 @@ pub fn advance(input: Input, bytes: usize) -> Input {
     while !text.is_char_boundary(at) {
         at -= 1;
     }
-    nom::Input::take_from(&input, at)
+    input.take_from(at)
 }
 
 /// Runs `inner` one nesting level deeper, failing cleanly past [`MAX_DEPTH`].
@@ -881,10 +1125,109 @@ mod tests {
     }
 
     #[test]
+    fn a_date_is_three_groups_of_digits_then_checked_on_the_calendar() {
+        // the shape with the wrong number of digits is a bad date, not another token
+        assert!(matches!(date(input("2027-3-6")), Err(Err::Failure(_))));
+        // no third group: not a date at all, so another parser may try
+        assert!(matches!(date(input("2027-03")), Err(Err::Error(_))));
+        assert!(matches!(date(input("x2027-03-06")), Err(Err::Error(_))));
+        let (rest, at) = date(input("  2027-03-06 x")).unwrap_or_else(|_| panic!("date"));
+        assert_eq!(
+            (at.span.start, at.span.end, rest.location_offset()),
+            (2, 12, 12)
+        );
+    }
+
+    #[test]
     fn patterns_unescape_slashes_and_read_the_flag() {
         let (_, p) = pattern(input(r"/^A\/B$/i")).unwrap_or_else(|_| panic!("parse"));
         assert_eq!(p.source, "^A/B$");
         assert!(p.ignore_case);
+    }
+
+    #[test]
+    fn the_keywords_by_length_are_the_keywords() {
+        let mut grouped: Vec<&str> = KEYWORDS_BY_LENGTH
+            .iter()
+            .flat_map(|g| g.iter().copied())
+            .collect();
+        let mut listed = KEYWORDS.to_vec();
+        grouped.sort_unstable();
+        listed.sort_unstable();
+        assert_eq!(grouped, listed);
+        for (len, group) in KEYWORDS_BY_LENGTH.iter().enumerate() {
+            assert!(group.iter().all(|kw| kw.len() == len), "{group:?}");
+        }
+        assert!(KEYWORDS.iter().all(|kw| is_keyword(kw)));
+        for not_reserved in [
+            "coverage", "ignoring", "case", "k", "ends", "rules", "", "i",
+        ] {
+            assert!(!is_keyword(not_reserved), "{not_reserved}");
+        }
+    }
+
+    #[test]
+    fn white_space_is_what_trim_start_skips() {
+        // every ASCII blank, and white space outside ASCII (U+00A0, U+2003), with comments
+        for text in [
+            " \t\n\r\u{b}\u{c}x",
+            "\u{a0}x",
+            " \u{2003} # note\n\u{85}x",
+            "x",
+            "",
+        ] {
+            let (rest, _) = ws(input(text)).unwrap_or_else(|_| panic!("ws"));
+            let expected =
+                text.trim_start()
+                    .split_once('#')
+                    .map_or(text.trim_start(), |(_, after)| {
+                        after
+                            .split_once('\n')
+                            .map_or("", |(_, next)| next.trim_start())
+                    });
+            assert_eq!(*rest.fragment(), expected, "{text:?}");
+        }
+        // U+001C to U+001F are separators but not white space
+        assert_eq!(
+            *ws(input("\u{1c}x"))
+                .map(|(r, _)| r)
+                .unwrap_or_else(|_| panic!("ws"))
+                .fragment(),
+            "\u{1c}x"
+        );
+    }
+
+    #[test]
+    fn a_keyword_is_a_whole_word() {
+        assert!(keyword!("end").parse(input(" end")).is_ok());
+        assert!(keyword!("end").parse(input("end.")).is_ok());
+        assert!(keyword!("end").parse(input("ends")).is_err());
+        assert!(keyword!("end").parse(input("end_")).is_err());
+        assert!(keyword!("end").parse(input("end2")).is_err());
+        assert!(keyword!("end").parse(input("en")).is_err());
+        assert!(keyword!("in").parse(input("in\u{e9}")).is_ok());
+    }
+
+    #[test]
+    fn a_plain_string_and_one_with_escapes_read_alike() {
+        let read = |text: &str| {
+            string(input(text))
+                .map(|(rest, t)| (t.value, t.span, rest.location_offset()))
+                .ok()
+        };
+        assert_eq!(
+            read(r#""TVH-2204" x"#).map(|(v, _, at)| (v, at)),
+            Some(("TVH-2204".to_string(), 10))
+        );
+        assert_eq!(
+            read(r#""a\u{2d}b""#).map(|(v, _, at)| (v, at)),
+            Some(("a-b".to_string(), 10))
+        );
+        assert_eq!(
+            read("\"cast \u{2014} iron\"").map(|(v, _, _)| v),
+            Some("cast \u{2014} iron".to_string())
+        );
+        assert!(read("\"open\n\"").is_none());
     }
 
     #[test]

@@ -402,6 +402,14 @@ fn pattern_text(p: &Pattern) -> String {
 
 /// The canonical text of a test.
 pub fn test_text(test: &Test) -> String {
+    // room for a typical test, like `engine.displacement <= 362 ci`, without growing
+    let mut out = String::with_capacity(64);
+    write_test(&mut out, test);
+    out
+}
+
+/// Writes the canonical text of a test to `out`.
+fn write_test(out: &mut String, test: &Test) {
     match &test.kind {
         TestKind::Compare {
             left,
@@ -409,87 +417,103 @@ pub fn test_text(test: &Test) -> String {
             right,
             allowance,
         } => {
-            format!(
-                "{} {} {}{}",
-                expr_text(left),
-                op.symbol(),
-                expr_text(right),
-                allowance_text(allowance)
-            )
+            write_expr(out, left, 0);
+            out.push(' ');
+            out.push_str(op.symbol());
+            out.push(' ');
+            write_expr(out, right, 0);
+            write_allowance(out, allowance);
         }
         TestKind::Between {
             subject,
             low,
             high,
             allowance,
-        } => format!(
-            "{} between {} and {}{}",
-            expr_text(subject),
-            expr_text(low),
-            expr_text(high),
-            allowance_text(allowance)
-        ),
+        } => {
+            write_expr(out, subject, 0);
+            out.push_str(" between ");
+            write_expr(out, low, 0);
+            out.push_str(" and ");
+            write_expr(out, high, 0);
+            write_allowance(out, allowance);
+        }
         TestKind::Member {
             subject,
             negated,
             list,
         } => {
-            format!(
-                "{} {}in {}",
-                expr_text(subject),
-                if *negated { "not " } else { "" },
-                list.text
-            )
+            write_expr(out, subject, 0);
+            out.push_str(if *negated { " not in " } else { " in " });
+            out.push_str(&list.text);
         }
         TestKind::Matches {
             subject,
             negated,
             pattern,
-        } => format!(
-            "{} {}matches {}",
-            expr_text(subject),
-            if *negated { "not " } else { "" },
-            pattern_text(pattern)
-        ),
+        } => {
+            write_expr(out, subject, 0);
+            out.push_str(if *negated {
+                " not matches "
+            } else {
+                " matches "
+            });
+            out.push_str(&pattern_text(pattern));
+        }
     }
 }
 
-fn allowance_text(allowance: &Option<Expr>) -> String {
-    allowance
-        .as_ref()
-        .map(|a| format!(" allowing {}", expr_text(a)))
-        .unwrap_or_default()
+fn write_allowance(out: &mut String, allowance: &Option<Expr>) {
+    if let Some(a) = allowance {
+        out.push_str(" allowing ");
+        write_expr(out, a, 0);
+    }
 }
 
 /// The canonical text of a condition.
 pub fn condition_text(cond: &Condition) -> String {
-    condition_at(cond, 0)
+    let mut out = String::new();
+    write_condition(&mut out, cond, 0);
+    out
 }
 
-/// Precedence: or 1, and 2, not and atoms 3.
-fn condition_at(cond: &Condition, context: u8) -> String {
-    let (text, own) = match cond {
-        Condition::Test(t) => (test_text(t), 3),
-        Condition::Or(a, b) => (
-            format!("{} or {}", condition_at(a, 1), condition_at(b, 2)),
-            1,
-        ),
-        Condition::And(a, b) => (
-            format!("{} and {}", condition_at(a, 2), condition_at(b, 3)),
-            2,
-        ),
-        Condition::Not(inner, _) => (format!("not {}", condition_at(inner, 3)), 3),
+/// Writes a condition; `context` is the precedence around it: or 1, and 2, not and atoms 3.
+fn write_condition(out: &mut String, cond: &Condition, context: u8) {
+    let own = match cond {
+        Condition::Test(_) | Condition::Not(..) => 3,
+        Condition::Or(..) => 1,
+        Condition::And(..) => 2,
     };
-    if own < context {
-        format!("({text})")
-    } else {
-        text
+    let grouped = own < context;
+    if grouped {
+        out.push('(');
+    }
+    match cond {
+        Condition::Test(t) => write_test(out, t),
+        Condition::Or(a, b) => {
+            write_condition(out, a, 1);
+            out.push_str(" or ");
+            write_condition(out, b, 2);
+        }
+        Condition::And(a, b) => {
+            write_condition(out, a, 2);
+            out.push_str(" and ");
+            write_condition(out, b, 3);
+        }
+        Condition::Not(inner, _) => {
+            out.push_str("not ");
+            write_condition(out, inner, 3);
+        }
+    }
+    if grouped {
+        out.push(')');
     }
 }
 
 /// The canonical text of an expression.
 pub fn expr_text(expr: &Expr) -> String {
-    expr_at(expr, 0)
+    let mut out = String::new();
+    write_expr(&mut out, expr, 0);
+    out
 }
 
 fn precedence(op: BinaryOp) -> u8 {
@@ -500,64 +524,80 @@ fn precedence(op: BinaryOp) -> u8 {
     }
 }
 
-/// `context` is the precedence the surrounding operator demands; 3 is unary minus.
-fn expr_at(expr: &Expr, context: u8) -> String {
-    let (text, own) = match &expr.kind {
-        ExprKind::Quantity(q) => (quantity_text(q), 5),
-        ExprKind::Text(t) => (quoted(t), 5),
-        ExprKind::Name(n) => (n.text.clone(), 5),
-        ExprKind::Call { function, args } => {
-            let args: Vec<String> = args.iter().map(arg_text).collect();
-            (format!("{}({})", function.text, args.join(", ")), 5)
-        }
-        ExprKind::Negate(inner) => (format!("-{}", expr_at(inner, 3)), 3),
-        ExprKind::Binary { op, left, right } => {
-            let p = precedence(*op);
-            let (left_ctx, right_ctx) = if *op == BinaryOp::Power {
-                (5, 3)
-            } else {
-                (p, p + 1)
-            };
-            let text = if *op == BinaryOp::Power {
-                format!("{}^{}", expr_at(left, left_ctx), expr_at(right, right_ctx))
-            } else {
-                format!(
-                    "{} {} {}",
-                    expr_at(left, left_ctx),
-                    op.symbol(),
-                    expr_at(right, right_ctx)
-                )
-            };
-            (text, p)
-        }
+/// Writes an expression; `context` is the precedence the surrounding operator demands (3 is
+/// unary minus), and an expression that binds less tightly is put in parentheses.
+fn write_expr(out: &mut String, expr: &Expr, context: u8) {
+    let own = match &expr.kind {
+        ExprKind::Negate(_) => 3,
+        ExprKind::Binary { op, .. } => precedence(*op),
+        _ => 5,
     };
-    if own < context {
-        format!("({text})")
-    } else {
-        text
+    let grouped = own < context;
+    if grouped {
+        out.push('(');
+    }
+    match &expr.kind {
+        ExprKind::Quantity(q) => write_quantity(out, q),
+        ExprKind::Text(t) => out.push_str(&quoted(t)),
+        ExprKind::Name(n) => out.push_str(&n.text),
+        ExprKind::Call { function, args } => {
+            out.push_str(&function.text);
+            out.push('(');
+            for (i, arg) in args.iter().enumerate() {
+                if i > 0 {
+                    out.push_str(", ");
+                }
+                write_arg(out, arg);
+            }
+            out.push(')');
+        }
+        ExprKind::Negate(inner) => {
+            out.push('-');
+            write_expr(out, inner, 3);
+        }
+        ExprKind::Binary { op, left, right } if *op == BinaryOp::Power => {
+            write_expr(out, left, 5);
+            out.push('^');
+            write_expr(out, right, 3);
+        }
+        ExprKind::Binary { op, left, right } => {
+            write_expr(out, left, own);
+            out.push(' ');
+            out.push(op.symbol());
+            out.push(' ');
+            write_expr(out, right, own + 1);
+        }
+    }
+    if grouped {
+        out.push(')');
     }
 }
 
-fn arg_text(arg: &Arg) -> String {
-    match &arg.label {
-        Some(label) => format!("{}: {}", label.text, expr_text(&arg.value)),
-        None => expr_text(&arg.value),
+fn write_arg(out: &mut String, arg: &Arg) {
+    if let Some(label) = &arg.label {
+        out.push_str(&label.text);
+        out.push_str(": ");
     }
+    write_expr(out, &arg.value, 0);
 }
 
-fn quantity_text(q: &Quantity) -> String {
-    let mut text = q.value.text.clone();
+fn write_quantity(out: &mut String, q: &Quantity) {
+    out.push_str(&q.value.text);
     if let Some(unit) = &q.unit {
-        let _ = write!(text, " {}", unit.symbol);
+        out.push(' ');
+        out.push_str(&unit.symbol);
     }
     if let Some(u) = &q.uncertainty {
-        let _ = write!(text, " ± {}", u.value.text);
+        out.push_str(" ± ");
+        out.push_str(&u.value.text);
         if let Some(unit) = &u.unit {
-            let _ = write!(text, " {}", unit.symbol);
+            out.push(' ');
+            out.push_str(&unit.symbol);
         }
         if let Some(k) = &u.coverage {
-            let _ = write!(text, " (k = {})", k.text);
+            out.push_str(" (k = ");
+            out.push_str(&k.text);
+            out.push(')');
         }
     }
-    text
 }
