@@ -40,5 +40,6 @@ pub mod parse;
 pub mod report;
 pub mod season;
 pub mod source;
+pub mod spool;
 pub mod suggest;
 pub mod units;

@@ -327,25 +327,17 @@ fn field_row(r: &EngineReport) -> [String; 5] {
     ]
 }
 
-/// Writes a row to a spool: each cell as its length in bytes (8, little-endian) and bytes.
+/// Writes a row to a spool, each cell a part ([`crate::spool`]).
 fn write_row(spool: &mut impl Write, row: &[String; 5]) -> io::Result<()> {
-    for cell in row {
-        spool.write_all(&(cell.len() as u64).to_le_bytes())?;
-        spool.write_all(cell.as_bytes())?;
-    }
-    Ok(())
+    row.iter()
+        .try_for_each(|cell| crate::spool::write_part(spool, cell.as_bytes()))
 }
 
 /// Reads back a row [`write_row`] wrote.
 fn read_row(spool: &mut impl Read) -> io::Result<[String; 5]> {
     let mut row: [String; 5] = Default::default();
     for cell in &mut row {
-        let mut length = [0u8; 8];
-        spool.read_exact(&mut length)?;
-        let mut bytes = vec![0u8; u64::from_le_bytes(length) as usize];
-        spool.read_exact(&mut bytes)?;
-        *cell =
-            String::from_utf8(bytes).map_err(|e| io::Error::new(io::ErrorKind::InvalidData, e))?;
+        *cell = crate::spool::read_text(spool)?;
     }
     Ok(row)
 }

@@ -124,12 +124,9 @@ impl Staging {
     /// Stages one engine: its entry (as JSON) and its declaration's bytes, each framed by its
     /// length.
     pub fn add(&mut self, engine: &Inspected) -> std::io::Result<()> {
-        use std::io::Write;
         let entry = serde_json::to_vec(&staged_entry(engine, &self.given))?;
-        for part in [&entry[..], engine.text.as_bytes()] {
-            self.spool.write_all(&(part.len() as u64).to_le_bytes())?;
-            self.spool.write_all(part)?;
-        }
+        crate::spool::write_part(&mut self.spool, &entry)?;
+        crate::spool::write_part(&mut self.spool, engine.text.as_bytes())?;
         self.count += 1;
         Ok(())
     }
@@ -142,19 +139,10 @@ impl Staging {
         self.spool.rewind()?;
         let spool = &mut self.spool;
         Ok((0..self.count).map(move |_| {
-            let entry = serde_json::from_slice(&read_part(spool)?)?;
-            Ok((entry, read_part(spool)?))
+            let entry = serde_json::from_slice(&crate::spool::read_part(spool)?)?;
+            Ok((entry, crate::spool::read_part(spool)?))
         }))
     }
-}
-
-/// One length-framed part of a staging spool.
-fn read_part(spool: &mut impl std::io::Read) -> std::io::Result<Vec<u8>> {
-    let mut length = [0u8; 8];
-    spool.read_exact(&mut length)?;
-    let mut bytes = vec![0u8; u64::from_le_bytes(length) as usize];
-    spool.read_exact(&mut bytes)?;
-    Ok(bytes)
 }
 
 /// An engine's entry as far as it is known before it is recorded: the time, the rulebook and
