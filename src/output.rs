@@ -326,7 +326,13 @@ pub fn rewrite_input(path: &Path, read: &str, text: &str) -> Result<(), Problem>
 /// Writes `text` to standard output. A closed pipe is not a failure: the reader has gone.
 pub fn to_stdout(text: &str) -> Result<(), Problem> {
     let mut out = std::io::stdout().lock();
-    match out.write_all(text.as_bytes()).and_then(|()| out.flush()) {
+    stdout_written(out.write_all(text.as_bytes()).and_then(|()| out.flush()))
+}
+
+/// A write to standard output as a problem, or none: a closed pipe is not a failure, the
+/// reader has gone.
+fn stdout_written(written: std::io::Result<()>) -> Result<(), Problem> {
+    match written {
         Err(e) if e.kind() != ErrorKind::BrokenPipe => Err(Problem::unlocated(
             codes::WRITE_FAILED,
             format!("cannot write to standard output: {e}"),
@@ -490,17 +496,11 @@ fn sync_folder(folder: &Path) -> std::io::Result<()> {
 
 /// Opens an existing device, FIFO or system path and writes to it; a regular file reached
 /// this way is truncated first, so no old text is left after the new.
-fn write_directly(path: &Path, bytes: &[u8]) -> std::io::Result<()> {
-    let regular = fs::metadata(path).is_ok_and(|m| m.is_file());
-    let mut file = OpenOptions::new()
-        .write(true)
-        .truncate(regular)
-        .open(path)?;
-    file.write_all(bytes)?;
-    file.flush()
+fn write_directly(path: &Path, mut bytes: &[u8]) -> std::io::Result<()> {
+    copy_directly(path, &mut bytes)
 }
 
-/// [`write_directly`] for a spooled document.
+/// [`write_directly`] for a spooled document (or any reader).
 fn copy_directly(path: &Path, spool: &mut impl std::io::Read) -> std::io::Result<()> {
     let regular = fs::metadata(path).is_ok_and(|m| m.is_file());
     let mut file = OpenOptions::new()
@@ -513,18 +513,10 @@ fn copy_directly(path: &Path, spool: &mut impl std::io::Read) -> std::io::Result
 
 /// [`to_stdout`] for a spooled document.
 fn copy_to_stdout(spool: &mut tempfile::SpooledTempFile) -> Result<(), Problem> {
-    let copied = spool.rewind().and_then(|()| {
+    stdout_written(spool.rewind().and_then(|()| {
         let mut out = std::io::stdout().lock();
         std::io::copy(spool, &mut out).and_then(|_| out.flush())
-    });
-    match copied {
-        Err(e) if e.kind() != ErrorKind::BrokenPipe => Err(Problem::unlocated(
-            codes::WRITE_FAILED,
-            format!("cannot write to standard output: {e}"),
-        )
-        .with_help("check that the disk or device standard output goes to has room")),
-        _ => Ok(()),
-    }
+    }))
 }
 
 #[cfg(test)]
