@@ -1931,8 +1931,8 @@ fn side_words(
     let Some(g) = decided else {
         let from = if l.upper { "above" } else { "below" };
         return format!(
-            "no gauge result bounds {name} from {from}, which the limit ({limit}) needs: \
-             neither conformity nor nonconformity is proven"
+            "no gauge result bounds {name} from {from} closely enough to decide the limit \
+             ({limit}): neither conformity nor nonconformity is proven"
         );
     };
     let size = gauge_number(g.size / scale, places, unit);
