@@ -7,8 +7,9 @@ use std::fmt;
 /// One step down into a declaration.
 #[derive(Clone, Debug, PartialEq, Eq, Hash)]
 enum Step {
-    /// A mapping key as written.
-    Key(String),
+    /// A mapping key as written, shared: a path is copied for every node below it, and the
+    /// copy then only counts references to its keys.
+    Key(std::sync::Arc<str>),
     /// `value:` or `values:` in a measurement's mapping: part of the node's identity, not
     /// shown (the value is the measurement's).
     Wrapper(&'static str),
@@ -28,7 +29,7 @@ impl DeclPath {
 
     /// The node under `key`.
     pub fn key(&self, key: &str) -> DeclPath {
-        self.with(Step::Key(key.to_string()))
+        self.with(Step::Key(key.into()))
     }
 
     /// The node under `value:` or `values:` of a measurement.
