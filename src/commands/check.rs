@@ -1,6 +1,8 @@
-//! `gonogo check`: declarations checked against a class of a rulebook, reported as text or
-//! JSON. Every declaration is loaded before anything is written, so bad input gives its
-//! diagnostics and exit 2, never half a report.
+//! `gonogo check`: declarations checked against a class of a rulebook, reported as text, JSON,
+//! HTML or Markdown. The field is walked lazily and checked in batches of [`BATCH`]
+//! declarations, each batch's reports written into the document as they come, so memory does
+//! not grow with the field; the document reaches its destination only when every declaration
+//! has loaded, so bad input gives its diagnostics and exit 2, never half a report.
 
 use std::io::Write;
 use std::path::{Path, PathBuf};
