@@ -292,21 +292,6 @@ impl FieldTable {
     }
 }
 
-/// The closing table of a run over several engines, whole: each engine's result and the rule
-/// that decided it (the first illegal one, else the one with the least probability of
-/// conformance), with the car number (a dash where the declaration gives none).
-pub fn field_summary(reports: &[EngineReport]) -> String {
-    let mut table = FieldTable::default();
-    let rows: Vec<[String; 5]> = reports.iter().map(field_row).collect();
-    rows.iter().for_each(|r| table.widen(r));
-    reports.iter().for_each(|r| table.count(r.result()));
-    let mut out = String::from("field\n");
-    out.push_str(&table.line(&FIELD_TABLE_HEADER.map(str::to_string)));
-    rows.iter().for_each(|r| out.push_str(&table.line(r)));
-    out.push_str(&table.totals());
-    out
-}
-
 /// An engine's row of the field table.
 fn field_row(r: &EngineReport) -> [String; 5] {
     let engine = r

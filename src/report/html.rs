@@ -67,13 +67,6 @@ pub fn page(reports: &[EngineReport]) -> String {
     super::document::whole(super::document::Layout::Html, reports)
 }
 
-/// The whole page for one or more engines' views.
-pub fn page_of(views: &[EngineView]) -> String {
-    let title = views.first().map(title).unwrap_or_default();
-    let engines: Vec<String> = views.iter().map(engine).collect();
-    format!("{}{}{FOOT}", head(&title), engines.join(PAGE_BREAK))
-}
-
 /// The page's title when `view` is its first engine.
 pub fn title(view: &EngineView) -> String {
     format!("Tech sheet — {} — {}", view.series, view.class)

@@ -23,17 +23,6 @@ pub fn document(reports: &[EngineReport]) -> String {
     whole(Layout::Json, reports)
 }
 
-/// The document for one or more engines' views.
-pub fn document_of(views: &[EngineView]) -> String {
-    let engines: Vec<String> = views.iter().map(engine).collect();
-    format!(
-        "{}{}{}",
-        head(views.len()),
-        engines.join(",\n"),
-        foot(views.len())
-    )
-}
-
 /// The document up to its first engine, for a document of `engines` engines.
 pub fn head(engines: usize) -> String {
     let open = if engines == 0 { "[]" } else { "[\n" };

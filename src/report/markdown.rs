@@ -13,15 +13,6 @@ pub fn document(reports: &[EngineReport]) -> String {
     super::document::whole(super::document::Layout::Markdown, reports)
 }
 
-/// The report for one or more engines' views.
-pub fn document_of(views: &[EngineView]) -> String {
-    views
-        .iter()
-        .map(engine)
-        .collect::<Vec<_>>()
-        .join("\n---\n\n")
-}
-
 /// One engine's report: identity, result, each rule, the signature lines and provenance.
 pub fn engine(v: &EngineView) -> String {
     let mut out = String::new();
