@@ -448,10 +448,7 @@ static ALLOCATOR: mimalloc::MiMalloc = mimalloc::MiMalloc;
 fn main() -> ExitCode {
     // an interrupted run leaves no temporary file beside its --output: 130, as a shell reports
     // a process ended by Ctrl-C
-    let _ = ctrlc::set_handler(|| {
-        gonogo::output::remove_unfinished();
-        std::process::exit(130);
-    });
+    let _ = ctrlc::set_handler(|| gonogo::output::abandon(130));
     let parsed = gonogo::manual::with_help_notes(Cli::command())
         .try_get_matches()
         .and_then(|matches| Cli::from_arg_matches(&matches));

@@ -395,23 +395,25 @@ fn replace_atomically(
     twin.persist(permissions)
 }
 
-/// Twins not yet renamed into place, by path: removed by [`remove_unfinished`] when the
-/// process is interrupted, which no destructor sees.
+/// Twins not yet renamed into place, by path: removed by [`abandon`] when the process is
+/// interrupted, which no destructor sees.
 static UNFINISHED: std::sync::Mutex<Vec<PathBuf>> = std::sync::Mutex::new(Vec::new());
 
-/// Removes every temporary twin not yet renamed into place; for an interrupted run (Ctrl-C,
-/// SIGTERM), so it leaves the target as it was and no `.partial` file beside it.
-pub fn remove_unfinished() {
-    if let Ok(mut unfinished) = UNFINISHED.lock() {
-        for path in unfinished.drain(..) {
-            let _ = fs::remove_file(path);
-        }
+/// Removes every temporary twin not yet renamed into place and ends the process with `code`;
+/// for an interrupted run (Ctrl-C, SIGTERM), so it leaves each target as it was, or finished
+/// if its rename had already happened, and no `.partial` file beside it. The list stays locked
+/// until the process has ended, so no new twin can be made after the sweep.
+pub fn abandon(code: i32) -> ! {
+    let mut unfinished = UNFINISHED.lock().unwrap_or_else(|e| e.into_inner());
+    for path in unfinished.drain(..) {
+        let _ = fs::remove_file(path);
     }
+    std::process::exit(code)
 }
 
 /// The temporary file that becomes a target: made in the target's folder (so the rename is
 /// atomic) under a hidden name ending `.partial`, removed if dropped before [`Twin::persist`]
-/// or if the process is interrupted ([`remove_unfinished`]).
+/// or if the process is interrupted ([`abandon`]).
 pub struct Twin {
     file: tempfile::NamedTempFile,
     path: PathBuf,
@@ -437,6 +439,9 @@ impl Twin {
             use std::os::unix::fs::PermissionsExt;
             builder.permissions(Permissions::from_mode(0o666));
         }
+        // made and listed under one lock, so an interruption never sees a twin it cannot
+        // find (the handler waits for the lock)
+        let mut unfinished = UNFINISHED.lock().unwrap_or_else(|e| e.into_inner());
         let file = builder.tempfile_in(&folder).map_err(|e| {
             std::io::Error::new(
                 e.kind(),
@@ -446,9 +451,8 @@ impl Twin {
                 ),
             )
         })?;
-        if let Ok(mut unfinished) = UNFINISHED.lock() {
-            unfinished.push(file.path().to_path_buf());
-        }
+        unfinished.push(file.path().to_path_buf());
+        drop(unfinished);
         Ok(Twin {
             file,
             path: path.to_path_buf(),
@@ -463,10 +467,13 @@ impl Twin {
             self.file.as_file().set_permissions(permissions)?;
         }
         self.file.as_file().sync_all()?;
-        if let Ok(mut unfinished) = UNFINISHED.lock() {
-            unfinished.retain(|p| p != self.file.path());
-        }
-        self.file.persist(&self.path).map_err(|e| e.error)?;
+        // unlisted and renamed under one lock: an interruption sees either a listed twin
+        // (removed, the target as it was) or the finished target, never a twin left behind
+        let mut unfinished = UNFINISHED.lock().unwrap_or_else(|e| e.into_inner());
+        unfinished.retain(|p| p != self.file.path());
+        let renamed = self.file.persist(&self.path).map_err(|e| e.error);
+        drop(unfinished);
+        renamed?;
         sync_folder(&self.folder)
     }
 }
